@@ -1,0 +1,11 @@
+import { formatFigure, type BenchSuite } from './harness.js';
+
+/** Every benchmark suite; a suite is one module in bench/ plus one line here. */
+const suites: BenchSuite[] = [];
+
+const only = process.argv.slice(2);
+for (const suite of suites) {
+  if (only.length > 0 && !only.includes(suite.name)) continue;
+  console.log(`\n== ${suite.name}`);
+  for (const figure of await suite.run()) console.log(`  ${formatFigure(figure)}`);
+}

@@ -1,0 +1,64 @@
+import { readFileSync } from 'node:fs';
+import { InputError, formatInputError } from '../../shared-core/errors.js';
+import { commandHelp, parseOptions } from './args.js';
+import { EXIT, UsageError, type CliIO } from './command.js';
+import { commands } from './commands/index.js';
+
+export function version(): string {
+  const pkg = JSON.parse(readFileSync(new URL('../../../package.json', import.meta.url), 'utf8')) as {
+    version: string;
+  };
+  return pkg.version;
+}
+
+function overview(): string {
+  const lines = [
+    `holdfast ${version()}: offline portfolio construction for client households`,
+    '',
+    'Usage: holdfast COMMAND [options]     holdfast COMMAND --help for its options',
+    '',
+    'Commands:',
+    ...commands.map((c) => `  ${c.name.padEnd(12)}${c.summary}`),
+    '',
+    'Estimates come from past data; past performance does not guarantee future results. Output is',
+    'decision support, not advice, until a licensed adviser reviews it under the local rules.',
+  ];
+  return lines.join('\n') + '\n';
+}
+
+/** Runs one command line; returns the exit code. All output goes through `io`. */
+export async function runCli(argv: readonly string[], io: CliIO): Promise<number> {
+  const [first, ...rest] = argv;
+  if (first === undefined || first === '--help' || first === '-h' || first === 'help') {
+    io.stdout(overview());
+    return first === undefined ? EXIT.badInput : EXIT.ok;
+  }
+  if (first === '--version' || first === '-v') {
+    io.stdout(`${version()}\n`);
+    return EXIT.ok;
+  }
+  const command = commands.find((c) => c.name === first);
+  if (!command) {
+    io.stderr(`holdfast: unknown ${first.startsWith('-') ? 'option' : 'command'} '${first}' (see holdfast --help)\n`);
+    return EXIT.badInput;
+  }
+  if (rest.includes('--help') || rest.includes('-h')) {
+    io.stdout(commandHelp(command));
+    return EXIT.ok;
+  }
+  try {
+    const options = parseOptions(command, rest);
+    return await command.run(options, io);
+  } catch (error) {
+    if (error instanceof UsageError) {
+      io.stderr(`holdfast ${command.name}: ${error.message}\n`);
+      return EXIT.badInput;
+    }
+    if (error instanceof InputError) {
+      io.stderr(`holdfast ${command.name}: ${formatInputError(error)}\n`);
+      return EXIT.badInput;
+    }
+    io.stderr(`holdfast ${command.name}: internal error: ${(error as Error).stack ?? String(error)}\n`);
+    return EXIT.failure;
+  }
+}
