@@ -1,0 +1,42 @@
+import type { Matrix } from '../linalg/matrix.js';
+import type { EstimatorSpec } from '../scenario/estimator-spec.js';
+
+export type Frequency = 'daily' | 'weekly' | 'monthly';
+
+/** Periods per year by frequency (common practice: 252 trading days, 52 weeks, 12 months). */
+export const PERIODS_PER_YEAR: Record<Frequency, number> = { daily: 252, weekly: 52, monthly: 12 };
+
+export interface EstimateContext {
+  frequency: Frequency;
+  /** Overrides PERIODS_PER_YEAR[frequency]. */
+  periodsPerYear?: number;
+}
+
+export interface EstimateDiagnostics {
+  observations: number;
+  /** Effective observations: T for equal weights, 1 / sum(w_t^2) for EWMA weights. */
+  effectiveObservations: number;
+  /** Ratio of largest to smallest eigenvalue (Infinity when singular). */
+  conditionNumber: number;
+  /** Shrinkage intensity in [0, 1] where the method has one, else null. */
+  shrinkage: number | null;
+  /** Eigenvalues replaced by the denoising step, where there are. */
+  eigenvaluesClipped?: number;
+  /** Method-specific figures (iterations of an M-estimator, lambda used, ...). */
+  [extra: string]: unknown;
+}
+
+export interface CovarianceEstimate {
+  method: EstimatorSpec['method'];
+  /** Covariance of per-period returns, N x N. */
+  covariance: Matrix;
+  periodsPerYear: number;
+  diagnostics: EstimateDiagnostics;
+}
+
+/** Every estimator has this one signature: a pure function of a T x N return matrix and its options. */
+export type Estimator<S extends EstimatorSpec = EstimatorSpec> = (
+  returns: Matrix,
+  spec: S,
+  context: EstimateContext,
+) => CovarianceEstimate;

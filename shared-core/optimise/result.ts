@@ -1,0 +1,56 @@
+/**
+ * The result of solving one candidate: the shape `holdfast solve --json` prints, the app shows
+ * and the memo prints. A status union, never a bare array of weights.
+ */
+export type SolveStatus = 'optimal' | 'infeasible' | 'iteration-limit' | 'error';
+
+export interface CandidateMetrics {
+  /** Annualised volatility. */
+  volatility: number;
+  diversificationRatio: number;
+  effectiveBets: number;
+  effectiveHoldings: number;
+  /** Euler risk contributions, summing to 1. */
+  riskContributions: Record<string, number>;
+  /** Sum of |w - current|; 0 without current holdings. */
+  turnover: number;
+}
+
+export interface SolverReport {
+  iterations: number;
+  /** Relative KKT residual of the final iterate. */
+  kktResidual: number;
+  ms: number;
+}
+
+/** Why an asset is held at its weight or left out, in numbers (optimality conditions). */
+export interface AssetExplanation {
+  asset: string;
+  weight: number;
+  /** e.g. 'held', 'excluded', 'at-upper-bound', 'at-lower-bound', 'group-limit'. */
+  reason: string;
+  /** A sentence an advisor can repeat, with the figures in it. */
+  text: string;
+  correlationWithPortfolio?: number;
+  threshold?: number;
+}
+
+/** A binding constraint and its shadow price in the objective's own units. */
+export interface BindingConstraint {
+  constraint: string;
+  /** Change of the objective per unit (1.00 = 100 percentage points) relaxation. */
+  shadowPrice: number;
+  objectiveUnit: string;
+  text: string;
+}
+
+export interface CandidateResult {
+  id: string;
+  label?: string;
+  status: SolveStatus;
+  message?: string;
+  weights: Record<string, number>;
+  metrics: CandidateMetrics | null;
+  solver: SolverReport;
+  explanations?: { assets: AssetExplanation[]; binding: BindingConstraint[]; flags: string[] };
+}
