@@ -1,16 +1,568 @@
 import { z } from 'zod';
+import type { PriceTable } from '../prices/price-table.js';
+import { liquidityTags, type ScenarioInput } from '../scenario/schema.js';
+import { isoDate } from '../scenario/iso-date.js';
 import { method } from './define.js';
 
 /**
  * The one service API of Holdfast: every call the renderer can make of the main process.
  * Transports: IPC channel `holdfast:<name>` (src-main/shell) and `POST /api/<name>` on the local
- * web host (src-main/web-host). Implementation: src-main/service.
+ * web host (src-main/web-host). Implementation: src-main/service (`createService`).
+ *
+ * Conventions: ids are strings on the wire; dates are ISO `YYYY-MM-DD`; times are ISO 8601
+ * instants; weights are fractions (0.15 = 15 %); currency amounts are plain numbers beside an
+ * ISO 4217 code. JSON cannot carry NaN, so a missing price travels as `null`.
  */
+
+// ---------------------------------------------------------------------------------------------
+// Building blocks
+// ---------------------------------------------------------------------------------------------
+
+const id = z.string().min(1, 'expected an id');
+const currencyCode = z.string().regex(/^[A-Z]{3}$/, 'expected an ISO 4217 code such as EUR');
+const instant = z.string();
+const empty = z.strictObject({});
+const done = z.object({ ok: z.literal(true) });
+
+/** Author initials on a saved revision or memo: two to four letters, as advisers sign files. */
+export const initialsSchema = z
+  .string()
+  .trim()
+  .regex(/^[A-Za-z]{2,4}$/, 'expected initials: two to four letters')
+  .transform((s) => s.toUpperCase());
+
+export const householdSchema = z.object({
+  id,
+  name: z.string(),
+  baseCurrency: currencyCode,
+  /** The firm's own client reference (free text). */
+  reference: z.string(),
+  notes: z.string(),
+  createdAt: instant,
+  updatedAt: instant,
+});
+export type Household = z.infer<typeof householdSchema>;
+
+/** What the advisor types to create or edit a household. */
+export const householdFieldsSchema = z.strictObject({
+  name: z.string().trim().min(1, 'a household needs a name').max(120, 'at most 120 characters'),
+  baseCurrency: currencyCode,
+  reference: z.string().trim().max(60, 'at most 60 characters').default(''),
+  notes: z.string().max(4000, 'at most 4000 characters').default(''),
+});
+export type HouseholdFields = z.input<typeof householdFieldsSchema>;
+
+export const householdSummarySchema = householdSchema.extend({
+  scenarioCount: z.number().int(),
+  holdingsAsOf: isoDate.nullable(),
+  /** Sum of holdings in the base currency, where every holding is in it; otherwise null. */
+  holdingsTotal: z.number().nullable(),
+});
+export type HouseholdSummary = z.infer<typeof householdSummarySchema>;
+
+export const positionSchema = z.strictObject({
+  asset: id,
+  /** Market value in `currency` (not units). */
+  amount: z.number().finite().min(0, 'a holding amount cannot be negative'),
+  currency: currencyCode,
+});
+export type Position = z.infer<typeof positionSchema>;
+
+export const holdingsSchema = z.object({
+  householdId: id,
+  /** Date the amounts were valued; null while the household has no holdings on file. */
+  asOf: isoDate.nullable(),
+  positions: z.array(positionSchema),
+});
+export type Holdings = z.infer<typeof holdingsSchema>;
+
+export const liquiditySchema = z.enum(liquidityTags);
+
+export const assetSchema = z.object({
+  id,
+  name: z.string(),
+  assetClass: z.string(),
+  region: z.string(),
+  currency: currencyCode,
+  liquidity: liquiditySchema,
+  /** For `illiquid`: the lock-up in months, where known. */
+  lockupMonths: z.number().int().min(0).nullable(),
+  notes: z.string(),
+});
+export type Asset = z.infer<typeof assetSchema>;
+
+export const assetEditSchema = z.strictObject({
+  name: z.string().trim().min(1, 'an asset needs a display name').optional(),
+  assetClass: z.string().trim().optional(),
+  region: z.string().trim().optional(),
+  currency: currencyCode.optional(),
+  liquidity: liquiditySchema.optional(),
+  lockupMonths: z.number().int().min(0).nullable().optional(),
+  notes: z.string().optional(),
+});
+
+export const universeSchema = z.object({
+  id,
+  name: z.string(),
+  description: z.string(),
+  assetCount: z.number().int(),
+});
+export type Universe = z.infer<typeof universeSchema>;
+
+export const universeMemberSchema = z.object({
+  asset: assetSchema,
+  /** Group tags of this asset in this universe (the names group bands refer to). */
+  groups: z.array(z.string()),
+});
+export type UniverseMember = z.infer<typeof universeMemberSchema>;
+
+// ---------------------------------------------------------------------------------------------
+// Prices
+// ---------------------------------------------------------------------------------------------
+
+export const priceGapSchema = z.object({
+  /** Last date with a price before the gap. */
+  after: isoDate,
+  /** First date with a price after the gap. */
+  before: isoDate,
+  /** Weekdays strictly between the two without a price. */
+  missingWeekdays: z.number().int(),
+});
+export type PriceGap = z.infer<typeof priceGapSchema>;
+
+export const assetCoverageSchema = z.object({
+  asset: id,
+  name: z.string(),
+  currency: currencyCode,
+  observations: z.number().int(),
+  firstDate: isoDate.nullable(),
+  lastDate: isoDate.nullable(),
+  /** Runs of missing weekdays longer than the request's `minGapWeekdays`. */
+  gaps: z.array(priceGapSchema),
+});
+export type AssetCoverage = z.infer<typeof assetCoverageSchema>;
+
+export const coverageSchema = z.object({
+  /** Earliest and latest price date over the assets asked for. */
+  firstDate: isoDate.nullable(),
+  lastDate: isoDate.nullable(),
+  minGapWeekdays: z.number().int(),
+  assets: z.array(assetCoverageSchema),
+  dataVersion: z.string(),
+});
+export type Coverage = z.infer<typeof coverageSchema>;
+
+export const priceSeriesSchema = z.object({
+  asset: id,
+  name: z.string(),
+  currency: currencyCode,
+  dates: z.array(isoDate),
+  closes: z.array(z.number()),
+});
+export type PriceSeries = z.infer<typeof priceSeriesSchema>;
+
+/** `PriceTable` as JSON: columns of closes with null where the asset has no price. */
+export const priceTableWireSchema = z.object({
+  dates: z.array(z.string()),
+  assets: z.array(z.string()),
+  closes: z.array(z.array(z.number().nullable())),
+  currencies: z.array(z.string().nullable()).optional(),
+});
+export type PriceTableWire = z.infer<typeof priceTableWireSchema>;
+
+export function priceTableToWire(table: PriceTable): PriceTableWire {
+  return {
+    dates: [...table.dates],
+    assets: [...table.assets],
+    closes: table.closes.map((col) => Array.from(col, (v) => (Number.isFinite(v) ? v : null))),
+    ...(table.currencies ? { currencies: table.currencies.map((c) => c ?? null) } : {}),
+  };
+}
+
+export function priceTableFromWire(wire: PriceTableWire): PriceTable {
+  return {
+    dates: wire.dates,
+    assets: wire.assets,
+    closes: wire.closes.map((col) => Float64Array.from(col, (v) => (v === null ? Number.NaN : v))),
+    ...(wire.currencies ? { currencies: wire.currencies.map((c) => c ?? undefined) } : {}),
+  };
+}
+
+const dateWindow = z
+  .strictObject({ from: isoDate.optional(), to: isoDate.optional() })
+  .refine((w) => w.from === undefined || w.to === undefined || w.from <= w.to, {
+    message: "the window's 'from' date is after its 'to' date",
+  });
+
+// ---------------------------------------------------------------------------------------------
+// Imports (jobs, so progress and cancel work over IPC and HTTP alike)
+// ---------------------------------------------------------------------------------------------
+
+export const dateOrders = ['iso', 'day-first', 'month-first'] as const;
+
+export const importSourceSchema = z.discriminatedUnion('kind', [
+  /** A file on the machine that runs the service. */
+  z.strictObject({ kind: z.literal('path'), path: z.string().min(1, 'expected a file path') }),
+  /** The text of a file the user picked in the page. */
+  z.strictObject({
+    kind: z.literal('text'),
+    fileName: z.string().min(1, 'expected the file name'),
+    text: z.string(),
+  }),
+]);
+export type ImportSource = z.infer<typeof importSourceSchema>;
+
+export const importStates = [
+  /** Reading and checking the file; nothing written. */
+  'checking',
+  /** Checked; waiting for the user to confirm (nothing written yet). */
+  'ready',
+  /** Dates could be read day-first or month-first: the user must choose, never a silent guess. */
+  'needs-date-order',
+  /** The file cannot be imported as it is; see `report.errors`. */
+  'invalid',
+  'applying',
+  'applied',
+  'cancelled',
+  'failed',
+] as const;
+export type ImportState = (typeof importStates)[number];
+
+export const cellProblemSchema = z.object({
+  line: z.number().int(),
+  column: z.number().int().nullable(),
+  message: z.string(),
+});
+export type CellProblem = z.infer<typeof cellProblemSchema>;
+
+export const assetImportReportSchema = z.object({
+  asset: z.string(),
+  rows: z.number().int(),
+  firstDate: isoDate.nullable(),
+  lastDate: isoDate.nullable(),
+  missingDays: z.number().int(),
+  nonPositive: z.array(cellProblemSchema),
+  unparseable: z.array(cellProblemSchema),
+  repeatedDates: z.array(isoDate),
+  /** One-day moves above the threshold: flagged, not rejected. */
+  suspiciousMoves: z.array(z.object({ date: isoDate, move: z.number() })),
+  /** Against what the store already holds. */
+  newDates: z.number().int(),
+  changedValues: z.number().int(),
+  changedDates: z.array(isoDate),
+  isNewAsset: z.boolean(),
+});
+export type AssetImportReport = z.infer<typeof assetImportReportSchema>;
+
+export const importReportSchema = z.object({
+  fileName: z.string(),
+  layout: z.enum(['wide', 'long']).nullable(),
+  delimiter: z.string().nullable(),
+  decimal: z.enum(['point', 'comma']).nullable(),
+  dateOrder: z.enum(dateOrders).nullable(),
+  dateOrderAmbiguous: z.boolean(),
+  rows: z.number().int(),
+  /** Problems that stop the import (with line and column). */
+  errors: z.array(cellProblemSchema),
+  /** Problems that are shown but do not stop it. */
+  warnings: z.array(cellProblemSchema),
+  suspiciousMoveThreshold: z.number(),
+  assets: z.array(assetImportReportSchema),
+});
+export type ImportReport = z.infer<typeof importReportSchema>;
+
+export const importJobSchema = z.object({
+  jobId: id,
+  fileName: z.string(),
+  universe: z.string(),
+  state: z.enum(importStates),
+  progress: z.object({
+    rows: z.number().int(),
+    /** 0 to 100; of the checking pass while checking, of the writing pass while applying. */
+    percent: z.number(),
+  }),
+  report: importReportSchema.nullable(),
+  /** A sentence for the user when the state is invalid, failed or cancelled. */
+  message: z.string().nullable(),
+  applied: z
+    .object({
+      assetsAdded: z.number().int(),
+      pricesAdded: z.number().int(),
+      pricesChanged: z.number().int(),
+    })
+    .nullable(),
+});
+export type ImportJob = z.infer<typeof importJobSchema>;
+
+// ---------------------------------------------------------------------------------------------
+// Scenarios and their revisions
+// ---------------------------------------------------------------------------------------------
+
+/** A `holdfast-scenario@1` document as written; the service validates it with `parseScenario`. */
+const scenarioDocument = z.custom<ScenarioInput>();
+
+export const revisionSummarySchema = z.object({
+  scenarioId: id,
+  /** 1, 2, 3 ... in order of saving. */
+  number: z.number().int(),
+  /** SHA-256 of the canonical document: the key of the results cache and the memo footer. */
+  hash: z.string(),
+  savedAt: instant,
+  author: z.string(),
+  note: z.string(),
+  /** The revision this one restored, when it was made by `scenarios.restore`. */
+  restoredFrom: z.number().int().nullable(),
+});
+export type RevisionSummary = z.infer<typeof revisionSummarySchema>;
+
+export const scenarioSummarySchema = z.object({
+  id,
+  householdId: id,
+  name: z.string(),
+  createdAt: instant,
+  updatedAt: instant,
+  latestRevision: revisionSummarySchema.nullable(),
+  revisionCount: z.number().int(),
+  /** An autosaved draft newer than the latest revision exists. */
+  hasDraft: z.boolean(),
+});
+export type ScenarioSummary = z.infer<typeof scenarioSummarySchema>;
+
+export const scenarioDetailSchema = z.object({
+  scenario: scenarioSummarySchema,
+  /** The latest saved revision's document (null only before the first revision). */
+  document: scenarioDocument.nullable(),
+  /** The autosaved draft: whatever the editor held, valid or not. */
+  draft: z.object({ document: z.unknown(), savedAt: instant }).nullable(),
+});
+export type ScenarioDetail = z.infer<typeof scenarioDetailSchema>;
+
+// ---------------------------------------------------------------------------------------------
+// Memos and settings
+// ---------------------------------------------------------------------------------------------
+
+export const memoSummarySchema = z.object({
+  id,
+  scenarioId: id,
+  revision: z.number().int(),
+  revisionHash: z.string(),
+  /** SHA-256 of the PDF bytes. */
+  hash: z.string(),
+  printedAt: instant,
+  preparedBy: z.string(),
+  bytes: z.number().int(),
+});
+export type MemoSummary = z.infer<typeof memoSummarySchema>;
+
+export const settingsSchema = z.object({
+  /** Initials printed on memos and signed on revisions. */
+  preparedBy: z.string().nullable(),
+});
+export type Settings = z.infer<typeof settingsSchema>;
+
+// ---------------------------------------------------------------------------------------------
+// The table
+// ---------------------------------------------------------------------------------------------
+
 export const serviceApi = {
   'app.info': method(
-    'Version, store location and whether the store holds the invented demonstration data.',
-    z.strictObject({}),
-    z.object({ version: z.string(), storePath: z.string(), demo: z.boolean() }),
+    'Version, store location, whether the store holds the invented demonstration data, its data version and the page to open first.',
+    empty,
+    z.object({
+      version: z.string(),
+      storePath: z.string(),
+      demo: z.boolean(),
+      /** Changes whenever prices change: half of the results cache key. */
+      dataVersion: z.string(),
+      /** Where the app opens (the demo opens on its household's scenario). */
+      startAt: z.object({ householdId: id, scenarioId: id }).nullable(),
+    }),
+  ),
+  'settings.get': method('The advisor settings kept in the store.', empty, settingsSchema),
+  'settings.set': method(
+    'Sets the initials printed on memos and signed on revisions.',
+    z.strictObject({ preparedBy: initialsSchema.nullable() }),
+    settingsSchema,
+  ),
+
+  'households.list': method(
+    'Every household, by name, with its holdings date and total and its number of scenarios.',
+    empty,
+    z.array(householdSummarySchema),
+  ),
+  'households.get': method('One household.', z.strictObject({ householdId: id }), householdSummarySchema),
+  'households.create': method('Creates a household.', householdFieldsSchema, householdSummarySchema),
+  'households.update': method(
+    "Changes a household's name, base currency, reference or notes.",
+    z.strictObject({ householdId: id, fields: householdFieldsSchema }),
+    householdSummarySchema,
+  ),
+  'holdings.get': method(
+    "A household's current holdings: market values in currency, as of a date.",
+    z.strictObject({ householdId: id }),
+    holdingsSchema,
+  ),
+  'holdings.set': method(
+    "Replaces a household's current holdings (one transaction; every asset must exist in the store).",
+    z.strictObject({
+      householdId: id,
+      asOf: isoDate,
+      positions: z.array(positionSchema).refine((ps) => new Set(ps.map((p) => p.asset)).size === ps.length, {
+        message: 'an asset appears twice; give one amount per asset',
+      }),
+    }),
+    holdingsSchema,
+  ),
+
+  'universes.list': method('Every universe with its number of assets.', empty, z.array(universeSchema)),
+  'universes.get': method(
+    'One universe: its assets with their descriptive tags and group tags.',
+    z.strictObject({ universeId: id }),
+    z.object({ universe: universeSchema, members: z.array(universeMemberSchema) }),
+  ),
+  'universes.setGroups': method(
+    "Sets an asset's group tags within a universe.",
+    z.strictObject({
+      universeId: id,
+      asset: id,
+      groups: z.array(z.string().trim().min(1, 'a group tag cannot be empty')),
+    }),
+    universeMemberSchema,
+  ),
+  'assets.list': method('Every asset in the store.', empty, z.array(assetSchema)),
+  'assets.get': method('One asset.', z.strictObject({ assetId: id }), assetSchema),
+  'assets.update': method(
+    "Changes an asset's descriptive tags (name, class, region, currency, liquidity, notes).",
+    z.strictObject({ assetId: id, fields: assetEditSchema }),
+    assetSchema,
+  ),
+
+  'prices.coverage': method(
+    'Which asset has prices when: first and last date, count and gaps, per asset of a universe (or of the list given).',
+    z.strictObject({
+      universeId: id.optional(),
+      assets: z.array(id).optional(),
+      /** Weekday gaps up to this length count as holidays, not gaps (common practice: 5). */
+      minGapWeekdays: z.number().int().min(1).default(5),
+    }),
+    coverageSchema,
+  ),
+  'prices.series': method(
+    "One asset's stored closes, for a chart.",
+    z.strictObject({ assetId: id, window: dateWindow.optional() }),
+    priceSeriesSchema,
+  ),
+  'prices.table': method(
+    'The aligned price table of a set of assets over a window (null where an asset has no price), as the shared core reads it.',
+    z.strictObject({ assets: z.array(id).min(1, 'expected at least one asset'), window: dateWindow.optional() }),
+    z.object({ table: priceTableWireSchema, dataVersion: z.string() }),
+  ),
+
+  'imports.start': method(
+    'Starts checking a price file (nothing is written until `imports.confirm`); poll `imports.status`.',
+    z.strictObject({
+      source: importSourceSchema,
+      universe: z.string().trim().min(1, 'expected the name of the universe to add the assets to'),
+      suspiciousMoveThreshold: z.number().positive().optional(),
+    }),
+    importJobSchema,
+  ),
+  'imports.status': method(
+    'Progress, state and validation report of an import.',
+    z.strictObject({ jobId: id }),
+    importJobSchema,
+  ),
+  'imports.confirm': method(
+    'Writes a checked import in one transaction; `dateOrder` answers an ambiguous file; changed values are written only with `applyChanges`.',
+    z.strictObject({
+      jobId: id,
+      dateOrder: z.enum(dateOrders).optional(),
+      applyChanges: z.boolean().default(false),
+    }),
+    importJobSchema,
+  ),
+  'imports.cancel': method(
+    'Stops an import; the store stays as it was.',
+    z.strictObject({ jobId: id }),
+    importJobSchema,
+  ),
+
+  'scenarios.list': method(
+    "A household's scenarios with their latest revision.",
+    z.strictObject({ householdId: id }),
+    z.array(scenarioSummarySchema),
+  ),
+  'scenarios.get': method(
+    'A scenario: its latest revision and its autosaved draft.',
+    z.strictObject({ scenarioId: id }),
+    scenarioDetailSchema,
+  ),
+  'scenarios.create': method(
+    'Creates a scenario for a household and saves its document as revision 1.',
+    z.strictObject({
+      householdId: id,
+      document: z.unknown(),
+      author: initialsSchema,
+      note: z.string().max(2000).default(''),
+    }),
+    scenarioDetailSchema,
+  ),
+  'scenarios.saveDraft': method(
+    'Autosaves what the editor holds (valid or not); replaces the previous draft.',
+    z.strictObject({ scenarioId: id, document: z.unknown() }),
+    z.object({ savedAt: instant }),
+  ),
+  'scenarios.saveRevision': method(
+    'Saves a valid document as the next revision with a note and the author initials; clears the draft.',
+    z.strictObject({
+      scenarioId: id,
+      document: z.unknown(),
+      author: initialsSchema,
+      note: z.string().max(2000).default(''),
+    }),
+    revisionSummarySchema,
+  ),
+  'scenarios.revisions': method(
+    "A scenario's revisions, newest first.",
+    z.strictObject({ scenarioId: id }),
+    z.array(revisionSummarySchema),
+  ),
+  'scenarios.revision': method(
+    'One earlier revision with its document (to open beside the current one).',
+    z.strictObject({ scenarioId: id, revision: z.number().int().min(1) }),
+    z.object({ revision: revisionSummarySchema, document: scenarioDocument }),
+  ),
+  'scenarios.restore': method(
+    'Saves an earlier revision again as the newest one (history is never rewritten).',
+    z.strictObject({
+      scenarioId: id,
+      revision: z.number().int().min(1),
+      author: initialsSchema,
+      note: z.string().max(2000).default(''),
+    }),
+    revisionSummarySchema,
+  ),
+
+  'results.get': method(
+    'A cached comparison for (revision hash, data version), or null.',
+    z.strictObject({ revisionHash: z.string().min(1), dataVersion: z.string().min(1) }),
+    z.object({ results: z.unknown().nullable(), savedAt: instant.nullable() }),
+  ),
+  'results.put': method(
+    'Caches a comparison under (revision hash, data version).',
+    z.strictObject({ revisionHash: z.string().min(1), dataVersion: z.string().min(1), results: z.unknown() }),
+    done,
+  ),
+
+  'memos.list': method(
+    'The memos printed for a scenario, newest first.',
+    z.strictObject({ scenarioId: id }),
+    z.array(memoSummarySchema),
+  ),
+  'memos.get': method(
+    'A printed memo with its PDF bytes (base64), unchanged since printing.',
+    z.strictObject({ memoId: id }),
+    z.object({ memo: memoSummarySchema, pdfBase64: z.string() }),
   ),
 } as const;
 
