@@ -81,13 +81,17 @@ export const liquiditySchema = z.enum(liquidityTags);
 export const assetSchema = z.object({
   id,
   name: z.string(),
+  /** Empty when not tagged yet. */
   assetClass: z.string(),
   region: z.string(),
-  currency: currencyCode,
+  /** ISO 4217 code of the prices; null until the advisor sets it. */
+  currency: currencyCode.nullable(),
   liquidity: liquiditySchema,
-  /** For `illiquid`: the lock-up in months, where known. */
-  lockupMonths: z.number().int().min(0).nullable(),
+  /** For `illiquid`: days of lock-up before a redemption can be asked for, where known. */
+  lockUpDays: z.number().int().min(0).nullable(),
   notes: z.string(),
+  /** Set when the series is an exchange rate: units of `quote` per one `base`. */
+  fx: z.object({ base: currencyCode, quote: currencyCode }).nullable(),
 });
 export type Asset = z.infer<typeof assetSchema>;
 
@@ -97,12 +101,13 @@ export const assetEditSchema = z.strictObject({
   region: z.string().trim().optional(),
   currency: currencyCode.optional(),
   liquidity: liquiditySchema.optional(),
-  lockupMonths: z.number().int().min(0).nullable().optional(),
+  lockUpDays: z.number().int().min(0).nullable().optional(),
   notes: z.string().optional(),
 });
 
 export const universeSchema = z.object({
   id,
+  /** Unique; what `holdfast import --universe NAME` and scenarios refer to. */
   name: z.string(),
   description: z.string(),
   assetCount: z.number().int(),
@@ -133,7 +138,7 @@ export type PriceGap = z.infer<typeof priceGapSchema>;
 export const assetCoverageSchema = z.object({
   asset: id,
   name: z.string(),
-  currency: currencyCode,
+  currency: currencyCode.nullable(),
   observations: z.number().int(),
   firstDate: isoDate.nullable(),
   lastDate: isoDate.nullable(),
@@ -148,14 +153,14 @@ export const coverageSchema = z.object({
   lastDate: isoDate.nullable(),
   minGapWeekdays: z.number().int(),
   assets: z.array(assetCoverageSchema),
-  dataVersion: z.string(),
+  dataVersion: z.number().int(),
 });
 export type Coverage = z.infer<typeof coverageSchema>;
 
 export const priceSeriesSchema = z.object({
   asset: id,
   name: z.string(),
-  currency: currencyCode,
+  currency: currencyCode.nullable(),
   dates: z.array(isoDate),
   closes: z.array(z.number()),
 });
@@ -310,8 +315,6 @@ export const revisionSummarySchema = z.object({
   savedAt: instant,
   author: z.string(),
   note: z.string(),
-  /** The revision this one restored, when it was made by `scenarios.restore`. */
-  restoredFrom: z.number().int().nullable(),
 });
 export type RevisionSummary = z.infer<typeof revisionSummarySchema>;
 
@@ -319,7 +322,10 @@ export const scenarioSummarySchema = z.object({
   id,
   householdId: id,
   name: z.string(),
+  /** The universe the scenario chooses from, when it names one. */
+  universe: z.string().nullable(),
   createdAt: instant,
+  /** Time of the newest revision or draft. */
   updatedAt: instant,
   latestRevision: revisionSummarySchema.nullable(),
   revisionCount: z.number().int(),
@@ -332,8 +338,11 @@ export const scenarioDetailSchema = z.object({
   scenario: scenarioSummarySchema,
   /** The latest saved revision's document (null only before the first revision). */
   document: scenarioDocument.nullable(),
-  /** The autosaved draft: whatever the editor held, valid or not. */
-  draft: z.object({ document: z.unknown(), savedAt: instant }).nullable(),
+  /**
+   * The autosaved draft: whatever the editor held, valid or not. `document` is the parsed JSON of
+   * `text`, or null when the text is not JSON.
+   */
+  draft: z.object({ document: z.unknown(), text: z.string(), savedAt: instant }).nullable(),
 });
 export type ScenarioDetail = z.infer<typeof scenarioDetailSchema>;
 
@@ -344,12 +353,12 @@ export type ScenarioDetail = z.infer<typeof scenarioDetailSchema>;
 export const memoSummarySchema = z.object({
   id,
   scenarioId: id,
-  revision: z.number().int(),
   revisionHash: z.string(),
+  dataVersion: z.number().int(),
   /** SHA-256 of the PDF bytes. */
   hash: z.string(),
   printedAt: instant,
-  preparedBy: z.string(),
+  title: z.string(),
   bytes: z.number().int(),
 });
 export type MemoSummary = z.infer<typeof memoSummarySchema>;
@@ -372,8 +381,8 @@ export const serviceApi = {
       version: z.string(),
       storePath: z.string(),
       demo: z.boolean(),
-      /** Changes whenever prices change: half of the results cache key. */
-      dataVersion: z.string(),
+      /** Increases whenever prices change: half of the results cache key. */
+      dataVersion: z.number().int(),
       /** Where the app opens (the demo opens on its household's scenario). */
       startAt: z.object({ householdId: id, scenarioId: id }).nullable(),
     }),
@@ -455,7 +464,7 @@ export const serviceApi = {
   'prices.table': method(
     'The aligned price table of a set of assets over a window (null where an asset has no price), as the shared core reads it.',
     z.strictObject({ assets: z.array(id).min(1, 'expected at least one asset'), window: dateWindow.optional() }),
-    z.object({ table: priceTableWireSchema, dataVersion: z.string() }),
+    z.object({ table: priceTableWireSchema, dataVersion: z.number().int() }),
   ),
 
   'imports.start': method(
@@ -481,6 +490,21 @@ export const serviceApi = {
     }),
     importJobSchema,
   ),
+  'imports.history': method(
+    'Price imports written to the store, newest first.',
+    empty,
+    z.array(
+      z.object({
+        id,
+        source: z.string(),
+        importedAt: instant,
+        added: z.number().int(),
+        replaced: z.number().int(),
+        assets: z.number().int(),
+        note: z.string(),
+      }),
+    ),
+  ),
   'imports.cancel': method(
     'Stops an import; the store stays as it was.',
     z.strictObject({ jobId: id }),
@@ -502,6 +526,7 @@ export const serviceApi = {
     z.strictObject({
       householdId: id,
       document: z.unknown(),
+      universe: z.string().min(1).optional(),
       author: initialsSchema,
       note: z.string().max(2000).default(''),
     }),
@@ -532,6 +557,15 @@ export const serviceApi = {
     z.strictObject({ scenarioId: id, revision: z.number().int().min(1) }),
     z.object({ revision: revisionSummarySchema, document: scenarioDocument }),
   ),
+  'scenarios.compare': method(
+    'What changed between two revisions, as JSON paths with the values before and after.',
+    z.strictObject({ scenarioId: id, from: z.number().int().min(1), to: z.number().int().min(1) }),
+    z.object({
+      from: revisionSummarySchema,
+      to: revisionSummarySchema,
+      changes: z.array(z.object({ path: z.string(), before: z.unknown(), after: z.unknown() })),
+    }),
+  ),
   'scenarios.restore': method(
     'Saves an earlier revision again as the newest one (history is never rewritten).',
     z.strictObject({
@@ -544,13 +578,22 @@ export const serviceApi = {
   ),
 
   'results.get': method(
-    'A cached comparison for (revision hash, data version), or null.',
-    z.strictObject({ revisionHash: z.string().min(1), dataVersion: z.string().min(1) }),
-    z.object({ results: z.unknown().nullable(), savedAt: instant.nullable() }),
+    'A cached result for (revision hash, data version, kind), or null.',
+    z.strictObject({
+      revisionHash: z.string().min(1),
+      dataVersion: z.number().int().min(0),
+      kind: z.string().min(1).default('comparison'),
+    }),
+    z.object({ results: z.unknown().nullable() }),
   ),
   'results.put': method(
-    'Caches a comparison under (revision hash, data version).',
-    z.strictObject({ revisionHash: z.string().min(1), dataVersion: z.string().min(1), results: z.unknown() }),
+    'Caches a result (JSON) under (revision hash, data version, kind).',
+    z.strictObject({
+      revisionHash: z.string().min(1),
+      dataVersion: z.number().int().min(0),
+      kind: z.string().min(1).default('comparison'),
+      results: z.unknown(),
+    }),
     done,
   ),
 
