@@ -1,0 +1,108 @@
+import { describe, expect, it } from 'vitest';
+import type { PriceTable } from '../../../shared-core/prices/price-table.js';
+import type { ScenarioInput } from '../../../shared-core/scenario/schema.js';
+import { checkDraft, messagesAt } from '../../../src-renderer/scenario/validate-draft.js';
+
+const assets = Array.from({ length: 10 }, (_, i) => `A${i}`);
+const dates = Array.from({ length: 40 }, (_, i) => `2024-01-${String(i + 1).padStart(2, '0')}`).filter((d) =>
+  /^2024-01-(0[1-9]|[12]\d|3[01])$/.test(d),
+);
+const prices: PriceTable = {
+  dates,
+  assets,
+  closes: assets.map((_, j) => Float64Array.from(dates, (_, t) => 100 + t + j)),
+};
+
+const base: ScenarioInput = {
+  format: 'holdfast-scenario@1',
+  name: 'Test',
+  baseCurrency: 'EUR',
+  assets,
+  constraints: { longOnly: true, weightBounds: { default: [0, 0.15] } },
+  candidates: [{ id: 'md-lw', estimator: { method: 'ledoit-wolf' }, objective: { method: 'max-diversification' } }],
+};
+
+describe('draft checks beside each field', () => {
+  it('accepts a valid draft and returns the parsed scenario', () => {
+    const out = checkDraft(base, { prices });
+    expect(out.ok).toBe(true);
+  });
+
+  it("passes the scenario schema's own message through at its JSON path", () => {
+    const out = checkDraft({ ...base, constraints: { weightBounds: { default: [0.2, 0.1] } } }, { prices });
+    expect(out.ok).toBe(false);
+    expect(messagesAt(out.messages, 'constraints.weightBounds.default')).toEqual([
+      { path: 'constraints.weightBounds.default', message: 'lower bound above upper bound', source: 'schema' },
+    ]);
+  });
+
+  it('explains a cap below 1/N long-only: 10 assets capped at 8% add to 80%, not 100% (arithmetic of the budget)', () => {
+    const out = checkDraft(
+      { ...base, constraints: { longOnly: true, weightBounds: { default: [0, 0.08] } } },
+      { prices },
+    );
+    expect(out.ok).toBe(false);
+    expect(out.messages.map((m) => [m.path, m.message])).toEqual([
+      [
+        'constraints.weightBounds.default',
+        'the per-asset upper bounds add to 80.0%, below the 100% invested; long-only with 10 assets needs caps of at least 1/10 = 10.0%',
+      ],
+    ]);
+  });
+
+  it('does not apply the 1/N rule to long-short scenarios', () => {
+    const out = checkDraft(
+      { ...base, constraints: { longOnly: false, weightBounds: { default: [-0.5, 0.08] } } },
+      { prices },
+    );
+    expect(out.ok).toBe(true);
+  });
+
+  it('names a window with no prices and where the prices are', () => {
+    const out = checkDraft({ ...base, window: { from: '2030-01-01', to: '2031-01-01' } }, { prices });
+    expect(out.ok).toBe(false);
+    expect(messagesAt(out.messages, 'window')).toEqual([
+      {
+        path: 'window.from',
+        message:
+          'no prices from 2030-01-01 to 2031-01-01; the prices of these assets run from 2024-01-01 to 2024-01-31',
+        source: 'check',
+      },
+    ]);
+  });
+
+  it('asks for expected returns when maximum Sharpe ratio is among the objectives', () => {
+    const out = checkDraft(
+      {
+        ...base,
+        expectedReturns: { A0: 0.05 },
+        candidates: [{ id: 'ms', estimator: { method: 'sample' }, objective: { method: 'max-sharpe' } }],
+      },
+      { prices },
+    );
+    expect(messagesAt(out.messages, 'expectedReturns')[0].message).toMatch(
+      /^maximum Sharpe ratio needs an expected return for every asset; missing for A1, A2/,
+    );
+  });
+
+  it('names a group member that is not among the assets and an asset without prices', () => {
+    const out = checkDraft(
+      {
+        ...base,
+        assets: [...assets, 'ZZ'],
+        constraints: { ...base.constraints, groups: [{ name: 'Equity', members: ['A0', 'QQ'], max: 0.5 }] },
+      },
+      { prices },
+    );
+    expect(out.messages.map((m) => `${m.path}: ${m.message}`)).toEqual([
+      "constraints.groups[0].members: Equity names 'QQ', not among the scenario's assets",
+      "assets[10]: no prices for 'ZZ' in the store",
+    ]);
+  });
+
+  it('reports text typed into a number field first, at its path', () => {
+    const out = checkDraft(base, { prices, typing: { maxTurnover: "'abc' is not a number" } });
+    expect(out.ok).toBe(false);
+    expect(out.messages[0]).toEqual({ path: 'maxTurnover', message: "'abc' is not a number", source: 'typing' });
+  });
+});
