@@ -11,14 +11,17 @@ import type {
 import { normals, syntheticPrices, weekdays } from './synthetic.js';
 import { walkForwardMetrics } from '../../../shared-core/walkforward/metrics.js';
 
+const fixed = (weights: number[]): Allocation => ({
+  status: 'optimal',
+  weights: Float64Array.from(weights),
+  forecastVolatility: null,
+  forecastDiversificationRatio: null,
+});
+
 const constant =
   (weights: number[]): AllocateFn =>
-  (): Allocation => ({
-    status: 'optimal',
-    weights: Float64Array.from(weights),
-    forecastVolatility: null,
-    forecastDiversificationRatio: null,
-  });
+  () =>
+    fixed(weights);
 
 function settings(n: number, over: Partial<WalkForwardSettings> = {}): WalkForwardSettings {
   return {
@@ -153,7 +156,7 @@ describe('walk-forward engine', () => {
       ({ index }) => {
         const next = table.closes.map((c) => c[Math.min(index + 1, c.length - 1)]);
         const total = next.reduce((x, y) => x + y, 0);
-        return { ...constant([])(), weights: Float64Array.from(next, (v) => v / total) };
+        return { ...fixed([]), weights: Float64Array.from(next, (v) => v / total) };
       };
     const a = run(base, peeking(base), { startIndex: 10 });
     const cut = a.rebalances[3].index;
@@ -170,7 +173,7 @@ describe('walk-forward engine', () => {
     const seen: [string, string, number][] = [];
     run(prices, (request) => {
       seen.push([request.date, request.history.dates.at(-1)!, request.history.closes[0].length]);
-      return constant([0.5, 0.5])();
+      return fixed([0.5, 0.5]);
     });
     for (const [date, lastSeen, rows] of seen) {
       expect(lastSeen).toBe(date);
@@ -241,7 +244,7 @@ describe('walk-forward engine', () => {
             forecastVolatility: null,
             forecastDiversificationRatio: null,
           }
-        : constant([0.5, 0.5])(),
+        : fixed([0.5, 0.5]),
     );
     const failed = result.rebalances[1];
     expect(failed.status).toBe('infeasible');

@@ -24,7 +24,7 @@ describe('significance of differences between candidates', () => {
   });
 
   it('a candidate compared with itself differs by exactly 0 with p-value 1', () => {
-    const { a } = pair(500, 1, 0, 0.0004);
+    const { a } = pair(500, 1, 0, 0.0004, 0);
     const c = compareCandidates(
       { id: 'x', returns: a },
       { id: 'y', returns: a },
