@@ -299,3 +299,7 @@ export interface Store {
   /** Online backup (SQLite's backup API) to a new file, owner-only. */
   backup(destination: string): Promise<void>;
 }
+
+export { openStore } from './open-store.js';
+export { restoreStore, type RestoreResult } from './restore.js';
+export { StoreOpenError, CancelledError, NotFoundError } from './errors.js';

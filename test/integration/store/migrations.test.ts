@@ -1,0 +1,95 @@
+import Database from 'better-sqlite3';
+import { readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { sha256Hex } from '../../../src-main/store/canonical-json.js';
+import { LATEST_SCHEMA_VERSION, migrate } from '../../../src-main/store/migrations.js';
+import { openDatabase } from '../../../src-main/store/open-database.js';
+import { StoreOpenError, openStore } from '../../../src-main/store/store.js';
+import { useTempDir } from './temp-dir.js';
+
+const tempDir = useTempDir();
+
+// Data a store of each schema version could hold, written with that version's own tables.
+function seedAt(db: Database.Database, version: number): void {
+  if (version >= 1) {
+    db.prepare(
+      "INSERT INTO assets (id, display_name, currency, liquidity) VALUES ('EQ1', 'Equity one', 'EUR', 'daily')",
+    ).run();
+    const days = Buffer.from(new Int32Array([20090, 20091]).buffer);
+    const closes = Buffer.from(new Float64Array([100, 101]).buffer);
+    const batches = Buffer.from(new Int32Array([1, 2]).buffer);
+    db.prepare(
+      "INSERT INTO import_batches (source, imported_at, added, replaced, assets) VALUES ('a.csv', '2025-01-01', 1, 0, 1)",
+    ).run();
+    db.prepare(
+      "INSERT INTO import_batches (source, imported_at, added, replaced, assets) VALUES ('b.csv', '2025-01-02', 1, 0, 1)",
+    ).run();
+    db.prepare("INSERT INTO price_series VALUES ('EQ1', 2, 20090, 20091, ?, ?, ?)").run(days, closes, batches);
+    db.prepare("INSERT INTO universes (name) VALUES ('Core')").run();
+    db.prepare("INSERT INTO universe_members VALUES (1, 'EQ1', 0, '[\"Equity\"]')").run();
+  }
+  if (version >= 2) {
+    db.prepare("INSERT INTO households (name, base_currency) VALUES ('H', 'EUR')").run();
+    db.prepare("INSERT INTO scenarios (household_id, name, created_at) VALUES (1, 'S', '2025-01-03')").run();
+  }
+}
+
+describe('store schema migrations (PRAGMA user_version)', () => {
+  for (let from = 0; from < LATEST_SCHEMA_VERSION; from++)
+    it(`migrates a version-${from} store to version ${LATEST_SCHEMA_VERSION}, keeping its data`, () => {
+      const path = join(tempDir(), `v${from}.hfstore`);
+      const old = new Database(path);
+      migrate(old, from);
+      seedAt(old, from);
+      expect(old.pragma('user_version', { simple: true })).toBe(from);
+      old.close();
+
+      const store = openStore(path);
+      expect(store.schemaVersion).toBe(LATEST_SCHEMA_VERSION);
+      expect(store.check()).toEqual([]);
+      if (from >= 1) {
+        expect(store.priceTable({ universe: 'Core' }).dates).toEqual(['2025-01-02', '2025-01-03']);
+        expect(store.getUniverse('Core')!.members).toEqual([{ assetId: 'EQ1', tags: ['Equity'] }]);
+        // Version 3 seeds the data version from the batches imported before it existed.
+        expect(store.dataVersion()).toBe(2);
+      }
+      if (from >= 2) {
+        const h = store.getHousehold('H')!;
+        expect(store.getScenario(h.id, 'S')).toMatchObject({ latestRevision: 0 });
+      }
+      store.close();
+    });
+
+  it('refuses a store from a newer Holdfast with a clear message and leaves the file byte for byte unchanged', () => {
+    const path = join(tempDir(), 'newer.hfstore');
+    openStore(path).close();
+    const db = new Database(path);
+    db.pragma(`user_version = ${LATEST_SCHEMA_VERSION + 1}`);
+    db.close();
+    const before = sha256Hex(readFileSync(path));
+    expect(() => openStore(path)).toThrow(StoreOpenError);
+    expect(() => openStore(path)).toThrow(/newer Holdfast \(store schema \d+; this version reads up to \d+\)/);
+    expect(sha256Hex(readFileSync(path))).toBe(before);
+  });
+
+  it('refuses an SQLite file that is not a Holdfast store, and a file that is not SQLite at all', () => {
+    const dir = tempDir();
+    const other = new Database(join(dir, 'other.db'));
+    other.exec('CREATE TABLE t (x)');
+    other.close();
+    expect(() => openStore(join(dir, 'other.db'))).toThrow(/not a Holdfast store/);
+    writeFileSync(join(dir, 'text.hfstore'), 'date,A\n2025-01-02,1\n');
+    expect(() => openStore(join(dir, 'text.hfstore'))).toThrow(StoreOpenError);
+    expect(readFileSync(join(dir, 'text.hfstore'), 'utf8')).toBe('date,A\n2025-01-02,1\n');
+  });
+
+  it('opens with WAL journaling and foreign keys on; a missing store with create: false is refused', () => {
+    const path = join(tempDir(), 'fresh.hfstore');
+    const db = openDatabase(path, { create: true });
+    expect(db.pragma('journal_mode', { simple: true })).toBe('wal');
+    expect(db.pragma('foreign_keys', { simple: true })).toBe(1);
+    db.close();
+    expect(() => openStore(join(tempDir(), 'absent.hfstore'), { create: false })).toThrow(/no such store/);
+  });
+});
