@@ -1,7 +1,8 @@
 import { formatFigure, type BenchSuite } from './harness.js';
+import { demoDataSuite } from './demo-data.js';
 
 /** Every benchmark suite; a suite is one module in bench/ plus one line here. */
-const suites: BenchSuite[] = [];
+const suites: BenchSuite[] = [demoDataSuite];
 
 const only = process.argv.slice(2);
 for (const suite of suites) {

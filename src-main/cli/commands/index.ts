@@ -1,7 +1,8 @@
 import type { Command } from '../command.js';
+import { demoCommand } from './demo.js';
 
 /**
  * Every `holdfast` command, in the order `--help` lists them. A new command is one module in
  * this folder plus one line here.
  */
-export const commands: readonly Command[] = [];
+export const commands: readonly Command[] = [demoCommand];
