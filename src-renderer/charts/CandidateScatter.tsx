@@ -1,0 +1,101 @@
+import { useMemo } from 'react';
+import { formatPercent, formatRatio } from '../scenario/format.js';
+import { ChartFigure } from './EChart.js';
+import { FONT, INK, RULE } from './palette.js';
+
+export interface ScatterPoint {
+  id: string;
+  label: string;
+  colour: string;
+  symbol: string;
+  volatility: number;
+  diversificationRatio: number;
+}
+
+export function scatterFinding(points: readonly ScatterPoint[]): string {
+  if (points.length === 0) return 'No candidate solved';
+  const best = [...points].sort((a, b) => b.diversificationRatio - a.diversificationRatio)[0];
+  const calm = [...points].sort((a, b) => a.volatility - b.volatility)[0];
+  const first = `${best.id} diversifies most (ratio ${formatRatio(best.diversificationRatio, 'en-GB')} at ${formatPercent(best.volatility, 'en-GB')} volatility)`;
+  return calm.id === best.id
+    ? `${first} and is also the least volatile`
+    : `${first}; ${calm.id} is the least volatile (${formatPercent(calm.volatility, 'en-GB')})`;
+}
+
+/** Volatility across, diversification ratio up: one point per candidate, in its colour and mark. */
+export function CandidateScatter(props: { points: readonly ScatterPoint[]; basis: string; locale?: string }) {
+  const option = useMemo(
+    () => ({
+      animation: false,
+      textStyle: { fontFamily: FONT, color: INK },
+      grid: { left: 12, right: 36, top: 20, bottom: 36, containLabel: true },
+      tooltip: {
+        formatter: (p: { data: { name: string; value: [number, number] } }) =>
+          `${p.data.name}: volatility ${p.data.value[0].toFixed(1)}%, diversification ratio ${p.data.value[1].toFixed(2)}`,
+      },
+      xAxis: {
+        type: 'value',
+        name: 'volatility, per cent a year',
+        nameLocation: 'middle',
+        nameGap: 26,
+        scale: true,
+        axisLabel: { formatter: '{value}%' },
+        splitLine: { lineStyle: { color: RULE } },
+      },
+      yAxis: {
+        type: 'value',
+        name: 'diversification ratio',
+        nameLocation: 'middle',
+        nameGap: 40,
+        scale: true,
+        splitLine: { lineStyle: { color: RULE } },
+      },
+      series: props.points.map((p) => ({
+        name: p.id,
+        type: 'scatter',
+        symbol: p.symbol,
+        symbolSize: 14,
+        itemStyle: { color: p.colour, borderColor: INK, borderWidth: 1 },
+        label: { show: true, position: 'right', formatter: p.id, color: INK, fontSize: 11 },
+        data: [{ name: p.label, value: [p.volatility * 100, p.diversificationRatio] }],
+      })),
+    }),
+    [props.points],
+  );
+  return (
+    <ChartFigure
+      testId="candidate-scatter"
+      title={scatterFinding(props.points)}
+      basis={`Each candidate's annualised volatility against its diversification ratio (higher is more diversified), each estimated with its own risk estimate. ${props.basis}`}
+      option={option}
+      height={300}
+      table={
+        <table className="grid">
+          <caption>Volatility and diversification ratio by candidate</caption>
+          <thead>
+            <tr>
+              <th scope="col">Candidate</th>
+              <th scope="col" className="num">
+                Volatility
+              </th>
+              <th scope="col" className="num">
+                Diversification ratio
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {props.points.map((p) => (
+              <tr key={p.id}>
+                <th scope="row">
+                  {p.id} <span className="faint">{p.label}</span>
+                </th>
+                <td className="num">{formatPercent(p.volatility, props.locale)}</td>
+                <td className="num">{formatRatio(p.diversificationRatio, props.locale)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      }
+    />
+  );
+}

@@ -1,0 +1,139 @@
+import { useMemo } from 'react';
+import type { EstimateView } from '../worker/comparison.js';
+import { formatPercent, formatRatio, formatSignedPercent } from '../scenario/format.js';
+import { ChartFigure } from './EChart.js';
+import { FONT, INK, INK_SOFT, RULE } from './palette.js';
+
+/** Greys and marks for estimates (candidate colours belong to candidates, not estimators). */
+const ESTIMATE_STYLES = [
+  { colour: '#1F2328', symbol: 'circle' },
+  { colour: '#6E747C', symbol: 'triangle' },
+  { colour: '#A39C8F', symbol: 'rect' },
+  { colour: '#3F6E73', symbol: 'diamond' },
+  { colour: '#8C6B3E', symbol: 'pin' },
+];
+
+export function differenceFinding(estimates: readonly EstimateView[]): string {
+  const others = estimates.filter((e) => e.spec.method !== 'sample');
+  if (others.length === 0) return 'Only the sample estimate is in use, so there is nothing to compare it with';
+  const vol = [...others].sort((a, b) => b.distance.meanVolatilityChange - a.distance.meanVolatilityChange)[0];
+  const cor = [...others].sort((a, b) => b.distance.meanCorrelationChange - a.distance.meanCorrelationChange)[0];
+  const volText = `${vol.label} moves volatilities furthest from the sample (by ${formatPercent(vol.distance.meanVolatilityChange, 'en-GB')} on average)`;
+  const corText = `${cor.label} moves correlations most (by ${formatRatio(cor.distance.meanCorrelationChange, 'en-GB')} on average)`;
+  return vol.key === cor.key
+    ? `${volText} and its correlations most (by ${formatRatio(cor.distance.meanCorrelationChange, 'en-GB')})`
+    : `${volText}; ${corText}`;
+}
+
+/** Each estimate's volatility per asset against the sample's, as a per cent change. */
+export function EstimateDifferenceChart(props: {
+  assets: readonly string[];
+  estimates: readonly EstimateView[];
+  basis: string;
+  locale?: string;
+}) {
+  const { assets, estimates } = props;
+  const shown = estimates.filter((e) => e.spec.method !== 'sample');
+  const option = useMemo(
+    () => ({
+      animation: false,
+      textStyle: { fontFamily: FONT, color: INK },
+      grid: { left: 8, right: 24, top: 30, bottom: 60, containLabel: true },
+      legend: { top: 0, left: 0, textStyle: { color: INK_SOFT } },
+      tooltip: { trigger: 'axis', valueFormatter: (v: number) => `${v.toFixed(1)}%` },
+      xAxis: {
+        type: 'category',
+        data: [...assets],
+        axisLabel: { rotate: 60, fontSize: 10, interval: 0 },
+        axisTick: { show: false },
+      },
+      yAxis: {
+        type: 'value',
+        name: 'volatility against the sample, per cent',
+        nameLocation: 'middle',
+        nameGap: 42,
+        axisLabel: { formatter: '{value}%' },
+        splitLine: { lineStyle: { color: RULE } },
+      },
+      series: shown.map((e, k) => ({
+        name: e.label,
+        type: 'line',
+        lineStyle: { width: 0 },
+        symbol: ESTIMATE_STYLES[k % ESTIMATE_STYLES.length].symbol,
+        symbolSize: 9,
+        itemStyle: { color: ESTIMATE_STYLES[k % ESTIMATE_STYLES.length].colour },
+        data: e.distance.volatilityRatio.map((r) => Math.round((r - 1) * 1000) / 10),
+        markLine:
+          k === 0
+            ? {
+                silent: true,
+                symbol: 'none',
+                lineStyle: { color: INK, type: 'solid', width: 1 },
+                data: [{ yAxis: 0 }],
+                label: { show: false },
+              }
+            : undefined,
+      })),
+    }),
+    [assets, shown],
+  );
+  return (
+    <ChartFigure
+      testId="estimate-difference"
+      title={differenceFinding(estimates)}
+      basis={`Per asset, each estimate's annualised volatility as a per cent change from the sample estimate on the same returns (0 = the same); the table adds how far correlations move. ${props.basis}`}
+      option={option}
+      height={300}
+      table={
+        <table className="grid">
+          <caption>Distance of each estimate from the sample covariance</caption>
+          <thead>
+            <tr>
+              <th scope="col">Estimate</th>
+              <th scope="col" className="num">
+                Mean volatility change
+              </th>
+              <th scope="col" className="num">
+                Mean correlation change
+              </th>
+              <th scope="col">Pair that moves most</th>
+              <th scope="col" className="num">
+                Shrinkage
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {estimates.map((e) => {
+              const big = e.distance.largestCorrelationChange;
+              return (
+                <tr key={e.key}>
+                  <th scope="row">{e.label}</th>
+                  <td className="num">{formatPercent(e.distance.meanVolatilityChange, props.locale)}</td>
+                  <td className="num">{formatRatio(e.distance.meanCorrelationChange, props.locale)}</td>
+                  <td>
+                    {big && e.spec.method !== 'sample'
+                      ? `${assets[big.i]} / ${assets[big.j]}: ${formatRatio(big.sample, props.locale)} \u2192 ${formatRatio(big.estimate, props.locale)}`
+                      : '\u2013'}
+                  </td>
+                  <td className="num">{e.shrinkage === null ? '\u2013' : formatPercent(e.shrinkage, props.locale)}</td>
+                </tr>
+              );
+            })}
+          </tbody>
+          <tbody>
+            {assets.map((a, i) => (
+              <tr key={a}>
+                <th scope="row">{a}</th>
+                <td colSpan={4}>
+                  {shown
+                    .map((e) => `${e.label} ${formatSignedPercent(e.distance.volatilityRatio[i] - 1, props.locale)}`)
+                    .join('; ')}
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      }
+    />
+  );
+}

@@ -1,0 +1,462 @@
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import type {
+  Asset,
+  Holdings,
+  HouseholdSummary,
+  RevisionSummary,
+  ScenarioDetail,
+} from '../../shared-core/contract/service-api.js';
+import { priceTableFromWire } from '../../shared-core/contract/service-api.js';
+import type { PriceTable } from '../../shared-core/prices/price-table.js';
+import type { Scenario, ScenarioInput } from '../../shared-core/scenario/schema.js';
+import { errorText } from '../app/notes.js';
+import { api } from '../bridge.js';
+import type { Comparison } from '../worker/comparison.js';
+import type { RecomputeOutcome } from '../worker/recompute-client.js';
+import { AnswerSection } from './answer/AnswerSection.js';
+import { BriefSection } from './brief/BriefSection.js';
+import { setField, editorStateFor, type EditorState } from './editor-state.js';
+import { formatDuration } from './format.js';
+import { applyEdit, canRedo, canUndo, createHistory, redo, undo, type History } from './history.js';
+import { ReasonsSection } from './reasons/ReasonsSection.js';
+import { BesidePanel, RevisionBar } from './revisions/RevisionBar.js';
+import { useRecompute } from './use-recompute.js';
+import { checkDraft, describeMessage, type FieldMessage } from './validate-draft.js';
+import './scenario.css';
+
+/**
+ * The scenario page, top to bottom in the order an advisor argues: the brief (inputs), the
+ * candidates (the answer), the reasons (the evidence). Every edit is checked where it is typed
+ * and recomputed in a worker; the last good comparison stays on screen when an edit is bad, with
+ * the reason shown. Drafts save themselves; revisions are saved with a note.
+ */
+export function ScenarioPage(props: { householdId: string; scenarioId: string }) {
+  const [boot, setBoot] = useState<Boot | { error: unknown } | null>(null);
+  useEffect(() => {
+    let live = true;
+    setBoot(null);
+    loadBoot(props.householdId, props.scenarioId).then(
+      (b) => live && setBoot(b),
+      (error: unknown) => live && setBoot({ error }),
+    );
+    return () => {
+      live = false;
+    };
+  }, [props.householdId, props.scenarioId]);
+  if (boot === null)
+    return (
+      <p className="muted" role="status">
+        Reading the scenario…
+      </p>
+    );
+  if ('error' in boot)
+    return (
+      <div className="note error" role="alert">
+        <strong>The scenario could not be opened: </strong>
+        {errorText(boot.error)}
+      </div>
+    );
+  return <ScenarioWorkspace key={props.scenarioId} boot={boot} scenarioId={props.scenarioId} />;
+}
+
+interface Boot {
+  detail: ScenarioDetail;
+  household: HouseholdSummary;
+  holdings: Holdings | null;
+  catalogue: Asset[];
+  preparedBy: string | null;
+  revisions: RevisionSummary[];
+  /** The document the editor opens with, and where it came from. */
+  initial: ScenarioInput;
+  openedDraft: boolean;
+}
+
+async function loadBoot(householdId: string, scenarioId: string): Promise<Boot> {
+  const [detail, household, holdings, catalogue, settings, revisions] = await Promise.all([
+    api['scenarios.get']({ scenarioId }),
+    api['households.get']({ householdId }),
+    api['holdings.get']({ householdId }).catch(() => null),
+    api['assets.list']({}),
+    api['settings.get']({}).catch(() => ({ preparedBy: null })),
+    api['scenarios.revisions']({ scenarioId }),
+  ]);
+  const draft = detail.draft?.document;
+  const openedDraft = detail.scenario.hasDraft && draft !== null && typeof draft === 'object';
+  const initial = (openedDraft ? draft : detail.document) as ScenarioInput | null;
+  if (!initial) throw new Error('the scenario has neither a saved revision nor a readable draft');
+  return { detail, household, holdings, catalogue, preparedBy: settings.preparedBy, revisions, initial, openedDraft };
+}
+
+interface Good {
+  comparison: Comparison;
+  scenario: Scenario;
+}
+
+type Problem = { summary: string; details: string[]; messages: FieldMessage[] };
+
+const AUTOSAVE_MS = 900;
+
+function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: string }) {
+  const locale = undefined;
+  const [history, setHistory] = useState<History<EditorState>>(() => createHistory(editorStateFor(boot.initial)));
+  const state = history.present;
+  const doc = state.doc;
+  const [typing, setTyping] = useState<Record<string, string>>({});
+  const lastEditAt = useRef<number>(performance.now());
+
+  const commit = useCallback((next: EditorState, key?: string) => {
+    lastEditAt.current = performance.now();
+    setHistory((h) => applyEdit(h, next, { key, at: Date.now() }));
+  }, []);
+  const onTyping = useCallback((path: string, message: string | null) => {
+    lastEditAt.current = performance.now();
+    setTyping((t) => {
+      if (message === null) {
+        if (!(path in t)) return t;
+        const rest = { ...t };
+        delete rest[path];
+        return rest;
+      }
+      return t[path] === message ? t : { ...t, [path]: message };
+    });
+  }, []);
+  const doUndo = useCallback(() => setHistory((h) => undo(h)), []);
+  const doRedo = useCallback(() => setHistory((h) => redo(h)), []);
+
+  // ---- prices for the chosen assets ----
+  const assetKey = (doc.assets ?? []).slice().sort().join('|');
+  const [prices, setPrices] = useState<{ key: string; table: PriceTable; dataVersion: number } | null>(null);
+  const [pricesError, setPricesError] = useState<unknown>(null);
+  useEffect(() => {
+    if (!assetKey) return;
+    let live = true;
+    const assets = assetKey.split('|');
+    api['prices.table']({ assets }).then(
+      (r) => {
+        if (!live) return;
+        setPrices({ key: assetKey, table: priceTableFromWire(r.table), dataVersion: r.dataVersion });
+        setPricesError(null);
+      },
+      (error: unknown) => live && setPricesError(error),
+    );
+    return () => {
+      live = false;
+    };
+  }, [assetKey]);
+  const pricesNow = prices && prices.key === assetKey ? prices.table : undefined;
+
+  // ---- checks as typed ----
+  const check = useMemo(() => checkDraft(doc, { prices: pricesNow, typing }), [doc, pricesNow, typing]);
+
+  // ---- recompute ----
+  const [good, setGood] = useState<Good | null>(null);
+  const [problem, setProblem] = useState<Problem | null>(null);
+  const [shown, setShown] = useState<{ ms: number; computeMs: number } | null>(null);
+  const paintFrom = useRef<number | null>(null);
+  const hadGood = useRef(false);
+  const onOutcome = useCallback((o: RecomputeOutcome) => {
+    if (o.kind === 'cancelled') {
+      setProblem({
+        summary: 'Recompute cancelled; the comparison below is from the last finished run.',
+        details: [],
+        messages: [],
+      });
+      return;
+    }
+    if (o.kind === 'failed') {
+      const messages: FieldMessage[] = o.input && o.path ? [{ path: o.path, message: o.message, source: 'check' }] : [];
+      setProblem({
+        summary: o.input
+          ? 'These inputs cannot be computed; the comparison below is from the last inputs that could.'
+          : 'The recompute failed; the comparison below is from the last run that finished.',
+        details: [o.path ? `${o.path}: ${o.message}` : o.message],
+        messages,
+      });
+      return;
+    }
+    const anySolved = o.comparison.candidates.some((c) => c.status === 'optimal');
+    if (!anySolved && hadGood.current) {
+      setProblem({
+        summary:
+          'No candidate can be solved with these inputs; the comparison below is from the last inputs that solved.',
+        details: o.comparison.candidates.map((c) => `${c.id}: ${c.message ?? c.status}`),
+        messages: [],
+      });
+      return;
+    }
+    hadGood.current = true;
+    paintFrom.current = lastEditAt.current;
+    setGood({ comparison: o.comparison, scenario: o.scenario });
+    setProblem(null);
+  }, []);
+  const recompute = useRecompute(onOutcome);
+  const first = useRef(true);
+  useEffect(() => {
+    if (!check.ok || !pricesNow) return;
+    recompute.request(check.scenario, pricesNow, first.current);
+    first.current = false;
+  }, [check, pricesNow]);
+  // Time from the last keystroke to the comparison on screen (after the browser has painted it).
+  useEffect(() => {
+    if (!good || paintFrom.current === null) return;
+    const from = paintFrom.current;
+    paintFrom.current = null;
+    requestAnimationFrame(() =>
+      setTimeout(() => setShown({ ms: performance.now() - from, computeMs: good.comparison.computeMs }), 0),
+    );
+  }, [good]);
+
+  // ---- autosave the draft ----
+  const [draft, setDraft] = useState<{ savedAt?: string; error?: unknown; saving: boolean }>({
+    saving: false,
+    savedAt: boot.openedDraft ? (boot.detail.draft?.savedAt ?? undefined) : undefined,
+  });
+  const savedDoc = useRef<ScenarioInput>(boot.initial);
+  useEffect(() => {
+    if (doc === savedDoc.current) return;
+    const timer = setTimeout(() => {
+      setDraft((d) => ({ ...d, saving: true }));
+      api['scenarios.saveDraft']({ scenarioId, document: doc }).then(
+        (r) => {
+          savedDoc.current = doc;
+          setDraft({ saving: false, savedAt: r.savedAt });
+        },
+        (error: unknown) => setDraft({ saving: false, error }),
+      );
+    }, AUTOSAVE_MS);
+    return () => clearTimeout(timer);
+  }, [doc, scenarioId]);
+
+  // ---- revisions ----
+  const [revisions, setRevisions] = useState(boot.revisions);
+  const [beside, setBeside] = useState<number | null>(null);
+  const reloadRevisions = useCallback(
+    () => api['scenarios.revisions']({ scenarioId }).then(setRevisions),
+    [scenarioId],
+  );
+  const loadDocument = useCallback(
+    (next: ScenarioInput) => commit(editorStateFor(next), `restore-${Date.now()}`),
+    [commit],
+  );
+
+  // ---- keyboard ----
+  const saveButton = useRef<HTMLButtonElement>(null);
+  useEffect(() => {
+    const onKey = (e: KeyboardEvent) => {
+      const mod = e.ctrlKey || e.metaKey;
+      if (mod && !e.altKey && e.key.toLowerCase() === 'z') {
+        e.preventDefault();
+        if (e.shiftKey) doRedo();
+        else doUndo();
+      } else if (mod && e.key.toLowerCase() === 'y') {
+        e.preventDefault();
+        doRedo();
+      } else if (mod && e.key.toLowerCase() === 's') {
+        e.preventDefault();
+        saveButton.current?.click();
+      } else if (e.key === 'Escape' && recompute.state.busy) {
+        recompute.cancel();
+      }
+    };
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, [doUndo, doRedo, recompute]);
+
+  const [focus, setFocus] = useState<string | undefined>(undefined);
+  const names = useMemo(() => new Map(boot.catalogue.map((a) => [a.id, a.name])), [boot.catalogue]);
+  const messages = useMemo(() => [...check.messages, ...(problem?.messages ?? [])], [check, problem]);
+  const colourIndex = useCallback(
+    (id: string) =>
+      Math.max(
+        0,
+        (good?.scenario.candidates ?? []).findIndex((c) => c.id === id),
+      ),
+    [good],
+  );
+  const stale = recompute.state.busy || !check.ok || problem !== null;
+
+  return (
+    <div className="scenario-page" data-testid="scenario-page">
+      <header className="scenario-head">
+        <div>
+          <p className="faint">{boot.household.name}</p>
+          <h1>{doc.name || boot.detail.scenario.name}</h1>
+          <p className="faint">
+            {revisions[0]
+              ? `Revision ${revisions[0].number} saved ${new Date(revisions[0].savedAt).toLocaleString(locale)} by ${revisions[0].author}`
+              : 'No revision yet'}
+            {' · '}
+            <span data-testid="draft-status">
+              {draft.saving
+                ? 'saving draft…'
+                : draft.error
+                  ? `draft not saved: ${errorText(draft.error)}`
+                  : draft.savedAt
+                    ? `draft saved ${new Date(draft.savedAt).toLocaleTimeString(locale)}`
+                    : 'no unsaved changes'}
+            </span>
+          </p>
+        </div>
+        <div className="actions head-actions" role="toolbar" aria-label="Scenario actions">
+          <button type="button" onClick={doUndo} disabled={!canUndo(history)} aria-keyshortcuts="Control+Z">
+            Undo
+          </button>
+          <button type="button" onClick={doRedo} disabled={!canRedo(history)} aria-keyshortcuts="Control+Shift+Z">
+            Redo
+          </button>
+          <RevisionBar
+            scenarioId={scenarioId}
+            document={doc}
+            valid={check.ok}
+            preparedBy={boot.preparedBy}
+            revisions={revisions}
+            saveButton={saveButton}
+            onSaved={() => {
+              savedDoc.current = doc;
+              setDraft({ saving: false, savedAt: undefined });
+              void reloadRevisions();
+            }}
+            onOpenBeside={setBeside}
+          />
+        </div>
+      </header>
+      <RecomputeStatus
+        busy={recompute.state.busy}
+        onCancel={recompute.cancel}
+        check={check.ok ? [] : check.messages}
+        problem={problem}
+        shown={shown}
+        pricesError={pricesError}
+        hasResult={good !== null}
+      />
+      {boot.openedDraft ? (
+        <p className="note" role="note">
+          Opened the unsaved draft of {new Date(boot.detail.draft?.savedAt ?? '').toLocaleString(locale)}; the latest
+          revision is {boot.detail.scenario.latestRevision?.number ?? 'none'}. Save it as a revision to keep it in the
+          history.
+        </p>
+      ) : null}
+      <div className={beside !== null ? 'with-beside' : undefined}>
+        <div className="scenario-main">
+          <BriefSection
+            state={state}
+            commit={commit}
+            messages={messages}
+            onTyping={onTyping}
+            catalogue={boot.catalogue}
+            holdings={boot.holdings}
+            locale={locale}
+          />
+          {good ? (
+            <>
+              <AnswerSection
+                comparison={good.comparison}
+                scenario={good.scenario}
+                recommended={doc.recommended}
+                focused={focus}
+                onFocus={setFocus}
+                onRecommend={(id) => commit(setField(state, ['recommended'], id))}
+                holdings={boot.holdings}
+                names={names}
+                locale={locale}
+                stale={stale}
+              />
+              <ReasonsSection
+                candidates={good.comparison.candidates}
+                focused={focus ?? doc.recommended}
+                onFocus={setFocus}
+                colourIndex={colourIndex}
+                locale={locale}
+              />
+            </>
+          ) : null}
+        </div>
+        {beside !== null ? (
+          <BesidePanel
+            scenarioId={scenarioId}
+            revision={beside}
+            current={doc}
+            currentComparison={good?.comparison ?? null}
+            prices={pricesNow}
+            onClose={() => setBeside(null)}
+            onLoad={loadDocument}
+            locale={locale}
+          />
+        ) : null}
+      </div>
+    </div>
+  );
+}
+
+function RecomputeStatus(props: {
+  busy: boolean;
+  onCancel: () => void;
+  check: readonly FieldMessage[];
+  problem: Problem | null;
+  shown: { ms: number; computeMs: number } | null;
+  pricesError: unknown;
+  hasResult: boolean;
+}) {
+  const state = props.busy ? 'busy' : props.check.length > 0 || props.problem ? 'kept' : 'fresh';
+  return (
+    <div
+      className={`recompute-status ${state}`}
+      data-testid="recompute-status"
+      data-state={state}
+      data-shown-ms={props.shown ? props.shown.ms.toFixed(1) : undefined}
+      data-compute-ms={props.shown ? props.shown.computeMs.toFixed(1) : undefined}
+    >
+      <p role="status" aria-live="polite">
+        {props.busy ? (
+          <>
+            <span className="spinner" aria-hidden="true" /> Recomputing the candidates…{' '}
+          </>
+        ) : props.check.length > 0 ? (
+          <>
+            <span className="marker" aria-hidden="true">
+              ◆
+            </span>{' '}
+            {props.check.length === 1 ? 'One input needs attention' : `${props.check.length} inputs need attention`}
+            {props.hasResult ? '; the comparison below is from the last inputs that were complete.' : '.'}
+          </>
+        ) : props.problem ? (
+          <>
+            <span className="marker" aria-hidden="true">
+              ◆
+            </span>{' '}
+            {props.problem.summary}
+          </>
+        ) : props.shown ? (
+          <>
+            Up to date: shown {formatDuration(props.shown.ms)} after the last edit (solve{' '}
+            {formatDuration(props.shown.computeMs)}).
+          </>
+        ) : (
+          'Up to date.'
+        )}
+        {props.busy ? (
+          <button type="button" className="quiet" onClick={props.onCancel} aria-keyshortcuts="Escape">
+            Cancel
+          </button>
+        ) : null}
+      </p>
+      {props.check.length > 0 ? (
+        <ul className="problem-list" data-testid="input-problems">
+          {props.check.map((m, i) => (
+            <li key={i}>{describeMessage(m)}</li>
+          ))}
+        </ul>
+      ) : null}
+      {props.problem && props.problem.details.length > 0 ? (
+        <ul className="problem-list" data-testid="run-problems">
+          {props.problem.details.map((d, i) => (
+            <li key={i}>{d}</li>
+          ))}
+        </ul>
+      ) : null}
+      {props.pricesError ? (
+        <p className="note error">The prices could not be read: {errorText(props.pricesError)}</p>
+      ) : null}
+    </div>
+  );
+}

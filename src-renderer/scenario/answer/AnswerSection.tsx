@@ -1,0 +1,206 @@
+import { useMemo, useState } from 'react';
+import type { Holdings } from '../../../shared-core/contract/service-api.js';
+import type { Scenario } from '../../../shared-core/scenario/schema.js';
+import { CandidateScatter, type ScatterPoint } from '../../charts/CandidateScatter.js';
+import { CorrelationHeatmap } from '../../charts/CorrelationHeatmap.js';
+import { EstimateDifferenceChart } from '../../charts/EstimateDifferenceChart.js';
+import { candidateColour, candidateSymbol } from '../../charts/palette.js';
+import { RiskContributionChart, sortByTarget, WeightsChart } from '../../charts/WeightsChart.js';
+import type { Comparison } from '../../worker/comparison.js';
+import { describeEstimator } from '../candidate-grid.js';
+import { formatDate } from '../format.js';
+import { CandidateTable, solved } from './CandidateTable.js';
+import { TradeListView } from './TradeListView.js';
+
+/**
+ * The second part of the page: the candidates side by side, then the pictures of the one in
+ * focus (weights, risk, correlations of its estimate, trades) and of all of them together (the
+ * volatility and diversification scatter, how far the estimates move from the sample).
+ */
+export interface AnswerProps {
+  comparison: Comparison;
+  /** The scenario the comparison was computed for. */
+  scenario: Scenario;
+  recommended?: string;
+  focused?: string;
+  onFocus: (id: string) => void;
+  onRecommend: (id: string | undefined) => void;
+  holdings: Holdings | null;
+  names: ReadonlyMap<string, string>;
+  locale?: string;
+  /** True while the comparison is from an earlier edit (a recompute runs or the last edit failed). */
+  stale: boolean;
+}
+
+export function basisOf(comparison: Comparison, scenario: Scenario, locale?: string): string {
+  const w = comparison.window;
+  const span = w.first && w.last ? `${formatDate(w.first, locale)} to ${formatDate(w.last, locale)}` : 'no dates';
+  return `${scenario.returns.frequency} ${scenario.returns.method} returns, ${span} (${w.observations} periods).`;
+}
+
+export function AnswerSection(props: AnswerProps) {
+  const { comparison, scenario, locale } = props;
+  const colourIndex = useMemo(() => {
+    const order = new Map(scenario.candidates.map((c, i) => [c.id, i]));
+    return (id: string) => order.get(id) ?? 0;
+  }, [scenario]);
+  const describe = (id: string) => {
+    const c = scenario.candidates.find((x) => x.id === id);
+    return c?.label ?? (c ? `${c.objective.method} · ${describeEstimator(c.estimator)}` : id);
+  };
+  const solvedCandidates = comparison.candidates.filter(solved);
+  const focus =
+    comparison.candidates.find((c) => c.id === props.focused && solved(c)) ??
+    comparison.candidates.find((c) => c.id === props.recommended && solved(c)) ??
+    solvedCandidates[0];
+  const estimateOfFocus = focus ? comparison.estimateOf[focus.id] : undefined;
+  const [chosenEstimate, setChosenEstimate] = useState<string | undefined>(undefined);
+  const heatKey =
+    chosenEstimate && comparison.estimates.some((e) => e.key === chosenEstimate) ? chosenEstimate : estimateOfFocus;
+  const heat = comparison.estimates.find((e) => e.key === heatKey) ?? comparison.estimates[0];
+  const basis = basisOf(comparison, scenario, locale);
+  const current = scenario.current ?? {};
+
+  const weightRows = useMemo(
+    () =>
+      focus
+        ? comparison.assets.map((a) => ({
+            asset: a,
+            name: props.names.get(a) ?? '',
+            current: current[a] ?? 0,
+            target: focus.weights[a] ?? 0,
+          }))
+        : [],
+    [focus, comparison.assets, current, props.names],
+  );
+  const riskRows = useMemo(
+    () =>
+      focus?.metrics
+        ? comparison.assets.map((a) => ({
+            asset: a,
+            name: props.names.get(a) ?? '',
+            weight: focus.weights[a] ?? 0,
+            contribution: focus.metrics?.riskContributions[a] ?? 0,
+          }))
+        : [],
+    [focus, comparison.assets, props.names],
+  );
+  const order = useMemo(() => sortByTarget(weightRows).map((r) => r.asset), [weightRows]);
+  const points: ScatterPoint[] = solvedCandidates.map((c) => ({
+    id: c.id,
+    label: describe(c.id),
+    colour: candidateColour(colourIndex(c.id)),
+    symbol: candidateSymbol(colourIndex(c.id)),
+    volatility: c.metrics?.volatility ?? 0,
+    diversificationRatio: c.metrics?.diversificationRatio ?? 0,
+  }));
+
+  return (
+    <section
+      className={`section answer${props.stale ? ' stale' : ''}`}
+      aria-labelledby="answer-title"
+      aria-busy={props.stale}
+    >
+      <div className="section-head">
+        <h2 id="answer-title">2. The candidates</h2>
+        <span className="faint">{basis}</span>
+      </div>
+      {comparison.window.warnings.length > 0 ? (
+        <div className="note warning" role="note">
+          <strong>About the data: </strong>
+          {comparison.window.warnings.join(' ')}
+        </div>
+      ) : null}
+      <CandidateTable
+        assets={comparison.assets}
+        names={props.names}
+        candidates={comparison.candidates}
+        colourIndex={colourIndex}
+        current={current}
+        recommended={props.recommended}
+        focused={focus?.id}
+        onFocus={props.onFocus}
+        onRecommend={props.onRecommend}
+        describe={describe}
+        locale={locale}
+      />
+      {focus ? (
+        <>
+          <h3 className="focus-title">
+            <span
+              className="swatch"
+              style={{ background: candidateColour(colourIndex(focus.id)) }}
+              aria-hidden="true"
+            />
+            In focus: <span className="code">{focus.id}</span> {describe(focus.id)}
+            {props.recommended === focus.id ? <span className="recommended-mark">★ Recommended</span> : null}
+          </h3>
+          <div className="chart-pair">
+            <WeightsChart
+              candidateLabel={focus.id}
+              colour={candidateColour(colourIndex(focus.id))}
+              rows={weightRows}
+              basis={basis}
+              locale={locale}
+            />
+            <RiskContributionChart
+              candidateLabel={focus.id}
+              colour={candidateColour(colourIndex(focus.id))}
+              rows={riskRows}
+              order={order}
+              basis={basis}
+              locale={locale}
+            />
+          </div>
+          <h3>Trades</h3>
+          <TradeListView
+            candidateId={focus.id}
+            weights={focus.weights}
+            holdings={props.holdings}
+            names={props.names}
+            locale={locale}
+          />
+        </>
+      ) : (
+        <p className="note warning">
+          <span className="marker" aria-hidden="true">
+            ◆
+          </span>{' '}
+          No candidate solved; each column above says why.
+        </p>
+      )}
+      <h3>All candidates and their risk estimates</h3>
+      <div className="chart-pair">
+        <CandidateScatter points={points} basis={basis} locale={locale} />
+        <EstimateDifferenceChart
+          assets={comparison.assets}
+          estimates={comparison.estimates}
+          basis={basis}
+          locale={locale}
+        />
+      </div>
+      {heat ? (
+        <div className="heat-block">
+          <label className="inline-select">
+            Correlations of{' '}
+            <select value={heat.key} onChange={(e) => setChosenEstimate(e.target.value)}>
+              {comparison.estimates.map((e) => (
+                <option key={e.key} value={e.key}>
+                  {e.label}
+                </option>
+              ))}
+            </select>
+          </label>
+          <CorrelationHeatmap
+            assets={comparison.assets}
+            correlation={heat.correlation}
+            order={heat.order}
+            estimateLabel={heat.label}
+            basis={basis}
+            locale={locale}
+          />
+        </div>
+      ) : null}
+    </section>
+  );
+}

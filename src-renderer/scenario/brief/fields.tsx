@@ -1,0 +1,257 @@
+import { useEffect, useId, useRef, useState, type ReactNode } from 'react';
+import { parsePercentInput, percentInputText } from '../format.js';
+import type { FieldMessage } from '../validate-draft.js';
+
+/**
+ * The editor's input fields. Each shows the reason beside itself when what was typed is wrong
+ * (the scenario schema's message, or the check that failed), tied to the input with
+ * aria-describedby so a screen reader reads it with the field.
+ */
+export interface FieldProps {
+  label: ReactNode;
+  /** JSON path of the value, as the schema's messages name it. */
+  path: string;
+  messages: readonly FieldMessage[];
+  hint?: ReactNode;
+  /** Hide the visible label (the column header of a table says it); kept for screen readers. */
+  compact?: boolean;
+}
+
+export function FieldNote({ id, messages, hint }: { id: string; messages: readonly FieldMessage[]; hint?: ReactNode }) {
+  if (messages.length === 0 && !hint) return null;
+  return (
+    <span id={id} className="field-note">
+      {messages.map((m, i) => (
+        <span key={i} className="field-error" data-path={m.path}>
+          <span className="marker" aria-hidden="true">
+            ◆
+          </span>{' '}
+          {m.message}
+        </span>
+      ))}
+      {messages.length === 0 && hint ? <span className="field-hint">{hint}</span> : null}
+    </span>
+  );
+}
+
+function useNoteId(): string {
+  return `note-${useId().replace(/:/g, '')}`;
+}
+
+/**
+ * A weight or rate typed as per cent. Text that is not a number is reported (through `onTyping`)
+ * and kept in the field, so the advisor sees what they typed beside the reason.
+ */
+export function PercentField(
+  props: FieldProps & {
+    value: number | undefined;
+    onChange: (value: number | undefined) => void;
+    onTyping: (path: string, message: string | null) => void;
+    placeholder?: string;
+    /** Empty means "no limit" (the key is removed). */
+    optional?: boolean;
+    disabled?: boolean;
+  },
+) {
+  const {
+    label,
+    path,
+    messages,
+    hint,
+    value,
+    onChange,
+    onTyping,
+    placeholder,
+    optional = true,
+    compact,
+    disabled,
+  } = props;
+  const [text, setText] = useState(percentInputText(value));
+  const noteId = useNoteId();
+  const inputId = `${noteId}-in`;
+  // Follow the document when it changes from outside (undo, restore), not while typing.
+  const emitted = useRef(value);
+  useEffect(() => {
+    if (value === emitted.current) return;
+    emitted.current = value;
+    setText(percentInputText(value));
+    onTyping(path, null);
+  }, [value, path, onTyping]);
+  const change = (next: string) => {
+    setText(next);
+    if (next.trim() === '') {
+      onTyping(path, optional ? null : 'a value is needed here');
+      if (optional) {
+        emitted.current = undefined;
+        onChange(undefined);
+      }
+      return;
+    }
+    const parsed = parsePercentInput(next);
+    if (parsed === null) {
+      onTyping(path, `'${next}' is not a number; type a percentage such as 15 or 12.5`);
+      return;
+    }
+    onTyping(path, null);
+    emitted.current = parsed;
+    onChange(parsed);
+  };
+  const invalid = messages.length > 0;
+  return (
+    <span className={`sfield percent-field${compact ? ' compact' : ''}`}>
+      <label htmlFor={inputId} className={compact ? 'visually-hidden' : undefined}>
+        {label}
+      </label>
+      <span className="input-with-unit">
+        <input
+          id={inputId}
+          type="text"
+          inputMode="decimal"
+          value={text}
+          placeholder={placeholder}
+          disabled={disabled}
+          aria-invalid={invalid || undefined}
+          aria-describedby={invalid || hint ? noteId : undefined}
+          data-path={path}
+          onChange={(e) => change(e.target.value)}
+        />
+        <span className="unit" aria-hidden="true">
+          %
+        </span>
+      </span>
+      <FieldNote id={noteId} messages={messages} hint={hint} />
+    </span>
+  );
+}
+
+/** A plain number (years, half-life, lambda). */
+export function NumberField(
+  props: FieldProps & {
+    value: number | undefined;
+    onChange: (value: number | undefined) => void;
+    onTyping: (path: string, message: string | null) => void;
+    placeholder?: string;
+    unit?: string;
+  },
+) {
+  const { label, path, messages, hint, value, onChange, onTyping, placeholder, unit, compact } = props;
+  const [text, setText] = useState(value === undefined ? '' : String(value));
+  const noteId = useNoteId();
+  const inputId = `${noteId}-in`;
+  const emitted = useRef(value);
+  useEffect(() => {
+    if (value === emitted.current) return;
+    emitted.current = value;
+    setText(value === undefined ? '' : String(value));
+    onTyping(path, null);
+  }, [value, path, onTyping]);
+  const change = (next: string) => {
+    setText(next);
+    const cleaned = next.trim().replace(',', '.');
+    if (cleaned === '') {
+      onTyping(path, null);
+      emitted.current = undefined;
+      onChange(undefined);
+      return;
+    }
+    if (!/^[-+]?(\d+(\.\d*)?|\.\d+)$/.test(cleaned)) {
+      onTyping(path, `'${next}' is not a number`);
+      return;
+    }
+    onTyping(path, null);
+    emitted.current = Number(cleaned);
+    onChange(Number(cleaned));
+  };
+  const invalid = messages.length > 0;
+  return (
+    <span className={`sfield number-field${compact ? ' compact' : ''}`}>
+      <label htmlFor={inputId} className={compact ? 'visually-hidden' : undefined}>
+        {label}
+      </label>
+      <span className="input-with-unit">
+        <input
+          id={inputId}
+          type="text"
+          inputMode="decimal"
+          value={text}
+          placeholder={placeholder}
+          aria-invalid={invalid || undefined}
+          aria-describedby={invalid || hint ? noteId : undefined}
+          data-path={path}
+          onChange={(e) => change(e.target.value)}
+        />
+        {unit ? (
+          <span className="unit" aria-hidden="true">
+            {unit}
+          </span>
+        ) : null}
+      </span>
+      <FieldNote id={noteId} messages={messages} hint={hint} />
+    </span>
+  );
+}
+
+/** Free text the schema checks (dates YYYY-MM-DD, names). */
+export function TextField(
+  props: FieldProps & {
+    value: string | undefined;
+    onChange: (value: string | undefined) => void;
+    placeholder?: string;
+  },
+) {
+  const { label, path, messages, hint, value, onChange, placeholder, compact } = props;
+  const noteId = useNoteId();
+  const inputId = `${noteId}-in`;
+  const invalid = messages.length > 0;
+  return (
+    <span className={`sfield text-field${compact ? ' compact' : ''}`}>
+      <label htmlFor={inputId} className={compact ? 'visually-hidden' : undefined}>
+        {label}
+      </label>
+      <input
+        id={inputId}
+        type="text"
+        value={value ?? ''}
+        placeholder={placeholder}
+        aria-invalid={invalid || undefined}
+        aria-describedby={invalid || hint ? noteId : undefined}
+        data-path={path}
+        onChange={(e) => onChange(e.target.value === '' ? undefined : e.target.value)}
+      />
+      <FieldNote id={noteId} messages={messages} hint={hint} />
+    </span>
+  );
+}
+
+export function SelectField<T extends string>(
+  props: FieldProps & {
+    value: T;
+    options: readonly { value: T; label: string }[];
+    onChange: (value: T) => void;
+  },
+) {
+  const { label, path, messages, hint, value, options, onChange, compact } = props;
+  const noteId = useNoteId();
+  const inputId = `${noteId}-in`;
+  return (
+    <span className={`sfield select-field${compact ? ' compact' : ''}`}>
+      <label htmlFor={inputId} className={compact ? 'visually-hidden' : undefined}>
+        {label}
+      </label>
+      <select
+        id={inputId}
+        value={value}
+        data-path={path}
+        aria-describedby={messages.length > 0 || hint ? noteId : undefined}
+        onChange={(e) => onChange(e.target.value as T)}
+      >
+        {options.map((o) => (
+          <option key={o.value} value={o.value}>
+            {o.label}
+          </option>
+        ))}
+      </select>
+      <FieldNote id={noteId} messages={messages} hint={hint} />
+    </span>
+  );
+}

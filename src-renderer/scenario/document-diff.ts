@@ -1,0 +1,38 @@
+import { jsonPath } from '../../shared-core/scenario/json-path.js';
+
+/**
+ * What differs between two scenario documents, as JSON paths with the values before and after:
+ * what the advisor reads when a revision is opened beside the current draft.
+ */
+export interface DocumentChange {
+  path: string;
+  before: unknown;
+  after: unknown;
+}
+
+function isPlainObject(v: unknown): v is Record<string, unknown> {
+  return typeof v === 'object' && v !== null && !Array.isArray(v);
+}
+
+export function diffDocuments(before: unknown, after: unknown, path: (string | number)[] = []): DocumentChange[] {
+  if (Object.is(before, after)) return [];
+  if (isPlainObject(before) && isPlainObject(after)) {
+    const keys = [...new Set([...Object.keys(before), ...Object.keys(after)])].sort();
+    return keys.flatMap((k) => diffDocuments(before[k], after[k], [...path, k]));
+  }
+  // Arrays of scalars (asset lists, a bound pair) read best whole; arrays of objects by element.
+  if (Array.isArray(before) && Array.isArray(after) && [...before, ...after].some(isPlainObject)) {
+    const n = Math.max(before.length, after.length);
+    return Array.from({ length: n }, (_, i) => diffDocuments(before[i], after[i], [...path, i])).flat();
+  }
+  if (JSON.stringify(before) === JSON.stringify(after)) return [];
+  return [{ path: jsonPath(path), before, after }];
+}
+
+/** A value as one short line: numbers as they are, lists joined, absent as "not set". */
+export function showValue(value: unknown): string {
+  if (value === undefined) return 'not set';
+  if (Array.isArray(value) && value.every((v) => typeof v !== 'object')) return `[${value.join(', ')}]`;
+  const text = JSON.stringify(value);
+  return text.length > 80 ? `${text.slice(0, 77)}…` : text;
+}

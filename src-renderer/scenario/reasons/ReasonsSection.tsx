@@ -1,0 +1,139 @@
+import type { ReactNode } from 'react';
+import type { CandidateResult } from '../../../shared-core/optimise/result.js';
+import { candidateColour } from '../../charts/palette.js';
+import { formatPercent } from '../format.js';
+
+/**
+ * The third part: the reasons behind each candidate, as the solver's optimality conditions give
+ * them. Why each asset is in or out (its correlation with the portfolio against the 1/DR
+ * threshold, or the limit it sits at), and what each binding limit costs in the objective's units.
+ * Further evidence (walk-forward, stress) joins this part as its own subsection.
+ */
+export function ReasonsSection(props: {
+  candidates: readonly CandidateResult[];
+  focused?: string;
+  onFocus: (id: string) => void;
+  colourIndex: (id: string) => number;
+  locale?: string;
+  children?: ReactNode;
+}) {
+  const focus = props.candidates.find((c) => c.id === props.focused) ?? props.candidates[0];
+  return (
+    <section className="section reasons" aria-labelledby="reasons-title">
+      <div className="section-head">
+        <h2 id="reasons-title">3. The reasons</h2>
+        <span className="faint">From the solver’s optimality conditions; figures are estimates from past data.</span>
+      </div>
+      <div className="actions candidate-switch" role="group" aria-label="Candidate whose reasons are shown">
+        {props.candidates.map((c) => (
+          <button
+            key={c.id}
+            type="button"
+            aria-pressed={focus?.id === c.id}
+            onClick={() => props.onFocus(c.id)}
+            className={focus?.id === c.id ? 'primary' : undefined}
+          >
+            <span
+              className="swatch"
+              style={{ background: candidateColour(props.colourIndex(c.id)) }}
+              aria-hidden="true"
+            />
+            {c.id}
+          </button>
+        ))}
+      </div>
+      {focus ? <Reasons candidate={focus} locale={props.locale} /> : null}
+      {props.children}
+    </section>
+  );
+}
+
+function Reasons({ candidate, locale }: { candidate: CandidateResult; locale?: string }) {
+  if (candidate.status !== 'optimal')
+    return (
+      <div className="note warning" data-testid="reasons-infeasible">
+        <span className="marker" aria-hidden="true">
+          ◆
+        </span>{' '}
+        <strong>
+          {candidate.id} was not solved ({candidate.status}).
+        </strong>{' '}
+        {candidate.message ?? ''}
+      </div>
+    );
+  const ex = candidate.explanations;
+  if (!ex) return <p className="faint">The solver gave no explanations for {candidate.id}.</p>;
+  const held = ex.assets.filter((a) => a.weight > 5e-4);
+  const out = ex.assets.filter((a) => a.weight <= 5e-4);
+  return (
+    <div className="reasons-body" data-testid="reasons">
+      {ex.flags.length > 0 ? (
+        <ul className="note warning flags">
+          {ex.flags.map((f, i) => (
+            <li key={i}>{f}</li>
+          ))}
+        </ul>
+      ) : null}
+      <div className="reason-columns">
+        <div>
+          <h3>What each limit costs</h3>
+          {ex.binding.length === 0 ? (
+            <p className="faint">No limit binds: loosening any of them would not change {candidate.id}.</p>
+          ) : (
+            <table className="grid">
+              <caption>Binding limits of {candidate.id} and their shadow prices</caption>
+              <thead>
+                <tr>
+                  <th scope="col">Limit</th>
+                  <th scope="col" className="num">
+                    Shadow price
+                  </th>
+                  <th scope="col">In words</th>
+                </tr>
+              </thead>
+              <tbody>
+                {ex.binding.map((b, i) => (
+                  <tr key={i}>
+                    <th scope="row">{b.constraint}</th>
+                    <td className="num">
+                      {b.shadowPrice.toPrecision(3)} <span className="faint">{b.objectiveUnit}</span>
+                    </td>
+                    <td>{b.text}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          )}
+        </div>
+        <div>
+          <h3>
+            Why each asset is in ({held.length}) or out ({out.length})
+          </h3>
+          <table className="grid">
+            <caption>Each asset of {candidate.id}, held assets first</caption>
+            <thead>
+              <tr>
+                <th scope="col">Asset</th>
+                <th scope="col" className="num">
+                  Weight
+                </th>
+                <th scope="col">Reason</th>
+              </tr>
+            </thead>
+            <tbody>
+              {[...held, ...out].map((a) => (
+                <tr key={a.asset} data-asset={a.asset}>
+                  <th scope="row" className="code">
+                    {a.asset}
+                  </th>
+                  <td className="num">{formatPercent(a.weight, locale)}</td>
+                  <td>{a.text}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </div>
+    </div>
+  );
+}
