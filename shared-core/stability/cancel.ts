@@ -18,3 +18,28 @@ export class CancelledError extends Error {
 export function throwIfCancelled(shouldCancel: CancelCheck | undefined): void {
   if (shouldCancel?.()) throw new CancelledError();
 }
+
+/** Runs a step generator to its end synchronously. */
+export function drain<R>(steps: Generator<void, R, void>): R {
+  for (;;) {
+    const next = steps.next();
+    if (next.done) return next.value;
+  }
+}
+
+/**
+ * Runs a step generator, awaiting `pause` every `stepsPerPause` steps so the caller's event
+ * loop can deliver a cancel (the core has no timers of its own: the edge passes, for example,
+ * a setImmediate promise).
+ */
+export async function drainAsync<R>(
+  steps: Generator<void, R, void>,
+  pause: () => Promise<void>,
+  stepsPerPause = 1,
+): Promise<R> {
+  for (let k = 1; ; k++) {
+    const next = steps.next();
+    if (next.done) return next.value;
+    if (k % stepsPerPause === 0) await pause();
+  }
+}

@@ -1,6 +1,6 @@
 import { zeros, type Matrix } from '../linalg/matrix.js';
 import { defaultBlockLength, movingBlockIndices, stationaryBootstrapIndices } from './block-bootstrap.js';
-import { throwIfCancelled, type CancelCheck, type ProgressCallback } from './cancel.js';
+import { drain, throwIfCancelled, type CancelCheck, type ProgressCallback } from './cancel.js';
 import { mean, quantile } from './quantile.js';
 import { seededRng } from './rng.js';
 
@@ -77,6 +77,11 @@ export function resampleRows(m: Matrix, index: Int32Array): Matrix {
 }
 
 export function weightStability(options: WeightStabilityOptions): WeightStability {
+  return drain(weightStabilitySteps(options));
+}
+
+/** The same computation as a generator that yields after every draw (see `drainAsync`). */
+export function* weightStabilitySteps(options: WeightStabilityOptions): Generator<void, WeightStability, void> {
   const { returns, assets, resolve, onProgress, shouldCancel } = options;
   const T = returns.rows;
   const n = assets.length;
@@ -105,6 +110,7 @@ export function weightStability(options: WeightStabilityOptions): WeightStabilit
       previous = draw;
     } else failed++;
     onProgress?.(d + 1, draws);
+    yield;
   }
   if (kept.length === 0) throw new RangeError(`no bootstrap draw could be solved (${failed} failed)`);
   const weights: Record<string, Band> = {};

@@ -1,5 +1,5 @@
 import type { PriceTable } from '../prices/price-table.js';
-import { throwIfCancelled } from '../stability/cancel.js';
+import { drain, throwIfCancelled } from '../stability/cancel.js';
 import { tradeCost, turnover } from './costs.js';
 import { outsideBand, scheduledRows } from './schedule.js';
 import type { Allocation, HoldingPeriodStats, RebalanceRecord, WalkForwardInput, WalkForwardResult } from './types.js';
@@ -16,6 +16,15 @@ const CANCEL_CHECK_ROWS = 256;
  * (NaN) values the asset at its last price (a valuation carry, not an estimation input).
  */
 export function runWalkForward(input: WalkForwardInput): WalkForwardResult {
+  return drain(walkForwardSteps(input));
+}
+
+/**
+ * The same walk-forward as a generator that yields after every rebalance, so an async caller
+ * (the command line, a worker) can let its event loop run between steps and see a Ctrl-C or a
+ * cancel message; see `drainAsync`.
+ */
+export function* walkForwardSteps(input: WalkForwardInput): Generator<void, WalkForwardResult, void> {
   const { prices, assets, settings, allocate, onProgress, shouldCancel } = input;
   const n = assets.length;
   const T = prices.dates.length;
@@ -90,6 +99,7 @@ export function runWalkForward(input: WalkForwardInput): WalkForwardResult {
   };
 
   rebalance(start);
+  yield;
   const gross = new Float64Array(n);
   for (let t = start + 1; t <= last; t++) {
     if ((t - start) % CANCEL_CHECK_ROWS === 0) throwIfCancelled(shouldCancel);
@@ -117,7 +127,10 @@ export function runWalkForward(input: WalkForwardInput): WalkForwardResult {
     growth[t - start - 1] = value;
     if (t < last) {
       const drifted = settings.rebalance === 'drift' && held && target && outsideBand(held, target, settings.driftBand);
-      if (scheduled.has(t) || drifted) rebalance(t);
+      if (scheduled.has(t) || drifted) {
+        rebalance(t);
+        yield;
+      }
     }
   }
   rebalances[rebalances.length - 1].holding = period.close(settings.periodsPerYear);
