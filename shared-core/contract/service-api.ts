@@ -38,8 +38,9 @@ export const householdSchema = z.object({
   /** The firm's own client reference (free text). */
   reference: z.string(),
   notes: z.string(),
-  createdAt: instant,
-  updatedAt: instant,
+  /** From the audit log; null for a household written before the log recorded it. */
+  createdAt: instant.nullable(),
+  updatedAt: instant.nullable(),
 });
 export type Household = z.infer<typeof householdSchema>;
 
@@ -55,7 +56,7 @@ export type HouseholdFields = z.input<typeof householdFieldsSchema>;
 export const householdSummarySchema = householdSchema.extend({
   scenarioCount: z.number().int(),
   holdingsAsOf: isoDate.nullable(),
-  /** Sum of holdings in the base currency, where every holding is in it; otherwise null. */
+  /** Sum of holdings in the base currency (stored exchange rates); null when a rate is missing. */
   holdingsTotal: z.number().nullable(),
 });
 export type HouseholdSummary = z.infer<typeof householdSummarySchema>;
@@ -68,11 +69,24 @@ export const positionSchema = z.strictObject({
 });
 export type Position = z.infer<typeof positionSchema>;
 
+export const valuedPositionSchema = positionSchema.extend({
+  /** The amount in the household's base currency at the stored exchange rate of `asOf`; null without a rate. */
+  valueInBase: z.number().nullable(),
+  /** Share of the total in the base currency; null when any position lacks a rate. */
+  weight: z.number().nullable(),
+});
+export type ValuedPosition = z.infer<typeof valuedPositionSchema>;
+
 export const holdingsSchema = z.object({
   householdId: id,
+  baseCurrency: currencyCode,
   /** Date the amounts were valued; null while the household has no holdings on file. */
   asOf: isoDate.nullable(),
-  positions: z.array(positionSchema),
+  positions: z.array(valuedPositionSchema),
+  /** Sum in the base currency; null when a position has no exchange rate on file. */
+  total: z.number().nullable(),
+  /** The exchange rates used, in words ("USD to EUR 0.9132 on 2025-12-31, series FX-EURUSD"). */
+  rates: z.array(z.string()),
 });
 export type Holdings = z.infer<typeof holdingsSchema>;
 
@@ -142,7 +156,12 @@ export const assetCoverageSchema = z.object({
   observations: z.number().int(),
   firstDate: isoDate.nullable(),
   lastDate: isoDate.nullable(),
-  /** Runs of missing weekdays longer than the request's `minGapWeekdays`. */
+  /** Median weekdays from one price to the next: 1 for a daily series, about 21 for a monthly one. */
+  typicalSpacingWeekdays: z.number().nullable(),
+  /**
+   * Runs of missing weekdays longer than the request's `minGapWeekdays` and than one and a half
+   * times the usual spacing (so a monthly series is not a gap every month).
+   */
   gaps: z.array(priceGapSchema),
 });
 export type AssetCoverage = z.infer<typeof assetCoverageSchema>;
@@ -234,7 +253,8 @@ export const importStates = [
 export type ImportState = (typeof importStates)[number];
 
 export const cellProblemSchema = z.object({
-  line: z.number().int(),
+  /** 1-based line of the file; null for a problem of the file as a whole. */
+  line: z.number().int().nullable(),
   column: z.number().int().nullable(),
   message: z.string(),
 });
@@ -246,31 +266,36 @@ export const assetImportReportSchema = z.object({
   firstDate: isoDate.nullable(),
   lastDate: isoDate.nullable(),
   missingDays: z.number().int(),
+  /** Cells left empty (a wide file's asset without a price that day). */
+  emptyCells: z.number().int(),
   nonPositive: z.array(cellProblemSchema),
+  /** The first unreadable cells, with line and column; `unparseableCount` counts them all. */
   unparseable: z.array(cellProblemSchema),
+  unparseableCount: z.number().int(),
   repeatedDates: z.array(isoDate),
   /** One-day moves above the threshold: flagged, not rejected. */
   suspiciousMoves: z.array(z.object({ date: isoDate, move: z.number() })),
-  /** Against what the store already holds. */
+  /** Against what the store already holds (zero until the file is checked against it). */
   newDates: z.number().int(),
   changedValues: z.number().int(),
-  changedDates: z.array(isoDate),
+  /** The first changed closes: date, stored value, value in the file. */
+  changes: z.array(z.object({ date: isoDate, stored: z.number(), incoming: z.number() })),
   isNewAsset: z.boolean(),
 });
 export type AssetImportReport = z.infer<typeof assetImportReportSchema>;
 
 export const importReportSchema = z.object({
   fileName: z.string(),
-  layout: z.enum(['wide', 'long']).nullable(),
-  delimiter: z.string().nullable(),
-  decimal: z.enum(['point', 'comma']).nullable(),
+  layout: z.enum(['wide', 'long']),
+  delimiter: z.enum(['comma', 'semicolon', 'tab']),
+  decimal: z.enum(['point', 'comma']),
+  /** Null while the dates read both day-first and month-first (`dateOrderAmbiguous`). */
   dateOrder: z.enum(dateOrders).nullable(),
   dateOrderAmbiguous: z.boolean(),
   rows: z.number().int(),
-  /** Problems that stop the import (with line and column). */
+  /** Problems of the file as a whole that stop the import (with line and column where known). */
   errors: z.array(cellProblemSchema),
-  /** Problems that are shown but do not stop it. */
-  warnings: z.array(cellProblemSchema),
+  /** Relative one-day move above which a close is flagged for a second look. */
   suspiciousMoveThreshold: z.number(),
   assets: z.array(assetImportReportSchema),
 });
@@ -472,6 +497,8 @@ export const serviceApi = {
     z.strictObject({
       source: importSourceSchema,
       universe: z.string().trim().min(1, 'expected the name of the universe to add the assets to'),
+      /** Price currency given to assets the store does not know yet. */
+      currency: currencyCode.optional(),
       suspiciousMoveThreshold: z.number().positive().optional(),
     }),
     importJobSchema,
