@@ -122,6 +122,14 @@ export function withoutChangedPoints(
   };
 }
 
+function isFile(path: string): boolean {
+  try {
+    return statSync(path).isFile();
+  } catch {
+    return false;
+  }
+}
+
 function onlyAmbiguousDates(report: ValidationReport): boolean {
   return report.dateOrder === 'ambiguous' && report.problems.length === 1 && report.assets.every((a) => a.ok);
 }
@@ -253,13 +261,7 @@ export function importMethods(store: Store): ImportJobs {
       let fileName: string;
       let temporaryDir: string | undefined;
       if (source.kind === 'path') {
-        let isFile = false;
-        try {
-          isFile = statSync(source.path).isFile();
-        } catch {
-          isFile = false;
-        }
-        if (!isFile) throw new ServiceFailure('bad-request', `no file at '${source.path}'`, 'source.path');
+        if (!isFile(source.path)) throw new ServiceFailure('bad-request', `no file at '${source.path}'`, 'source.path');
         path = source.path;
         fileName = source.path;
       } else {
