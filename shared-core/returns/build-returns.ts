@@ -33,7 +33,7 @@ export interface BuildReturnsOptions {
 
 export interface AssetCoverage {
   asset: string;
-  /** First and last priced date of the asset inside the requested window. */
+  /** First and last priced date of the asset inside the requested window (inclusive). */
   firstDate: string;
   lastDate: string;
   /** Returns used (the same for every asset: the aligned matrix has no holes). */
@@ -102,7 +102,7 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
   const days = new Int32Array(dates.length);
   for (let r = lo; r < hi; r++) days[r] = dayNumber(dates[r]);
 
-  // Priced rows of each asset inside the window.
+  // Priced rows of each asset inside the window:
   const priced = cols.map((c, a) => {
     const rows: number[] = [];
     for (let r = lo; r < hi; r++) if (Number.isFinite(table.closes[c][r])) rows.push(r);

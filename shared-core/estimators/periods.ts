@@ -1,0 +1,5 @@
+import { PERIODS_PER_YEAR, type EstimateContext } from './types.js';
+
+export function periodsPerYear(context: EstimateContext): number {
+  return context.periodsPerYear ?? PERIODS_PER_YEAR[context.frequency];
+}

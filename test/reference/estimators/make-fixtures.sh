@@ -1,0 +1,7 @@
+#!/bin/sh
+# Regenerates test/reference/fixtures/estimators/*.json from Debian's R and Python (not the
+# pyenv python3): the open data set first, then the estimator references computed from it.
+set -e
+cd "$(dirname "$0")/../../.."
+/usr/bin/Rscript test/reference/estimators/eustockmarkets.R
+/usr/bin/python3 test/reference/estimators/make_fixtures.py

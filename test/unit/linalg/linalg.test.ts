@@ -1,0 +1,164 @@
+import { describe, expect, it } from 'vitest';
+import { cholesky, inverseQuadraticForm } from '../../../shared-core/linalg/cholesky.js';
+import { conditionNumber, lanczosRitzValues } from '../../../shared-core/linalg/condition.js';
+import {
+  crossProduct,
+  crossProductNaive,
+  crossProductRows,
+  mirrorLower,
+} from '../../../shared-core/linalg/cross-product.js';
+import { fromRows, zeros, type Matrix } from '../../../shared-core/linalg/matrix.js';
+import {
+  symmetricEigen,
+  symmetricEigenvalues,
+  tridiagonalEigenvalues,
+} from '../../../shared-core/linalg/symmetric-eigen.js';
+import { loadFixture, matrix, relativeError } from '../estimators/fixtures.js';
+
+/** A seeded linear congruential stream in (-0.5, 0.5) (Park and Miller 1988 multiplier). */
+function stream(seed: number): () => number {
+  let s = seed;
+  return () => {
+    s = (s * 16807) % 2147483647;
+    return s / 2147483647 - 0.5;
+  };
+}
+
+function randomMatrix(rows: number, cols: number, seed: number): Matrix {
+  const next = stream(seed);
+  const m = zeros(rows, cols);
+  for (let k = 0; k < m.data.length; k++) m.data[k] = next();
+  return m;
+}
+
+describe("cross product X'X (the O(N^2 T) step of every estimator)", () => {
+  it.each([
+    [1, 1],
+    [7, 5],
+    [13, 11],
+    [50, 37],
+  ])(
+    'the register-blocked kernel equals the textbook loop for T=%i, N=%i (sizes not multiples of the 3 x 4 block)',
+    (t, n) => {
+      const x = randomMatrix(t, n, t * 31 + n);
+      expect(relativeError(crossProduct(x).data, crossProductNaive(x).data)).toBeLessThan(1e-14);
+    },
+  );
+
+  it('row ranges computed separately assemble the same matrix (the split an edge may hand to workers)', () => {
+    const x = randomMatrix(20, 23, 5);
+    const out = new Float64Array(23 * 23);
+    for (const [a, b] of [
+      [0, 4],
+      [4, 15],
+      [15, 23],
+    ])
+      crossProductRows(x, out, a, b);
+    mirrorLower(out, 23);
+    expect(relativeError(out, crossProduct(x).data)).toBeLessThan(1e-15);
+  });
+});
+
+describe('symmetric eigen-decomposition (tred2/tql2)', () => {
+  it('eigenvalues of the sample covariance of EuStockMarkets and of the N > T data set match numpy.linalg.eigvalsh', () => {
+    for (const name of ['eustock', 'wide', 'mid']) {
+      const f = loadFixture(name);
+      const values = symmetricEigenvalues(matrix(f.sample.covariance));
+      expect(relativeError(values, f.sample.eigenvalues)).toBeLessThan(1e-12);
+      expect(relativeError(symmetricEigen(matrix(f.sample.covariance)).values, f.sample.eigenvalues)).toBeLessThan(
+        1e-12,
+      );
+    }
+  });
+
+  it('A V = V Lambda with orthonormal V, eigenvalues ascending', () => {
+    const x = randomMatrix(40, 25, 9);
+    const a = crossProduct(x);
+    const { values, vectors } = symmetricEigen(a);
+    const n = 25;
+    for (let k = 1; k < n; k++) expect(values[k]).toBeGreaterThanOrEqual(values[k - 1]);
+    let residual = 0;
+    let orthogonality = 0;
+    for (let k = 0; k < n; k++)
+      for (let i = 0; i < n; i++) {
+        let av = 0;
+        for (let j = 0; j < n; j++) av += a.data[i * n + j] * vectors.data[j * n + k];
+        residual = Math.max(residual, Math.abs(av - values[k] * vectors.data[i * n + k]));
+        for (let l = 0; l < n; l++) {
+          if (i > 0) break;
+          let dot = 0;
+          for (let j = 0; j < n; j++) dot += vectors.data[j * n + k] * vectors.data[j * n + l];
+          orthogonality = Math.max(orthogonality, Math.abs(dot - (k === l ? 1 : 0)));
+        }
+      }
+    expect(residual).toBeLessThan(1e-12 * values[n - 1]);
+    expect(orthogonality).toBeLessThan(1e-13);
+  });
+
+  it('a tridiagonal matrix with 2 on the diagonal and -1 beside it has eigenvalues 2 - 2 cos(k pi / (n + 1)) (a textbook closed form)', () => {
+    const n = 12;
+    const values = tridiagonalEigenvalues(new Array(n).fill(2), new Array(n - 1).fill(-1));
+    const exact = Array.from({ length: n }, (_, k) => 2 - 2 * Math.cos(((k + 1) * Math.PI) / (n + 1)));
+    expect(relativeError(values, exact)).toBeLessThan(1e-14);
+  });
+});
+
+describe('condition number and Lanczos', () => {
+  it('Ritz values lie inside the spectrum and the extreme ones converge to the extreme eigenvalues', () => {
+    const a = crossProduct(randomMatrix(300, 120, 3));
+    const exact = symmetricEigenvalues(a);
+    const ritz = lanczosRitzValues(a, 60);
+    expect(ritz[0]).toBeGreaterThanOrEqual(exact[0] * (1 - 1e-12));
+    expect(ritz[ritz.length - 1]).toBeLessThanOrEqual(exact[exact.length - 1] * (1 + 1e-12));
+    expect(Math.abs(ritz[ritz.length - 1] / exact[exact.length - 1] - 1)).toBeLessThan(1e-8);
+    const full = lanczosRitzValues(a, 120);
+    expect(relativeError(full, exact)).toBeLessThan(1e-9);
+  });
+
+  it('a singular matrix has an infinite condition number; diag(1, 4) has 4', () => {
+    expect(
+      conditionNumber(
+        fromRows([
+          [1, 1],
+          [1, 1],
+        ]),
+      ).value,
+    ).toBe(Infinity);
+    expect(
+      conditionNumber(
+        fromRows([
+          [1, 0],
+          [0, 4],
+        ]),
+      ).value,
+    ).toBeCloseTo(4, 14);
+  });
+});
+
+describe('Cholesky', () => {
+  it("L L' = A and z'A^-1 z by forward substitution; not positive definite gives undefined", () => {
+    const a = fromRows([
+      [4, 2, 0.4],
+      [2, 5, 1],
+      [0.4, 1, 3],
+    ]);
+    const l = cholesky(a)!;
+    for (let i = 0; i < 3; i++)
+      for (let j = 0; j < 3; j++) {
+        let s = 0;
+        for (let k = 0; k < 3; k++) s += l.data[i * 3 + k] * l.data[j * 3 + k];
+        expect(s).toBeCloseTo(a.data[i * 3 + j], 14);
+      }
+    // A^-1 z for z = A (1, 1, 1)' is (1, 1, 1)', so z'A^-1 z = sum of A's entries.
+    const z = [6.4, 8, 4.4];
+    expect(inverseQuadraticForm(l, z, new Float64Array(3))).toBeCloseTo(18.8, 12);
+    expect(
+      cholesky(
+        fromRows([
+          [1, 2],
+          [2, 1],
+        ]),
+      ),
+    ).toBeUndefined();
+  });
+});
