@@ -1,8 +1,9 @@
 import type { Command } from '../command.js';
 import { demoCommand } from './demo.js';
+import { serveCommand } from './serve.js';
 
 /**
  * Every `holdfast` command, in the order `--help` lists them. A new command is one module in
  * this folder plus one line here.
  */
-export const commands: readonly Command[] = [demoCommand];
+export const commands: readonly Command[] = [demoCommand, serveCommand];
