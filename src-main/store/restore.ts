@@ -64,7 +64,12 @@ export async function restoreStore(fromPath: string, storePath: string, now = ne
 }
 
 function checkIntegrity(db: Database.Database, path: string): void {
-  const result = (db.pragma('integrity_check') as { integrity_check: string }[]).map((r) => r.integrity_check);
+  let result: string[];
+  try {
+    result = (db.pragma('integrity_check') as { integrity_check: string }[]).map((r) => r.integrity_check);
+  } catch (error) {
+    throw new StoreOpenError(`fails the integrity check: ${(error as Error).message}`, path);
+  }
   if (result.length !== 1 || result[0] !== 'ok')
     throw new StoreOpenError(`fails the integrity check: ${result.slice(0, 5).join('; ')}`, path);
   const fk = db.pragma('foreign_key_check') as unknown[];

@@ -96,6 +96,15 @@ export class SqliteStore implements Store {
     this.schemaVersion = db.pragma('user_version', { simple: true }) as number;
   }
 
+  private readonly statements = new Map<string, Database.Statement>();
+
+  /** A prepared statement, compiled once per connection. */
+  private sql(text: string): Database.Statement {
+    let s = this.statements.get(text);
+    if (!s) this.statements.set(text, (s = this.db.prepare(text)));
+    return s;
+  }
+
   close(): void {
     if (this.db.open) this.db.close();
   }
@@ -115,9 +124,9 @@ export class SqliteStore implements Store {
     revisionHash?: string,
     detail?: string,
   ) {
-    this.db
-      .prepare('INSERT INTO audit_log (at, action, entity, entity_id, revision_hash, detail) VALUES (?, ?, ?, ?, ?, ?)')
-      .run(this.stamp(), action, entity, entityId, revisionHash ?? null, detail ?? null);
+    this.sql(
+      'INSERT INTO audit_log (at, action, entity, entity_id, revision_hash, detail) VALUES (?, ?, ?, ?, ?, ?)',
+    ).run(this.stamp(), action, entity, entityId, revisionHash ?? null, detail ?? null);
   }
 
   // ---- assets ----
@@ -138,25 +147,23 @@ export class SqliteStore implements Store {
     } as AssetRecord;
     if (a.liquidity.lockUpDays !== undefined && !(a.liquidity.lockUpDays >= 0))
       throw new InputError(`asset '${input.id}': lock-up must be zero or more days`);
-    this.db
-      .prepare(
-        `INSERT INTO assets (id, display_name, asset_class, region, currency, liquidity, lock_up_days, notes, fx_base, fx_quote)
+    this.sql(
+      `INSERT INTO assets (id, display_name, asset_class, region, currency, liquidity, lock_up_days, notes, fx_base, fx_quote)
          VALUES (@id, @name, @cls, @region, @currency, @liq, @lock, @notes, @fxBase, @fxQuote)
          ON CONFLICT (id) DO UPDATE SET display_name = @name, asset_class = @cls, region = @region, currency = @currency,
            liquidity = @liq, lock_up_days = @lock, notes = @notes, fx_base = @fxBase, fx_quote = @fxQuote`,
-      )
-      .run({
-        id: a.id,
-        name: a.displayName,
-        cls: a.assetClass ?? null,
-        region: a.region ?? null,
-        currency: a.currency ?? null,
-        liq: a.liquidity.tag,
-        lock: a.liquidity.lockUpDays ?? null,
-        notes: a.notes ?? null,
-        fxBase: a.fx?.base ?? null,
-        fxQuote: a.fx?.quote ?? null,
-      });
+    ).run({
+      id: a.id,
+      name: a.displayName,
+      cls: a.assetClass ?? null,
+      region: a.region ?? null,
+      currency: a.currency ?? null,
+      liq: a.liquidity.tag,
+      lock: a.liquidity.lockUpDays ?? null,
+      notes: a.notes ?? null,
+      fxBase: a.fx?.base ?? null,
+      fxQuote: a.fx?.quote ?? null,
+    });
   }
 
   private static asset(r: AssetRow): AssetRecord {
@@ -171,18 +178,19 @@ export class SqliteStore implements Store {
   }
 
   getAsset(id: string): AssetRecord | undefined {
-    const row = this.db.prepare('SELECT * FROM assets WHERE id = ?').get(id) as AssetRow | undefined;
+    const row = this.sql('SELECT * FROM assets WHERE id = ?').get(id) as AssetRow | undefined;
     return row && SqliteStore.asset(row);
   }
 
   listAssets(): AssetRecord[] {
-    return (this.db.prepare('SELECT * FROM assets ORDER BY id').all() as AssetRow[]).map(SqliteStore.asset);
+    return (this.sql('SELECT * FROM assets ORDER BY id').all() as AssetRow[]).map(SqliteStore.asset);
   }
 
   fxAsset(base: string, quote: string): AssetRecord | undefined {
-    const row = this.db
-      .prepare('SELECT * FROM assets WHERE fx_base = ? AND fx_quote = ? ORDER BY id LIMIT 1')
-      .get(base, quote) as AssetRow | undefined;
+    const row = this.sql('SELECT * FROM assets WHERE fx_base = ? AND fx_quote = ? ORDER BY id LIMIT 1').get(
+      base,
+      quote,
+    ) as AssetRow | undefined;
     return row && SqliteStore.asset(row);
   }
 
@@ -193,14 +201,12 @@ export class SqliteStore implements Store {
       this.upsertAssets(commit.assets);
       const at = this.stamp();
       const batchId = Number(
-        this.db
-          .prepare(
-            'INSERT INTO import_batches (source, imported_at, added, replaced, assets, note) VALUES (?, ?, 0, 0, 0, ?)',
-          )
-          .run(commit.source, at, commit.note ?? null).lastInsertRowid,
+        this.sql(
+          'INSERT INTO import_batches (source, imported_at, added, replaced, assets, note) VALUES (?, ?, 0, 0, 0, ?)',
+        ).run(commit.source, at, commit.note ?? null).lastInsertRowid,
       );
-      const read = this.db.prepare('SELECT asset_id, days, closes, batches FROM price_series WHERE asset_id = ?');
-      const write = this.db.prepare(
+      const read = this.sql('SELECT asset_id, days, closes, batches FROM price_series WHERE asset_id = ?');
+      const write = this.sql(
         `INSERT INTO price_series (asset_id, points, first_day, last_day, days, closes, batches) VALUES (?, ?, ?, ?, ?, ?, ?)
          ON CONFLICT (asset_id) DO UPDATE SET points = excluded.points, first_day = excluded.first_day,
            last_day = excluded.last_day, days = excluded.days, closes = excluded.closes, batches = excluded.batches`,
@@ -209,12 +215,13 @@ export class SqliteStore implements Store {
       let replaced = 0;
       commit.prices.forEach((p, index) => {
         if (commit.signal?.aborted) throw new CancelledError();
-        const days = toDays(p.assetId, p.dates);
+        const days = 'days' in p ? checkDays(p.assetId, p.days) : toDays(p.assetId, p.dates);
         if (p.closes.length !== days.length)
           throw new InputError(`asset '${p.assetId}': ${days.length} dates but ${p.closes.length} closes`);
+        const dateAt = (i: number) => isoFromDay(days[i]);
         for (let i = 0; i < p.closes.length; i++)
           if (!(p.closes[i] > 0) || !Number.isFinite(p.closes[i]))
-            throw new InputError(`asset '${p.assetId}' on ${p.dates[i]}: a close must be a positive number`);
+            throw new InputError(`asset '${p.assetId}' on ${dateAt(i)}: a close must be a positive number`);
         if (!this.getAsset(p.assetId)) throw new InputError(`prices for unknown asset '${p.assetId}'`);
         const row = read.get(p.assetId) as SeriesRow | undefined;
         const merged = mergeSeries(row && decode(row), days, p.closes, batchId);
@@ -232,19 +239,26 @@ export class SqliteStore implements Store {
         );
         commit.onProgress?.(index + 1, commit.prices.length);
       });
-      this.db
-        .prepare('UPDATE import_batches SET added = ?, replaced = ?, assets = ? WHERE id = ?')
-        .run(added, replaced, commit.prices.length, batchId);
-      this.db
-        .prepare(
+      this.sql('UPDATE import_batches SET added = ?, replaced = ?, assets = ? WHERE id = ?').run(
+        added,
+        replaced,
+        commit.prices.length,
+        batchId,
+      );
+      // Cached results stay valid when a batch changed no price (an import of nothing new).
+      if (added + replaced > 0)
+        this.sql(
           `INSERT INTO meta (key, value) VALUES ('data_version', '1')
            ON CONFLICT (key) DO UPDATE SET value = CAST(CAST(value AS INTEGER) + 1 AS TEXT)`,
-        )
-        .run();
+        ).run();
       if (commit.universe) {
         const old = this.getUniverse(commit.universe.name);
         const members = new Map((old?.members ?? []).map((m) => [m.assetId, m]));
-        for (const a of [...commit.assets.map((x) => x.id), ...commit.prices.map((x) => x.assetId)]) {
+        for (const a of [
+          ...commit.assets.map((x) => x.id),
+          ...commit.prices.map((x) => x.assetId),
+          ...(commit.universe.assets ?? []),
+        ]) {
           const tags = commit.universe.tags?.[a];
           if (!members.has(a) || tags) members.set(a, { assetId: a, tags: [...(tags ?? members.get(a)?.tags ?? [])] });
         }
@@ -271,16 +285,20 @@ export class SqliteStore implements Store {
   priceSeriesMany(assetIds: readonly string[]): Map<string, PriceSeries> {
     const out = new Map<string, PriceSeries>();
     for (const [id, s] of this.readSeries(assetIds))
-      out.set(id, { assetId: id, dates: Array.from(s.days, isoFromDay), closes: s.closes, batches: s.batches });
+      out.set(id, {
+        assetId: id,
+        dates: Array.from(s.days, isoFromDay),
+        days: s.days,
+        closes: s.closes,
+        batches: s.batches,
+      });
     return out;
   }
 
   private readSeries(assetIds: readonly string[]): Map<string, SeriesArrays> {
-    const rows = this.db
-      .prepare(
-        'SELECT asset_id, days, closes, batches FROM price_series WHERE asset_id IN (SELECT value FROM json_each(?))',
-      )
-      .all(JSON.stringify(assetIds)) as SeriesRow[];
+    const rows = this.sql(
+      'SELECT asset_id, days, closes, batches FROM price_series WHERE asset_id IN (SELECT value FROM json_each(?))',
+    ).all(JSON.stringify(assetIds)) as SeriesRow[];
     return new Map(rows.map((r) => [r.asset_id, decode(r)]));
   }
 
@@ -299,9 +317,9 @@ export class SqliteStore implements Store {
         throw new InputError(`${key}: expected a date YYYY-MM-DD, got '${value}'`);
     const known = new Map(
       (
-        this.db
-          .prepare('SELECT id, currency FROM assets WHERE id IN (SELECT value FROM json_each(?))')
-          .all(JSON.stringify(assets)) as { id: string; currency: string | null }[]
+        this.sql('SELECT id, currency FROM assets WHERE id IN (SELECT value FROM json_each(?))').all(
+          JSON.stringify(assets),
+        ) as { id: string; currency: string | null }[]
       ).map((r) => [r.id, r.currency]),
     );
     const missing = assets.filter((a) => !known.has(a));
@@ -318,7 +336,7 @@ export class SqliteStore implements Store {
 
   listBatches(): ImportBatch[] {
     return (
-      this.db.prepare('SELECT * FROM import_batches ORDER BY id').all() as {
+      this.sql('SELECT * FROM import_batches ORDER BY id').all() as {
         id: number;
         source: string;
         imported_at: string;
@@ -339,8 +357,7 @@ export class SqliteStore implements Store {
   }
 
   dataVersion(): number {
-    const row = this.db.prepare("SELECT value FROM meta WHERE key = 'data_version'").get() as
-      { value: string } | undefined;
+    const row = this.sql("SELECT value FROM meta WHERE key = 'data_version'").get() as { value: string } | undefined;
     return row ? Number(row.value) : 0;
   }
 
@@ -355,14 +372,12 @@ export class SqliteStore implements Store {
         seen.add(m.assetId);
         if (!this.getAsset(m.assetId)) throw new InputError(`universe '${name}': unknown asset '${m.assetId}'`);
       }
-      this.db
-        .prepare(
-          'INSERT INTO universes (name, description) VALUES (?, ?) ON CONFLICT (name) DO UPDATE SET description = excluded.description',
-        )
-        .run(name, description ?? null);
-      const id = (this.db.prepare('SELECT id FROM universes WHERE name = ?').get(name) as { id: number }).id;
-      this.db.prepare('DELETE FROM universe_members WHERE universe_id = ?').run(id);
-      const insert = this.db.prepare(
+      this.sql(
+        'INSERT INTO universes (name, description) VALUES (?, ?) ON CONFLICT (name) DO UPDATE SET description = excluded.description',
+      ).run(name, description ?? null);
+      const id = (this.sql('SELECT id FROM universes WHERE name = ?').get(name) as { id: number }).id;
+      this.sql('DELETE FROM universe_members WHERE universe_id = ?').run(id);
+      const insert = this.sql(
         'INSERT INTO universe_members (universe_id, asset_id, position, tags) VALUES (?, ?, ?, ?)',
       );
       members.forEach((m, i) => insert.run(id, m.assetId, i, JSON.stringify(m.tags)));
@@ -372,19 +387,20 @@ export class SqliteStore implements Store {
   }
 
   getUniverse(name: string): UniverseRecord | undefined {
-    const u = this.db.prepare('SELECT id, name, description FROM universes WHERE name = ?').get(name) as
+    const u = this.sql('SELECT id, name, description FROM universes WHERE name = ?').get(name) as
       { id: number; name: string; description: string | null } | undefined;
     if (!u) return undefined;
     const members = (
-      this.db
-        .prepare('SELECT asset_id, tags FROM universe_members WHERE universe_id = ? ORDER BY position')
-        .all(u.id) as { asset_id: string; tags: string }[]
+      this.sql('SELECT asset_id, tags FROM universe_members WHERE universe_id = ? ORDER BY position').all(u.id) as {
+        asset_id: string;
+        tags: string;
+      }[]
     ).map((m) => ({ assetId: m.asset_id, tags: JSON.parse(m.tags) as string[] }));
     return { id: u.id, name: u.name, ...(u.description !== null ? { description: u.description } : {}), members };
   }
 
   listUniverses(): UniverseRecord[] {
-    return (this.db.prepare('SELECT name FROM universes ORDER BY name').all() as { name: string }[]).map((r) =>
+    return (this.sql('SELECT name FROM universes ORDER BY name').all() as { name: string }[]).map((r) =>
       this.getUniverse(r.name)!,
     );
   }
@@ -393,7 +409,7 @@ export class SqliteStore implements Store {
     this.transaction(() => {
       const u = this.getUniverse(name);
       if (!u) throw new NotFoundError(`no universe named '${name}'`);
-      this.db.prepare('DELETE FROM universes WHERE id = ?').run(u.id);
+      this.sql('DELETE FROM universes WHERE id = ?').run(u.id);
       this.audit('delete', 'universe', u.id, undefined, name);
     });
   }
@@ -405,9 +421,12 @@ export class SqliteStore implements Store {
     return this.transaction(() => {
       if (this.getHousehold(input.name)) throw new InputError(`a household named '${input.name}' exists already`);
       const id = Number(
-        this.db
-          .prepare('INSERT INTO households (name, base_currency, reference, notes) VALUES (?, ?, ?, ?)')
-          .run(input.name, input.baseCurrency, input.reference ?? null, input.notes ?? null).lastInsertRowid,
+        this.sql('INSERT INTO households (name, base_currency, reference, notes) VALUES (?, ?, ?, ?)').run(
+          input.name,
+          input.baseCurrency,
+          input.reference ?? null,
+          input.notes ?? null,
+        ).lastInsertRowid,
       );
       this.audit('create', 'household', id, undefined, input.name);
       return this.getHousehold(id)!;
@@ -420,18 +439,22 @@ export class SqliteStore implements Store {
       if (!old) throw new NotFoundError(`no household with id ${id}`);
       const next = { ...old, ...Object.fromEntries(Object.entries(changes).filter(([, v]) => v !== undefined)) };
       checkHousehold(next);
-      this.db
-        .prepare('UPDATE households SET name = ?, base_currency = ?, reference = ?, notes = ? WHERE id = ?')
-        .run(next.name, next.baseCurrency, next.reference ?? null, next.notes ?? null, id);
+      this.sql('UPDATE households SET name = ?, base_currency = ?, reference = ?, notes = ? WHERE id = ?').run(
+        next.name,
+        next.baseCurrency,
+        next.reference ?? null,
+        next.notes ?? null,
+        id,
+      );
       this.audit('update', 'household', id, undefined, Object.keys(changes).join(', '));
       return this.getHousehold(id)!;
     });
   }
 
   getHousehold(idOrName: number | string): HouseholdRecord | undefined {
-    const r = this.db
-      .prepare(`SELECT * FROM households WHERE ${typeof idOrName === 'number' ? 'id' : 'name'} = ?`)
-      .get(idOrName) as
+    const r = this.sql(`SELECT * FROM households WHERE ${typeof idOrName === 'number' ? 'id' : 'name'} = ?`).get(
+      idOrName,
+    ) as
       { id: number; name: string; base_currency: string; reference: string | null; notes: string | null } | undefined;
     if (!r) return undefined;
     const out: HouseholdRecord = { id: r.id, name: r.name, baseCurrency: r.base_currency };
@@ -441,7 +464,7 @@ export class SqliteStore implements Store {
   }
 
   listHouseholds(): HouseholdRecord[] {
-    return (this.db.prepare('SELECT id FROM households ORDER BY name').all() as { id: number }[]).map((r) =>
+    return (this.sql('SELECT id FROM households ORDER BY name').all() as { id: number }[]).map((r) =>
       this.getHousehold(r.id)!,
     );
   }
@@ -450,7 +473,7 @@ export class SqliteStore implements Store {
     this.transaction(() => {
       const h = this.getHousehold(id);
       if (!h) throw new NotFoundError(`no household with id ${id}`);
-      this.db.prepare('DELETE FROM households WHERE id = ?').run(id);
+      this.sql('DELETE FROM households WHERE id = ?').run(id);
       this.audit('delete', 'household', id, undefined, h.name);
     });
   }
@@ -469,8 +492,8 @@ export class SqliteStore implements Store {
           throw new InputError(`'${h.currency}' is not an ISO 4217 code`, { path: `${at}.currency` });
         if (!isIsoDate(h.asOf)) throw new InputError('expected a date YYYY-MM-DD', { path: `${at}.asOf` });
       });
-      this.db.prepare('DELETE FROM holdings WHERE household_id = ?').run(householdId);
-      const insert = this.db.prepare(
+      this.sql('DELETE FROM holdings WHERE household_id = ?').run(householdId);
+      const insert = this.sql(
         'INSERT INTO holdings (household_id, asset_id, amount, currency, as_of) VALUES (?, ?, ?, ?, ?)',
       );
       for (const h of holdings) insert.run(householdId, h.assetId, h.amount, h.currency, h.asOf);
@@ -480,9 +503,9 @@ export class SqliteStore implements Store {
 
   holdings(householdId: number): Holding[] {
     return (
-      this.db
-        .prepare('SELECT asset_id, amount, currency, as_of FROM holdings WHERE household_id = ? ORDER BY asset_id')
-        .all(householdId) as { asset_id: string; amount: number; currency: string; as_of: string }[]
+      this.sql('SELECT asset_id, amount, currency, as_of FROM holdings WHERE household_id = ? ORDER BY asset_id').all(
+        householdId,
+      ) as { asset_id: string; amount: number; currency: string; as_of: string }[]
     ).map((r) => ({ assetId: r.asset_id, amount: r.amount, currency: r.currency, asOf: r.as_of }));
   }
 
@@ -501,9 +524,12 @@ export class SqliteStore implements Store {
         universeId = u.id;
       }
       const id = Number(
-        this.db
-          .prepare('INSERT INTO scenarios (household_id, name, universe_id, created_at) VALUES (?, ?, ?, ?)')
-          .run(input.householdId, input.name, universeId, this.stamp()).lastInsertRowid,
+        this.sql('INSERT INTO scenarios (household_id, name, universe_id, created_at) VALUES (?, ?, ?, ?)').run(
+          input.householdId,
+          input.name,
+          universeId,
+          this.stamp(),
+        ).lastInsertRowid,
       );
       this.audit('create', 'scenario', id, undefined, input.name);
       return this.getScenarioById(id)!;
@@ -511,7 +537,7 @@ export class SqliteStore implements Store {
   }
 
   private scenarioQuery(where: string) {
-    return this.db.prepare(
+    return this.sql(
       `SELECT s.id, s.household_id, s.name, u.name AS universe, s.created_at,
          (SELECT max(number) FROM scenario_revisions r WHERE r.scenario_id = s.id) AS latest
        FROM scenarios s LEFT JOIN universes u ON u.id = s.universe_id WHERE ${where}`,
@@ -548,7 +574,7 @@ export class SqliteStore implements Store {
   deleteScenario(id: number): void {
     this.transaction(() => {
       const s = this.requireScenario(id);
-      this.db.prepare('DELETE FROM scenarios WHERE id = ?').run(id);
+      this.sql('DELETE FROM scenarios WHERE id = ?').run(id);
       this.audit('delete', 'scenario', id, undefined, s.name);
     });
   }
@@ -572,14 +598,12 @@ export class SqliteStore implements Store {
     return this.transaction(() => {
       const s = this.requireScenario(scenarioId);
       const latest = this.getRevision(scenarioId);
-      this.db.prepare('DELETE FROM scenario_drafts WHERE scenario_id = ?').run(scenarioId);
+      this.sql('DELETE FROM scenario_drafts WHERE scenario_id = ?').run(scenarioId);
       if (latest && latest.hash === hash) return info(latest);
       const number = s.latestRevision + 1;
-      this.db
-        .prepare(
-          'INSERT INTO scenario_revisions (scenario_id, number, hash, document, saved_at, author, note) VALUES (?, ?, ?, ?, ?, ?, ?)',
-        )
-        .run(scenarioId, number, hash, text, this.stamp(), meta.author, meta.note ?? null);
+      this.sql(
+        'INSERT INTO scenario_revisions (scenario_id, number, hash, document, saved_at, author, note) VALUES (?, ?, ?, ?, ?, ?, ?)',
+      ).run(scenarioId, number, hash, text, this.stamp(), meta.author, meta.note ?? null);
       this.audit('save', 'revision', scenarioId, hash, `revision ${number}${meta.note ? `: ${meta.note}` : ''}`);
       return info(this.getRevision(scenarioId, number)!);
     });
@@ -587,27 +611,25 @@ export class SqliteStore implements Store {
 
   listRevisions(scenarioId: number): RevisionInfo[] {
     return (
-      this.db
-        .prepare('SELECT * FROM scenario_revisions WHERE scenario_id = ? ORDER BY number')
-        .all(scenarioId) as RevisionRow[]
+      this.sql('SELECT * FROM scenario_revisions WHERE scenario_id = ? ORDER BY number').all(
+        scenarioId,
+      ) as RevisionRow[]
     ).map((r) => info(revision(r)));
   }
 
   getRevision(scenarioId: number, number?: number): Revision | undefined {
     const r = (
       number === undefined
-        ? this.db
-            .prepare('SELECT * FROM scenario_revisions WHERE scenario_id = ? ORDER BY number DESC LIMIT 1')
-            .get(scenarioId)
-        : this.db
-            .prepare('SELECT * FROM scenario_revisions WHERE scenario_id = ? AND number = ?')
-            .get(scenarioId, number)
+        ? this.sql('SELECT * FROM scenario_revisions WHERE scenario_id = ? ORDER BY number DESC LIMIT 1').get(
+            scenarioId,
+          )
+        : this.sql('SELECT * FROM scenario_revisions WHERE scenario_id = ? AND number = ?').get(scenarioId, number)
     ) as RevisionRow | undefined;
     return r && revision(r);
   }
 
   getRevisionByHash(hash: string): Revision | undefined {
-    const r = this.db.prepare('SELECT * FROM scenario_revisions WHERE hash = ? ORDER BY saved_at LIMIT 1').get(hash) as
+    const r = this.sql('SELECT * FROM scenario_revisions WHERE hash = ? ORDER BY saved_at LIMIT 1').get(hash) as
       RevisionRow | undefined;
     return r && revision(r);
   }
@@ -632,25 +654,23 @@ export class SqliteStore implements Store {
     return this.transaction(() => {
       this.requireScenario(scenarioId);
       const savedAt = this.stamp();
-      this.db
-        .prepare(
-          'INSERT INTO scenario_drafts (scenario_id, text, saved_at) VALUES (?, ?, ?) ON CONFLICT (scenario_id) DO UPDATE SET text = excluded.text, saved_at = excluded.saved_at',
-        )
-        .run(scenarioId, text, savedAt);
+      this.sql(
+        'INSERT INTO scenario_drafts (scenario_id, text, saved_at) VALUES (?, ?, ?) ON CONFLICT (scenario_id) DO UPDATE SET text = excluded.text, saved_at = excluded.saved_at',
+      ).run(scenarioId, text, savedAt);
       this.audit('autosave', 'draft', scenarioId);
       return { scenarioId, text, savedAt };
     });
   }
 
   getDraft(scenarioId: number): Draft | undefined {
-    const r = this.db.prepare('SELECT * FROM scenario_drafts WHERE scenario_id = ?').get(scenarioId) as
+    const r = this.sql('SELECT * FROM scenario_drafts WHERE scenario_id = ?').get(scenarioId) as
       { scenario_id: number; text: string; saved_at: string } | undefined;
     return r && { scenarioId: r.scenario_id, text: r.text, savedAt: r.saved_at };
   }
 
   discardDraft(scenarioId: number): void {
     this.transaction(() => {
-      if (this.db.prepare('DELETE FROM scenario_drafts WHERE scenario_id = ?').run(scenarioId).changes)
+      if (this.sql('DELETE FROM scenario_drafts WHERE scenario_id = ?').run(scenarioId).changes)
         this.audit('discard', 'draft', scenarioId);
     });
   }
@@ -658,19 +678,19 @@ export class SqliteStore implements Store {
   // ---- results cache ----
 
   getCachedResult(revisionHash: string, dataVersion: number, kind: string): unknown {
-    const r = this.db
-      .prepare('SELECT value FROM results_cache WHERE revision_hash = ? AND data_version = ? AND kind = ?')
-      .get(revisionHash, dataVersion, kind) as { value: string } | undefined;
+    const r = this.sql('SELECT value FROM results_cache WHERE revision_hash = ? AND data_version = ? AND kind = ?').get(
+      revisionHash,
+      dataVersion,
+      kind,
+    ) as { value: string } | undefined;
     return r ? JSON.parse(r.value) : undefined;
   }
 
   putCachedResult(revisionHash: string, dataVersion: number, kind: string, value: unknown): void {
-    this.db
-      .prepare(
-        `INSERT INTO results_cache (revision_hash, data_version, kind, value, created_at) VALUES (?, ?, ?, ?, ?)
+    this.sql(
+      `INSERT INTO results_cache (revision_hash, data_version, kind, value, created_at) VALUES (?, ?, ?, ?, ?)
          ON CONFLICT (revision_hash, data_version, kind) DO UPDATE SET value = excluded.value, created_at = excluded.created_at`,
-      )
-      .run(revisionHash, dataVersion, kind, JSON.stringify(value), this.stamp());
+    ).run(revisionHash, dataVersion, kind, JSON.stringify(value), this.stamp());
   }
 
   // ---- memos ----
@@ -683,19 +703,17 @@ export class SqliteStore implements Store {
         throw new InputError(`revision ${memo.revisionHash} is not a revision of scenario ${memo.scenarioId}`);
       const sha = sha256Hex(memo.pdf);
       const id = Number(
-        this.db
-          .prepare(
-            'INSERT INTO memos (scenario_id, revision_hash, data_version, sha256, printed_at, title, pdf) VALUES (?, ?, ?, ?, ?, ?, ?)',
-          )
-          .run(
-            memo.scenarioId,
-            memo.revisionHash,
-            memo.dataVersion,
-            sha,
-            this.stamp(),
-            memo.title ?? null,
-            Buffer.from(memo.pdf.buffer, memo.pdf.byteOffset, memo.pdf.byteLength),
-          ).lastInsertRowid,
+        this.sql(
+          'INSERT INTO memos (scenario_id, revision_hash, data_version, sha256, printed_at, title, pdf) VALUES (?, ?, ?, ?, ?, ?, ?)',
+        ).run(
+          memo.scenarioId,
+          memo.revisionHash,
+          memo.dataVersion,
+          sha,
+          this.stamp(),
+          memo.title ?? null,
+          Buffer.from(memo.pdf.buffer, memo.pdf.byteOffset, memo.pdf.byteLength),
+        ).lastInsertRowid,
       );
       this.audit('print', 'memo', id, memo.revisionHash, sha);
       return this.memoInfo(id)!;
@@ -703,37 +721,34 @@ export class SqliteStore implements Store {
   }
 
   private memoInfo(id: number): MemoInfo | undefined {
-    const r = this.db.prepare(`${MEMO_COLUMNS} WHERE id = ?`).get(id) as MemoRow | undefined;
+    const r = this.sql(`${MEMO_COLUMNS} WHERE id = ?`).get(id) as MemoRow | undefined;
     return r && memoInfo(r);
   }
 
   listMemos(scenarioId: number): MemoInfo[] {
-    return (this.db.prepare(`${MEMO_COLUMNS} WHERE scenario_id = ? ORDER BY id`).all(scenarioId) as MemoRow[]).map(
-      memoInfo,
-    );
+    return (this.sql(`${MEMO_COLUMNS} WHERE scenario_id = ? ORDER BY id`).all(scenarioId) as MemoRow[]).map(memoInfo);
   }
 
   getMemoPdf(id: number): Uint8Array | undefined {
-    const r = this.db.prepare('SELECT pdf FROM memos WHERE id = ?').get(id) as { pdf: Buffer } | undefined;
+    const r = this.sql('SELECT pdf FROM memos WHERE id = ?').get(id) as { pdf: Buffer } | undefined;
     return r && new Uint8Array(r.pdf);
   }
 
   findMemo(revisionHash: string, dataVersion: number): MemoInfo | undefined {
-    const r = this.db
-      .prepare(`${MEMO_COLUMNS} WHERE revision_hash = ? AND data_version = ? ORDER BY id DESC LIMIT 1`)
-      .get(revisionHash, dataVersion) as MemoRow | undefined;
+    const r = this.sql(`${MEMO_COLUMNS} WHERE revision_hash = ? AND data_version = ? ORDER BY id DESC LIMIT 1`).get(
+      revisionHash,
+      dataVersion,
+    ) as MemoRow | undefined;
     return r && memoInfo(r);
   }
 
   // ---- audit, checks, backup ----
 
   auditLog(query: AuditQuery = {}): AuditEntry[] {
-    const rows = this.db
-      .prepare(
-        `SELECT * FROM audit_log WHERE (@entity IS NULL OR entity = @entity) AND (@entityId IS NULL OR entity_id = @entityId)
+    const rows = this.sql(
+      `SELECT * FROM audit_log WHERE (@entity IS NULL OR entity = @entity) AND (@entityId IS NULL OR entity_id = @entityId)
          ORDER BY id DESC LIMIT @limit`,
-      )
-      .all({ entity: query.entity ?? null, entityId: query.entityId ?? null, limit: query.limit ?? -1 }) as {
+    ).all({ entity: query.entity ?? null, entityId: query.entityId ?? null, limit: query.limit ?? -1 }) as {
       id: number;
       at: string;
       action: string;
@@ -754,9 +769,14 @@ export class SqliteStore implements Store {
   }
 
   check(): string[] {
-    const problems = (this.db.pragma('integrity_check') as { integrity_check: string }[])
-      .map((r) => r.integrity_check)
-      .filter((m) => m !== 'ok');
+    let problems: string[];
+    try {
+      problems = (this.db.pragma('integrity_check') as { integrity_check: string }[])
+        .map((r) => r.integrity_check)
+        .filter((m) => m !== 'ok');
+    } catch (error) {
+      return [(error as Error).message];
+    }
     for (const r of this.db.pragma('foreign_key_check') as { table: string; rowid: number; parent: string }[])
       problems.push(`${r.table} row ${r.rowid} points at a missing ${r.parent}`);
     return problems;
@@ -813,6 +833,13 @@ function toDays(assetId: string, dates: readonly string[]): Int32Array {
     if (i > 0 && out[i] <= out[i - 1]) throw new InputError(`asset '${assetId}': dates not ascending at ${dates[i]}`);
   }
   return out;
+}
+
+function checkDays(assetId: string, days: Int32Array): Int32Array {
+  for (let i = 1; i < days.length; i++)
+    if (days[i] <= days[i - 1])
+      throw new InputError(`asset '${assetId}': dates not ascending at ${isoFromDay(days[i])}`);
+  return days;
 }
 
 function checkHousehold(h: HouseholdInput): void {

@@ -52,17 +52,26 @@ export interface ImportBatch {
 }
 
 /** Points to set for one asset; each replaces any stored close of the same date. */
-export interface PriceWrite {
+export type PriceWrite = {
   assetId: string;
-  /** ISO dates, ascending, no repeats. */
-  dates: readonly string[];
   closes: ArrayLike<number>;
-}
+} & (
+  | {
+      /** ISO dates, ascending, no repeats. */
+      dates: readonly string[];
+    }
+  | {
+      /** The same as whole days since 1970-01-01 (see days.ts), for large imports. */
+      days: Int32Array;
+    }
+);
 
 /** The stored history of one asset, every point with the import batch it came from. */
 export interface PriceSeries {
   assetId: string;
   dates: string[];
+  /** `dates` as whole days since 1970-01-01. */
+  days: Int32Array;
   closes: Float64Array;
   batches: Int32Array;
 }
@@ -75,7 +84,12 @@ export interface PriceCommit {
   assets: readonly AssetInput[];
   prices: readonly PriceWrite[];
   /** Universe that the assets join (created when absent). */
-  universe?: { name: string; tags?: Readonly<Record<string, readonly string[]>> };
+  universe?: {
+    name: string;
+    /** Members to add besides the assets of `assets` and `prices`. */
+    assets?: readonly string[];
+    tags?: Readonly<Record<string, readonly string[]>>;
+  };
   /** Called inside the transaction after each asset's prices are written (done of total). */
   onProgress?: (done: number, total: number) => void;
   /** Checked between assets; on abort the transaction rolls back and `CancelledError` is thrown. */

@@ -1,9 +1,12 @@
 import type { Command } from '../command.js';
 import { demoCommand } from './demo.js';
+import { backupCommand } from './backup.js';
+import { importCommand } from './import.js';
+import { restoreCommand } from './restore.js';
 import { serveCommand } from './serve.js';
 
 /**
  * Every `holdfast` command, in the order `--help` lists them. A new command is one module in
  * this folder plus one line here.
  */
-export const commands: readonly Command[] = [demoCommand, serveCommand];
+export const commands: readonly Command[] = [demoCommand, importCommand, backupCommand, restoreCommand, serveCommand];

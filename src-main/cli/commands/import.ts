@@ -1,0 +1,158 @@
+import { existsSync, statSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { InputError, formatInputError } from '../../../shared-core/errors.js';
+import { importPriceFile, type PriceImportOutcome } from '../../io/import-prices.js';
+import type { ValidationReport } from '../../io/validate-prices.js';
+import type { ImportPlan } from '../../io/plan-import.js';
+import { CancelledError, type Store } from '../../store/store.js';
+import { EXIT, UsageError, type Command, type CliIO } from '../command.js';
+import { storeAt } from './store-access.js';
+
+const SHOWN = 40;
+
+/** `holdfast import`: a price file into the store, validated first, changes only on --apply. */
+export const importCommand: Command = {
+  name: 'import',
+  summary: 'import a price file (wide or long CSV) into the store and a universe',
+  options: [
+    { name: 'store', kind: 'string', valueName: 'FILE', required: true, description: 'the store (created if absent)' },
+    { name: 'prices', kind: 'string', valueName: 'FILE.csv', required: true, description: 'the price file' },
+    { name: 'universe', kind: 'string', valueName: 'NAME', required: true, description: 'universe the assets join' },
+    { name: 'apply', kind: 'boolean', description: 'confirm replacing stored prices that the file changes' },
+    { name: 'json', kind: 'boolean', description: 'print one JSON object: status, validation report, plan, batch' },
+    {
+      name: 'date-order',
+      kind: 'string',
+      choices: ['day-first', 'month-first'],
+      description: 'how to read dates such as 03/04/2025 when the file does not show it',
+    },
+    {
+      name: 'decimal',
+      kind: 'string',
+      choices: ['point', 'comma'],
+      description: 'decimal mark, if not detected right',
+    },
+    {
+      name: 'currency',
+      kind: 'string',
+      valueName: 'CODE',
+      description: 'currency of assets new to the store (ISO 4217)',
+    },
+  ],
+  details:
+    'Wide form: a header "date" then one column per asset id. Long form: the columns date, asset, close.\n' +
+    'Separators comma, semicolon or tab; decimal point or comma; dates YYYY-MM-DD, DD/MM/YYYY or MM/DD/YYYY.\n' +
+    'Exit 0 when written (or nothing new), 2 on invalid input with the validation report (nothing written),\n' +
+    '1 when stored prices would change: the difference is shown and nothing is written until --apply.',
+  async run(options, io) {
+    const currency = options.currency as string | undefined;
+    if (currency !== undefined && !/^[A-Z]{3}$/.test(currency))
+      throw new UsageError(`option '--currency' needs an ISO 4217 code such as EUR, got '${currency}'`);
+    const pricesName = options.prices as string;
+    const pricesPath = resolve(io.cwd, pricesName);
+    if (!existsSync(pricesPath)) throw new InputError('no such file', { file: pricesName });
+    if (statSync(pricesPath).isDirectory()) throw new InputError('is a directory', { file: pricesName });
+    const storeName = options.store as string;
+    let opened: Store | undefined;
+    const store = (mode: 'read' | 'write') => (opened ??= storeAt(io.cwd, storeName, { create: mode === 'write' }));
+    let outcome: PriceImportOutcome;
+    try {
+      outcome = await importPriceFile(store, pricesPath, {
+        file: pricesName,
+        universe: options.universe as string,
+        apply: options.apply === true,
+        dateOrder: options['date-order'] as 'day-first' | 'month-first' | undefined,
+        decimal: options.decimal as 'point' | 'comma' | undefined,
+        currency,
+        signal: io.signal,
+      });
+    } catch (error) {
+      if (error instanceof CancelledError) {
+        io.stderr(`holdfast import: ${error.message}\n`);
+        return EXIT.interrupted;
+      }
+      if (error instanceof InputError && error.location.file === undefined) throw error.inFile(pricesName);
+      throw error;
+    } finally {
+      opened?.close();
+    }
+    if (options.json) io.stdout(JSON.stringify(outcome) + '\n');
+    else printOutcome(outcome, storeName, io);
+    if (outcome.status === 'invalid') return EXIT.badInput;
+    return outcome.status === 'needs-confirmation' ? EXIT.failure : EXIT.ok;
+  },
+};
+
+function printOutcome(outcome: PriceImportOutcome, storeName: string, io: CliIO): void {
+  const r = outcome.report;
+  const out = outcome.status === 'invalid' ? io.stderr : io.stdout;
+  out(describeFile(r));
+  if (outcome.status === 'invalid') {
+    const lines = problemLines(r);
+    for (const line of lines.slice(0, SHOWN)) io.stderr(`  ${line}\n`);
+    if (lines.length > SHOWN) io.stderr(`  ... and ${lines.length - SHOWN} more (see --json for all)\n`);
+    io.stderr('nothing was written\n');
+    return;
+  }
+  const warnings = r.assets.flatMap((a) =>
+    a.suspiciousMoves.map(
+      (m) =>
+        `${r.file}:${m.line}: ${a.asset}: one-day move of ${(100 * m.change).toFixed(1)}% on ${m.date} (flagged, kept)`,
+    ),
+  );
+  for (const w of warnings.slice(0, SHOWN)) io.stdout(`  warning: ${w}\n`);
+  if (warnings.length > SHOWN) io.stdout(`  ... and ${warnings.length - SHOWN} more warnings\n`);
+  io.stdout(describePlan(outcome.plan));
+  if (outcome.status === 'needs-confirmation') {
+    io.stderr(
+      `holdfast import: ${outcome.plan.changedPoints} stored prices would change; nothing was written. ` +
+        'Run again with --apply to replace them.\n',
+    );
+    return;
+  }
+  if (outcome.status === 'unchanged') {
+    io.stdout(`nothing new: ${storeName} holds every price of the file already\n`);
+    return;
+  }
+  const b = outcome.batch;
+  io.stdout(
+    `written to ${storeName} as import batch ${b.id}: ${b.added} prices added, ${b.replaced} replaced, ` +
+      `${b.assets} assets in universe '${outcome.plan.universe}'\n`,
+  );
+}
+
+function describeFile(r: ValidationReport): string {
+  const order = r.dateOrder === 'iso' ? 'ISO dates' : `${r.dateOrder} dates`;
+  return `${r.file}: ${r.form} form, ${r.delimiter}-separated, decimal ${r.decimal}, ${order}; ${r.dataRows} rows, ${r.assets.length} assets\n`;
+}
+
+function problemLines(r: ValidationReport): string[] {
+  const at = (line?: number, column?: number, path?: string) =>
+    formatInputError(new InputError('', { file: r.file, line, column, path })).replace(/: $/, '');
+  const lines = r.problems.map((p) => `${at(p.line, p.column)}: ${p.message}`);
+  for (const a of r.assets) {
+    for (const c of [...a.unparseable, ...a.nonPositive])
+      lines.push(`${at(c.line, c.column)}: ${a.asset}: ${c.message}`);
+    if (a.unparseableCount > a.unparseable.length)
+      lines.push(`${r.file}: ${a.asset}: ${a.unparseableCount - a.unparseable.length} more cells that are not numbers`);
+    for (const d of a.repeatedDates)
+      lines.push(`${at(d.lines[1])}: ${a.asset}: date ${d.date} repeated (lines ${d.lines.join(', ')})`);
+  }
+  return lines;
+}
+
+function describePlan(p: ImportPlan): string {
+  const lines = [
+    `plan: ${p.newAssets} new assets, ${p.newPoints} new prices, ${p.changedPoints} changed, ${p.unchangedPoints} unchanged`,
+  ];
+  const changed = p.assets.filter((a) => a.changedCount > 0);
+  for (const a of changed.slice(0, SHOWN)) {
+    const shown = a.changed
+      .slice(0, 5)
+      .map((c) => `${c.date}: ${c.stored} -> ${c.incoming}`)
+      .join(', ');
+    lines.push(`  ${a.asset}: ${a.changedCount} changed (${shown}${a.changedCount > 5 ? ', ...' : ''})`);
+  }
+  if (changed.length > SHOWN) lines.push(`  ... and ${changed.length - SHOWN} more assets with changes`);
+  return lines.join('\n') + '\n';
+}
