@@ -28,7 +28,7 @@ export async function* csvRecords(
   const file = options.file ?? path;
   const totalBytes = statSync(path).size;
   const stream = createReadStream(path, { encoding: 'utf8', highWaterMark: 1 << 20 });
-  let bytesRead = 0;
+  let bytesRead: number;
   let rest = '';
   let lineNo = 0;
   let rows = 0;
