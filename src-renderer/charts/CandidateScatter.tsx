@@ -28,7 +28,7 @@ export function CandidateScatter(props: { points: readonly ScatterPoint[]; basis
     () => ({
       animation: false,
       textStyle: { fontFamily: FONT, color: INK },
-      grid: { left: 12, right: 36, top: 20, bottom: 36, containLabel: true },
+      grid: { left: 12, right: 96, top: 20, bottom: 36, containLabel: true },
       tooltip: {
         formatter: (p: { data: { name: string; value: [number, number] } }) =>
           `${p.data.name}: volatility ${p.data.value[0].toFixed(1)}%, diversification ratio ${p.data.value[1].toFixed(2)}`,

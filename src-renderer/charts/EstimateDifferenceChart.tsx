@@ -40,19 +40,21 @@ export function EstimateDifferenceChart(props: {
       textStyle: { fontFamily: FONT, color: INK },
       grid: { left: 8, right: 24, top: 30, bottom: 60, containLabel: true },
       legend: { top: 0, left: 0, textStyle: { color: INK_SOFT } },
-      tooltip: { trigger: 'axis', valueFormatter: (v: number) => `${v.toFixed(1)}%` },
+      tooltip: { trigger: 'axis', valueFormatter: (v: number) => `\u00d7${v.toFixed(2)}` },
       xAxis: {
         type: 'category',
         data: [...assets],
         axisLabel: { rotate: 60, fontSize: 10, interval: 0 },
         axisTick: { show: false },
       },
+      // A ratio reads symmetrically on a log axis: x2 and x0.5 sit equally far from x1.
       yAxis: {
-        type: 'value',
-        name: 'volatility against the sample, per cent',
+        type: 'log',
+        logBase: 2,
+        name: 'volatility / sample volatility',
         nameLocation: 'middle',
-        nameGap: 42,
-        axisLabel: { formatter: '{value}%' },
+        nameGap: 52,
+        axisLabel: { formatter: (v: number) => `\u00d7${Number(v.toPrecision(3))}` },
         splitLine: { lineStyle: { color: RULE } },
       },
       series: shown.map((e, k) => ({
@@ -62,14 +64,14 @@ export function EstimateDifferenceChart(props: {
         symbol: ESTIMATE_STYLES[k % ESTIMATE_STYLES.length].symbol,
         symbolSize: 9,
         itemStyle: { color: ESTIMATE_STYLES[k % ESTIMATE_STYLES.length].colour },
-        data: e.distance.volatilityRatio.map((r) => Math.round((r - 1) * 1000) / 10),
+        data: e.distance.volatilityRatio.map((r) => Math.round(r * 1000) / 1000),
         markLine:
           k === 0
             ? {
                 silent: true,
                 symbol: 'none',
                 lineStyle: { color: INK, type: 'solid', width: 1 },
-                data: [{ yAxis: 0 }],
+                data: [{ yAxis: 1 }],
                 label: { show: false },
               }
             : undefined,
@@ -81,7 +83,7 @@ export function EstimateDifferenceChart(props: {
     <ChartFigure
       testId="estimate-difference"
       title={differenceFinding(estimates)}
-      basis={`Per asset, each estimate's annualised volatility as a per cent change from the sample estimate on the same returns (0 = the same); the table adds how far correlations move. ${props.basis}`}
+      basis={`Per asset, each estimate's annualised volatility as a multiple of the sample estimate's on the same returns (\u00d71 = the same; log scale); the table adds how far correlations move. ${props.basis}`}
       option={option}
       height={300}
       table={

@@ -94,6 +94,13 @@ interface Good {
 
 type Problem = { summary: string; details: string[]; messages: FieldMessage[] };
 
+/** Time from the last edit (or the page opening) to the comparison painted on screen. */
+interface Shown {
+  ms: number;
+  computeMs: number;
+  afterEdit: boolean;
+}
+
 const AUTOSAVE_MS = 900;
 
 function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: string }) {
@@ -103,9 +110,11 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   const doc = state.doc;
   const [typing, setTyping] = useState<Record<string, string>>({});
   const lastEditAt = useRef<number>(performance.now());
+  const edited = useRef(false);
 
   const commit = useCallback((next: EditorState, key?: string) => {
     lastEditAt.current = performance.now();
+    edited.current = true;
     setHistory((h) => applyEdit(h, next, { key, at: Date.now() }));
   }, []);
   const onTyping = useCallback((path: string, message: string | null) => {
@@ -151,7 +160,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   // ---- recompute ----
   const [good, setGood] = useState<Good | null>(null);
   const [problem, setProblem] = useState<Problem | null>(null);
-  const [shown, setShown] = useState<{ ms: number; computeMs: number } | null>(null);
+  const [shown, setShown] = useState<Shown | null>(null);
   const paintFrom = useRef<number | null>(null);
   const hadGood = useRef(false);
   const onOutcome = useCallback((o: RecomputeOutcome) => {
@@ -202,7 +211,11 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
     const from = paintFrom.current;
     paintFrom.current = null;
     requestAnimationFrame(() =>
-      setTimeout(() => setShown({ ms: performance.now() - from, computeMs: good.comparison.computeMs }), 0),
+      setTimeout(
+        () =>
+          setShown({ ms: performance.now() - from, computeMs: good.comparison.computeMs, afterEdit: edited.current }),
+        0,
+      ),
     );
   }, [good]);
 
@@ -393,7 +406,7 @@ function RecomputeStatus(props: {
   onCancel: () => void;
   check: readonly FieldMessage[];
   problem: Problem | null;
-  shown: { ms: number; computeMs: number } | null;
+  shown: Shown | null;
   pricesError: unknown;
   hasResult: boolean;
 }) {
@@ -404,6 +417,7 @@ function RecomputeStatus(props: {
       data-testid="recompute-status"
       data-state={state}
       data-shown-ms={props.shown ? props.shown.ms.toFixed(1) : undefined}
+      data-after-edit={props.shown ? String(props.shown.afterEdit) : undefined}
       data-compute-ms={props.shown ? props.shown.computeMs.toFixed(1) : undefined}
     >
       <p role="status" aria-live="polite">

@@ -1,3 +1,4 @@
+import { assetVolatilities, correlationMatrix } from '../../shared-core/analytics/risk.js';
 import type { Matrix } from '../../shared-core/linalg/matrix.js';
 
 /**
@@ -17,20 +18,13 @@ export interface EstimateDistance {
   largestCorrelationChange: { i: number; j: number; sample: number; estimate: number } | null;
 }
 
-/** Correlation from covariance: rho_ij = s_ij / sqrt(s_ii s_jj). */
+/** Correlation from covariance, by the shared core's one function for it. */
 export function correlationFromCovariance(covariance: Matrix): Float64Array {
-  const n = covariance.rows;
-  const out = new Float64Array(n * n);
-  const sd = new Float64Array(n);
-  for (let i = 0; i < n; i++) sd[i] = Math.sqrt(covariance.data[i * n + i]);
-  for (let i = 0; i < n; i++)
-    for (let j = 0; j < n; j++) out[i * n + j] = i === j ? 1 : covariance.data[i * n + j] / (sd[i] * sd[j]);
-  return out;
+  return correlationMatrix(covariance).data;
 }
 
 export function volatilities(covariance: Matrix): number[] {
-  const n = covariance.rows;
-  return Array.from({ length: n }, (_, i) => Math.sqrt(covariance.data[i * n + i]));
+  return Array.from(assetVolatilities(covariance));
 }
 
 export function estimateDistance(sample: Matrix, estimate: Matrix): EstimateDistance {

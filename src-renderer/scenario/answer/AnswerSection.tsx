@@ -35,7 +35,8 @@ export interface AnswerProps {
 export function basisOf(comparison: Comparison, scenario: Scenario, locale?: string): string {
   const w = comparison.window;
   const span = w.first && w.last ? `${formatDate(w.first, locale)} to ${formatDate(w.last, locale)}` : 'no dates';
-  return `${scenario.returns.frequency} ${scenario.returns.method} returns, ${span} (${w.observations} periods).`;
+  const frequency = scenario.returns.frequency[0].toUpperCase() + scenario.returns.frequency.slice(1);
+  return `${frequency} ${scenario.returns.method} returns, ${span} (${w.observations} periods).`;
 }
 
 export function AnswerSection(props: AnswerProps) {

@@ -499,7 +499,7 @@ function LimitsFields(props: BriefProps & { set: (path: (string | number)[], val
           label="Maximum gross exposure (sum of |w|)"
           path="constraints.maxGrossExposure"
           value={c.maxGrossExposure}
-          placeholder={longOnly ? '100 (long-only)' : 'no limit'}
+          placeholder={longOnly ? '100' : 'none'}
           disabled={longOnly && c.maxGrossExposure === undefined}
           hint={longOnly ? 'applies to long-short mandates' : undefined}
           messages={at('constraints.maxGrossExposure')}
