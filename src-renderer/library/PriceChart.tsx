@@ -1,0 +1,137 @@
+import { useMemo, useState } from 'react';
+import type { PriceSeries } from '../../shared-core/contract/service-api.js';
+import { formatDate, formatSignedPercent } from '../scenario/format.js';
+import { useEChart, type ChartOption } from './use-echart.js';
+
+/** Last close of each calendar month: the table behind the chart. */
+export function monthEndCloses(series: PriceSeries): { date: string; close: number }[] {
+  const out: { date: string; close: number }[] = [];
+  series.dates.forEach((d, i) => {
+    const last = out[out.length - 1];
+    if (last && last.date.slice(0, 7) === d.slice(0, 7)) {
+      last.date = d;
+      last.close = series.closes[i];
+    } else out.push({ date: d, close: series.closes[i] });
+  });
+  return out;
+}
+
+function closeText(value: number): string {
+  return value.toLocaleString(undefined, { minimumFractionDigits: 2, maximumFractionDigits: 2 });
+}
+
+/** One asset's stored closes over time, with its finding stated above it. */
+export function PriceChart({ series }: { series: PriceSeries }) {
+  const [logScale, setLogScale] = useState(false);
+  const n = series.dates.length;
+  const option = useMemo<ChartOption>(
+    () => ({
+      animation: false,
+      textStyle: { fontFamily: 'DejaVu Sans, sans-serif', color: '#1f2328' },
+      grid: { left: 64, right: 24, top: 16, bottom: 64 },
+      tooltip: { trigger: 'axis', renderMode: 'richText', valueFormatter: (v: unknown) => closeText(Number(v)) },
+      xAxis: {
+        type: 'time',
+        axisLine: { lineStyle: { color: '#4a5058' } },
+        axisLabel: { color: '#4a5058' },
+        splitLine: { show: false },
+      },
+      yAxis: {
+        type: logScale ? 'log' : 'value',
+        scale: true,
+        name: series.currency ?? 'price',
+        nameTextStyle: { color: '#4a5058', align: 'right' },
+        axisLabel: { color: '#4a5058' },
+        splitLine: { lineStyle: { color: '#ebe6dc' } },
+      },
+      dataZoom: [
+        { type: 'inside' },
+        {
+          type: 'slider',
+          height: 20,
+          bottom: 12,
+          borderColor: '#d9d3c7',
+          fillerColor: 'rgba(29, 92, 99, 0.12)',
+          dataBackground: { lineStyle: { color: '#6e747c' }, areaStyle: { color: '#e8e3d9' } },
+          labelFormatter: (value: number) => new Date(value).toISOString().slice(0, 10),
+        },
+      ],
+      series: [
+        {
+          type: 'line',
+          name: series.asset,
+          showSymbol: false,
+          sampling: 'lttb',
+          lineStyle: { width: 1.4, color: '#1d5c63' },
+          itemStyle: { color: '#1d5c63' },
+          data: series.dates.map((d, i) => [d, series.closes[i]]),
+        },
+      ],
+    }),
+    [series, logScale],
+  );
+  const box = useEChart(option);
+  const table = useMemo(() => monthEndCloses(series), [series]);
+
+  if (n === 0)
+    return (
+      <div className="chart-box">
+        <p className="chart-title">{series.asset}: no prices stored yet.</p>
+      </div>
+    );
+  const change = series.closes[n - 1] / series.closes[0] - 1;
+  return (
+    <figure className="chart-box" style={{ margin: 0 }} aria-label={`Price chart of ${series.asset}`}>
+      <div style={{ display: 'flex', justifyContent: 'space-between', gap: '1rem', alignItems: 'baseline' }}>
+        <p className="chart-title">
+          {series.asset} · {series.name}: {n.toLocaleString()} closes from {formatDate(series.dates[0])} to{' '}
+          {formatDate(series.dates[n - 1])}, {formatSignedPercent(change)} over the period
+        </p>
+        <div className="actions" role="group" aria-label="Price scale">
+          <button
+            type="button"
+            aria-pressed={!logScale}
+            onClick={() => setLogScale(false)}
+            className={!logScale ? 'primary' : ''}
+          >
+            Linear
+          </button>
+          <button
+            type="button"
+            aria-pressed={logScale}
+            onClick={() => setLogScale(true)}
+            className={logScale ? 'primary' : ''}
+          >
+            Logarithmic
+          </button>
+        </div>
+      </div>
+      <p className="chart-basis">
+        Stored closing prices in {series.currency ?? 'an unset currency'}, as imported; no adjustment. Drag the bar
+        below to narrow the dates.
+      </p>
+      <div ref={box} style={{ width: '100%', height: 300 }} data-testid="price-chart" />
+      <details>
+        <summary>Month-end closes ({table.length})</summary>
+        <table className="grid">
+          <thead>
+            <tr>
+              <th scope="col">Month end</th>
+              <th scope="col" className="num">
+                Close ({series.currency ?? 'unset'})
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {table.map((r) => (
+              <tr key={r.date}>
+                <td className="tabular">{formatDate(r.date)}</td>
+                <td className="num">{closeText(r.close)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </details>
+    </figure>
+  );
+}
