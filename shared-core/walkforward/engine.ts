@@ -115,8 +115,14 @@ export function* walkForwardSteps(input: WalkForwardInput): Generator<void, Walk
     }
     let r: number;
     if (held) {
+      // Whatever the weights leave uninvested (a `current` below 100%) is cash at the cash rate.
       let R = 0;
-      for (let i = 0; i < n; i++) R += held[i] * gross[i];
+      let invested = 0;
+      for (let i = 0; i < n; i++) {
+        R += held[i] * gross[i];
+        invested += held[i];
+      }
+      R += (1 - invested) * (1 + cashReturn);
       period.add(gross, R - 1);
       for (let i = 0; i < n; i++) held[i] = (held[i] * gross[i]) / R;
       r = (1 - pendingCost) * R - 1;

@@ -296,3 +296,30 @@ describe('walk-forward engine', () => {
     expect(metrics.averageRealisedDiversificationRatio!).toBeLessThan(Math.SQRT2 + 0.05);
   });
 });
+
+describe('walk-forward engine with part of the portfolio in cash', () => {
+  it('current holdings below 100% keep the rest in cash at the cash rate until the first trade (hand-computed)', () => {
+    // 60% in A (rises 10%), 40% in cash at 1.0001^252 - 1 a year, i.e. 0.01% a day:
+    // 0.6 x 1.1 + 0.4 x 1.0001 = 1.06004.
+    const prices: PriceTable = {
+      dates: ['2024-03-04', '2024-03-05', '2024-03-06'],
+      assets: ['A'],
+      closes: [Float64Array.from([100, 110, 110])],
+    };
+    const cashRate = 1.0001 ** 252 - 1;
+    const failing: AllocateFn = () => ({
+      status: 'infeasible',
+      weights: new Float64Array(1),
+      forecastVolatility: null,
+      forecastDiversificationRatio: null,
+    });
+    const result = runWalkForward({
+      prices,
+      assets: ['A'],
+      settings: settings(1, { rebalance: 'yearly', cashRate }),
+      allocate: failing,
+      initialWeights: Float64Array.from([0.6]),
+    });
+    expect(result.returns[0]).toBeCloseTo(0.06004, 12);
+  });
+});
