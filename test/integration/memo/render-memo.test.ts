@@ -1,0 +1,253 @@
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { InputError } from '../../../shared-core/errors.js';
+import { formatPercent1, MINUS } from '../../../src-main/memo/format.js';
+import { memoHash } from '../../../src-main/memo/memo-hash.js';
+import type { MemoInput } from '../../../src-main/memo/memo-input.js';
+import { CAUTIONS, renderMemo, SECTION_TITLES } from '../../../src-main/memo/render-memo.js';
+import { memoFixture } from './memo-fixture.js';
+import { flatText, pageTexts, pdfInfo, renderPngs } from './poppler.js';
+
+const artifacts = fileURLToPath(new URL('../../artifacts/memo/', import.meta.url));
+
+/** "−564,000" -> -564000; "+12.3" -> 12.3. */
+function parseFigure(text: string): number {
+  return Number(text.replace(MINUS, '-').replace(/,/g, '').replace(/^\+/, ''));
+}
+
+/** The lines of the pages from the one holding `from` up to the one holding `to` (exclusive). */
+function between(pages: string[], from: string, to: string | null): string[] {
+  const text = pages.join('\n');
+  const start = text.indexOf(from);
+  const end = to === null ? text.length : text.indexOf(to, start + from.length);
+  expect(start, `section '${from}' present`).toBeGreaterThanOrEqual(0);
+  return text.slice(start, end === -1 ? undefined : end).split('\n');
+}
+
+function rowOf(lines: string[], label: string): string[] {
+  const line = lines.find((l) => l.trimStart().startsWith(label + ' '));
+  expect(line, `a row for '${label}'`).toBeDefined();
+  return line!
+    .trim()
+    .slice(label.length)
+    .trim()
+    .split(/\s{2,}/);
+}
+
+describe('the allocation memo (text read back with poppler pdftotext, Debian poppler-utils)', () => {
+  let input: MemoInput;
+  let pdf: Buffer;
+  let pages: string[];
+  let flat: string;
+
+  beforeAll(async () => {
+    input = memoFixture({ extras: true });
+    pdf = await renderMemo(input);
+    pages = pageTexts(pdf);
+    flat = flatText(pdf);
+  });
+
+  it('has every section in order, numbered, walk-forward included when the input has it', () => {
+    const titles = Object.values(SECTION_TITLES);
+    let last = -1;
+    titles.forEach((title, i) => {
+      const at = flat.indexOf(`${i + 1} ${title}`);
+      expect(at, title).toBeGreaterThan(last);
+      last = at;
+    });
+  });
+
+  it('carries the three cautions word for word and a sign-off block for the licensed adviser', () => {
+    for (const caution of CAUTIONS) expect(flat).toContain(caution);
+    expect(flat).toContain('Reviewed by a licensed adviser');
+    expect(flat).toContain('Name and licence or registration number');
+    expect(flat).toContain(`Prepared by ${input.preparedBy}`);
+  });
+
+  it('prints accented names as typed, with every font embedded (pdffonts, poppler-utils)', () => {
+    for (const name of ['Famille Lefèvre-Østergård', 'Søndre Crédit Côtier', 'Ana Ibáñez'])
+      expect(flat).toContain(name);
+    const dir = mkdtempSync(join(tmpdir(), 'holdfast-fonts-'));
+    try {
+      writeFileSync(join(dir, 'm.pdf'), pdf);
+      const fonts = execFileSync('pdffonts', [join(dir, 'm.pdf')], { encoding: 'utf8' })
+        .split('\n')
+        .slice(2);
+      const rows = fonts.filter((l) => l.trim() !== '');
+      expect(rows.length).toBeGreaterThan(0);
+      for (const row of rows) {
+        expect(row).toMatch(/SourceSans3/);
+        // Columns: name type encoding emb sub uni object ID; 'yes yes yes' = embedded, subset, ToUnicode map.
+        expect(row).toMatch(/yes\s+yes\s+yes/);
+      }
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
+  it('allocation table: current and target weights equal the holdings and the solve rounded by formatPercent1, changes are the printed difference', () => {
+    const lines = between(pages, SECTION_TITLES.allocation, 'Each percentage is the weight');
+    const rc = input.run.candidates.find((c) => c.id === input.recommended)!;
+    const positions = input.household.holdings!.positions;
+    const total = positions.reduce((s, p) => s + p.amount, 0);
+    const info = input.scenario.document.assetInfo!;
+    for (const asset of input.run.estimate.assets) {
+      const held = positions.find((p) => p.asset === asset)?.amount ?? 0;
+      const w = rc.weights[asset] ?? 0;
+      if (Math.abs(w) < 0.0005 && held === 0) continue;
+      const cells = rowOf(lines, info[asset]!.name!);
+      const [current, target, change] = cells.slice(-4, -1);
+      expect(current).toBe(formatPercent1(held / total));
+      expect(target).toBe(formatPercent1(w));
+      expect(parseFigure(change)).toBeCloseTo(parseFigure(target) - parseFigure(current), 10);
+    }
+  });
+
+  it('trades: each is the gap to target rounded to the lot (a full sale unrounded), and the column adds up to zero with the rounding cash', () => {
+    const lines = between(pages, SECTION_TITLES.allocation, 'Each percentage is the weight');
+    const rc = input.run.candidates.find((c) => c.id === input.recommended)!;
+    const positions = input.household.holdings!.positions;
+    const info = input.scenario.document.assetInfo!;
+    const rounded = (x: number) => Math.sign(x) * Math.round(Math.abs(x));
+    const amounts = Object.fromEntries(positions.map((p) => [p.asset, rounded(p.amount)]));
+    const total = Object.values(amounts).reduce((s, v) => s + v, 0);
+    let sum = 0;
+    for (const asset of input.run.estimate.assets) {
+      const held = amounts[asset] ?? 0;
+      const w = rc.weights[asset] ?? 0;
+      if (Math.abs(w) < 0.0005 && held === 0) continue;
+      const trade = parseFigure(rowOf(lines, info[asset]!.name!).at(-1)!);
+      const exactHeld = positions.find((p) => p.asset === asset)?.amount ?? 0;
+      const exactTotal = positions.reduce((s, p) => s + p.amount, 0);
+      const expected = w === 0 ? -held : rounded((w * exactTotal - exactHeld) / input.lot) * input.lot;
+      expect(trade, asset).toBe(expected === 0 ? 0 : expected);
+      sum += trade;
+    }
+    const residual = parseFigure(rowOf(lines, 'Cash left from rounding to lots').at(-1)!);
+    expect(sum + residual).toBe(0);
+    const totalRow = rowOf(lines, 'Total');
+    expect(totalRow).toEqual(['100.0', '100.0', '0.0', '0']);
+    expect(flat).toContain(`Holdings valued at ${total.toLocaleString('en-US')} EUR`);
+  });
+
+  it('candidates considered: one column per candidate, every weight equal to its solve weight by formatPercent1, the infeasible one marked in words', () => {
+    const lines = between(pages, SECTION_TITLES.candidates, SECTION_TITLES.walkForward);
+    const info = input.scenario.document.assetInfo!;
+    const header = lines.find((l) => l.includes('Most diversified') && l.includes('Lowest variance'))!;
+    for (const c of input.run.candidates) expect(header).toContain(c.label!);
+    for (const asset of input.run.estimate.assets) {
+      const name = info[asset]!.name!;
+      if (!lines.some((l) => l.trimStart().startsWith(name + ' '))) continue;
+      const cells = rowOf(lines, name);
+      expect(cells).toEqual(
+        input.run.candidates.map((c) => (c.status === 'optimal' ? formatPercent1(c.weights[asset] ?? 0) : '\u2013')),
+      );
+    }
+    expect(rowOf(lines, 'Status')).toEqual(['solved', 'solved', 'solved', 'solved', '\u25b2 infeasible']);
+    expect(flat).toContain('Not solved: Low turnover (infeasible: turnover cap 1.0% cannot reach the cash floor).');
+  });
+
+  it('summary figures are the candidate metrics, rounded as the design notes say (one decimal percent, two-decimal ratios)', () => {
+    const lines = between(pages, SECTION_TITLES.summary, SECTION_TITLES.allocation);
+    const m = input.run.candidates[0].metrics!;
+    const cm = input.currentMetrics!;
+    expect(rowOf(lines, 'Volatility, annualised')).toEqual([
+      `${formatPercent1(cm.volatility)}%`,
+      `${formatPercent1(m.volatility)}%`,
+    ]);
+    expect(rowOf(lines, 'Diversification ratio')).toEqual([
+      cm.diversificationRatio.toFixed(2),
+      m.diversificationRatio.toFixed(2),
+    ]);
+    expect(rowOf(lines, 'Effective number of bets')).toEqual([cm.effectiveBets.toFixed(2), m.effectiveBets.toFixed(2)]);
+    expect(rowOf(lines, 'Turnover from current')).toEqual(['\u2013', `${formatPercent1(m.turnover)}%`]);
+  });
+
+  it('every page has its number and the footer with the revision hash and the memo hash', () => {
+    const hash = memoHash(input);
+    pages.forEach((text, i) => {
+      expect(text).toContain(`page ${i + 1} of ${pages.length}`);
+      expect(text).toContain(`revision ${input.scenario.hash.slice(0, 12)}`);
+      expect(text).toContain(`memo ${hash.slice(0, 12)}`);
+    });
+    expect(flat).toContain(`Memo hash ${hash}`);
+    expect(flat).toContain(`Scenario revision hash ${input.scenario.hash}`);
+  });
+
+  it('takes its PDF dates from the input, and poppler renders every page to PNG (written to test/artifacts/memo/ for review)', () => {
+    const info = pdfInfo(pdf);
+    expect(info.CreationDate).toMatch(/^2026-12-01T00:00:00/);
+    expect(info.ModDate).toMatch(/^2026-12-01T00:00:00/);
+    expect(info.Title).toBe('Allocation memo: Famille Lefèvre-Østergård');
+    writeFileSync(join(artifacts, 'memo-full.pdf'), pdf);
+    const pngs = renderPngs(pdf, artifacts, 'memo-full');
+    expect(pngs.length).toBe(Number(info.Pages));
+    expect(Number(info.Pages)).toBe(pages.length);
+  });
+});
+
+describe('determinism and the memo hash', () => {
+  it('the same input gives the same bytes; another date gives other bytes and another memo hash', async () => {
+    const a = await renderMemo(memoFixture({ extras: true }));
+    const b = await renderMemo(memoFixture({ extras: true }));
+    expect(a.equals(b)).toBe(true);
+    const later = memoFixture({ extras: true, createdOn: '2026-12-02' });
+    const c = await renderMemo(later);
+    expect(c.equals(a)).toBe(false);
+    expect(memoHash(later)).not.toBe(memoHash(memoFixture({ extras: true })));
+  });
+});
+
+describe('a memo without holding amounts or walk-forward', () => {
+  it('shows weights from the scenario, no trade column, and numbers the sections without walk-forward', async () => {
+    const input = memoFixture({ holdings: false });
+    const pdf = await renderMemo(input);
+    const flat = flatText(pdf);
+    expect(flat).toContain('No holding amounts were given, so changes are shown as weights only');
+    expect(flat).not.toContain('Trade EUR');
+    expect(flat).not.toContain(SECTION_TITLES.walkForward);
+    expect(flat).toContain(`6 ${SECTION_TITLES.method}`);
+    expect(flat).toContain(`7 ${SECTION_TITLES.cautions}`);
+    expect(flat).toContain('No stability analysis was run for this scenario revision');
+    const pages = pageTexts(pdf);
+    const lines = between(pages, SECTION_TITLES.allocation, 'Each percentage is the weight');
+    const current = input.scenario.document.current!;
+    expect(rowOf(lines, 'Alder Global Equity').slice(-3)).toEqual([
+      formatPercent1(current['ALD-EQ']),
+      '18.3',
+      `${MINUS}11.7`,
+    ]);
+    writeFileSync(join(artifacts, 'memo-weights-only.pdf'), pdf);
+  });
+});
+
+describe('bad memo input is refused with the JSON path of the problem', () => {
+  const cases: [string, (i: MemoInput) => void, string][] = [
+    ['an unknown recommended candidate', (i) => (i.recommended = 'nope'), 'recommended'],
+    ['an infeasible recommended candidate', (i) => (i.recommended = 'tight'), 'recommended'],
+    ['a lot of zero', (i) => (i.lot = 0), 'lot'],
+    ['a date that is not YYYY-MM-DD', (i) => (i.createdOn = '01/12/2026'), 'createdOn'],
+    [
+      'a holding outside the scenario',
+      (i) => i.household.holdings!.positions.push({ asset: 'ZZZ', amount: 5 }),
+      'household.holdings.positions[8].asset',
+    ],
+    [
+      'a negative holding',
+      (i) => (i.household.holdings!.positions[0].amount = -1),
+      'household.holdings.positions[0].amount',
+    ],
+  ];
+  for (const [what, change, path] of cases)
+    it(`${what} -> ${path}`, async () => {
+      const input = memoFixture();
+      change(input);
+      const error = await renderMemo(input).catch((e: unknown) => e);
+      expect(error).toBeInstanceOf(InputError);
+      expect((error as InputError).location.path).toBe(path);
+    });
+});
