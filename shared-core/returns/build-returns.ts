@@ -145,17 +145,17 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
   const startLabel = options.from ?? dates[earliest];
   const endLabel = options.to ?? dates[latest];
   // Name the assets whose late start or early end shortens the common window (a gap of a few
-  // days is a holiday, not a late start).
+  // days after a requested start date is a holiday, not a late start).
   const startDay = options.from !== undefined ? dayNumber(options.from) : days[earliest];
   const endDay = options.to !== undefined ? dayNumber(options.to) : days[latest];
   firsts.forEach((r, a) => {
-    if (r === commonLo && days[r] - startDay > maxFill)
+    if (r === commonLo && (r > earliest || days[r] - startDay > maxFill))
       warnings.push(
         `${ids[a]} starts on ${dates[r]}, after the window start ${startLabel}: the common window starts there`,
       );
   });
   lasts.forEach((r, a) => {
-    if (r === commonHi && endDay - days[r] > maxFill)
+    if (r === commonHi && (r < latest || endDay - days[r] > maxFill))
       warnings.push(`${ids[a]} ends on ${dates[r]}, before the window end ${endLabel}: the common window ends there`);
   });
   if (commonLo > commonHi) {

@@ -1,5 +1,6 @@
 import type { Command } from '../command.js';
 import { demoCommand } from './demo.js';
+import { estimateCommand } from './estimate.js';
 import { backupCommand } from './backup.js';
 import { importCommand } from './import.js';
 import { restoreCommand } from './restore.js';
@@ -9,4 +10,11 @@ import { serveCommand } from './serve.js';
  * Every `holdfast` command, in the order `--help` lists them. A new command is one module in
  * this folder plus one line here.
  */
-export const commands: readonly Command[] = [demoCommand, importCommand, backupCommand, restoreCommand, serveCommand];
+export const commands: readonly Command[] = [
+  demoCommand,
+  importCommand,
+  backupCommand,
+  restoreCommand,
+  serveCommand,
+  estimateCommand,
+];
