@@ -1,6 +1,7 @@
 import Database from 'better-sqlite3';
 import { closeSync, existsSync, openSync } from 'node:fs';
 import { StoreOpenError } from './errors.js';
+import { withNativeBinding } from './native-binding.js';
 import { LATEST_SCHEMA_VERSION, STORE_APPLICATION_ID, migrate } from './migrations.js';
 
 export interface StoreHeader {
@@ -13,7 +14,7 @@ export interface StoreHeader {
 export function readStoreHeader(path: string): StoreHeader {
   let db: Database.Database | undefined;
   try {
-    db = new Database(path, { readonly: true, fileMustExist: true });
+    db = new Database(path, withNativeBinding({ readonly: true, fileMustExist: true }));
     return {
       applicationId: db.pragma('application_id', { simple: true }) as number,
       userVersion: db.pragma('user_version', { simple: true }) as number,
@@ -51,7 +52,7 @@ export function openDatabase(path: string, options: { create: boolean; migrateTo
     // gives its -wal and -shm files the same mode as the database file.
     closeSync(openSync(path, 'wx', 0o600));
   }
-  const db = new Database(path);
+  const db = new Database(path, withNativeBinding({}));
   try {
     db.pragma('journal_mode = WAL');
     db.pragma('synchronous = FULL');

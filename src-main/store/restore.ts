@@ -3,6 +3,7 @@ import { chmodSync, existsSync, renameSync, rmSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { StoreOpenError } from './errors.js';
 import { assertOpenable, readStoreHeader } from './open-database.js';
+import { withNativeBinding } from './native-binding.js';
 
 export interface RestoreResult {
   /** The store file now holding the backup's contents. */
@@ -25,7 +26,7 @@ export async function restoreStore(fromPath: string, storePath: string, now = ne
   const header = readStoreHeader(from);
   assertOpenable(from, header);
   if (header.userVersion === 0) throw new StoreOpenError('is an empty file, not a Holdfast backup', from);
-  const source = new Database(from, { readonly: true, fileMustExist: true });
+  const source = new Database(from, withNativeBinding({ readonly: true, fileMustExist: true }));
   const staging = `${target}.restoring-${process.pid}`;
   try {
     checkIntegrity(source, from);
@@ -36,7 +37,7 @@ export async function restoreStore(fromPath: string, storePath: string, now = ne
   }
   try {
     chmodSync(staging, 0o600);
-    const copy = new Database(staging, { fileMustExist: true });
+    const copy = new Database(staging, withNativeBinding({ fileMustExist: true }));
     try {
       checkIntegrity(copy, staging);
       copy.pragma('journal_mode = WAL');
@@ -46,7 +47,7 @@ export async function restoreStore(fromPath: string, storePath: string, now = ne
     let previous: string | undefined;
     if (existsSync(target)) {
       // Fold the old store's WAL into its file first, so no stale -wal is left beside the new one.
-      const old = new Database(target, { fileMustExist: true });
+      const old = new Database(target, withNativeBinding({ fileMustExist: true }));
       old.pragma('wal_checkpoint(TRUNCATE)');
       old.close();
       previous = `${target}.replaced-${now.toISOString().replace(/[:.]/g, '-')}`;
