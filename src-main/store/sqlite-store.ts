@@ -302,6 +302,14 @@ export class SqliteStore implements Store {
     return new Map(rows.map((r) => [r.asset_id, decode(r)]));
   }
 
+  /** Days and closes only: what a PriceTable needs (the batch ids stay on disk). */
+  private readCloses(assetIds: readonly string[]): Map<string, Pick<SeriesArrays, 'days' | 'closes'>> {
+    const rows = this.sql(
+      'SELECT asset_id, days, closes FROM price_series WHERE asset_id IN (SELECT value FROM json_each(?))',
+    ).all(JSON.stringify(assetIds)) as Omit<SeriesRow, 'batches'>[];
+    return new Map(rows.map((r) => [r.asset_id, { days: int32s(r.days), closes: float64s(r.closes) }]));
+  }
+
   priceTable(query: PriceTableQuery): PriceTable {
     let assets: readonly string[];
     if (query.universe !== undefined) {
@@ -324,7 +332,7 @@ export class SqliteStore implements Store {
     );
     const missing = assets.filter((a) => !known.has(a));
     if (missing.length) throw new InputError(`unknown asset${missing.length > 1 ? 's' : ''}: ${missing.join(', ')}`);
-    const series = this.readSeries(assets);
+    const series = this.readCloses(assets);
     return alignSeries(
       assets,
       assets.map((a) => series.get(a)),
