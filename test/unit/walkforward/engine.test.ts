@@ -323,3 +323,29 @@ describe('walk-forward engine with part of the portfolio in cash', () => {
     expect(result.returns[0]).toBeCloseTo(0.06004, 12);
   });
 });
+
+describe('realised over forecast volatility', () => {
+  it('stays near 1 when the forecast is the true volatility, and near 2 when it is half of it (the issue: a good forecast keeps it near 1)', () => {
+    const z = normals(31);
+    const rows = 2520 * 2;
+    const c = new Float64Array(rows);
+    let level = 100;
+    for (let t = 0; t < rows; t++) {
+      if (t > 0) level *= 1 + 0.01 * z();
+      c[t] = level;
+    }
+    const prices: PriceTable = { dates: weekdays('2000-01-03', rows), assets: ['A'], closes: [c] };
+    const forecasting =
+      (vol: number): AllocateFn =>
+      () => ({ ...fixed([1]), forecastVolatility: vol });
+    const truth = 0.01 * Math.sqrt(252);
+    const good = walkForwardMetrics(run(prices, forecasting(truth)), 0).volatilityRatio!;
+    const low = walkForwardMetrics(run(prices, forecasting(truth / 2)), 0).volatilityRatio!;
+    expect(good.count).toBeGreaterThan(200);
+    expect(good.mean).toBeGreaterThan(0.97);
+    expect(good.mean).toBeLessThan(1.03);
+    expect(good.p10).toBeLessThan(1);
+    expect(good.p90).toBeGreaterThan(1);
+    expect(low.mean / good.mean).toBeCloseTo(2, 10);
+  });
+});
