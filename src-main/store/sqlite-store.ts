@@ -28,6 +28,7 @@ import type {
   Revision,
   RevisionComparison,
   RevisionInfo,
+  RevisionMeta,
   ScenarioRecord,
   Store,
   UniverseMember,
@@ -593,7 +594,7 @@ export class SqliteStore implements Store {
     return s;
   }
 
-  saveRevision(scenarioId: number, document: unknown, meta: { author: string; note?: string }): RevisionInfo {
+  saveRevision(scenarioId: number, document: unknown, meta: RevisionMeta): RevisionInfo {
     const parsed = parseScenario(document);
     if (!parsed.ok) {
       const [first, ...rest] = parsed.errors;
@@ -611,7 +612,7 @@ export class SqliteStore implements Store {
       const number = s.latestRevision + 1;
       this.sql(
         'INSERT INTO scenario_revisions (scenario_id, number, hash, document, saved_at, author, note) VALUES (?, ?, ?, ?, ?, ?, ?)',
-      ).run(scenarioId, number, hash, text, this.stamp(), meta.author, meta.note ?? null);
+      ).run(scenarioId, number, hash, text, meta.savedAt ?? this.stamp(), meta.author, meta.note ?? null);
       this.audit('save', 'revision', scenarioId, hash, `revision ${number}${meta.note ? `: ${meta.note}` : ''}`);
       return info(this.getRevision(scenarioId, number)!);
     });
@@ -718,7 +719,7 @@ export class SqliteStore implements Store {
           memo.revisionHash,
           memo.dataVersion,
           sha,
-          this.stamp(),
+          memo.printedAt ?? this.stamp(),
           memo.title ?? null,
           Buffer.from(memo.pdf.buffer, memo.pdf.byteOffset, memo.pdf.byteLength),
         ).lastInsertRowid,

@@ -159,6 +159,13 @@ export interface RevisionInfo {
   note?: string;
 }
 
+export interface RevisionMeta {
+  author: string;
+  note?: string;
+  /** The original time when a revision comes from a household file; default now. */
+  savedAt?: string;
+}
+
 export interface Revision extends RevisionInfo {
   document: Scenario;
 }
@@ -189,6 +196,8 @@ export interface MemoInput {
   dataVersion: number;
   pdf: Uint8Array;
   title?: string;
+  /** The original print time when a memo comes from a household file; default now. */
+  printedAt?: string;
 }
 
 export interface MemoInfo {
@@ -282,7 +291,7 @@ export interface Store {
    * revision, discarding the draft. Saving a document equal to the newest revision adds nothing
    * and returns that revision.
    */
-  saveRevision(scenarioId: number, document: unknown, meta: { author: string; note?: string }): RevisionInfo;
+  saveRevision(scenarioId: number, document: unknown, meta: RevisionMeta): RevisionInfo;
   listRevisions(scenarioId: number): RevisionInfo[];
   /** A revision by number, or the newest when omitted. */
   getRevision(scenarioId: number, number?: number): Revision | undefined;
