@@ -2,6 +2,7 @@ import { InputError, type InputLocation } from '../errors.js';
 import type { Frequency } from '../estimators/types.js';
 import { zeros, type Matrix } from '../linalg/matrix.js';
 import type { PriceTable } from '../prices/price-table.js';
+import { desmooth } from './desmooth.js';
 import { coarser, dayNumber, isCoarser, monthIndex, pricingFrequency, weekIndex } from './calendar.js';
 
 export type ReturnMethod = 'log' | 'simple';
@@ -27,6 +28,11 @@ export interface BuildReturnsOptions {
   onCoarserPricing?: 'error' | 'coarsen';
   /** Fewer common returns than this is an error. Default 3. */
   minObservations?: number;
+  /**
+   * Assets whose returns are appraisal-smoothed (fund NAVs, private assets): their returns are
+   * desmoothed by the MA(2) model of Getmansky, Lo and Makarov (2004) before estimation.
+   */
+  desmooth?: readonly string[];
   /** Maps an asset and date to where it sits in the input (file line and column, JSON path). */
   locate?: (asset: string | undefined, date?: string) => InputLocation;
 }
@@ -55,7 +61,12 @@ export interface ReturnsResult {
   /** The frequency used (coarser than asked when `onCoarserPricing` is `coarsen`). */
   frequency: Frequency;
   method: ReturnMethod;
+  /** The smoothing profile found for each desmoothed asset (theta_0..theta_2, sum 1). */
+  desmoothing: { asset: string; theta: number[]; smoothingIndex: number }[];
 }
+
+/** Fewest returns an MA(2) smoothing profile is fitted to. */
+export const MIN_DESMOOTH_OBSERVATIONS = 24;
 
 /** One sampled period end: its table row and, per asset, the row whose price stands for it. */
 interface SamplePoint {
@@ -307,6 +318,24 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
     }
   }
 
+  const desmoothing: ReturnsResult['desmoothing'] = [];
+  for (const asset of options.desmooth ?? []) {
+    const a = ids.indexOf(asset);
+    if (a === -1) throw new InputError(`cannot desmooth '${asset}': it is not a selected asset`, { path: 'desmooth' });
+    if (t < MIN_DESMOOTH_OBSERVATIONS)
+      throw fail(
+        `cannot desmooth ${asset}: ${t} returns, at least ${MIN_DESMOOTH_OBSERVATIONS} are needed to fit its smoothing`,
+        asset,
+      );
+    const column = Float64Array.from({ length: t }, (_, s) => out[s * n + a]);
+    const d = desmooth(column);
+    for (let s = 0; s < t; s++) out[s * n + a] = d.returns[s];
+    desmoothing.push({ asset, theta: d.theta, smoothingIndex: d.smoothingIndex });
+    warnings.push(
+      `desmoothed ${asset} (Getmansky, Lo and Makarov 2004): theta ${d.theta.map((v) => v.toFixed(3)).join(' / ')}`,
+    );
+  }
+
   // Dates dropped: priced dates (daily) or priced periods (weekly, monthly) in the window unused.
   const used = new Set<number>();
   for (const k of pairs) {
@@ -341,6 +370,7 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
     warnings,
     frequency,
     method: options.method,
+    desmoothing,
   };
 }
 

@@ -4,4 +4,5 @@
 set -e
 cd "$(dirname "$0")/../../.."
 /usr/bin/Rscript test/reference/estimators/eustockmarkets.R
+/usr/bin/Rscript test/reference/estimators/desmoothing.R
 /usr/bin/python3 test/reference/estimators/make_fixtures.py
