@@ -1,0 +1,96 @@
+import { InputError } from '../../shared-core/errors.js';
+import type { PriceTable } from '../../shared-core/prices/price-table.js';
+import type { AssetInfo, Scenario } from '../../shared-core/scenario/schema.js';
+import type { Store } from '../store/store.js';
+
+export interface StoredScenarioInputs {
+  scenario: Scenario;
+  prices: PriceTable;
+  /** `store.hfstore: household 'X', scenario 'Y', revision 3`: where the inputs came from. */
+  label: string;
+  revision: { number: number; hash: string };
+  dataVersion: number;
+}
+
+/**
+ * What `holdfast solve --store` and the app compute from: the newest saved revision of a
+ * household's scenario and the stored prices of its assets (the document's `assets`, else its
+ * universe's members). Two gaps of the document are filled from the store, never overriding it:
+ * `assetInfo` from each asset's tags (class, region, currency, liquidity), and `current` from the
+ * household's holdings as weights of their value in the base currency (converted with the latest
+ * stored FX close on or before the holdings date).
+ */
+export function storedScenarioInputs(store: Store, householdName: string, scenarioName: string): StoredScenarioInputs {
+  const household = store.getHousehold(householdName);
+  if (!household) throw new InputError(`no household named '${householdName}' in the store`);
+  const record = store.getScenario(household.id, scenarioName);
+  if (!record) throw new InputError(`household '${householdName}' has no scenario named '${scenarioName}'`);
+  const revision = store.getRevision(record.id);
+  if (!revision) throw new InputError(`scenario '${scenarioName}' has only a draft; save a revision first`);
+  const doc = revision.document;
+  let assets: readonly string[];
+  if (doc.assets) {
+    doc.assets.forEach((a, i) => {
+      if (!store.getAsset(a)) throw new InputError(`unknown asset '${a}' (not in the store)`, { path: `assets[${i}]` });
+    });
+    assets = doc.assets;
+  } else if (record.universe) assets = store.getUniverse(record.universe)!.members.map((m) => m.assetId);
+  else throw new InputError(`scenario '${scenarioName}' names no universe and its document lists no assets`);
+  const prices = store.priceTable({ assets, from: doc.window?.from, to: doc.window?.to });
+
+  const assetInfo: Record<string, AssetInfo> = { ...doc.assetInfo };
+  for (const id of assets) {
+    if (assetInfo[id]) continue;
+    const a = store.getAsset(id)!;
+    const info: AssetInfo = { name: a.displayName, liquidity: a.liquidity.tag };
+    if (a.assetClass) info.assetClass = a.assetClass;
+    if (a.region) info.region = a.region;
+    if (a.currency) info.currency = a.currency;
+    assetInfo[id] = info;
+  }
+  const scenario: Scenario = { ...doc, assetInfo };
+  if (!doc.current) {
+    const current = holdingWeights(store, household.id, household.baseCurrency, new Set(assets));
+    if (current) scenario.current = current;
+  }
+  return {
+    scenario,
+    prices,
+    label: `${store.path}: household '${householdName}', scenario '${scenarioName}', revision ${revision.number}`,
+    revision: { number: revision.number, hash: revision.hash },
+    dataVersion: store.dataVersion(),
+  };
+}
+
+function holdingWeights(
+  store: Store,
+  householdId: number,
+  base: string,
+  universe: ReadonlySet<string>,
+): Record<string, number> | undefined {
+  const holdings = store.holdings(householdId);
+  if (holdings.length === 0) return undefined;
+  const values = holdings.map((h, i) => {
+    if (!universe.has(h.assetId))
+      throw new InputError(`held asset '${h.assetId}' is not among the scenario's assets`, { path: `holdings[${i}]` });
+    return h.amount * fxRate(store, h.currency, base, h.asOf, i);
+  });
+  const total = values.reduce((s, v) => s + v, 0);
+  if (!(total > 0)) throw new InputError('the holdings add up to no positive value', { path: 'holdings' });
+  return Object.fromEntries(holdings.map((h, i) => [h.assetId, values[i] / total]));
+}
+
+/** Units of `to` per unit of `from` on or before `asOf`, from a stored FX series (either direction). */
+function fxRate(store: Store, from: string, to: string, asOf: string, index: number): number {
+  if (from === to) return 1;
+  const direct = store.fxAsset(from, to);
+  const inverse = direct ? undefined : store.fxAsset(to, from);
+  const series = (direct ?? inverse) && store.priceSeries((direct ?? inverse)!.id);
+  let close: number | undefined;
+  if (series) for (let i = 0; i < series.dates.length && series.dates[i] <= asOf; i++) close = series.closes[i];
+  if (close === undefined)
+    throw new InputError(`no stored ${from}/${to} rate on or before ${asOf} to value this holding in ${to}`, {
+      path: `holdings[${index}].currency`,
+    });
+  return direct ? close : 1 / close;
+}
