@@ -1,4 +1,4 @@
-import { useMemo } from 'react';
+import { memo, useMemo } from 'react';
 import { formatPercent, formatRatio } from '../scenario/format.js';
 import { ChartFigure } from './EChart.js';
 import { FONT, INK, RULE } from './palette.js';
@@ -23,7 +23,11 @@ export function scatterFinding(points: readonly ScatterPoint[]): string {
 }
 
 /** Volatility across, diversification ratio up: one point per candidate, in its colour and mark. */
-export function CandidateScatter(props: { points: readonly ScatterPoint[]; basis: string; locale?: string }) {
+export const CandidateScatter = memo(function CandidateScatter(props: {
+  points: readonly ScatterPoint[];
+  basis: string;
+  locale?: string;
+}) {
   const option = useMemo(
     () => ({
       animation: false,
@@ -98,4 +102,4 @@ export function CandidateScatter(props: { points: readonly ScatterPoint[]; basis
       }
     />
   );
-}
+});

@@ -1,4 +1,4 @@
-import { useMemo } from 'react';
+import { memo, useMemo } from 'react';
 import { formatRatio } from '../scenario/format.js';
 import { ChartFigure } from './EChart.js';
 import { DIVERGING, FONT, INK } from './palette.js';
@@ -18,7 +18,7 @@ export function correlationFinding(assets: readonly string[], correlation: reado
   return `Most alike: ${assets[hi.i]} and ${assets[hi.j]} (${formatRatio(hi.v, 'en-GB')}); least: ${assets[lo.i]} and ${assets[lo.j]} (${formatRatio(lo.v, 'en-GB')})`;
 }
 
-export function CorrelationHeatmap(props: {
+export const CorrelationHeatmap = memo(function CorrelationHeatmap(props: {
   assets: readonly string[];
   /** N x N row-major, in `assets` order. */
   correlation: readonly number[];
@@ -112,4 +112,4 @@ export function CorrelationHeatmap(props: {
       }
     />
   );
-}
+});

@@ -1,4 +1,4 @@
-import { useMemo } from 'react';
+import { memo, useMemo } from 'react';
 import type { EstimateView } from '../worker/comparison.js';
 import { formatPercent, formatRatio, formatSignedPercent } from '../scenario/format.js';
 import { ChartFigure } from './EChart.js';
@@ -26,7 +26,7 @@ export function differenceFinding(estimates: readonly EstimateView[]): string {
 }
 
 /** Each estimate's volatility per asset against the sample's, as a per cent change. */
-export function EstimateDifferenceChart(props: {
+export const EstimateDifferenceChart = memo(function EstimateDifferenceChart(props: {
   assets: readonly string[];
   estimates: readonly EstimateView[];
   basis: string;
@@ -138,4 +138,4 @@ export function EstimateDifferenceChart(props: {
       }
     />
   );
-}
+});

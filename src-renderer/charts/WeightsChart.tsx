@@ -1,4 +1,4 @@
-import { useMemo } from 'react';
+import { memo, useMemo } from 'react';
 import { formatPercent } from '../scenario/format.js';
 import { ChartFigure } from './EChart.js';
 import { FONT, INK, INK_SOFT, RULE } from './palette.js';
@@ -72,7 +72,7 @@ function barOption(
   };
 }
 
-export function WeightsChart(props: {
+export const WeightsChart = memo(function WeightsChart(props: {
   candidateLabel: string;
   colour: string;
   rows: readonly WeightRow[];
@@ -130,7 +130,7 @@ export function WeightsChart(props: {
       }
     />
   );
-}
+});
 
 export interface RiskRow {
   asset: string;
@@ -146,7 +146,7 @@ export function riskFinding(candidate: string, rows: readonly RiskRow[]): string
 }
 
 /** Risk contributions in the weights chart's order, the weight as an outline beside each. */
-export function RiskContributionChart(props: {
+export const RiskContributionChart = memo(function RiskContributionChart(props: {
   candidateLabel: string;
   colour: string;
   rows: readonly RiskRow[];
@@ -203,4 +203,4 @@ export function RiskContributionChart(props: {
       }
     />
   );
-}
+});

@@ -15,6 +15,7 @@ import type { Comparison } from '../worker/comparison.js';
 import type { RecomputeOutcome } from '../worker/recompute-client.js';
 import { AnswerSection } from './answer/AnswerSection.js';
 import { BriefSection } from './brief/BriefSection.js';
+import { EditorEpoch } from './brief/fields.js';
 import { setField, editorStateFor, type EditorState } from './editor-state.js';
 import { formatDuration } from './format.js';
 import { applyEdit, canRedo, canUndo, createHistory, redo, undo, type History } from './history.js';
@@ -129,8 +130,16 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
       return t[path] === message ? t : { ...t, [path]: message };
     });
   }, []);
-  const doUndo = useCallback(() => setHistory((h) => undo(h)), []);
-  const doRedo = useCallback(() => setHistory((h) => redo(h)), []);
+  // Undo, redo and loading a revision rewrite fields under the cursor too (see EditorEpoch).
+  const [epoch, setEpoch] = useState(0);
+  const doUndo = useCallback(() => {
+    setHistory((h) => undo(h));
+    setEpoch((e) => e + 1);
+  }, []);
+  const doRedo = useCallback(() => {
+    setHistory((h) => redo(h));
+    setEpoch((e) => e + 1);
+  }, []);
 
   // ---- prices for the chosen assets ----
   const assetKey = (doc.assets ?? []).slice().sort().join('|');
@@ -248,7 +257,10 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
     [scenarioId],
   );
   const loadDocument = useCallback(
-    (next: ScenarioInput) => commit(editorStateFor(next), `restore-${Date.now()}`),
+    (next: ScenarioInput) => {
+      commit(editorStateFor(next), `restore-${Date.now()}`);
+      setEpoch((e) => e + 1);
+    },
     [commit],
   );
 
@@ -276,6 +288,12 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   }, [doUndo, doRedo, recompute]);
 
   const [focus, setFocus] = useState<string | undefined>(undefined);
+  const stateRef = useRef(state);
+  stateRef.current = state;
+  const recommend = useCallback(
+    (id: string | undefined) => commit(setField(stateRef.current, ['recommended'], id)),
+    [commit],
+  );
   const names = useMemo(() => new Map(boot.catalogue.map((a) => [a.id, a.name])), [boot.catalogue]);
   const messages = useMemo(() => [...check.messages, ...(problem?.messages ?? [])], [check, problem]);
   const colourIndex = useCallback(
@@ -351,15 +369,17 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
       ) : null}
       <div className={beside !== null ? 'with-beside' : undefined}>
         <div className="scenario-main">
-          <BriefSection
-            state={state}
-            commit={commit}
-            messages={messages}
-            onTyping={onTyping}
-            catalogue={boot.catalogue}
-            holdings={boot.holdings}
-            locale={locale}
-          />
+          <EditorEpoch.Provider value={epoch}>
+            <BriefSection
+              state={state}
+              commit={commit}
+              messages={messages}
+              onTyping={onTyping}
+              catalogue={boot.catalogue}
+              holdings={boot.holdings}
+              locale={locale}
+            />
+          </EditorEpoch.Provider>
           {good ? (
             <>
               <AnswerSection
@@ -368,7 +388,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
                 recommended={doc.recommended}
                 focused={focus}
                 onFocus={setFocus}
-                onRecommend={(id) => commit(setField(state, ['recommended'], id))}
+                onRecommend={recommend}
                 holdings={boot.holdings}
                 names={names}
                 locale={locale}

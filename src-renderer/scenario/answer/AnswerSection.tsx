@@ -1,4 +1,4 @@
-import { useMemo, useState } from 'react';
+import { memo, useMemo, useState } from 'react';
 import type { Holdings } from '../../../shared-core/contract/service-api.js';
 import type { Scenario } from '../../../shared-core/scenario/schema.js';
 import { CandidateScatter, type ScatterPoint } from '../../charts/CandidateScatter.js';
@@ -6,7 +6,8 @@ import { CorrelationHeatmap } from '../../charts/CorrelationHeatmap.js';
 import { EstimateDifferenceChart } from '../../charts/EstimateDifferenceChart.js';
 import { candidateColour, candidateSymbol } from '../../charts/palette.js';
 import { RiskContributionChart, sortByTarget, WeightsChart } from '../../charts/WeightsChart.js';
-import type { Comparison } from '../../worker/comparison.js';
+import { sameNumbers, useStable } from '../../charts/use-stable.js';
+import type { Comparison, EstimateView } from '../../worker/comparison.js';
 import { describeEstimator } from '../candidate-grid.js';
 import { formatDate } from '../format.js';
 import { CandidateTable, solved } from './CandidateTable.js';
@@ -32,6 +33,18 @@ export interface AnswerProps {
   stale: boolean;
 }
 
+function sameEstimate(a: EstimateView | undefined, b: EstimateView | undefined): boolean {
+  if (!a || !b) return a === b;
+  return (
+    a.key === b.key &&
+    a.label === b.label &&
+    sameNumbers(a.order, b.order) &&
+    sameNumbers(a.volatilities, b.volatilities) &&
+    sameNumbers(a.correlation, b.correlation) &&
+    sameNumbers(a.distance.volatilityRatio, b.distance.volatilityRatio)
+  );
+}
+
 export function basisOf(comparison: Comparison, scenario: Scenario, locale?: string): string {
   const w = comparison.window;
   const span = w.first && w.last ? `${formatDate(w.first, locale)} to ${formatDate(w.last, locale)}` : 'no dates';
@@ -39,17 +52,19 @@ export function basisOf(comparison: Comparison, scenario: Scenario, locale?: str
   return `${frequency} ${scenario.returns.method} returns, ${span} (${w.observations} periods).`;
 }
 
-export function AnswerSection(props: AnswerProps) {
+export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
   const { comparison, scenario, locale } = props;
   const colourIndex = useMemo(() => {
     const order = new Map(scenario.candidates.map((c, i) => [c.id, i]));
     return (id: string) => order.get(id) ?? 0;
   }, [scenario]);
-  const describe = (id: string) => {
-    const c = scenario.candidates.find((x) => x.id === id);
-    return c?.label ?? (c ? `${c.objective.method} · ${describeEstimator(c.estimator)}` : id);
-  };
-  const solvedCandidates = comparison.candidates.filter(solved);
+  const describe = useMemo(() => {
+    const labels = new Map(
+      scenario.candidates.map((c) => [c.id, c.label ?? `${c.objective.method} · ${describeEstimator(c.estimator)}`]),
+    );
+    return (id: string) => labels.get(id) ?? id;
+  }, [scenario]);
+  const solvedCandidates = useMemo(() => comparison.candidates.filter(solved), [comparison]);
   const focus =
     comparison.candidates.find((c) => c.id === props.focused && solved(c)) ??
     comparison.candidates.find((c) => c.id === props.recommended && solved(c)) ??
@@ -58,9 +73,14 @@ export function AnswerSection(props: AnswerProps) {
   const [chosenEstimate, setChosenEstimate] = useState<string | undefined>(undefined);
   const heatKey =
     chosenEstimate && comparison.estimates.some((e) => e.key === chosenEstimate) ? chosenEstimate : estimateOfFocus;
-  const heat = comparison.estimates.find((e) => e.key === heatKey) ?? comparison.estimates[0];
+  const heatNow = comparison.estimates.find((e) => e.key === heatKey) ?? comparison.estimates[0];
+  const heat = useStable<EstimateView | undefined>(heatNow, sameEstimate);
+  const estimates = useStable(
+    comparison.estimates,
+    (a, b) => a.length === b.length && a.every((e, i) => sameEstimate(e, b[i])),
+  );
   const basis = basisOf(comparison, scenario, locale);
-  const current = scenario.current ?? {};
+  const current = useMemo(() => scenario.current ?? {}, [scenario]);
 
   const weightRows = useMemo(
     () =>
@@ -87,14 +107,18 @@ export function AnswerSection(props: AnswerProps) {
     [focus, comparison.assets, props.names],
   );
   const order = useMemo(() => sortByTarget(weightRows).map((r) => r.asset), [weightRows]);
-  const points: ScatterPoint[] = solvedCandidates.map((c) => ({
-    id: c.id,
-    label: describe(c.id),
-    colour: candidateColour(colourIndex(c.id)),
-    symbol: candidateSymbol(colourIndex(c.id)),
-    volatility: c.metrics?.volatility ?? 0,
-    diversificationRatio: c.metrics?.diversificationRatio ?? 0,
-  }));
+  const points: ScatterPoint[] = useMemo(
+    () =>
+      solvedCandidates.map((c) => ({
+        id: c.id,
+        label: describe(c.id),
+        colour: candidateColour(colourIndex(c.id)),
+        symbol: candidateSymbol(colourIndex(c.id)),
+        volatility: c.metrics?.volatility ?? 0,
+        diversificationRatio: c.metrics?.diversificationRatio ?? 0,
+      })),
+    [solvedCandidates, describe, colourIndex],
+  );
 
   return (
     <section
@@ -173,12 +197,7 @@ export function AnswerSection(props: AnswerProps) {
       <h3>All candidates and their risk estimates</h3>
       <div className="chart-pair">
         <CandidateScatter points={points} basis={basis} locale={locale} />
-        <EstimateDifferenceChart
-          assets={comparison.assets}
-          estimates={comparison.estimates}
-          basis={basis}
-          locale={locale}
-        />
+        <EstimateDifferenceChart assets={comparison.assets} estimates={estimates} basis={basis} locale={locale} />
       </div>
       {heat ? (
         <div className="heat-block">
@@ -204,4 +223,4 @@ export function AnswerSection(props: AnswerProps) {
       ) : null}
     </section>
   );
-}
+});

@@ -1,3 +1,4 @@
+import { memo } from 'react';
 import type { CandidateResult } from '../../../shared-core/optimise/result.js';
 import { candidateColour } from '../../charts/palette.js';
 import { formatDuration, formatPercent, formatRatio } from '../format.js';
@@ -44,7 +45,7 @@ function StatusLine({ c }: { c: CandidateResult }) {
   );
 }
 
-export function CandidateTable(props: CandidateTableProps) {
+export const CandidateTable = memo(function CandidateTable(props: CandidateTableProps) {
   const { assets, candidates, current, locale } = props;
   const metricRows: { label: string; unit: string; value: (c: CandidateResult) => string; current?: string }[] = [
     {
@@ -216,4 +217,4 @@ export function CandidateTable(props: CandidateTableProps) {
       </table>
     </div>
   );
-}
+});

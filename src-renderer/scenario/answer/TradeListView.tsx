@@ -1,9 +1,10 @@
+import { memo } from 'react';
 import type { Holdings } from '../../../shared-core/contract/service-api.js';
 import { formatCurrency, formatDate, formatPercent } from '../format.js';
 import { tradeList } from '../trade-list.js';
 
 /** The trades from the household's holdings to one candidate, in the base currency. */
-export function TradeListView(props: {
+export const TradeListView = memo(function TradeListView(props: {
   candidateId: string;
   weights: Readonly<Record<string, number>>;
   holdings: Holdings | null;
@@ -76,4 +77,4 @@ export function TradeListView(props: {
       </table>
     </div>
   );
-}
+});

@@ -1,4 +1,4 @@
-import { useMemo, useState } from 'react';
+import { memo, useMemo, useState } from 'react';
 import type { Asset, Holdings } from '../../../shared-core/contract/service-api.js';
 import {
   estimatorMethods,
@@ -48,7 +48,7 @@ export interface BriefProps {
 
 type Bound = [number, number];
 
-export function BriefSection(props: BriefProps) {
+export const BriefSection = memo(function BriefSection(props: BriefProps) {
   const { state, commit, messages } = props;
   const doc = state.doc;
   const at = (path: string) => messagesAt(messages, path);
@@ -80,7 +80,7 @@ export function BriefSection(props: BriefProps) {
       {at('(document)').length > 0 ? <FieldNote id="doc-messages" messages={at('(document)')} /> : null}
     </section>
   );
-}
+});
 
 function WindowFields({ state: s, commit, messages, onTyping }: BriefProps) {
   const at = (path: string) => messagesAt(messages, path);
@@ -446,7 +446,9 @@ function LimitsFields(props: BriefProps & { set: (path: (string | number)[], val
   const def = (c.weightBounds?.default as Bound | undefined) ?? undefined;
   const at = (p: string) => messagesAt(messages, p);
   const setDefault = (lo: number | undefined, hi: number | undefined) => {
-    if (lo === undefined && hi === undefined) set(['constraints', 'weightBounds', 'default'], undefined);
+    // Both empty, or an empty cap over the long-only floor of 0: no default bound at all.
+    if (hi === undefined && (lo === undefined || (longOnly && lo === 0)))
+      set(['constraints', 'weightBounds', 'default'], undefined);
     else set(['constraints', 'weightBounds', 'default'], [lo ?? (longOnly ? 0 : -1), hi ?? 1]);
   };
   return (

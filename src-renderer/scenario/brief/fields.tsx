@@ -1,4 +1,35 @@
-import { useEffect, useId, useRef, useState, type ReactNode } from 'react';
+import { createContext, useContext, useEffect, useId, useRef, useState, type ReactNode } from 'react';
+
+/**
+ * Bumped by the page on undo, redo and loading a document: a field then shows the document's
+ * value even while it has focus. Otherwise a focused field keeps what is being typed, so clearing
+ * it (which may put an implied value such as a 100% cap in the document) never rewrites the text
+ * under the cursor.
+ */
+export const EditorEpoch = createContext(0);
+
+function useFieldText(
+  value: number | undefined,
+  show: (value: number | undefined) => string,
+  path: string,
+  onTyping: (path: string, message: string | null) => void,
+) {
+  const [text, setText] = useState(show(value));
+  const emitted = useRef(value);
+  const input = useRef<HTMLInputElement>(null);
+  const epoch = useContext(EditorEpoch);
+  const seenEpoch = useRef(epoch);
+  useEffect(() => {
+    const forced = epoch !== seenEpoch.current;
+    seenEpoch.current = epoch;
+    if (value === emitted.current && !forced) return;
+    if (!forced && input.current && document.activeElement === input.current) return;
+    emitted.current = value;
+    setText(show(value));
+    onTyping(path, null);
+  }, [value, epoch, path, onTyping, show]);
+  return { text, setText, emitted, input };
+}
 import { parsePercentInput, percentInputText } from '../format.js';
 import type { FieldMessage } from '../validate-draft.js';
 
@@ -66,17 +97,9 @@ export function PercentField(
     compact,
     disabled,
   } = props;
-  const [text, setText] = useState(percentInputText(value));
+  const { text, setText, emitted, input } = useFieldText(value, percentInputText, path, onTyping);
   const noteId = useNoteId();
   const inputId = `${noteId}-in`;
-  // Follow the document when it changes from outside (undo, restore), not while typing.
-  const emitted = useRef(value);
-  useEffect(() => {
-    if (value === emitted.current) return;
-    emitted.current = value;
-    setText(percentInputText(value));
-    onTyping(path, null);
-  }, [value, path, onTyping]);
   const change = (next: string) => {
     setText(next);
     if (next.trim() === '') {
@@ -104,6 +127,7 @@ export function PercentField(
       </label>
       <span className="input-with-unit">
         <input
+          ref={input}
           id={inputId}
           type="text"
           inputMode="decimal"
@@ -124,6 +148,8 @@ export function PercentField(
   );
 }
 
+const numberText = (value: number | undefined) => (value === undefined ? '' : String(value));
+
 /** A plain number (years, half-life, lambda). */
 export function NumberField(
   props: FieldProps & {
@@ -135,16 +161,9 @@ export function NumberField(
   },
 ) {
   const { label, path, messages, hint, value, onChange, onTyping, placeholder, unit, compact } = props;
-  const [text, setText] = useState(value === undefined ? '' : String(value));
+  const { text, setText, emitted, input } = useFieldText(value, numberText, path, onTyping);
   const noteId = useNoteId();
   const inputId = `${noteId}-in`;
-  const emitted = useRef(value);
-  useEffect(() => {
-    if (value === emitted.current) return;
-    emitted.current = value;
-    setText(value === undefined ? '' : String(value));
-    onTyping(path, null);
-  }, [value, path, onTyping]);
   const change = (next: string) => {
     setText(next);
     const cleaned = next.trim().replace(',', '.');
@@ -170,6 +189,7 @@ export function NumberField(
       </label>
       <span className="input-with-unit">
         <input
+          ref={input}
           id={inputId}
           type="text"
           inputMode="decimal"

@@ -1,4 +1,4 @@
-import type { ReactNode } from 'react';
+import { memo, type ReactNode } from 'react';
 import type { CandidateResult } from '../../../shared-core/optimise/result.js';
 import { candidateColour } from '../../charts/palette.js';
 import { formatPercent } from '../format.js';
@@ -9,7 +9,7 @@ import { formatPercent } from '../format.js';
  * threshold, or the limit it sits at), and what each binding limit costs in the objective's units.
  * Further evidence (walk-forward, stress) joins this part as its own subsection.
  */
-export function ReasonsSection(props: {
+export const ReasonsSection = memo(function ReasonsSection(props: {
   candidates: readonly CandidateResult[];
   focused?: string;
   onFocus: (id: string) => void;
@@ -46,7 +46,7 @@ export function ReasonsSection(props: {
       {props.children}
     </section>
   );
-}
+});
 
 function Reasons({ candidate, locale }: { candidate: CandidateResult; locale?: string }) {
   if (candidate.status !== 'optimal')
