@@ -117,6 +117,8 @@ export interface MemoData {
   sources: { name: string; assets: number; from: string; to: string }[];
   /** Data-quality flags from the import (gaps, stale prices, suspicious jumps), as sentences. */
   flags: readonly string[];
+  /** True when prices in other currencies were converted to the base currency before returns were taken. */
+  fxConverted?: boolean;
 }
 
 /** Bumped whenever the layout changes, so the memo hash changes with it. */

@@ -1,3 +1,4 @@
+import { correlationMatrix } from '../../shared-core/analytics/risk.js';
 import type { CandidateResult } from '../../shared-core/optimise/result.js';
 import { clusterOrder } from '../../src-renderer/charts/cluster-order.js';
 import {
@@ -310,18 +311,8 @@ function allocation(w: PageWriter, v: MemoView, title: string): void {
 }
 
 function correlationRows(input: MemoInput): number[][] {
-  const { covariance } = input.run.estimate;
-  const n = covariance.rows;
-  const out: number[][] = [];
-  for (let i = 0; i < n; i++) {
-    const row: number[] = [];
-    for (let j = 0; j < n; j++) {
-      const c = covariance.data[i * n + j] / Math.sqrt(covariance.data[i * n + i] * covariance.data[j * n + j]);
-      row.push(i === j ? 1 : c);
-    }
-    out.push(row);
-  }
-  return out;
+  const c = correlationMatrix(input.run.estimate.covariance);
+  return Array.from({ length: c.rows }, (_, i) => Array.from(c.data.subarray(i * c.cols, (i + 1) * c.cols)));
 }
 
 function risk(w: PageWriter, v: MemoView, title: string): void {
@@ -691,7 +682,9 @@ function cautions(w: PageWriter, v: MemoView, title: string): void {
   w.subheading('Assumptions');
   w.bullets([
     'Risk is measured by the covariance of past returns; the estimate is taken to describe the coming period.',
-    `Prices are converted to ${input.household.baseCurrency} before returns are taken where they are quoted in another currency; amounts are market values, not units.`,
+    input.data.fxConverted
+      ? `Prices quoted in another currency were converted to ${input.household.baseCurrency} with exchange-rate series before returns were taken; amounts are market values, not units.`
+      : `Returns are measured in each asset's price currency: no exchange-rate conversion was applied. Amounts are market values in ${input.household.baseCurrency}, not units.`,
     'Trades are sized from the holdings on the valuation date at those prices; costs and taxes of trading are not deducted from the trade amounts.',
   ]);
   w.subheading('Limitations');
