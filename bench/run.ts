@@ -1,11 +1,12 @@
 import { formatFigure, type BenchSuite } from './harness.js';
 import { demoDataSuite } from './demo-data.js';
+import { webHostSuite } from './web-host.js';
 import { storeSuite } from './store.js';
 import { memoBench } from './memo.js';
 import { estimatorsSuite } from './estimators.js';
 
 /** Every benchmark suite; a suite is one module in bench/ plus one line here. */
-const suites: BenchSuite[] = [demoDataSuite, storeSuite, memoBench, estimatorsSuite];
+const suites: BenchSuite[] = [demoDataSuite, webHostSuite, storeSuite, memoBench, estimatorsSuite];
 
 const only = process.argv.slice(2);
 for (const suite of suites) {
