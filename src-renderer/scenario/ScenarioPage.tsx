@@ -21,6 +21,7 @@ import { formatDuration } from './format.js';
 import { applyEdit, canRedo, canUndo, createHistory, redo, undo, type History } from './history.js';
 import { ReasonsSection } from './reasons/ReasonsSection.js';
 import { BesidePanel, RevisionBar } from './revisions/RevisionBar.js';
+import { fillStoreGaps } from './store-gaps.js';
 import { useRecompute } from './use-recompute.js';
 import { checkDraft, describeMessage, type FieldMessage } from './validate-draft.js';
 import './scenario.css';
@@ -211,7 +212,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   const first = useRef(true);
   useEffect(() => {
     if (!check.ok || !pricesNow) return;
-    recompute.request(check.scenario, pricesNow, first.current);
+    recompute.request(fillStoreGaps(check.scenario, boot.catalogue, boot.holdings), pricesNow, first.current);
     first.current = false;
   }, [check, pricesNow]);
   // Time from the last keystroke to the comparison on screen (after the browser has painted it).
