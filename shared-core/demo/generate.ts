@@ -17,8 +17,11 @@ export const DEFAULT_DEMO_SEED = 2;
 export const DEMO_FROM = '2014-01-02';
 export const DEMO_TO = '2025-12-31';
 export const DEMO_UNIVERSE_NAME = 'Demo multi-asset universe (invented)';
-/** Column id of the FX series: euro per one US dollar. */
-export const DEMO_FX_ID = 'USDEUR';
+/**
+ * Column id of the FX series: the price of one US dollar in euro. Named by the currency it
+ * prices, the form the returns engine's `fx` table takes (shared-core/returns/build-returns.ts).
+ */
+export const DEMO_FX_ID = 'USD';
 export const PRICE_DECIMALS = 4;
 export const FX_DECIMALS = 6;
 
@@ -39,7 +42,7 @@ export interface DemoData {
   universe: { name: string; assets: string[] };
   /** Closes in each asset's own currency. */
   prices: PriceTable;
-  /** One column, `USDEUR`: euro per US dollar on euro trading days. */
+  /** One column, `USD`: euro per US dollar on euro trading days. */
   fx: PriceTable;
   /** 1 where the model was in its stressed regime (aligned with `prices.dates`). */
   stressed: Uint8Array;

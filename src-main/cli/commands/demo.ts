@@ -19,7 +19,7 @@ export const demoCommand: Command = {
   details:
     'Everything written is invented demonstration data: the household, the funds, the company and the prices\n' +
     'come from a seeded model, not from any market. Files: demo-prices.csv (wide: date, then one column per\n' +
-    'asset id), demo-fx.csv (USDEUR, euro per US dollar), demo-scenario.json (holdfast-scenario@1),\n' +
+    'asset id), demo-fx.csv (column USD: euro per US dollar), demo-scenario.json (holdfast-scenario@1),\n' +
     'demo-household.json (holdings in currency amounts, asset tags), README-DEMO.txt.',
   async run(options, io) {
     const seed = options.seed as number | undefined;

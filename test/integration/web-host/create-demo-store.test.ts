@@ -27,7 +27,7 @@ describe('demo store', () => {
       expect(universe.members.find((m) => m.assetId === 'GOV-EUR')!.tags).toContain('bonds');
       expect(store.getAsset('LMI-US')).toMatchObject({ currency: 'USD', assetClass: 'single-stock' });
       expect(store.getAsset('HF-CREDIT')!.liquidity).toEqual({ tag: 'illiquid', lockUpDays: 730 });
-      expect(store.fxAsset('USD', 'EUR')?.id).toBe('USDEUR');
+      expect(store.fxAsset('USD', 'EUR')?.id).toBe('USD');
 
       // The stored prices are the generated ones, point for point (the real import, not a shortcut).
       const stored = store.priceSeries('EQ-GLB')!;
