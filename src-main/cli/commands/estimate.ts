@@ -60,6 +60,12 @@ export const estimateCommand: Command = {
     { name: 'returns', kind: 'string', choices: ['log', 'simple'], description: 'return type (default log)' },
     { name: 'periods-per-year', kind: 'number', description: 'annualisation factor (default 252, 52 or 12)' },
     { name: 'max-fill-days', kind: 'number', description: 'longest carry of a stale price, calendar days (default 5)' },
+    {
+      name: 'desmooth',
+      kind: 'string',
+      valueName: 'ID[,ID...]',
+      description: 'assets with smoothed (appraisal) returns to desmooth (Getmansky, Lo and Makarov 2004)',
+    },
     { name: 'json', kind: 'boolean', description: 'print one JSON object instead of a table' },
   ],
   details: [
@@ -82,6 +88,9 @@ export const estimateCommand: Command = {
     if (maxFillDays !== undefined && !(Number.isInteger(maxFillDays) && maxFillDays >= 0))
       throw new UsageError(`--max-fill-days must be a whole number of days, got ${maxFillDays}`);
 
+    const desmoothed = options.desmooth === undefined ? undefined : String(options.desmooth).split(',');
+    if (desmoothed?.some((id) => id === '')) throw new UsageError(`--desmooth needs asset ids separated by commas`);
+
     const file = readInputFile(io.cwd, String(options.prices));
     const inFile = (error: unknown) => (error instanceof InputError ? error.inFile(file.path) : error);
     let table;
@@ -90,6 +99,8 @@ export const estimateCommand: Command = {
     } catch (error) {
       throw inFile(error);
     }
+    for (const id of desmoothed ?? [])
+      if (!table.assets.includes(id)) throw new UsageError(`--desmooth: no asset '${id}' in ${file.path}`);
     const locate = wideCsvLocator(table);
     let returns: ReturnsResult;
     let estimate: CovarianceEstimate;
@@ -101,6 +112,7 @@ export const estimateCommand: Command = {
         method,
         maxFillDays,
         locate,
+        desmooth: desmoothed,
       });
       estimate = estimateCovariance(returns.returns, spec, { frequency: returns.frequency, periodsPerYear });
     } catch (error) {
@@ -127,6 +139,7 @@ export const estimateCommand: Command = {
             returns: method,
             window,
             coverage: returns.coverage,
+            ...(returns.desmoothing.length > 0 ? { desmoothing: returns.desmoothing } : {}),
             warnings: returns.warnings,
           },
         }) + '\n'

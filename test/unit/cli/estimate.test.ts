@@ -125,6 +125,55 @@ describe('holdfast estimate (the public interface of the estimators issue)', () 
     expect(stdout).toMatch(/past performance does not\nguarantee future results/);
   });
 
+  it('--desmooth fits the smoothing profile of the named asset and reports it (Getmansky, Lo and Makarov 2004)', async () => {
+    const smoothed = loadFixture<{ observed: number[]; theta: number[] }>('desmoothing');
+    const lines = ['date,FUND,LIQUID'];
+    let fund = 100;
+    let liquid = 50;
+    for (let k = 0; k <= smoothed.observed.length; k++) {
+      if (k > 0) {
+        fund *= Math.exp(smoothed.observed[k - 1]);
+        liquid *= Math.exp(0.03 * Math.sin(3 * k));
+      }
+      const y = 2000 + Math.floor(k / 12);
+      const m = (k % 12) + 1;
+      const day = new Date(Date.UTC(y, m, 0)).getUTCDate();
+      lines.push(`${y}-${String(m).padStart(2, '0')}-${day},${fund},${liquid}`);
+    }
+    write('nav.csv', lines.join('\n'));
+    const plain = JSON.parse(
+      (await run('--prices', 'nav.csv', '--json', '--method', 'sample', '--frequency', 'monthly')).stdout,
+    );
+    const { code, stdout, stderr } = await run(
+      '--prices',
+      'nav.csv',
+      '--json',
+      '--method',
+      'sample',
+      '--frequency',
+      'monthly',
+      '--desmooth',
+      'FUND',
+    );
+    expect(code).toBe(0);
+    const out = JSON.parse(stdout);
+    expect(out.periodsPerYear).toBe(12);
+    expect(out.diagnostics.desmoothing[0].asset).toBe('FUND');
+    out.diagnostics.desmoothing[0].theta.forEach((v: number, j: number) =>
+      expect(Math.abs(v - smoothed.theta[j])).toBeLessThan(1e-5),
+    );
+    // Desmoothing raises the volatility the smoothing hid; the other asset is untouched.
+    expect(out.covariance[0][0]).toBeGreaterThan(1.5 * plain.covariance[0][0]);
+    expect(out.covariance[1][1]).toBe(plain.covariance[1][1]);
+    expect(stderr).toMatch(/desmoothed FUND/);
+    const daily = await run('--prices', 'nav.csv', '--json');
+    expect(daily.code).toBe(2);
+    expect(daily.stderr).toMatch(/^holdfast estimate: nav\.csv:3:2: FUND is priced monthly .* use frequency monthly/);
+    expect((await run('--prices', 'nav.csv', '--desmooth', 'NOPE')).stderr).toMatch(
+      /--desmooth: no asset 'NOPE' in nav\.csv/,
+    );
+  });
+
   const bad: [string, string, string[], RegExp][] = [
     [
       'a non-positive price',

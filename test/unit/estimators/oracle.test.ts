@@ -44,8 +44,9 @@ describe('the estimated shrinkage intensity tracks the oracle intensity (Monte C
   // The intensity minimising E||delta F + (1 - delta) S - Sigma||^2 is
   // delta* = sum E[(s_ij - f_ij)(s_ij - sigma_ij)] / sum E[(s_ij - f_ij)^2] (Ledoit and Wolf 2003,
   // 2004, the quantity their kappa / T estimates). Averaged over replications the estimate must
-  // land near it; a wrong term in pi, rho or gamma moves it far off (a sign error in the off-diagonal part of rho, for
-  // example, raises the constant-correlation intensity by about 40 % on this model).
+  // land near it; a wrong term in pi, rho or gamma moves it far off (a sign error in the
+  // off-diagonal part of rho, for example, raises the constant-correlation intensity by about
+  // 40 % on this model).
   it.each(['constant-correlation', 'single-index'] as const)(
     '%s target, N = 10, T = 480, 1000 replications of a one-factor normal model',
     (target) => {
