@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { runCli } from '../../../src-main/cli/run-cli.js';
 import type { CliIO } from '../../../src-main/cli/command.js';
-import { DEMO_SCENARIO_NAME } from '../../../shared-core/demo/index.js';
+import { DEMO_SCENARIO_NAME, generateDemo } from '../../../shared-core/demo/index.js';
 import { serveStore } from '../../../src-main/web-host/serve-store.js';
 
 function fakeIO(cwd: string) {
@@ -60,6 +60,17 @@ describe('holdfast serve', () => {
       householdId: info.reply.result.startAt.householdId,
     });
     expect(JSON.stringify(scenarios.reply)).toContain(DEMO_SCENARIO_NAME);
+    // The stored holdings value in euro with the stored FX series, as the generator computed them.
+    const holdings = await post(`${origin}/api/holdings.get`, url[2], {
+      householdId: info.reply.result.startAt.householdId,
+    });
+    const demo = generateDemo();
+    const stock = holdings.reply.result.positions.find((p: { asset: string }) => p.asset === 'LMI-US');
+    expect(stock.valueInBase).toBeCloseTo(demo.holdings.find((h) => h.asset === 'LMI-US')!.baseAmount, 0);
+    expect(holdings.reply.result.total).toBeCloseTo(
+      demo.holdings.reduce((s, h) => s + h.baseAmount, 0),
+      0,
+    );
     expect((await post(`${origin}/api/app.info`, undefined, {})).status).toBe(401);
     cli.stop();
     expect(await exit).toBe(0);
