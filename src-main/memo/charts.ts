@@ -256,6 +256,9 @@ export interface GrowthSeries {
 /** Walk-forward growth of 1 on a log scale, one line per candidate. */
 export function growthOption(dates: readonly string[], series: readonly GrowthSeries[]): EChartsOption {
   const all = series.flatMap((s) => s.values.filter((v) => v > 0));
+  const base = Math.max(1.01, Math.round(((Math.max(...all) * 1.03) / (Math.min(...all) * 0.97)) ** 0.2 * 100) / 100);
+  const lo = base ** Math.floor(Math.log(Math.min(...all)) / Math.log(base));
+  const hi = base ** Math.ceil(Math.log(Math.max(...all)) / Math.log(base));
   return {
     grid: { left: 8, right: 16, top: 16, bottom: 8, containLabel: true },
     xAxis: {
@@ -267,9 +270,11 @@ export function growthOption(dates: readonly string[], series: readonly GrowthSe
     },
     yAxis: {
       type: 'log',
-      logBase: 10,
-      min: Math.min(...all) * 0.97,
-      max: Math.max(...all) * 1.03,
+      // ECharts puts log ticks at powers of the base; a base of about the fifth root of the
+      // range gives five or so gridlines at equal ratios whatever the range.
+      logBase: base,
+      min: lo,
+      max: hi,
       axisLabel: { ...axisLabel, formatter: (v: number) => v.toFixed(2) },
       splitLine,
     },

@@ -598,12 +598,18 @@ function walkForward(w: PageWriter, v: MemoView, title: string): void {
     w.paragraph(
       `Portfolio return of each candidate when the shocks below are applied to today's weights: ${st.shocks.map((s) => `${s.name} (${s.description})`).join('; ')}.`,
     );
+    // One column per candidate, as everywhere in the memo; one row per stress.
+    const ids = st.rows.map((r) => r.candidateId);
     w.table(
       [
-        { header: 'Candidate', width: 2.4 },
-        ...st.shocks.map((s) => ({ header: s.name, width: 1.3, align: 'right' as const })),
+        { header: 'Stress', width: 2.6 },
+        ...ids.map((id) => ({
+          header: `${label(id)}${id === v.recommended.id ? ' (recommended)' : ''}`,
+          width: 1.3,
+          align: 'right' as const,
+        })),
       ],
-      st.rows.map((r) => ({ cells: [label(r.candidateId), ...r.impacts.map((x) => formatPct(x))] })),
+      st.shocks.map((s, k) => ({ cells: [s.name, ...st.rows.map((r) => formatPct(r.impacts[k]))] })),
     );
   }
 }
@@ -655,7 +661,7 @@ function method(w: PageWriter, v: MemoView, title: string, hash: string): void {
     ],
     input.data.sources.map((s) => ({ cells: [s.name, String(s.assets), s.from, s.to] })),
   );
-  w.subheading('Data quality');
+  w.subheading('Data notes and quality flags');
   const flags = [...input.data.flags, ...input.run.returns.warnings];
   if (flags.length === 0) w.paragraph('The import and the returns step raised no data-quality flags.');
   else w.bullets(flags);
