@@ -33,7 +33,17 @@ export const ledoitWolfCovariance: Estimator<Extract<EstimatorSpec, { method: 'l
     method: 'ledoit-wolf',
     covariance: s,
     periodsPerYear: periodsPerYear(context),
-    diagnostics: diagnose(s, t, t, shrinkage, { target }),
+    // With N >= T the 1/T covariance of de-meaned data has rank below N, so the smallest
+    // eigenvalue of delta mu I + (1 - delta) S is exactly delta mu.
+    diagnostics: diagnose(
+      s,
+      t,
+      t,
+      shrinkage,
+      { target },
+      false,
+      target === 'scaled-identity' && x.cols >= t ? (shrinkage * trace(s)) / x.cols : undefined,
+    ),
   };
 };
 

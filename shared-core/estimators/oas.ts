@@ -26,6 +26,7 @@ export const oasCovariance: Estimator<Extract<EstimatorSpec, { method: 'oas' }>>
     method: 'oas',
     covariance: s,
     periodsPerYear: periodsPerYear(context),
-    diagnostics: diagnose(s, t, t, delta),
+    // With N >= T, S is rank-deficient and the smallest eigenvalue of the shrunk matrix is delta mu.
+    diagnostics: diagnose(s, t, t, delta, {}, false, n >= t ? delta * mu : undefined),
   };
 };

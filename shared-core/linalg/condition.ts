@@ -4,13 +4,16 @@ import { symmetricEigenvalues, tridiagonalEigenvalues } from './symmetric-eigen.
 /** Up to this size the condition number comes from every eigenvalue (4/3 N^3 flops). */
 export const EXACT_CONDITION_LIMIT = 600;
 /** Lanczos steps for larger matrices. */
-export const LANCZOS_STEPS = 60;
+export const LANCZOS_STEPS = 30;
 
 export interface ConditionNumber {
   /** lambda_max / lambda_min; Infinity when lambda_min <= 0 (singular up to rounding). */
   value: number;
-  /** `eigenvalues`: exact; `lanczos`: Ritz values bracket the spectrum from inside, so a lower bound. */
-  method: 'eigenvalues' | 'lanczos';
+  /**
+   * `eigenvalues`: exact; `lanczos`: Ritz values lie inside the spectrum, so a lower bound;
+   * `lanczos-largest`: the largest from Lanczos (it converges first), the smallest known exactly.
+   */
+  method: 'eigenvalues' | 'lanczos' | 'lanczos-largest';
   largest: number;
   smallest: number;
 }
@@ -19,9 +22,11 @@ export interface ConditionNumber {
  * Condition number of a symmetric positive semi-definite matrix. Exact up to
  * EXACT_CONDITION_LIMIT; above it the extreme Ritz values of a Lanczos run with full
  * reorthogonalisation (Golub and Van Loan, Matrix Computations, 4th ed. 2013, section 10.1),
- * which keeps the diagnostic cheap (about 60 matrix-vector products) for large universes.
+ * which keeps the diagnostic cheap (30 matrix-vector products) for large universes. The
+ * largest Ritz value converges first; the smallest is an upper bound on the smallest eigenvalue,
+ * so callers that know it exactly (a shrunk rank-deficient matrix) pass it in.
  */
-export function conditionNumber(m: Matrix): ConditionNumber {
+export function conditionNumber(m: Matrix, knownSmallest?: number): ConditionNumber {
   const n = m.rows;
   if (n === 0) return { value: 1, method: 'eigenvalues', largest: 0, smallest: 0 };
   let values: Float64Array;
@@ -32,7 +37,8 @@ export function conditionNumber(m: Matrix): ConditionNumber {
     method = 'lanczos';
   }
   const largest = values[values.length - 1];
-  const smallest = values[0];
+  const smallest = knownSmallest ?? values[0];
+  if (knownSmallest !== undefined && method === 'lanczos') method = 'lanczos-largest';
   // Eigenvalues below N * eps * lambda_max are rounding noise around zero.
   const floor = n * 2 ** -52 * Math.abs(largest);
   const value = smallest <= floor ? Infinity : largest / smallest;

@@ -33,8 +33,10 @@ export function crossProductRows(x: Matrix, out: Float64Array, rowStart: number,
   const n = x.cols;
   if (rowEnd <= rowStart) return;
   for (let i = rowStart; i < rowEnd; i++) out.fill(0, i * n, i * n + i + 1);
-  const a = packPanels(x, rowStart, rowEnd, ROWS);
+  // The row panels are column panels too when the range starts on a panel boundary: pack once.
   const b = packPanels(x, 0, rowEnd, COLS);
+  const shared = ROWS === COLS && rowStart % COLS === 0;
+  const a = shared ? b.subarray((rowStart / COLS) * t * COLS) : packPanels(x, rowStart, rowEnd, ROWS);
   const rowPanels = Math.ceil((rowEnd - rowStart) / ROWS);
   for (let k0 = 0; k0 < t; k0 += PERIODS_PER_PASS) {
     const k1 = Math.min(t, k0 + PERIODS_PER_PASS);
@@ -150,12 +152,12 @@ function packPanels(x: Matrix, c0: number, c1: number, width: number): Float64Ar
   const panels = Math.ceil((c1 - c0) / width);
   const p = new Float64Array(panels * width * t);
   const d = x.data;
-  for (let P = 0; P < panels; P++) {
-    const base = P * width * t;
-    for (let r = 0; r < width; r++) {
-      const col = c0 + P * width + r;
-      if (col >= c1) continue;
-      for (let k = 0; k < t; k++) p[base + k * width + r] = d[k * n + col];
+  // Row by row, so X is read in memory order.
+  for (let k = 0; k < t; k++) {
+    const row = k * n;
+    for (let col = c0; col < c1; col++) {
+      const P = ((col - c0) / width) | 0;
+      p[P * width * t + k * width + ((col - c0) % width)] = d[row + col];
     }
   }
   return p;

@@ -116,6 +116,20 @@ describe('condition number and Lanczos', () => {
     expect(relativeError(full, exact)).toBeLessThan(1e-9);
   });
 
+  it('above the exact limit the condition number uses Lanczos: the largest eigenvalue converged, the ratio a lower bound', () => {
+    const x = randomMatrix(700, 650, 21);
+    for (let k = 0; k < 700; k++) for (let i = 0; i < 650; i++) x.data[k * 650 + i] += 0.3 * x.data[k * 650]; // one strong factor
+    const a = crossProduct(x);
+    const exact = symmetricEigenvalues(a);
+    const c = conditionNumber(a);
+    expect(c.method).toBe('lanczos');
+    expect(Math.abs(c.largest / exact[649] - 1)).toBeLessThan(1e-10);
+    expect(c.value).toBeLessThanOrEqual((exact[649] / exact[0]) * (1 + 1e-12));
+    const known = conditionNumber(a, exact[0]);
+    expect(known.method).toBe('lanczos-largest');
+    expect(Math.abs(known.value / (exact[649] / exact[0]) - 1)).toBeLessThan(1e-10);
+  });
+
   it('a singular matrix has an infinite condition number; diag(1, 4) has 4', () => {
     expect(
       conditionNumber(
