@@ -1,15 +1,14 @@
 import type { Matrix } from '../../../shared-core/linalg/matrix.js';
 import type { CandidateMetrics, CandidateResult } from '../../../shared-core/optimise/result.js';
 import { parseScenario, type Scenario } from '../../../shared-core/scenario/schema.js';
+import { metricsFor } from '../../../src-main/memo/build-memo-input.js';
 import type { MemoInput } from '../../../src-main/memo/memo-input.js';
 
 /**
  * An invented household and universe for the memo's layout tests: a seeded two-factor
- * covariance, four hand-set candidate weight vectors, and metrics computed from them here with
- * the textbook formulas (volatility sqrt(w'Sigma w); DR = w'sigma / vol, Choueifaty and Coignard
- * 2008; Euler risk contributions w_i (Sigma w)_i / w'Sigma w; effective holdings 1 / sum w^2).
- * Effective bets here use exp(entropy of the risk contributions), a stand-in for Meucci's
- * torsion bets that is enough for layout. The real run replaces this once it exists.
+ * correlation structure, four hand-set candidate weight vectors, and their figures from
+ * shared-core/analytics/risk (the functions the app and the command line use). The CLI tests
+ * use the real scenario run instead.
  */
 export const ASSETS = ['ALD-EQ', 'BRK-EQ', 'COR-EM', 'DUN-GOV', 'ELS-CR', 'SON-CR', 'GOR-AU', 'HED-RE', 'ILK-CASH'];
 
@@ -58,24 +57,8 @@ export function metricsOf(
   cov: Matrix,
   current?: Record<string, number>,
 ): CandidateMetrics {
-  const n = assets.length;
-  const w = assets.map((a) => weights[a] ?? 0);
-  const sw = new Array<number>(n).fill(0);
-  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) sw[i] += cov.data[i * n + j] * w[j];
-  const variance = w.reduce((s, x, i) => s + x * sw[i], 0);
-  const vol = Math.sqrt(variance);
-  const sigma = assets.map((_, i) => Math.sqrt(cov.data[i * n + i]));
-  const rc: Record<string, number> = {};
-  assets.forEach((a, i) => (rc[a] = (w[i] * sw[i]) / variance));
-  const entropy = -Object.values(rc).reduce((s, p) => (p > 0 ? s + p * Math.log(p) : s), 0);
-  return {
-    volatility: vol,
-    diversificationRatio: w.reduce((s, x, i) => s + x * sigma[i], 0) / vol,
-    effectiveBets: Math.exp(entropy),
-    effectiveHoldings: 1 / w.reduce((s, x) => s + x * x, 0),
-    riskContributions: rc,
-    turnover: current ? assets.reduce((s, a) => s + Math.abs((weights[a] ?? 0) - (current[a] ?? 0)), 0) : 0,
-  };
+  const turnover = current ? assets.reduce((s, a) => s + Math.abs((weights[a] ?? 0) - (current[a] ?? 0)), 0) : 0;
+  return { ...metricsFor(weights, assets, cov), turnover };
 }
 
 const CURRENT = {
