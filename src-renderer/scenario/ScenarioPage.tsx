@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import { useCallback, useDeferredValue, useEffect, useMemo, useRef, useState } from 'react';
 import type {
   Asset,
   Holdings,
@@ -101,6 +101,7 @@ interface Shown {
   ms: number;
   computeMs: number;
   afterEdit: boolean;
+  phases: [number, number, number] | null;
 }
 
 const AUTOSAVE_MS = 900;
@@ -114,6 +115,12 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   const lastEditAt = useRef<number>(performance.now());
   const edited = useRef(false);
 
+  /** An edit computed from the latest state (for fields that do not re-render on every keystroke). */
+  const update = useCallback((edit: (state: EditorState) => EditorState, key?: string) => {
+    lastEditAt.current = performance.now();
+    edited.current = true;
+    setHistory((h) => applyEdit(h, edit(h.present), { key, at: Date.now() }));
+  }, []);
   const commit = useCallback((next: EditorState, key?: string) => {
     lastEditAt.current = performance.now();
     edited.current = true;
@@ -172,6 +179,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   const [problem, setProblem] = useState<Problem | null>(null);
   const [shown, setShown] = useState<Shown | null>(null);
   const paintFrom = useRef<number | null>(null);
+  const phases = useRef<{ started: number; finished: number } | null>(null);
   const hadGood = useRef(false);
   const onOutcome = useCallback((o: RecomputeOutcome) => {
     if (o.kind === 'cancelled') {
@@ -205,6 +213,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
     }
     hadGood.current = true;
     paintFrom.current = lastEditAt.current;
+    phases.current = { started: o.startedAt, finished: o.finishedAt };
     setGood({ comparison: o.comparison, scenario: o.scenario });
     setProblem(null);
   }, []);
@@ -221,11 +230,17 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
     const from = paintFrom.current;
     paintFrom.current = null;
     requestAnimationFrame(() =>
-      setTimeout(
-        () =>
-          setShown({ ms: performance.now() - from, computeMs: good.comparison.computeMs, afterEdit: edited.current }),
-        0,
-      ),
+      setTimeout(() => {
+        const now = performance.now();
+        const p = phases.current;
+        setShown({
+          ms: now - from,
+          computeMs: good.comparison.computeMs,
+          afterEdit: edited.current,
+          // Edit to run start (debounce, queue); the run with its copies to and from the worker; paint.
+          phases: p ? [p.started - from, p.finished - p.started, now - p.finished] : null,
+        });
+      }, 0),
     );
   }, [good]);
 
@@ -305,6 +320,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
       ),
     [good],
   );
+  const deferredCandidates = useDeferredValue(good?.comparison.candidates);
   const stale = recompute.state.busy || !check.ok || problem !== null;
 
   return (
@@ -374,6 +390,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
             <BriefSection
               state={state}
               commit={commit}
+              update={update}
               messages={messages}
               onTyping={onTyping}
               catalogue={boot.catalogue}
@@ -396,7 +413,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
                 stale={stale}
               />
               <ReasonsSection
-                candidates={good.comparison.candidates}
+                candidates={deferredCandidates ?? good.comparison.candidates}
                 focused={focus ?? doc.recommended}
                 onFocus={setFocus}
                 colourIndex={colourIndex}
@@ -439,6 +456,7 @@ function RecomputeStatus(props: {
       data-state={state}
       data-shown-ms={props.shown ? props.shown.ms.toFixed(1) : undefined}
       data-after-edit={props.shown ? String(props.shown.afterEdit) : undefined}
+      data-phases-ms={props.shown?.phases ? props.shown.phases.map((v) => v.toFixed(0)).join(' ') : undefined}
       data-compute-ms={props.shown ? props.shown.computeMs.toFixed(1) : undefined}
     >
       <p role="status" aria-live="polite">

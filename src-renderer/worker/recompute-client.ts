@@ -16,7 +16,15 @@ export interface WorkerLike {
 }
 
 export type RecomputeOutcome =
-  | { kind: 'done'; comparison: Comparison; scenario: Scenario; requestedAt: number; finishedAt: number }
+  | {
+      kind: 'done';
+      comparison: Comparison;
+      scenario: Scenario;
+      requestedAt: number;
+      /** When the run was posted to the worker (after the debounce and any queue). */
+      startedAt: number;
+      finishedAt: number;
+    }
   | { kind: 'failed'; message: string; path?: string; input: boolean; scenario?: Scenario; requestedAt: number }
   | { kind: 'cancelled' };
 
@@ -35,8 +43,8 @@ export interface RecomputeOptions {
   clearTimer?: (handle: unknown) => void;
 }
 
-/** Short enough to feel live, long enough that a typed number is whole (common practice: 50-150 ms). */
-export const DEBOUNCE_MS = 60;
+/** Short enough to feel live, long enough to fold a burst of keystrokes into one run (a newer edit also supersedes a queued run). */
+export const DEBOUNCE_MS = 40;
 export const SUPERSEDE_AFTER_MS = 250;
 
 interface Job {
@@ -166,6 +174,7 @@ export class RecomputeClient {
         comparison: message.comparison,
         scenario: running.scenario,
         requestedAt: running.requestedAt,
+        startedAt: running.startedAt,
         finishedAt: this.o.now(),
       });
     else

@@ -1,4 +1,4 @@
-import { memo, useMemo, useState } from 'react';
+import { memo, useDeferredValue, useMemo, useState } from 'react';
 import type { Holdings } from '../../../shared-core/contract/service-api.js';
 import type { Scenario } from '../../../shared-core/scenario/schema.js';
 import { CandidateScatter, type ScatterPoint } from '../../charts/CandidateScatter.js';
@@ -53,7 +53,10 @@ export function basisOf(comparison: Comparison, scenario: Scenario, locale?: str
 }
 
 export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
-  const { comparison, scenario, locale } = props;
+  const { scenario, locale } = props;
+  // The table shows a new result at once; the pictures below follow a moment later, so the
+  // figures an advisor reads first are never held back by chart drawing.
+  const comparison = useDeferredValue(props.comparison);
   const colourIndex = useMemo(() => {
     const order = new Map(scenario.candidates.map((c, i) => [c.id, i]));
     return (id: string) => order.get(id) ?? 0;
@@ -137,9 +140,9 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
         </div>
       ) : null}
       <CandidateTable
-        assets={comparison.assets}
+        assets={props.comparison.assets}
         names={props.names}
-        candidates={comparison.candidates}
+        candidates={props.comparison.candidates}
         colourIndex={colourIndex}
         current={current}
         recommended={props.recommended}

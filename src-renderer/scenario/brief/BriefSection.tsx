@@ -39,6 +39,8 @@ import { FieldNote, NumberField, PercentField, SelectField, TextField } from './
 export interface BriefProps {
   state: EditorState;
   commit: (next: EditorState, key?: string) => void;
+  /** An edit applied to the latest state: stable, so memoised rows need not re-render. */
+  update: (edit: (state: EditorState) => EditorState, key?: string) => void;
   messages: readonly FieldMessage[];
   onTyping: (path: string, message: string | null) => void;
   catalogue: readonly Asset[];
@@ -528,6 +530,116 @@ function LimitsFields(props: BriefProps & { set: (path: (string | number)[], val
   );
 }
 
+/** The messages a row shows, as one string, so a row re-renders only when its own change. */
+function messageKey(messages: readonly FieldMessage[], asset: string): string {
+  return ['current', 'constraints.weightBounds', 'expectedReturns']
+    .flatMap((p) => messagesAt(messages, `${p}.${asset}`).map((m) => `${m.path}\u0000${m.message}`))
+    .join('\u0001');
+}
+
+/** A bound pair with one side typed: the other side from the default, else the long-only or open end. */
+function boundPair(lo: number | undefined, hi: number | undefined, def: Bound | undefined, longOnly: boolean): Bound {
+  return [lo ?? def?.[0] ?? (longOnly ? 0 : -1), hi ?? def?.[1] ?? 1];
+}
+
+const AssetRow = memo(
+  function AssetRow(props: {
+    asset: string;
+    name: string;
+    assetClass: string;
+    liquidity: string;
+    current: number | undefined;
+    lower: number | undefined;
+    upper: number | undefined;
+    defaultLower: number | undefined;
+    defaultUpper: number | undefined;
+    longOnly: boolean;
+    /** undefined: no column; null: empty. */
+    expectedReturn: number | null | undefined;
+    problems: string;
+    messages: readonly FieldMessage[];
+    update: BriefProps['update'];
+    onTyping: BriefProps['onTyping'];
+  }) {
+    const { asset: a, update, onTyping, messages } = props;
+    const setBound = (side: 0 | 1, v: number | undefined) =>
+      update((s) => {
+        const bounds = s.doc.constraints?.weightBounds ?? {};
+        const own = bounds[a] as Bound | undefined;
+        const lo = side === 0 ? v : own?.[0];
+        const hi = side === 1 ? v : own?.[1];
+        const longOnly = s.doc.constraints?.longOnly !== false;
+        const value =
+          lo === undefined && hi === undefined
+            ? undefined
+            : boundPair(lo, hi, bounds.default as Bound | undefined, longOnly);
+        return setField(s, ['constraints', 'weightBounds', a], value);
+      }, `constraints.weightBounds.${a}.${side}`);
+    return (
+      <tr>
+        <th scope="row">
+          <span className="code">{a}</span> <span className="faint">{props.name}</span>
+        </th>
+        <td>{props.assetClass}</td>
+        <td>{props.liquidity}</td>
+        <td className="num">
+          <PercentField
+            compact
+            label={`Current weight of ${a}`}
+            path={`current.${a}`}
+            value={props.current}
+            placeholder="0"
+            messages={messagesAt(messages, `current.${a}`)}
+            onTyping={onTyping}
+            onChange={(v) => update((s) => setField(s, ['current', a], v), `current.${a}`)}
+          />
+        </td>
+        <td className="num">
+          <PercentField
+            compact
+            label={`Lower bound of ${a}`}
+            path={`constraints.weightBounds.${a}.0`}
+            value={props.lower}
+            placeholder={
+              props.defaultLower !== undefined ? String(props.defaultLower * 100) : props.longOnly ? '0' : ''
+            }
+            messages={[]}
+            onTyping={onTyping}
+            onChange={(v) => setBound(0, v)}
+          />
+        </td>
+        <td className="num">
+          <PercentField
+            compact
+            label={`Upper bound of ${a}`}
+            path={`constraints.weightBounds.${a}.1`}
+            value={props.upper}
+            placeholder={props.defaultUpper !== undefined ? String(Math.round(props.defaultUpper * 1e4) / 100) : '100'}
+            messages={messagesAt(messages, `constraints.weightBounds.${a}`)}
+            onTyping={onTyping}
+            onChange={(v) => setBound(1, v)}
+          />
+        </td>
+        {props.expectedReturn !== undefined ? (
+          <td className="num">
+            <PercentField
+              compact
+              label={`Expected return of ${a}`}
+              path={`expectedReturns.${a}`}
+              value={props.expectedReturn ?? undefined}
+              messages={messagesAt(messages, `expectedReturns.${a}`)}
+              onTyping={onTyping}
+              onChange={(v) => update((s) => setField(s, ['expectedReturns', a], v), `expectedReturns.${a}`)}
+            />
+          </td>
+        ) : null}
+      </tr>
+    );
+  },
+  // The messages list changes on every keystroke; the row's own share of it is `problems`.
+  (a, b) => (Object.keys(a) as (keyof typeof a)[]).every((k) => k === 'messages' || Object.is(a[k], b[k])),
+);
+
 /** One row per asset: its tags, current weight, own bounds and (where needed) expected return. */
 function AssetTable(props: BriefProps) {
   const { state, commit, messages, onTyping, catalogue, holdings, locale } = props;
@@ -540,11 +652,6 @@ function AssetTable(props: BriefProps) {
   const needsReturns = (doc.candidates ?? []).some((c) => c.objective?.method === 'max-sharpe');
   const currentSum = assets.reduce((s, a) => s + (doc.current?.[a] ?? 0), 0);
   const fromHoldings = holdings ? weightsFromHoldings(holdings) : null;
-  const set = (path: (string | number)[], value: unknown) => commit(setField(state, path, value), path.join('.'));
-  const setBound = (asset: string, lo: number | undefined, hi: number | undefined) => {
-    if (lo === undefined && hi === undefined) set(['constraints', 'weightBounds', asset], undefined);
-    else set(['constraints', 'weightBounds', asset], [lo ?? def?.[0] ?? (longOnly ? 0 : -1), hi ?? def?.[1] ?? 1]);
-  };
   return (
     <fieldset className="sheet asset-table">
       <legend>Per asset: current weight, own bounds{needsReturns ? ', expected return' : ''}</legend>
@@ -599,69 +706,26 @@ function AssetTable(props: BriefProps) {
             </tr>
           </thead>
           <tbody>
-            {assets.map((a) => {
-              const own = bounds[a] as Bound | undefined;
-              const info = doc.assetInfo?.[a];
-              return (
-                <tr key={a}>
-                  <th scope="row">
-                    <span className="code">{a}</span>{' '}
-                    <span className="faint">{names.get(a)?.name ?? info?.name ?? ''}</span>
-                  </th>
-                  <td>{info?.assetClass ?? names.get(a)?.assetClass ?? ''}</td>
-                  <td>{info?.liquidity ?? names.get(a)?.liquidity ?? ''}</td>
-                  <td className="num">
-                    <PercentField
-                      compact
-                      label={`Current weight of ${a}`}
-                      path={`current.${a}`}
-                      value={doc.current?.[a]}
-                      placeholder="0"
-                      messages={messagesAt(messages, `current.${a}`)}
-                      onTyping={onTyping}
-                      onChange={(v) => set(['current', a], v)}
-                    />
-                  </td>
-                  <td className="num">
-                    <PercentField
-                      compact
-                      label={`Lower bound of ${a}`}
-                      path={`constraints.weightBounds.${a}.0`}
-                      value={own?.[0]}
-                      placeholder={def ? String(def[0] * 100) : longOnly ? '0' : ''}
-                      messages={[]}
-                      onTyping={onTyping}
-                      onChange={(v) => setBound(a, v, own?.[1])}
-                    />
-                  </td>
-                  <td className="num">
-                    <PercentField
-                      compact
-                      label={`Upper bound of ${a}`}
-                      path={`constraints.weightBounds.${a}.1`}
-                      value={own?.[1]}
-                      placeholder={def ? String(Math.round(def[1] * 1e4) / 100) : '100'}
-                      messages={messagesAt(messages, `constraints.weightBounds.${a}`)}
-                      onTyping={onTyping}
-                      onChange={(v) => setBound(a, own?.[0], v)}
-                    />
-                  </td>
-                  {needsReturns ? (
-                    <td className="num">
-                      <PercentField
-                        compact
-                        label={`Expected return of ${a}`}
-                        path={`expectedReturns.${a}`}
-                        value={doc.expectedReturns?.[a]}
-                        messages={messagesAt(messages, `expectedReturns.${a}`)}
-                        onTyping={onTyping}
-                        onChange={(v) => set(['expectedReturns', a], v)}
-                      />
-                    </td>
-                  ) : null}
-                </tr>
-              );
-            })}
+            {assets.map((a) => (
+              <AssetRow
+                key={a}
+                asset={a}
+                name={names.get(a)?.name ?? doc.assetInfo?.[a]?.name ?? ''}
+                assetClass={doc.assetInfo?.[a]?.assetClass ?? names.get(a)?.assetClass ?? ''}
+                liquidity={doc.assetInfo?.[a]?.liquidity ?? names.get(a)?.liquidity ?? ''}
+                current={doc.current?.[a]}
+                lower={(bounds[a] as Bound | undefined)?.[0]}
+                upper={(bounds[a] as Bound | undefined)?.[1]}
+                defaultLower={def?.[0]}
+                defaultUpper={def?.[1]}
+                longOnly={longOnly}
+                expectedReturn={needsReturns ? (doc.expectedReturns?.[a] ?? null) : undefined}
+                problems={messageKey(messages, a)}
+                messages={messages}
+                update={props.update}
+                onTyping={onTyping}
+              />
+            ))}
           </tbody>
         </table>
       </div>
