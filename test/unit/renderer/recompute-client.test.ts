@@ -88,6 +88,7 @@ describe('recompute client', () => {
         comparison: { computeMs: 1, name: 'fifteen' },
         scenario: { name: '15' },
         requestedAt: 30,
+        startedAt: 90,
         finishedAt: 90,
       },
     ]);
