@@ -223,10 +223,10 @@ export function BesidePanel(props: {
               <tr>
                 <th scope="col">Candidate</th>
                 <th scope="col" className="num">
-                  Volatility then / now
+                  Volatility, then / now
                 </th>
                 <th scope="col" className="num">
-                  DR then / now
+                  Diversification ratio, then / now
                 </th>
               </tr>
             </thead>
