@@ -9,10 +9,12 @@ export function gaussian(rng: Rng): number {
 }
 
 /** Factor-model covariance B B' + diag(d): annualised-looking vols of 5% to 40%. */
-export function randomCovariance(n: number, seed: number, factors = 3): Matrix {
+export function randomCovariance(n: number, seed: number, factors = 3, idiosyncratic = 1, market = 0): Matrix {
   const rng = seededRng(seed);
-  const B = Array.from({ length: n }, () => Array.from({ length: factors }, () => 0.1 * gaussian(rng)));
-  const d = Array.from({ length: n }, () => 0.002 + 0.03 * rng.next());
+  const B = Array.from({ length: n }, () =>
+    Array.from({ length: factors }, (_, k) => 0.1 * gaussian(rng) + (k === 0 ? market * (0.5 + rng.next()) : 0)),
+  );
+  const d = Array.from({ length: n }, () => idiosyncratic * (0.002 + 0.03 * rng.next()));
   const S = zeros(n, n);
   for (let i = 0; i < n; i++)
     for (let j = 0; j < n; j++) {

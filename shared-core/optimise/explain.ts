@@ -1,0 +1,214 @@
+/**
+ * Explanations an advisor can repeat: per asset, why it is held at its weight or left out, from
+ * the optimality conditions; per binding limit, its shadow price from the solver's multipliers
+ * in the objective's own units.
+ *
+ * Maximum diversification (Choueifaty, Froidure and Reynier 2013, J. Portfolio Management,
+ * "Properties of the most diversified portfolio"): at the optimum every held asset not at a limit
+ * has correlation exactly 1/DR with the portfolio, every asset left out at least 1/DR, an asset at
+ * its cap at most 1/DR. Minimum variance (first-order conditions, common practice): every held
+ * asset has beta 1 to the portfolio, an excluded asset at least 1, a capped one at most 1.
+ */
+import type { ObjectiveSpec } from '../scenario/objective-spec.js';
+import type { AssetExplanation, BindingConstraint } from './result.js';
+import type { LinearMandate } from './mandate.js';
+import type { Sensitivity } from './formulate.js';
+
+const pct = (v: number, digits = 1): string => `${(v * 100).toFixed(digits)}%`;
+const num = (v: number, digits = 2): string => v.toFixed(digits);
+const AT_LIMIT = 1e-9;
+
+export interface AssetFigures {
+  weights: Float64Array;
+  /** Sigma w */
+  sigmaW: Float64Array;
+  vols: Float64Array;
+  portfolioVol: number;
+  riskShares: Float64Array;
+  budgets?: Float64Array;
+  expected?: Float64Array;
+  /** Correlation-matrix product C w and w'Cw for maximum decorrelation. */
+  corrW?: Float64Array;
+  ruleWeights?: Float64Array;
+}
+
+/** Assets that sit in a binding band, turnover or gross-exposure limit (their first-order condition moves). */
+function assetsInBindingRows(m: LinearMandate, binding: Sensitivity[]): Map<number, string> {
+  const out = new Map<number, string>();
+  for (const s of binding) {
+    if (s.item.type !== 'inequality') continue;
+    const r = m.inequalities[s.item.index];
+    const what =
+      r.kind === 'group-max' || r.kind === 'group-min'
+        ? `the ${r.name} band binds`
+        : r.kind === 'illiquid-max'
+          ? 'the illiquid cap binds'
+          : r.kind === 'turnover' || r.kind === 'turnover-link'
+            ? 'the turnover limit binds'
+            : 'the gross-exposure limit binds';
+    if (r.kind === 'turnover' || r.kind === 'gross-exposure' || r.kind === 'turnover-link' || r.kind === 'gross-link') {
+      for (let i = 0; i < m.assets.length; i++) if (!out.has(i)) out.set(i, what);
+    } else for (const i of r.row.idx) if (i < m.assets.length && !out.has(i)) out.set(i, what);
+  }
+  return out;
+}
+
+export function explainAssets(
+  objective: ObjectiveSpec,
+  m: LinearMandate,
+  fig: AssetFigures,
+  binding: Sensitivity[],
+): AssetExplanation[] {
+  const n = m.assets.length;
+  const w = fig.weights;
+  let wsig = 0;
+  for (let i = 0; i < n; i++) wsig += w[i] * fig.vols[i];
+  const dr = wsig / fig.portfolioVol;
+  const variance = fig.portfolioVol * fig.portfolioVol;
+  const inBand = assetsInBindingRows(m, binding);
+  const out: AssetExplanation[] = [];
+  for (let i = 0; i < n; i++) {
+    const asset = m.assets[i];
+    const rho = fig.sigmaW[i] / (fig.vols[i] * fig.portfolioVol);
+    const atUpper = Number.isFinite(m.ub[i]) && w[i] >= m.ub[i] - AT_LIMIT;
+    const atLower = Number.isFinite(m.lb[i]) && w[i] <= m.lb[i] + AT_LIMIT;
+    const out0 = atLower && m.lb[i] === 0;
+    const capWord = m.upperSource[i] === 'liquidity-cap' ? 'liquidity cap' : 'cap';
+    const reason = atUpper
+      ? 'at-upper-bound'
+      : out0
+        ? 'excluded'
+        : atLower
+          ? 'at-lower-bound'
+          : inBand.has(i)
+            ? 'group-limit'
+            : 'held';
+    const base = { asset, weight: w[i], reason };
+    const tail = reason === 'group-limit' ? `, away from it because ${inBand.get(i)}` : '';
+    switch (objective.method) {
+      case 'max-diversification': {
+        const t = 1 / dr;
+        const c = `correlation ${num(rho)} with the portfolio, threshold 1/DR = ${num(t)}`;
+        const text =
+          reason === 'at-upper-bound'
+            ? `held at its ${capWord} of ${pct(w[i])}: ${c}; below the threshold, it would be held more without the ${capWord}`
+            : reason === 'excluded'
+              ? `left out: ${c}; an asset this correlated with the portfolio adds less diversification than it costs`
+              : reason === 'at-lower-bound'
+                ? `held at its floor of ${pct(w[i])}: ${c}; above the threshold, it would be held less without the floor`
+                : `held at ${pct(w[i])}: ${c}${tail}`;
+        out.push({ ...base, text, correlationWithPortfolio: rho, threshold: t });
+        break;
+      }
+      case 'min-variance':
+      case 'max-decorrelation': {
+        const dec = objective.method === 'max-decorrelation' && fig.corrW;
+        let wcw = 0;
+        if (dec) for (let k = 0; k < n; k++) wcw += w[k] * fig.corrW![k];
+        const beta = dec ? fig.corrW![i] / wcw : fig.sigmaW[i] / variance;
+        const what = dec ? 'beta to the portfolio on the correlation matrix' : 'beta to the portfolio';
+        const text =
+          reason === 'at-upper-bound'
+            ? `held at its ${capWord} of ${pct(w[i])}: ${what} ${num(beta)}, below 1, so it would be held more without the ${capWord}`
+            : reason === 'excluded'
+              ? `left out: ${what} ${num(beta)}, at least 1, so adding it would not lower risk`
+              : reason === 'at-lower-bound'
+                ? `held at its floor of ${pct(w[i])}: ${what} ${num(beta)}, above 1`
+                : `held at ${pct(w[i])}: ${what} ${num(beta)}; at the minimum every freely held asset has beta 1${tail}`;
+        out.push({ ...base, text, correlationWithPortfolio: rho, threshold: 1 });
+        break;
+      }
+      case 'equal-risk-contribution': {
+        const b = fig.budgets ? fig.budgets[i] : 1 / n;
+        const text = `held at ${pct(w[i])}: risk contribution ${pct(fig.riskShares[i])} against a budget of ${pct(b)}${
+          reason === 'held'
+            ? ''
+            : reason === 'group-limit'
+              ? tail
+              : ` (at its ${reason === 'at-upper-bound' ? capWord : 'floor'})`
+        }`;
+        out.push({ ...base, text, correlationWithPortfolio: rho });
+        break;
+      }
+      case 'max-sharpe': {
+        const mu = fig.expected ? fig.expected[i] : 0;
+        let muP = 0;
+        for (let k = 0; k < n; k++) muP += w[k] * (fig.expected ? fig.expected[k] : 0);
+        const need = (fig.sigmaW[i] / variance) * muP;
+        const c = `expected return ${pct(mu, 2)} against ${pct(need, 2)} asked by its beta to the portfolio`;
+        const text =
+          reason === 'at-upper-bound'
+            ? `held at its ${capWord} of ${pct(w[i])}: ${c}; it would be held more without the ${capWord}`
+            : reason === 'excluded'
+              ? `left out: ${c}; it does not pay for the risk it adds`
+              : `held at ${pct(w[i])}: ${c}${tail}`;
+        out.push({ ...base, text, correlationWithPortfolio: rho, threshold: need });
+        break;
+      }
+      default: {
+        const r = fig.ruleWeights ? fig.ruleWeights[i] : w[i];
+        const moved = Math.abs(r - w[i]) > AT_LIMIT;
+        const rule = objective.method === 'equal-weight' ? 'equal weight' : 'inverse-volatility weight';
+        const text = moved
+          ? `held at ${pct(w[i])} instead of its ${rule} of ${pct(r)}: the nearest weights that meet the limits`
+          : `held at its ${rule} of ${pct(w[i])}${objective.method === 'inverse-volatility' ? ` (volatility ${pct(fig.vols[i])})` : ''}`;
+        out.push({ ...base, text, correlationWithPortfolio: rho });
+      }
+    }
+  }
+  return out;
+}
+
+export interface ObjectiveScale {
+  /** What the objective is called in the text, e.g. 'DR'. */
+  name: string;
+  unit: string;
+  /** True when a higher value is better. */
+  maximise: boolean;
+  /** d(objective)/d(QP objective value) at the solution. */
+  chain: number;
+}
+
+/** Binding limits with shadow prices: dObjective/dLimit per unit (1.00 = 100 points) of the limit. */
+export function explainBinding(m: LinearMandate, sens: Sensitivity[], scale: ObjectiveScale): BindingConstraint[] {
+  const out: BindingConstraint[] = [];
+  for (const s of sens) {
+    let label: string;
+    let limit: number;
+    let kindUpper: boolean;
+    if (s.item.type === 'inequality') {
+      const r = m.inequalities[s.item.index];
+      if (r.kind === 'turnover-link' || r.kind === 'gross-link') continue;
+      limit = r.limit;
+      kindUpper = r.sign === 1;
+      label =
+        r.kind === 'group-max'
+          ? `${r.name} band maximum`
+          : r.kind === 'group-min'
+            ? `${r.name} band minimum`
+            : r.kind === 'illiquid-max'
+              ? 'illiquid cap'
+              : r.kind === 'turnover'
+                ? 'turnover limit'
+                : 'gross-exposure limit';
+    } else {
+      const i = s.item.variable;
+      if (i >= m.assets.length) continue;
+      if (s.item.type === 'lower' && m.lb[i] === 0) continue; // explained per asset
+      kindUpper = s.item.type === 'upper';
+      limit = kindUpper ? m.ub[i] : m.lb[i];
+      label = kindUpper
+        ? `${m.upperSource[i] === 'liquidity-cap' ? 'liquidity cap' : 'cap'} on ${m.assets[i]}`
+        : `floor on ${m.assets[i]}`;
+    }
+    const shadow = scale.chain * s.dObjective;
+    if (!(Math.abs(shadow) > 0)) continue;
+    const step = kindUpper ? 0.01 : -0.01;
+    const change = shadow * step;
+    const better = scale.maximise ? change > 0 : change < 0;
+    const verb = `${change > 0 ? 'raise' : 'lower'} ${scale.name}`;
+    const text = `${kindUpper ? 'raising' : 'lowering'} the ${label} from ${pct(limit)} to ${pct(limit + step)} would ${verb} by about ${Math.abs(change).toPrecision(2)}${better ? '' : ' (a cost)'}`;
+    out.push({ constraint: `${label} ${pct(limit)}`, shadowPrice: shadow, objectiveUnit: scale.unit, text });
+  }
+  return out;
+}

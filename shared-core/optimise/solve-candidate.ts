@@ -1,0 +1,327 @@
+/**
+ * One candidate: an objective on an annualised covariance under a mandate, solved exactly, with
+ * metrics and explanations. The one function the command line, the app's worker, the memo and
+ * walk-forward call, so the figures they show cannot disagree.
+ */
+import {
+  assetVolatilities,
+  correlationMatrix,
+  diversificationRatio,
+  effectiveBets,
+  effectiveHoldings,
+  portfolioVolatility,
+  riskContributions,
+} from '../analytics/risk.js';
+import { conditionNumber } from '../linalg/condition.js';
+import { identity, multiplyVector, type Matrix } from '../linalg/matrix.js';
+import type { ObjectiveSpec } from '../scenario/objective-spec.js';
+import type { AssetInfo, Constraints } from '../scenario/schema.js';
+import { nowMs } from './clock.js';
+import { ercOverCone, ercUnconstrained } from './erc.js';
+import { explainAssets, explainBinding, type AssetFigures, type ObjectiveScale } from './explain.js';
+import {
+  directForm,
+  homogenisedForm,
+  sensitivities,
+  weightsOf,
+  type Formulation,
+  type Sensitivity,
+} from './formulate.js';
+import { arithmeticConflicts, describeConflict } from './infeasibility.js';
+import { buildMandate, mandateViolation, type LinearMandate } from './mandate.js';
+import { solveQp } from './qp/solve-qp.js';
+import type { QpResult, QpWarmStart } from './qp/types.js';
+import type { CandidateMetrics, CandidateResult } from './result.js';
+
+/** Above this condition number the covariance is treated as singular (common practice for double precision). */
+export const CONDITION_LIMIT = 1e12;
+/** A rule's weights count as feasible when no limit is broken by more than this. */
+export const RULE_FEASIBILITY = 1e-12;
+
+export interface CandidateProblem {
+  id: string;
+  label?: string;
+  /** Asset ids in the covariance's order. */
+  assets: readonly string[];
+  /** Annualised covariance. */
+  covariance: Matrix;
+  objective: ObjectiveSpec;
+  constraints: Constraints;
+  current?: Record<string, number>;
+  expectedReturns?: Record<string, number>;
+  assetInfo?: Record<string, AssetInfo>;
+  /** From the estimate's diagnostics when known (saves recomputing it). */
+  conditionNumber?: number;
+  observations?: number;
+  estimator?: string;
+  warmStart?: QpWarmStart;
+  shouldCancel?: () => boolean;
+}
+
+export interface CandidateSolve {
+  result: CandidateResult;
+  /** Pass back as `warmStart` on the next, similar solve (walk-forward, live recompute). */
+  warmStart?: QpWarmStart;
+}
+
+const pctText = (v: number): string => `${Number((v * 100).toFixed(2))}%`;
+
+function metricsOf(w: Float64Array, p: CandidateProblem, m: LinearMandate): CandidateMetrics {
+  const S = p.covariance;
+  const rc = riskContributions(w, S);
+  let turnover = 0;
+  const inside = new Set(p.assets);
+  for (let i = 0; i < w.length; i++) turnover += Math.abs(w[i] - m.current[i]);
+  for (const [a, v] of Object.entries(p.current ?? {})) if (!inside.has(a)) turnover += Math.abs(v);
+  return {
+    volatility: portfolioVolatility(w, S),
+    diversificationRatio: diversificationRatio(w, S),
+    effectiveBets: effectiveBets(w, S),
+    effectiveHoldings: effectiveHoldings(w),
+    riskContributions: Object.fromEntries(p.assets.map((a, i) => [a, rc[i]])),
+    turnover: p.current ? turnover : 0,
+  };
+}
+
+function covarianceProblem(p: CandidateProblem): string | null {
+  const S = p.covariance;
+  const n = p.assets.length;
+  if (S.rows !== n || S.cols !== n) return `the covariance is ${S.rows} x ${S.cols} for ${n} assets`;
+  if (!S.data.every(Number.isFinite)) return 'the covariance has missing or infinite entries';
+  for (let i = 0; i < n; i++)
+    if (!(S.data[i * n + i] > 0))
+      return `${p.assets[i]} has zero variance over the window, so its risk cannot be estimated`;
+  const cond = p.conditionNumber ?? conditionNumber(S).value;
+  if (!(cond <= CONDITION_LIMIT)) {
+    const tail =
+      p.observations !== undefined && p.observations <= n
+        ? ` ${n} assets with only ${p.observations} observations make the ${p.estimator ?? 'sample'} covariance singular.`
+        : ' Two assets may move identically (a duplicated asset), or the window may be too short.';
+    return `the covariance is singular or badly conditioned (condition number ${Number.isFinite(cond) ? cond.toExponential(1) : 'infinite'}), so the optimum would be arbitrary.${tail} Choose a shrinkage estimator such as ledoit-wolf or oas.`;
+  }
+  return null;
+}
+
+export function solveCandidateDetailed(p: CandidateProblem): CandidateSolve {
+  const t0 = nowMs();
+  const n = p.assets.length;
+  const head = { id: p.id, ...(p.label !== undefined ? { label: p.label } : {}) };
+  const fail = (status: 'error' | 'infeasible', message: string, iterations = 0): CandidateSolve => ({
+    result: {
+      ...head,
+      status,
+      message,
+      weights: {},
+      metrics: null,
+      solver: { iterations, kktResidual: NaN, ms: nowMs() - t0 },
+    },
+  });
+  const method = p.objective.method;
+  const usesCovariance = method !== 'equal-weight' && method !== 'inverse-volatility';
+  const covIssue = covarianceProblem(usesCovariance ? p : { ...p, conditionNumber: 1 });
+  if (covIssue) return fail('error', covIssue);
+  const m = buildMandate(p.assets, p.constraints, p.current, p.assetInfo);
+  const conflicts = arithmeticConflicts(m);
+  if (conflicts.length > 0) return fail('infeasible', conflicts.join('; '));
+
+  const S = p.covariance;
+  const vols = assetVolatilities(S);
+  let f: Formulation | null = null;
+  let qp: QpResult | null = null;
+  let weights: Float64Array | null = null;
+  let iterations = 0;
+  let residual = 0;
+  let warmStart: QpWarmStart | undefined;
+  const flags: string[] = [];
+  let ruleWeights: Float64Array | undefined;
+  let budgets: Float64Array | undefined;
+  let expected: Float64Array | undefined;
+  let C: Matrix | undefined;
+
+  const runQp = (form: Formulation) => {
+    f = form;
+    qp = solveQp(form.qp, { warmStart: p.warmStart, shouldCancel: p.shouldCancel });
+    iterations += qp.iterations;
+    residual = qp.kktResidual;
+    if (qp.status === 'optimal') {
+      weights = weightsOf(form, qp.solution.x, n);
+      warmStart = qp.warmStart;
+    } else if (qp.status === 'iteration-limit') weights = weightsOf(form, qp.solution.x, n);
+  };
+
+  switch (method) {
+    case 'max-diversification':
+      runQp(homogenisedForm(m, S, vols));
+      break;
+    case 'max-sharpe': {
+      const missing = p.assets.filter((a) => p.expectedReturns?.[a] === undefined);
+      if (missing.length > 0) return fail('error', `max-sharpe needs expectedReturns for ${missing.join(', ')}`);
+      expected = Float64Array.from(p.assets, (a) => p.expectedReturns![a]);
+      runQp(homogenisedForm(m, S, expected));
+      break;
+    }
+    case 'min-variance':
+      runQp(directForm(m, S));
+      break;
+    case 'max-decorrelation':
+      C = correlationMatrix(S);
+      runQp(directForm(m, C));
+      break;
+    case 'equal-risk-contribution': {
+      const given = p.objective.method === 'equal-risk-contribution' ? p.objective.budgets : undefined;
+      budgets = Float64Array.from(p.assets, (a) => (given ? (given[a] ?? 0) : 1));
+      const missing = p.assets.filter((_, i) => !(budgets![i] > 0));
+      if (missing.length > 0)
+        return fail('error', `equal-risk-contribution needs a positive risk budget for ${missing.join(', ')}`);
+      const total = budgets.reduce((a, b) => a + b, 0);
+      budgets = budgets.map((b) => b / total);
+      const free = ercUnconstrained(S, budgets);
+      iterations += free.iterations;
+      if (!free.ok) return fail('error', `equal risk contribution: ${free.reason}`, iterations);
+      if (mandateViolation(m, free.weights) <= RULE_FEASIBILITY) {
+        weights = free.weights;
+        residual = 0;
+        break;
+      }
+      // Limits cut the risk-parity portfolio: the sequential QP over the mandate cone (erc.ts).
+      const cone = homogenisedForm(m, S);
+      const lifted = {
+        ...m,
+        lb: Float64Array.from(m.lb, (v, i) => (i < n ? Math.max(v, Math.min(1e-3, m.ub[i] / 2)) : v)),
+      };
+      const start = solveQp(
+        directForm(
+          lifted,
+          identity(n),
+          free.weights.map((v) => -v),
+        ).qp,
+      );
+      iterations += start.iterations;
+      if (start.status === 'infeasible') {
+        const plain = solveQp(directForm(m, identity(n)).qp);
+        if (plain.status === 'infeasible')
+          return fail('infeasible', describeConflict(m, directForm(m, identity(n)), plain.conflict), iterations);
+        return fail(
+          'error',
+          'equal risk contribution needs a feasible portfolio that holds every asset; the limits force some weights to zero',
+        );
+      }
+      if (start.status !== 'optimal')
+        return fail('error', `equal risk contribution: no starting point (${start.status})`, iterations);
+      const v0 = new Float64Array(cone.qp.q.length);
+      v0.set(start.solution.x);
+      v0[cone.kappa] = 1;
+      const erc = ercOverCone(S, budgets, cone, v0, { warmStart: p.warmStart, shouldCancel: p.shouldCancel });
+      iterations += erc.iterations;
+      if (!erc.ok) return fail('error', `equal risk contribution: ${erc.reason}`, iterations);
+      f = cone;
+      qp = erc.lastQp ?? null;
+      weights = erc.weights;
+      residual = erc.residual;
+      warmStart = erc.warmStart;
+      flags.push('limits bind, so risk contributions depart from the budgets where a limit forces it');
+      break;
+    }
+    case 'equal-weight':
+    case 'inverse-volatility': {
+      const raw = method === 'equal-weight' ? new Float64Array(n).fill(1) : Float64Array.from(vols, (v) => 1 / v);
+      const total = raw.reduce((a, b) => a + b, 0);
+      ruleWeights = raw.map((v) => v / total);
+      if (mandateViolation(m, ruleWeights) <= RULE_FEASIBILITY) {
+        weights = ruleWeights;
+        break;
+      }
+      runQp(
+        directForm(
+          m,
+          identity(n),
+          ruleWeights.map((v) => -v),
+        ),
+      );
+      flags.push(`the limits cut the ${method} rule: the weights are the nearest ones that meet every limit`);
+      break;
+    }
+  }
+
+  const q = qp as QpResult | null;
+  const form = f as Formulation | null;
+  if (q && q.status === 'infeasible' && form) {
+    const words = q.conflict.rowsA.some((r) => form.rowsA[r]?.type === 'numerator')
+      ? `no portfolio within the limits has a positive ${method === 'max-sharpe' ? 'expected return' : 'volatility-weighted sum'}; ${describeConflict(m, form, q.conflict)}`
+      : describeConflict(m, form, q.conflict);
+    return fail('infeasible', words, iterations);
+  }
+  if (q && q.status === 'error') return fail('error', `the solver failed: ${q.reason}`, iterations);
+  if (!weights) return fail('error', 'no weights were produced', iterations);
+  const w = weights as Float64Array;
+  if (m.longOnly) for (let i = 0; i < n; i++) if (w[i] < 0 && w[i] > -1e-12) w[i] = 0;
+
+  const status = q && q.status === 'iteration-limit' ? 'iteration-limit' : 'optimal';
+  const metrics = metricsOf(w, p, m);
+  const sens: Sensitivity[] = form && q && q.status === 'optimal' ? sensitivities(form, m, q.solution) : [];
+  const sigmaW = multiplyVector(S, w);
+  const fig: AssetFigures = {
+    weights: w,
+    sigmaW,
+    vols,
+    portfolioVol: metrics.volatility,
+    riskShares: Float64Array.from(p.assets, (a) => metrics.riskContributions[a]),
+    budgets,
+    expected,
+    corrW: C ? multiplyVector(C, w) : undefined,
+    ruleWeights,
+  };
+  const phi = q && q.status === 'optimal' ? q.solution.objective : NaN;
+  const scale: ObjectiveScale =
+    method === 'max-diversification' || method === 'max-sharpe'
+      ? // R = 1 / sqrt(2 phi) (formulate.ts), so dR/dphi = -(2 phi)^(-3/2).
+        {
+          name: method === 'max-sharpe' ? 'the Sharpe ratio' : 'DR',
+          unit: method === 'max-sharpe' ? 'Sharpe ratio' : 'diversification ratio',
+          maximise: true,
+          chain: -Math.pow(2 * phi, -1.5),
+        }
+      : method === 'min-variance'
+        ? // sigma_p = sqrt(2 phi): dsigma/dphi = 1 / sigma.
+          { name: 'volatility', unit: 'annualised volatility', maximise: false, chain: 1 / Math.sqrt(2 * phi) }
+        : method === 'max-decorrelation'
+          ? { name: "w'Cw", unit: "w'Cw (variance on the correlation matrix)", maximise: false, chain: 2 }
+          : method === 'equal-risk-contribution'
+            ? {
+                name: 'the risk-budgeting objective',
+                unit: 'risk-budgeting objective F (erc.ts)',
+                maximise: false,
+                chain: 1,
+              }
+            : {
+                name: 'the distance from the rule',
+                unit: 'half squared distance from the rule weights',
+                maximise: false,
+                chain: 1,
+              };
+  const binding = explainBinding(m, sens, scale);
+  for (const s of sens)
+    if (
+      s.item.type === 'inequality' &&
+      m.inequalities[s.item.index].kind === 'turnover' &&
+      method !== 'equal-weight' &&
+      method !== 'inverse-volatility'
+    )
+      flags.push(`the ${pctText(m.inequalities[s.item.index].limit)} turnover limit binds`);
+  const result: CandidateResult = {
+    ...head,
+    status,
+    ...(status === 'iteration-limit'
+      ? { message: `stopped at the iteration limit with KKT residual ${residual.toExponential(1)}` }
+      : {}),
+    weights: Object.fromEntries(p.assets.map((a, i) => [a, w[i]])),
+    metrics,
+    solver: { iterations, kktResidual: residual, ms: nowMs() - t0 },
+    explanations: { assets: explainAssets(p.objective, m, fig, sens), binding, flags },
+  };
+  return { result, warmStart };
+}
+
+export function solveCandidate(problem: CandidateProblem): CandidateResult {
+  return solveCandidateDetailed(problem).result;
+}
