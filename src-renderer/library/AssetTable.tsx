@@ -85,7 +85,7 @@ export function AssetTable({
                 <td>{a.assetClass || <span className="faint">untagged</span>}</td>
                 <td>{a.region || <span className="faint">untagged</span>}</td>
                 <td className="code">{a.currency ?? <span className="flag">unset</span>}</td>
-                <td>
+                <td style={{ whiteSpace: 'nowrap' }}>
                   {LIQUIDITY_WORDS[a.liquidity]}
                   {a.lockUpDays !== null ? `, ${a.lockUpDays}-day lock-up` : ''}
                 </td>

@@ -140,6 +140,7 @@ export function ImportPage() {
               disabled={running}
               onChange={(e) => setUniverse(e.target.value)}
               autoComplete="off"
+              size={34}
             />
             <datalist id={`${id}-universes`}>
               {(universes.data ?? []).map((u) => (

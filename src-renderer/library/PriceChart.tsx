@@ -1,7 +1,9 @@
 import { useMemo, useState } from 'react';
 import type { PriceSeries } from '../../shared-core/contract/service-api.js';
 import { formatDate, formatSignedPercent } from '../scenario/format.js';
-import { useEChart, type ChartOption } from './use-echart.js';
+import { EChart } from '../charts/EChart.js';
+import type { EChartsOption } from '../charts/echarts-setup.js';
+import './price-chart-setup.js';
 
 /** Last close of each calendar month: the table behind the chart. */
 export function monthEndCloses(series: PriceSeries): { date: string; close: number }[] {
@@ -24,12 +26,12 @@ function closeText(value: number): string {
 export function PriceChart({ series }: { series: PriceSeries }) {
   const [logScale, setLogScale] = useState(false);
   const n = series.dates.length;
-  const option = useMemo<ChartOption>(
+  const option = useMemo<EChartsOption>(
     () => ({
       animation: false,
       textStyle: { fontFamily: 'DejaVu Sans, sans-serif', color: '#1f2328' },
       grid: { left: 64, right: 24, top: 16, bottom: 64 },
-      tooltip: { trigger: 'axis', renderMode: 'richText', valueFormatter: (v: unknown) => closeText(Number(v)) },
+      tooltip: { trigger: 'axis', valueFormatter: (v: unknown) => closeText(Number(v)) },
       xAxis: {
         type: 'time',
         axisLine: { lineStyle: { color: '#4a5058' } },
@@ -52,6 +54,11 @@ export function PriceChart({ series }: { series: PriceSeries }) {
           bottom: 12,
           borderColor: '#d9d3c7',
           fillerColor: 'rgba(29, 92, 99, 0.12)',
+          handleStyle: { color: '#ffffff', borderColor: '#1d5c63' },
+          moveHandleStyle: { color: '#1d5c63', opacity: 0.35 },
+          selectedDataBackground: { lineStyle: { color: '#1d5c63' }, areaStyle: { color: 'rgba(29, 92, 99, 0.18)' } },
+          emphasis: { handleStyle: { borderColor: '#1d5c63' }, moveHandleStyle: { color: '#1d5c63', opacity: 0.6 } },
+          textStyle: { color: '#4a5058' },
           dataBackground: { lineStyle: { color: '#6e747c' }, areaStyle: { color: '#e8e3d9' } },
           labelFormatter: (value: number) => new Date(value).toISOString().slice(0, 10),
         },
@@ -70,7 +77,6 @@ export function PriceChart({ series }: { series: PriceSeries }) {
     }),
     [series, logScale],
   );
-  const box = useEChart(option);
   const table = useMemo(() => monthEndCloses(series), [series]);
 
   if (n === 0)
@@ -84,8 +90,9 @@ export function PriceChart({ series }: { series: PriceSeries }) {
     <figure className="chart-box" style={{ margin: 0 }} aria-label={`Price chart of ${series.asset}`}>
       <div style={{ display: 'flex', justifyContent: 'space-between', gap: '1rem', alignItems: 'baseline' }}>
         <p className="chart-title">
-          {series.asset} · {series.name}: {n.toLocaleString()} closes from {formatDate(series.dates[0])} to{' '}
-          {formatDate(series.dates[n - 1])}, {formatSignedPercent(change)} over the period
+          {series.name && series.name !== series.asset ? `${series.asset} · ${series.name}` : series.asset}:{' '}
+          {n.toLocaleString()} closes from {formatDate(series.dates[0])} to {formatDate(series.dates[n - 1])},{' '}
+          {formatSignedPercent(change)} over the period
         </p>
         <div className="actions" role="group" aria-label="Price scale">
           <button
@@ -110,7 +117,9 @@ export function PriceChart({ series }: { series: PriceSeries }) {
         Stored closing prices in {series.currency ?? 'an unset currency'}, as imported; no adjustment. Drag the bar
         below to narrow the dates.
       </p>
-      <div ref={box} style={{ width: '100%', height: 300 }} data-testid="price-chart" />
+      <div data-testid="price-chart">
+        <EChart option={option} height={300} label={`Closing prices of ${series.asset} over time`} />
+      </div>
       <details>
         <summary>Month-end closes ({table.length})</summary>
         <table className="grid">
