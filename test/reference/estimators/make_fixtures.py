@@ -11,7 +11,7 @@ What each reference is:
   w_t proportional to lambda^(T - t), sum w_t = 1 (RiskMetrics Technical Document, 1996).
 - ledoit-wolf, scaled identity: sklearn.covariance.LedoitWolf (Ledoit and Wolf 2004, JMVA 88).
 - oas: sklearn.covariance.OAS (Chen, Wiesel, Eldar and Hero 2010, IEEE TSP 58).
-- ledoit-wolf, constant correlation and single index: direct numpy transcriptions of the
+- ledoit-wolf, constant correlation and single index: direct numpy versions of the
   estimators in Ledoit and Wolf (2004), J. Portfolio Management 30(4), and Ledoit and Wolf
   (2003), J. Empirical Finance 10 (the matrix formulas of the papers' appendices, with the 1/T
   sample covariance of de-meaned data), written out as plainly as possible; the TypeScript
@@ -24,7 +24,7 @@ What each reference is:
   iteration in numpy, of data centred at the coordinate-wise median and scaled by the MAD
   (Hampel 1974, JASA 69); covariance = diag(MAD) corr(shape) diag(MAD).
 - nonlinear: analytical nonlinear shrinkage (Ledoit and Wolf 2020, Annals of Statistics 48),
-  transcribed from the authors' published MATLAB function from memory (see nonlinear()).
+  written out from the authors' published MATLAB function from memory (see nonlinear()).
 - analytics: volatility, DR (Choueifaty and Coignard 2008), Euler risk contributions,
   effective number of bets (Meucci 2009, Risk 22) with numpy.
 """

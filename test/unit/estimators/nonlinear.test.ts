@@ -6,7 +6,7 @@ import { CASES, flat, loadFixture, matrix, relativeError } from './fixtures.js';
 
 describe('analytical nonlinear shrinkage (Ledoit and Wolf 2020, Annals of Statistics 48)', () => {
   it.each(CASES)(
-    "agrees with the numpy transcription of the authors' published function on %s (N below and above T)",
+    "agrees with the numpy version of the authors' published function on %s (N below and above T)",
     (name) => {
       const f = loadFixture<{ returns: number[][]; nonlinear: { covariance: number[][] } }>(name);
       const e = nonlinearShrinkage(matrix(f.returns));
