@@ -29,6 +29,7 @@ import {
 } from './formulate.js';
 import { arithmeticConflicts, describeConflict } from './infeasibility.js';
 import { buildMandate, mandateViolation, type LinearMandate } from './mandate.js';
+import { phaseOne } from './qp/phase-one.js';
 import { solveQp } from './qp/solve-qp.js';
 import type { QpResult, QpWarmStart } from './qp/types.js';
 import type { CandidateMetrics, CandidateResult } from './result.js';
@@ -246,10 +247,20 @@ export function solveCandidateDetailed(p: CandidateProblem): CandidateSolve {
   const q = qp as QpResult | null;
   const form = f as Formulation | null;
   if (q && q.status === 'infeasible' && form) {
-    const words = q.conflict.rowsA.some((r) => form.rowsA[r]?.type === 'numerator')
-      ? `no portfolio within the limits has a positive ${method === 'max-sharpe' ? 'expected return' : 'volatility-weighted sum'}; ${describeConflict(m, form, q.conflict)}`
-      : describeConflict(m, form, q.conflict);
-    return fail('infeasible', words, iterations);
+    if (form.form === 'direct') return fail('infeasible', describeConflict(m, form, q.conflict), iterations);
+    // The homogenised form always lists its normalising row; name the mandate's own conflict
+    // from the weights' form, or say that the ratio's numerator cannot be positive.
+    const plain = directForm(m, identity(n));
+    const one = phaseOne(plain.qp, p.shouldCancel);
+    iterations += one.iterations;
+    if (!one.feasible) return fail('infeasible', describeConflict(m, plain, one.conflict), iterations);
+    return fail(
+      'infeasible',
+      method === 'max-sharpe'
+        ? 'no portfolio within the limits has a positive expected return, so the Sharpe ratio cannot be maximised'
+        : 'no portfolio within the limits has a positive diversification ratio',
+      iterations,
+    );
   }
   if (q && q.status === 'error') return fail('error', `the solver failed: ${q.reason}`, iterations);
   if (!weights) return fail('error', 'no weights were produced', iterations);
