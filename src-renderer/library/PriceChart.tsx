@@ -39,11 +39,23 @@ export function PriceChart({ series }: { series: PriceSeries }) {
         splitLine: { show: false },
       },
       yAxis: {
+        axisLabel: { color: '#4a5058' },
         type: logScale ? 'log' : 'value',
         scale: true,
+        // A log axis would otherwise run from decade to decade and flatten the line.
+        ...(logScale
+          ? {
+              min: (v: { min: number }) => Number((v.min * 0.92).toPrecision(2)),
+              max: (v: { max: number }) => Number((v.max * 1.08).toPrecision(2)),
+              axisLabel: {
+                color: '#4a5058',
+                showMinLabel: false,
+                formatter: (value: number) => value.toLocaleString(),
+              },
+            }
+          : {}),
         name: series.currency ?? 'price',
         nameTextStyle: { color: '#4a5058', align: 'right' },
-        axisLabel: { color: '#4a5058' },
         splitLine: { lineStyle: { color: '#ebe6dc' } },
       },
       dataZoom: [
