@@ -44,10 +44,13 @@ export async function createDemoStore(
     const { data } = writeDemoFiles(filesDir, { seed: options.seed });
     const open = () => (store ??= openStore(building, { create: true, now: options.now }));
     const expectApplied = (outcome: PriceImportOutcome, file: string) => {
-      if (outcome.status !== 'applied')
-        throw new Error(
-          `demo import of ${file} ended '${outcome.status}': ${JSON.stringify(outcome.report).slice(0, 400)}`,
-        );
+      if (outcome.status === 'applied') return;
+      const report = outcome.report as { problems?: unknown[]; assets?: { asset: string; ok: boolean }[] };
+      const bad = (report.assets ?? []).filter((a) => !a.ok);
+      throw new Error(
+        `demo import of ${file} ended '${outcome.status}': ` +
+          JSON.stringify({ problems: report.problems, assets: bad }).slice(0, 1200),
+      );
     };
     expectApplied(
       await importPriceFile(open, join(filesDir, DEMO_FILE_NAMES.prices), {
