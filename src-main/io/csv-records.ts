@@ -7,7 +7,22 @@ export type Delimiter = ',' | ';' | '\t';
 export interface CsvRecord {
   /** 1-based line of the record's first character. */
   line: number;
-  cells: string[];
+  /** The record's cells, split on first use. */
+  readonly cells: string[];
+  /** The record's text when it holds no quote (so a reader may scan it without splitting). */
+  raw?: string;
+}
+
+function record(line: number, raw: string, delimiter: Delimiter, file: string): CsvRecord & { delimiter: Delimiter } {
+  let cells: string[] | undefined;
+  return {
+    line,
+    delimiter,
+    ...(raw.includes('"') ? {} : { raw }),
+    get cells() {
+      return (cells ??= splitRecord(raw, delimiter, line, file));
+    },
+  };
 }
 
 export interface ReadProgress {
@@ -58,7 +73,7 @@ export async function* csvRecords(
         if (raw.trim() === '') continue;
         delimiter ??= chooseDelimiter(raw, file);
         rows++;
-        yield { line: start, cells: splitRecord(raw, delimiter, start, file), delimiter };
+        yield record(start, raw, delimiter, file);
       }
       options.onChunk?.({ bytesRead, totalBytes, rows });
     }
@@ -72,7 +87,7 @@ export async function* csvRecords(
       if (raw.trim() !== '') {
         delimiter ??= chooseDelimiter(raw, file);
         rows++;
-        yield { line: start, cells: splitRecord(raw, delimiter, start, file), delimiter };
+        yield record(start, raw, delimiter, file);
       }
     }
     options.onChunk?.({ bytesRead: totalBytes, totalBytes, rows });

@@ -6,6 +6,7 @@ import {
   readDateToken,
   readNumber,
   resolveDate,
+  scanPlainDecimal,
   type DateOrder,
   type DateToken,
   type DecimalMark,
@@ -140,7 +141,85 @@ export async function readPriceFile(path: string, options: ReadPriceFileOptions 
     s.val.push(v);
   };
 
+  // Sized once the header is read.
+  let rowValues = new Float64Array(0);
+  let rowEnds = new Int32Array(0);
+
+  // A wide row without quotes, scanned in place: most cells never become strings.
+  const handleWideRaw = (line: number, raw: string) => {
+    if (rowValues.length !== wide.length) {
+      rowValues = new Float64Array(wide.length);
+      rowEnds = new Int32Array(wide.length);
+    }
+    const d = raw.indexOf(delimiter);
+    const cellsFound = () => raw.split(delimiter).length;
+    if (d === -1) {
+      recLine.push(line);
+      tokens.push(readDateToken(raw));
+      problems.push({ line, message: `expected ${width} cells as in the header, found 1` });
+      return;
+    }
+    let start = d + 1;
+    for (let a = 0; a < wide.length; a++) {
+      let end = raw.indexOf(delimiter, start);
+      if (end === -1) {
+        if (a < wide.length - 1) {
+          pushDate(line, raw.slice(0, d));
+          problems.push({ line, message: `expected ${width} cells as in the header, found ${cellsFound()}` });
+          return;
+        }
+        end = raw.length;
+      }
+      rowValues[a] = scanPlainDecimal(raw, start, end, decimal!);
+      rowEnds[a] = end;
+      start = end + 1;
+    }
+    const lastEnd = rowEnds[wide.length - 1];
+    if (
+      lastEnd < raw.length &&
+      raw
+        .slice(lastEnd + 1)
+        .split(delimiter)
+        .some((c) => c.trim() !== '')
+    ) {
+      pushDate(line, raw.slice(0, d));
+      problems.push({ line, message: `expected ${width} cells as in the header, found ${cellsFound()}` });
+      return;
+    }
+    const rec = pushDate(line, raw.slice(0, d));
+    if (rec === -1) return;
+    for (let a = 0; a < wide.length; a++) {
+      const v = rowValues[a];
+      if (v === v) {
+        wide[a].rec.push(rec);
+        wide[a].val.push(v);
+      } else cellValue(wide[a], rec, raw.slice(a === 0 ? d + 1 : rowEnds[a - 1] + 1, rowEnds[a]), line);
+    }
+  };
+
+  /** Records a row's date; returns the row index, or -1 when the date cell is unreadable. */
+  const pushDate = (line: number, dateText: string): number => {
+    const rec = recLine.length;
+    recLine.push(line);
+    const token = readDateToken(dateText);
+    tokens.push(token);
+    if (!token) {
+      problems.push({
+        line,
+        column: dateCol + 1,
+        message: `'${dateText}' is not a date (expected YYYY-MM-DD, DD/MM/YYYY or MM/DD/YYYY)`,
+      });
+      return -1;
+    }
+    if (token.kind === 'numeric') {
+      if (token.a > 12) dayFirstLine ??= line;
+      if (token.b > 12) monthFirstLine ??= line;
+    }
+    return rec;
+  };
+
   const handle = (r: CsvRecord) => {
+    if (form === 'wide' && r.raw !== undefined) return handleWideRaw(r.line, r.raw);
     const rec = recLine.length;
     recLine.push(r.line);
     const dateText = r.cells[dateCol] ?? '';

@@ -59,6 +59,17 @@ describe('price file detection', () => {
     expect(Array.from(p.assets[1].closes)).toEqual([50.25]);
   });
 
+  it('reads a row scanned in place exactly as the same row split with quotes', async () => {
+    const rows = ['2025-01-02,100.125,,7', '2025-01-03,1e2, 3.5 ,x', '2025-01-06,-0,12345678901234567,0.1'];
+    const plain = await readPriceFile(file(['date,A,B,C', ...rows].join('\n')));
+    const quoted = await readPriceFile(
+      file(['date,A,B,C', ...rows.map((r) => r.replace(/^([^,]*),/, '"$1",'))].join('\n')),
+    );
+    expect(plain.assets).toEqual(quoted.assets);
+    expect(Array.from(plain.assets[1].closes)).toEqual([3.5, 12345678901234567]);
+    expect(plain.assets[2].unparseable.map((c) => [c.line, c.column, c.text])).toEqual([[3, 4, 'x']]);
+  });
+
   it('refuses a header that is neither form, naming line 1 and the column', async () => {
     await expect(readPriceFile(file('day,EQ1\n2025-01-02,1\n'), { file: 'p.csv' })).rejects.toMatchObject({
       location: { file: 'p.csv', line: 1, column: 1 },
