@@ -4,9 +4,10 @@ import { webHostSuite } from './web-host.js';
 import { storeSuite } from './store.js';
 import { memoBench } from './memo.js';
 import { estimatorsSuite } from './estimators.js';
+import { backtestSuite } from './backtest.js';
 
 /** Every benchmark suite; a suite is one module in bench/ plus one line here. */
-const suites: BenchSuite[] = [demoDataSuite, webHostSuite, storeSuite, memoBench, estimatorsSuite];
+const suites: BenchSuite[] = [demoDataSuite, webHostSuite, storeSuite, memoBench, estimatorsSuite, backtestSuite];
 
 const only = process.argv.slice(2);
 for (const suite of suites) {

@@ -89,7 +89,7 @@ export interface BacktestRun {
 
 /** Calendar days a trailing window of `periods` needs, with room for holidays and gaps. */
 function lookbackDays(periods: number, frequency: 'daily' | 'weekly' | 'monthly'): number {
-  const perPeriod = frequency === 'daily' ? 1.6 : frequency === 'weekly' ? 7.5 : 32;
+  const perPeriod = frequency === 'daily' ? 1.5 : frequency === 'weekly' ? 7.5 : 32;
   return Math.ceil(periods * perPeriod) + 31;
 }
 
@@ -169,6 +169,16 @@ export async function runBacktest(
     return { rows: W, cols: r.cols, data: r.data.subarray((r.rows - W) * r.cols) };
   };
 
+  // Every candidate shares the assets and the window, so the returns of a rebalance row are
+  // built once and reused (keyed by the row the history ends on).
+  const windows = new Map<number, Matrix>();
+  const cachedWindow = (history: PriceTable): Matrix => {
+    const row = history.dates.length - 1;
+    let r = windows.get(row);
+    if (!r) windows.set(row, (r = windowReturns(history)));
+    return r;
+  };
+
   const solveOn = (
     candidate: Candidate,
     history: PriceTable,
@@ -179,7 +189,7 @@ export async function runBacktest(
       candidate,
       scenario,
       assets,
-      returns: windowReturns(history),
+      returns: cachedWindow(history),
       periodsPerYear,
       current,
       previous,
@@ -244,7 +254,7 @@ export async function runBacktest(
       today,
     };
     if (options.stabilityDraws && today.status === 'optimal') {
-      const window = windowReturns(table);
+      const window = cachedWindow(table);
       entry.stability = await run(
         weightStabilitySteps({
           returns: window,
@@ -301,8 +311,15 @@ export async function runBacktest(
   }
 
   const universe: AssetSet = { name: 'the equal-weight universe', kind: 'group', members: assets };
+  // Historical windows come from the common history (every asset priced), so each window can
+  // be replayed on every weight.
+  const common = table.dates.findIndex((_, t) => table.closes.every((c) => Number.isFinite(c[t])));
+  const stressTable: PriceTable =
+    common <= 0
+      ? table
+      : { ...table, dates: table.dates.slice(common), closes: table.closes.map((c) => c.subarray(common)) };
   const stress = stressViews({
-    prices: table,
+    prices: stressTable,
     assets,
     candidates: results
       .filter((r) => r.today.status === 'optimal')

@@ -5,6 +5,8 @@ import { backupCommand } from './backup.js';
 import { importCommand } from './import.js';
 import { restoreCommand } from './restore.js';
 import { serveCommand } from './serve.js';
+import { backtestCommand } from './backtest.js';
+import { solveCommand } from './solve.js';
 
 /**
  * Every `holdfast` command, in the order `--help` lists them. A new command is one module in
@@ -17,4 +19,6 @@ export const commands: readonly Command[] = [
   restoreCommand,
   serveCommand,
   estimateCommand,
+  backtestCommand,
+  solveCommand,
 ];

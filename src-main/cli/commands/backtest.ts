@@ -1,0 +1,223 @@
+import { InputError, formatInputError } from '../../../shared-core/errors.js';
+import { parseWidePriceCsv } from '../../../shared-core/prices/parse-wide-csv.js';
+import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
+import { CancelledError } from '../../../shared-core/stability/cancel.js';
+import { DEFAULT_DRAWS } from '../../../shared-core/stability/weight-bands.js';
+import { BACKTEST_CAUTIONS, backtestJsonText } from '../../../shared-core/walkforward/backtest-json.js';
+import { estimateAndSolve } from '../../../shared-core/walkforward/estimate-and-solve.js';
+import { runBacktest, type BacktestPhase, type BacktestRun } from '../../../shared-core/walkforward/run-backtest.js';
+import { EXIT, UsageError, type CliIO, type Command } from '../command.js';
+import { readInputFile } from '../files.js';
+
+/**
+ * `holdfast backtest`: every candidate of a scenario walked forward over a price file, with
+ * metrics, the significance of differences, stress views and (on request) weight stability.
+ * Progress goes to standard error; Ctrl-C stops between steps and nothing is printed on stdout.
+ */
+export const backtestCommand: Command = {
+  name: 'backtest',
+  summary: 'walk every candidate forward out of sample, with costs, stress views and stability',
+  options: [
+    { name: 'prices', kind: 'string', valueName: 'FILE.csv', required: true, description: 'wide price file' },
+    {
+      name: 'scenario',
+      kind: 'string',
+      valueName: 'FILE.json',
+      required: true,
+      description: 'holdfast-scenario@1 document',
+    },
+    { name: 'json', kind: 'boolean', description: 'print one JSON object on standard output' },
+    { name: 'stability', kind: 'boolean', description: "bootstrap today's weights (weight bands)" },
+    {
+      name: 'draws',
+      kind: 'number',
+      valueName: 'N',
+      description: `bootstrap draws for --stability (default ${DEFAULT_DRAWS})`,
+    },
+    { name: 'seed', kind: 'number', valueName: 'N', description: 'seed of every bootstrap (default 1)' },
+  ],
+  details:
+    'The scenario\'s "backtest" block sets estimationWindow, expanding, rebalance (monthly, quarterly,\n' +
+    'yearly, drift), driftBand, costBps (one figure or per asset class), cashRate and from; its\n' +
+    '"stress" block holds user-defined shocks. Exit 0 on success, 2 on bad input, 130 when interrupted.',
+  async run(options, io) {
+    const draws = options.draws as number | undefined;
+    if (draws !== undefined && (!Number.isInteger(draws) || draws < 2))
+      throw new UsageError(`option '--draws' needs a whole number of at least 2, got '${draws}'`);
+    if (draws !== undefined && !options.stability) throw new UsageError("option '--draws' needs --stability");
+    const seed = options.seed as number | undefined;
+    if (seed !== undefined && !Number.isInteger(seed))
+      throw new UsageError(`option '--seed' needs a whole number, got '${seed}'`);
+
+    const pricesFile = readInputFile(io.cwd, options.prices as string);
+    const scenarioFile = readInputFile(io.cwd, options.scenario as string);
+    let prices;
+    try {
+      prices = parseWidePriceCsv(pricesFile.text);
+    } catch (error) {
+      if (error instanceof InputError) throw error.inFile(pricesFile.path);
+      throw error;
+    }
+    const parsed = parseScenarioText(scenarioFile.text);
+    if (!parsed.ok) {
+      for (const e of parsed.errors) io.stderr(`holdfast backtest: ${formatInputError(e.inFile(scenarioFile.path))}\n`);
+      return EXIT.badInput;
+    }
+    const scenario: Scenario = parsed.scenario;
+
+    const progress = progressPrinter(io, scenario.candidates.length);
+    let run: BacktestRun;
+    try {
+      run = await runBacktest(scenario, prices, {
+        estimateAndSolve,
+        onProgress: progress,
+        shouldCancel: () => io.signal.aborted,
+        pause: () => new Promise((resolve) => setImmediate(resolve)),
+        ...(options.stability ? { stabilityDraws: draws ?? DEFAULT_DRAWS } : {}),
+        ...(seed !== undefined ? { seed } : {}),
+      });
+    } catch (error) {
+      if (error instanceof CancelledError) {
+        io.stderr('holdfast backtest: interrupted; nothing written\n');
+        return EXIT.interrupted;
+      }
+      if (error instanceof InputError && error.location.file === undefined) throw error.inFile(scenarioFile.path);
+      throw error;
+    }
+    for (const w of run.warnings) io.stderr(`holdfast backtest: warning: ${w}\n`);
+    io.stdout(options.json ? backtestJsonText(run) + '\n' : report(run));
+    return EXIT.ok;
+  },
+};
+
+/** One stderr line per candidate and phase at each quarter of the way. */
+function progressPrinter(io: CliIO, candidates: number) {
+  const shown = new Map<string, number>();
+  const order: string[] = [];
+  return (phase: BacktestPhase, id: string, done: number, total: number): void => {
+    if (phase === 'comparison') return;
+    if (!order.includes(id)) order.push(id);
+    const key = `${phase}:${id}`;
+    const quarter = total > 0 ? Math.floor((4 * done) / total) : 4;
+    if ((shown.get(key) ?? -1) >= quarter) return;
+    shown.set(key, quarter);
+    io.stderr(`holdfast backtest: ${id} (${order.indexOf(id) + 1}/${candidates}) ${phase} ${quarter * 25}%\n`);
+  };
+}
+
+const pct = (v: number | null | undefined, digits = 1): string =>
+  v === null || v === undefined || !Number.isFinite(v) ? 'n/a' : `${(v * 100).toFixed(digits)}%`;
+const num = (v: number | null | undefined, digits = 2): string =>
+  v === null || v === undefined || !Number.isFinite(v) ? 'n/a' : v.toFixed(digits);
+
+function table(header: string[], rows: string[][]): string[] {
+  const widths = header.map((h, j) => Math.max(h.length, ...rows.map((r) => r[j].length)));
+  const line = (cells: string[]) =>
+    cells.map((c, j) => (j === 0 ? c.padEnd(widths[j]) : c.padStart(widths[j]))).join('  ');
+  return [line(header), ...rows.map(line)];
+}
+
+function report(run: BacktestRun): string {
+  const s = run.settings;
+  const lines = [
+    `Walk-forward ${s.startDate} to ${s.endDate}: ${s.rebalance} rebalancing${s.rebalance === 'drift' ? ` (band ${pct(s.driftBand)})` : ''}, ` +
+      `${s.expanding ? 'expanding' : `trailing ${s.estimationWindow}-period`} estimation window, cash rate ${pct(s.cashRate, 2)}`,
+    '',
+    ...table(
+      [
+        'candidate',
+        'return',
+        'volatility',
+        'Sharpe',
+        'max drawdown',
+        'DR',
+        'turnover/yr',
+        'costs',
+        'vol ratio (p10-p90)',
+      ],
+      run.candidates.map((c) => {
+        const m = c.metrics;
+        const ratio = m.volatilityRatio;
+        return [
+          c.id,
+          pct(m.annualisedReturn),
+          pct(m.volatility),
+          num(m.sharpeRatio),
+          `${pct(m.maxDrawdown.depth)} ${m.maxDrawdown.peakDate}..${m.maxDrawdown.troughDate}`,
+          num(m.averageRealisedDiversificationRatio),
+          pct(m.turnoverPerYear, 0),
+          pct(m.costsPaid, 2),
+          ratio ? `${num(ratio.mean)} (${num(ratio.p10)}-${num(ratio.p90)})` : 'n/a',
+        ];
+      }),
+    ),
+  ];
+  const failed = run.candidates.filter((c) => c.metrics.failedRebalances > 0);
+  for (const c of failed)
+    lines.push(
+      `${c.id}: ${c.metrics.failedRebalances} rebalance(s) could not be solved; the drifted weights were kept`,
+    );
+  if (run.comparisons.length) {
+    const c0 = run.comparisons[0];
+    lines.push(
+      '',
+      `Differences from ${run.reference} (${Math.round(c0.level * 100)}% interval, ${c0.method}, ${c0.draws} draws):`,
+    );
+    lines.push(
+      ...table(
+        ['candidate', 'Sharpe diff', 'interval', 'p', 'vol diff', 'interval'],
+        run.comparisons.map((c) => [
+          c.a,
+          num(c.sharpeRatio.difference),
+          `${num(c.sharpeRatio.lower)}..${num(c.sharpeRatio.upper)}`,
+          num(c.sharpeRatio.pValue, 3),
+          pct(c.volatility.difference, 2),
+          `${pct(c.volatility.lower, 2)}..${pct(c.volatility.upper, 2)}`,
+        ]),
+      ),
+    );
+  }
+  const ids = run.candidates.filter((c) => c.today.status === 'optimal').map((c) => c.id);
+  if (run.stress.historical.length || run.stress.shocks.length) {
+    lines.push('', "Stress views on today's weights:");
+    lines.push(
+      ...table(
+        ['view', 'window', ...ids],
+        [
+          ...run.stress.historical.map((h) => [
+            h.name,
+            `${h.from}..${h.to}`,
+            ...ids.map((id) => pct(h.portfolioReturns[id])),
+          ]),
+          ...run.stress.shocks.map((k) => [
+            `${k.name} (${k.target} ${pct(k.shock, 0)})`,
+            'shock',
+            ...ids.map((id) => pct(k.byCandidate[id]?.portfolioReturn)),
+          ]),
+        ],
+      ),
+    );
+  }
+  for (const c of run.candidates)
+    if (c.stability) {
+      lines.push(
+        '',
+        `Weight stability of ${c.id} (${c.stability.method}, ${c.stability.draws} draws, seed ${c.stability.seed}):`,
+      );
+      lines.push(
+        ...table(
+          ['asset', 'today', '5%', 'median', '95%'],
+          run.assets.map((a, i) => [
+            a,
+            pct(c.today.weights[i]),
+            pct(c.stability!.weights[a].p5),
+            pct(c.stability!.weights[a].median),
+            pct(c.stability!.weights[a].p95),
+          ]),
+        ),
+        `DR ${num(c.stability.diversificationRatio.p5)}..${num(c.stability.diversificationRatio.p95)}, volatility ${pct(c.stability.volatility.p5)}..${pct(c.stability.volatility.p95)}, average turnover between draws ${pct(c.stability.averageTurnoverBetweenDraws)}`,
+      );
+    }
+  lines.push('', BACKTEST_CAUTIONS);
+  return lines.join('\n') + '\n';
+}
