@@ -66,7 +66,7 @@ describe('price file detection', () => {
       file(['date,A,B,C', ...rows.map((r) => r.replace(/^([^,]*),/, '"$1",'))].join('\n')),
     );
     expect(plain.assets).toEqual(quoted.assets);
-    expect(Array.from(plain.assets[1].closes)).toEqual([3.5, 12345678901234567]);
+    expect(Array.from(plain.assets[1].closes)).toEqual([3.5, Number('12345678901234567')]);
     expect(plain.assets[2].unparseable.map((c) => [c.line, c.column, c.text])).toEqual([[3, 4, 'x']]);
   });
 
