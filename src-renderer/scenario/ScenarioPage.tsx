@@ -23,6 +23,7 @@ import { ReasonsSection } from './reasons/ReasonsSection.js';
 import { BesidePanel, RevisionBar } from './revisions/RevisionBar.js';
 import { fillStoreGaps } from './store-gaps.js';
 import { useRecompute } from './use-recompute.js';
+import { WalkForwardSection } from './walkforward/WalkForwardSection.js';
 import { checkDraft, describeMessage, type FieldMessage } from './validate-draft.js';
 import './scenario.css';
 
@@ -418,7 +419,9 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
                 onFocus={setFocus}
                 colourIndex={colourIndex}
                 locale={locale}
-              />
+              >
+                <WalkForwardSection scenario={good.scenario} prices={pricesNow} colourIndex={colourIndex} />
+              </ReasonsSection>
             </>
           ) : null}
         </div>

@@ -79,6 +79,7 @@ export const BriefSection = memo(function BriefSection(props: BriefProps) {
       <LimitsFields {...props} set={set} />
       <AssetTable {...props} />
       <GroupBands {...props} />
+      <BacktestFields {...props} />
       {at('(document)').length > 0 ? <FieldNote id="doc-messages" messages={at('(document)')} /> : null}
     </section>
   );
@@ -728,6 +729,84 @@ function AssetTable(props: BriefProps) {
             ))}
           </tbody>
         </table>
+      </div>
+    </fieldset>
+  );
+}
+
+/** Settings of the walk-forward test (`backtest` in the scenario file), with the schema's defaults shown. */
+function BacktestFields({ state, commit, messages, onTyping }: BriefProps) {
+  const b = state.doc.backtest ?? {};
+  const at = (p: string) => messagesAt(messages, p);
+  const set = (key: string, value: unknown) => commit(setField(state, ['backtest', key], value), `backtest.${key}`);
+  return (
+    <fieldset className="sheet backtest-fields">
+      <legend>Walk-forward test (out of sample)</legend>
+      <div className="field-row">
+        <NumberField
+          label="Estimation window"
+          unit="return periods"
+          path="backtest.estimationWindow"
+          value={b.estimationWindow}
+          placeholder="250"
+          messages={at('backtest.estimationWindow')}
+          onTyping={onTyping}
+          onChange={(v) => set('estimationWindow', v)}
+        />
+        <SelectField
+          label="Window"
+          path="backtest.expanding"
+          value={b.expanding ? 'expanding' : 'trailing'}
+          options={[
+            { value: 'trailing', label: 'trailing, fixed length' },
+            { value: 'expanding', label: 'expanding from the start' },
+          ]}
+          messages={at('backtest.expanding')}
+          onChange={(v) => set('expanding', v === 'expanding' ? true : undefined)}
+        />
+        <SelectField
+          label="Rebalance"
+          path="backtest.rebalance"
+          value={b.rebalance ?? 'monthly'}
+          options={[
+            { value: 'monthly', label: 'monthly' },
+            { value: 'quarterly', label: 'quarterly' },
+            { value: 'yearly', label: 'yearly' },
+            { value: 'drift', label: 'when a weight drifts out of its band' },
+          ]}
+          messages={at('backtest.rebalance')}
+          onChange={(v) => set('rebalance', v)}
+        />
+        {b.rebalance === 'drift' ? (
+          <PercentField
+            label="Drift band"
+            path="backtest.driftBand"
+            value={b.driftBand}
+            placeholder="5"
+            messages={at('backtest.driftBand')}
+            onTyping={onTyping}
+            onChange={(v) => set('driftBand', v)}
+          />
+        ) : null}
+        <NumberField
+          label="Costs"
+          unit="bp of traded value"
+          path="backtest.costBps"
+          value={typeof b.costBps === 'number' ? b.costBps : undefined}
+          placeholder="10"
+          messages={at('backtest.costBps')}
+          onTyping={onTyping}
+          onChange={(v) => set('costBps', v)}
+        />
+        <PercentField
+          label="Cash rate for the Sharpe ratio"
+          path="backtest.cashRate"
+          value={b.cashRate}
+          placeholder="0"
+          messages={at('backtest.cashRate')}
+          onTyping={onTyping}
+          onChange={(v) => set('cashRate', v)}
+        />
       </div>
     </fieldset>
   );

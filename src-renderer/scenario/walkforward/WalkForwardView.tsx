@@ -31,6 +31,14 @@ export function growthFinding(run: BacktestRun): string {
 function GrowthChart({ run, colourIndex }: { run: BacktestRun; colourIndex: (id: string) => number }) {
   const option = useMemo(() => {
     const series: object[] = [];
+    // A log axis does not fit itself to the data: give it the range the curves span.
+    let lo = 1;
+    let hi = 1;
+    for (const c of run.candidates)
+      for (const g of c.walkForward.growth) {
+        if (g < lo) lo = g;
+        if (g > hi) hi = g;
+      }
     run.candidates.forEach((c) => {
       const wf = c.walkForward;
       const keep = thinIndices(wf.growth, MAX_POINTS);
@@ -76,7 +84,9 @@ function GrowthChart({ run, colourIndex }: { run: BacktestRun; colourIndex: (id:
           name: 'growth of 1 (log scale)',
           nameLocation: 'middle',
           nameGap: 40,
-          scale: true,
+          min: Math.floor(lo * 0.95 * 100) / 100,
+          max: Math.ceil(hi * 1.05 * 100) / 100,
+          axisLabel: { formatter: (v: number) => v.toFixed(2) },
           splitLine: { lineStyle: { color: RULE } },
         },
         {
@@ -359,10 +369,12 @@ export const WalkForwardView = memo(function WalkForwardView(props: {
         </div>
       ) : null}
       <GrowthChart run={run} colourIndex={props.colourIndex} />
-      <MetricsTable
-        run={run}
-        caption={`Walk-forward figures from ${formatDate(run.settings.startDate)} to ${formatDate(run.settings.endDate)}; differences by ${run.comparisons[0]?.method ?? 'bootstrap'}`}
-      />
+      <div className="table-scroll">
+        <MetricsTable
+          run={run}
+          caption={`Walk-forward figures from ${formatDate(run.settings.startDate)} to ${formatDate(run.settings.endDate)}; differences by ${run.comparisons[0]?.method ?? 'bootstrap'}`}
+        />
+      </div>
       <TurnoverChart run={run} colourIndex={props.colourIndex} />
       <StressTable run={run} />
     </div>
