@@ -1,0 +1,149 @@
+/**
+ * A whole scenario: returns once, each distinct estimator once, then every candidate through
+ * solveCandidate. The command line, the app's worker, the memo and walk-forward share it.
+ */
+import { InputError } from '../errors.js';
+import { annualised, estimateCovariance } from '../estimators/registry.js';
+import type { CovarianceEstimate } from '../estimators/types.js';
+import type { Matrix } from '../linalg/matrix.js';
+import type { QpWarmStart } from '../optimise/qp/types.js';
+import type { CandidateResult } from '../optimise/result.js';
+import { solveCandidateDetailed } from '../optimise/solve-candidate.js';
+import type { PriceTable } from '../prices/price-table.js';
+import { buildReturns, type BuildReturnsOptions, type ReturnsResult } from '../returns/build-returns.js';
+import { CancelledError, type CancelCheck } from '../stability/cancel.js';
+import type { Constraints, Scenario } from './schema.js';
+
+export interface RunScenarioOptions {
+  /** Active sets of an earlier run, by candidate id (walk-forward, live recompute). */
+  warmStarts?: Record<string, QpWarmStart>;
+  /** Polled between steps; a true answer stops the run with CancelledError (nothing partial). */
+  shouldCancel?: CancelCheck;
+  /** Maps an asset and date to a place in the price file, for error messages. */
+  locate?: BuildReturnsOptions['locate'];
+  fx?: PriceTable;
+}
+
+export interface CandidateEstimate {
+  assets: string[];
+  /** Annualised covariance in the order of `assets`. */
+  covariance: Matrix;
+  estimate: CovarianceEstimate;
+}
+
+export interface ScenarioRun {
+  candidates: CandidateResult[];
+  estimates: Record<string, CandidateEstimate>;
+  returns: ReturnsResult;
+  warmStarts: Record<string, QpWarmStart>;
+}
+
+/** The candidate's constraints: its own entries replace the scenario's (weight bounds entry by entry). */
+export function mergedConstraints(base: Constraints, own: Constraints | undefined): Constraints {
+  if (!own) return base;
+  const weightBounds =
+    base.weightBounds || own.weightBounds ? { ...base.weightBounds, ...own.weightBounds } : undefined;
+  return { ...base, ...own, ...(weightBounds ? { weightBounds } : {}) };
+}
+
+function checkAssets(c: Constraints | undefined, known: Set<string>, path: string): void {
+  if (!c) return;
+  for (const key of Object.keys(c.weightBounds ?? {}))
+    if (key !== 'default' && !known.has(key))
+      throw new InputError(`unknown asset '${key}' (not among the scenario's assets)`, {
+        path: `${path}.weightBounds.${key}`,
+      });
+  c.groups?.forEach((g, i) =>
+    g.members.forEach((m, k) => {
+      if (!known.has(m))
+        throw new InputError(`unknown asset '${m}' in group '${g.name}'`, {
+          path: `${path}.groups[${i}].members[${k}]`,
+        });
+    }),
+  );
+}
+
+function yearsBefore(date: string, years: number): string {
+  const [y, m, d] = date.split('-').map(Number);
+  const whole = Math.floor(years);
+  const months = Math.round((years - whole) * 12);
+  const t = new Date(Date.UTC(y - whole, m - 1 - months, d));
+  return t.toISOString().slice(0, 10);
+}
+
+export function runScenario(scenario: Scenario, prices: PriceTable, options: RunScenarioOptions = {}): ScenarioRun {
+  const cancel = () => {
+    if (options.shouldCancel?.()) throw new CancelledError();
+  };
+  const window = scenario.window;
+  const to = window?.to;
+  const from =
+    window?.from ??
+    (window?.years !== undefined ? yearsBefore(to ?? prices.dates[prices.dates.length - 1], window.years) : undefined);
+  const returns = buildReturns(prices, {
+    assets: scenario.assets,
+    from,
+    to,
+    frequency: scenario.returns.frequency,
+    method: scenario.returns.method,
+    maxFillDays: scenario.returns.maxFillDays,
+    baseCurrency: scenario.baseCurrency,
+    fx: options.fx,
+    locate: options.locate,
+  });
+  const assets = returns.assets;
+  const known = new Set(assets);
+  checkAssets(scenario.constraints, known, 'constraints');
+  scenario.candidates.forEach((c, i) => {
+    checkAssets(c.constraints, known, `candidates[${i}].constraints`);
+    if (c.objective.method === 'max-sharpe') {
+      const missing = assets.filter((a) => scenario.expectedReturns?.[a] === undefined);
+      if (missing.length > 0)
+        throw new InputError(`max-sharpe needs expectedReturns for ${missing.join(', ')}`, {
+          path: scenario.expectedReturns ? 'expectedReturns' : `candidates[${i}].objective`,
+        });
+    }
+    if (c.objective.method === 'equal-risk-contribution' && c.objective.budgets)
+      for (const key of Object.keys(c.objective.budgets))
+        if (!known.has(key))
+          throw new InputError(`unknown asset '${key}'`, { path: `candidates[${i}].objective.budgets.${key}` });
+  });
+
+  const context = { frequency: returns.frequency, periodsPerYear: scenario.periodsPerYear };
+  const cache = new Map<string, { estimate: CovarianceEstimate; covariance: Matrix }>();
+  const candidates: CandidateResult[] = [];
+  const estimates: Record<string, CandidateEstimate> = {};
+  const warmStarts: Record<string, QpWarmStart> = {};
+  for (const c of scenario.candidates) {
+    cancel();
+    const key = JSON.stringify(c.estimator);
+    let entry = cache.get(key);
+    if (!entry) {
+      const estimate = estimateCovariance(returns.returns, c.estimator, context);
+      entry = { estimate, covariance: annualised(estimate) };
+      cache.set(key, entry);
+    }
+    estimates[c.id] = { assets, covariance: entry.covariance, estimate: entry.estimate };
+    cancel();
+    const solved = solveCandidateDetailed({
+      id: c.id,
+      label: c.label,
+      assets,
+      covariance: entry.covariance,
+      objective: c.objective,
+      constraints: mergedConstraints(scenario.constraints, c.constraints),
+      current: scenario.current,
+      expectedReturns: scenario.expectedReturns,
+      assetInfo: scenario.assetInfo,
+      conditionNumber: entry.estimate.diagnostics.conditionNumber,
+      observations: entry.estimate.diagnostics.observations,
+      estimator: c.estimator.method,
+      warmStart: options.warmStarts?.[c.id],
+      shouldCancel: options.shouldCancel,
+    });
+    cancel();
+    candidates.push(solved.result);
+    if (solved.warmStart) warmStarts[c.id] = solved.warmStart;
+  }
+  return { candidates, estimates, returns, warmStarts };
+}
