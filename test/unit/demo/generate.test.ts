@@ -11,6 +11,7 @@ import {
 import { regimeSwitching } from '../../../shared-core/demo/factors.js';
 import { parseWidePriceCsv } from '../../../shared-core/prices/parse-wide-csv.js';
 import { buildReturns } from '../../../shared-core/returns/build-returns.js';
+import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
 import { parseScenario } from '../../../shared-core/scenario/schema.js';
 
 const demo = generateDemo();
@@ -305,5 +306,33 @@ describe('demo data: through the returns engine (shared-core/returns/build-retur
     expect(() =>
       buildReturns(demo.prices, { frequency: 'daily', method: 'log', baseCurrency: 'EUR', fx: demo.fx }),
     ).toThrow(/HF-/);
+  });
+});
+
+describe('demo data: the demo scenario solves (shared-core/scenario/run-scenario.ts)', () => {
+  it('all six candidates are optimal, fully invested, and keep the caps, the bands and the illiquid cap', () => {
+    const parsed = parseScenario(demo.scenario);
+    if (!parsed.ok) throw new Error('the demo scenario does not parse');
+    const s = parsed.scenario;
+    const run = runScenario(s, demo.prices, { fx: demo.fx });
+    expect(run.candidates.map((c) => c.status)).toEqual(Array(6).fill('optimal'));
+    const tol = 1e-6;
+    for (const c of run.candidates) {
+      const w = c.weights as Record<string, number>;
+      const total = Object.values(w).reduce((a, b) => a + b, 0);
+      expect(total, c.id).toBeCloseTo(1, 6);
+      for (const [asset, x] of Object.entries(w)) {
+        const [lo, hi] = s.constraints.weightBounds?.[asset] ?? s.constraints.weightBounds!.default;
+        expect(x, `${c.id} ${asset}`).toBeGreaterThanOrEqual(lo - tol);
+        expect(x, `${c.id} ${asset}`).toBeLessThanOrEqual(hi + tol);
+      }
+      for (const g of s.constraints.groups ?? []) {
+        const sum = g.members.reduce((a, m) => a + (w[m] ?? 0), 0);
+        if (g.min !== undefined) expect(sum, `${c.id} ${g.name}`).toBeGreaterThanOrEqual(g.min - tol);
+        if (g.max !== undefined) expect(sum, `${c.id} ${g.name}`).toBeLessThanOrEqual(g.max + tol);
+      }
+      const illiquid = demo.assets.filter((a) => a.liquidity === 'illiquid').reduce((a, x) => a + (w[x.id] ?? 0), 0);
+      expect(illiquid).toBeLessThanOrEqual(s.constraints.illiquidMax! + tol);
+    }
   });
 });
