@@ -5,8 +5,9 @@ import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { runScenario, type ScenarioRun } from '../../../shared-core/scenario/run-scenario.js';
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
-import { EXIT, type CliIO, type Command, type OptionValues } from '../command.js';
+import { EXIT, UsageError, type CliIO, type Command, type OptionValues } from '../command.js';
 import { readInputFile } from '../files.js';
+import { readSolveStore } from './solve-from-store.js';
 
 /** What `solve` needs, however it was obtained (files now; the store form reads the same shape). */
 export interface SolveInputs {
@@ -15,6 +16,8 @@ export interface SolveInputs {
   /** Where the prices came from, for error messages. */
   pricesName: string;
   scenarioName: string;
+  /** Prices read from the store: no file line or column to point at. */
+  fromStore?: boolean;
 }
 
 /** The file form: `--prices FILE.csv --scenario FILE.json`. Throws InputError naming the file. */
@@ -42,7 +45,7 @@ export function readSolveFiles(io: CliIO, pricesPath: string, scenarioPath: stri
 export function solveInputs(inputs: SolveInputs, signal?: AbortSignal): ScenarioRun {
   try {
     return runScenario(inputs.scenario, inputs.prices, {
-      locate: wideCsvLocator(inputs.prices),
+      locate: inputs.fromStore ? undefined : wideCsvLocator(inputs.prices),
       shouldCancel: signal ? () => signal.aborted : undefined,
     });
   } catch (error) {
@@ -129,15 +132,16 @@ export const solveCommand: Command = {
       name: 'prices',
       kind: 'string',
       valueName: 'FILE.csv',
-      required: true,
-      description: 'wide price file: date, then one column per asset',
+      description: 'wide price file: date, then one column per asset (file form)',
     },
+    { name: 'store', kind: 'string', valueName: 'FILE', description: 'the store (store form, with --household)' },
+    { name: 'household', kind: 'string', valueName: 'NAME', description: 'household in the store (store form)' },
     {
       name: 'scenario',
       kind: 'string',
-      valueName: 'FILE.json',
+      valueName: 'FILE.json|NAME',
       required: true,
-      description: 'holdfast-scenario@1 document',
+      description: 'holdfast-scenario@1 document, or a saved scenario name (store form)',
     },
     { name: 'json', kind: 'boolean', description: 'print one JSON object instead of a table' },
   ],
@@ -145,10 +149,20 @@ export const solveCommand: Command = {
     'Exit status: 0 when every candidate is optimal, 3 when any is infeasible (the output is still',
     'printed), 1 when a candidate failed otherwise (a singular covariance, an iteration limit), 2 on',
     'bad input (nothing printed on standard output).',
+    'Store form: --store FILE --household NAME --scenario NAME solves the newest saved revision on the',
+    "stored prices of its assets; asset tags and holdings fill the document's assetInfo and current if absent.",
     'Estimates come from past data; past performance does not guarantee future results.',
   ].join('\n'),
   async run(options, io) {
-    const inputs = readSolveFiles(io, options.prices as string, options.scenario as string);
+    if (
+      (options.store === undefined) !== (options.household === undefined) ||
+      (options.store !== undefined) === (options.prices !== undefined)
+    )
+      throw new UsageError("'solve' needs --prices FILE.csv, or --store FILE with --household NAME");
+    const inputs =
+      options.store !== undefined
+        ? readSolveStore(io.cwd, options.store as string, options.household as string, options.scenario as string)
+        : readSolveFiles(io, options.prices as string, options.scenario as string);
     return runSolve(inputs, options, io);
   },
 };

@@ -1,0 +1,34 @@
+import { InputError } from '../../../shared-core/errors.js';
+import type { PriceTable } from '../../../shared-core/prices/price-table.js';
+import type { Scenario } from '../../../shared-core/scenario/schema.js';
+import { storedScenarioInputs } from '../../io/stored-scenario.js';
+import { existingStore } from './store-access.js';
+
+/**
+ * The store form of `holdfast solve`: `--store FILE --household NAME --scenario NAME` gives the
+ * same inputs as the file form (the newest saved revision and the stored prices of its assets).
+ * Errors are InputErrors naming the store file, so the command exits 2 with nothing on stdout.
+ */
+export function readSolveStore(
+  cwd: string,
+  storeName: string,
+  household: string,
+  scenario: string,
+): { scenario: Scenario; prices: PriceTable; pricesName: string; scenarioName: string; fromStore: true } {
+  const store = existingStore(cwd, storeName);
+  try {
+    const inputs = storedScenarioInputs(store, household, scenario);
+    return {
+      scenario: inputs.scenario,
+      prices: inputs.prices,
+      pricesName: storeName,
+      scenarioName: `${storeName} (household '${household}', scenario '${scenario}', revision ${inputs.revision.number})`,
+      fromStore: true,
+    };
+  } catch (error) {
+    if (error instanceof InputError && error.location.file === undefined) throw error.inFile(storeName);
+    throw error;
+  } finally {
+    store.close();
+  }
+}
