@@ -624,6 +624,21 @@ export const serviceApi = {
     done,
   ),
 
+  'memos.print': method(
+    "Prints the allocation memo of a scenario's newest revision (stored prices, the household's holdings, the settings' initials) and keeps it in the store; the same inputs give the same bytes, and an identical memo already stored is returned instead.",
+    z.strictObject({
+      scenarioId: id,
+      /** The memo's date (never the clock inside the PDF); today when absent. */
+      date: isoDate.optional(),
+      /** Trades are rounded to multiples of this amount in the base currency. */
+      lot: z.number().positive().default(1000),
+      /** The candidate the memo recommends; the revision's `recommended` when absent. */
+      recommended: z.string().min(1).optional(),
+      /** The advisor's own reasons, printed before the figures. */
+      rationale: z.string().max(4000).optional(),
+    }),
+    z.object({ memo: memoSummarySchema, reused: z.boolean() }),
+  ),
   'memos.list': method(
     'The memos printed for a scenario, newest first.',
     z.strictObject({ scenarioId: id }),

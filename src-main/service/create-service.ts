@@ -66,7 +66,7 @@ export function createService(store: Store, options: ServiceOptions = {}): Servi
     'imports.cancel': imports['imports.cancel'],
     'imports.history': imports['imports.history'],
     ...scenarioMethods(store),
-    ...memoMethods(store),
+    ...memoMethods(store, settings),
   };
 
   // The store's own "not found" and "cancelled" become the service's error codes.

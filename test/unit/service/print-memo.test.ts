@@ -1,0 +1,67 @@
+import { createHash } from 'node:crypto';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { dispatch } from '../../../shared-core/contract/dispatch.js';
+import { serviceApi } from '../../../shared-core/contract/service-api.js';
+import { createDemoStore } from '../../../src-main/demo/create-demo-store.js';
+import { createService, type Service } from '../../../src-main/service/index.js';
+import { openStore, type Store } from '../../../src-main/store/store.js';
+
+// The memo through the service on the invented demonstration store (its own seeded prices,
+// household with a US-dollar holding and 3 x 2 candidate scenario).
+describe('service: printing the allocation memo', () => {
+  let dir: string;
+  let store: Store;
+  let service: Service;
+  let scenarioId: string;
+  const call = (name: string, payload: unknown) => dispatch(serviceApi, service, name, payload);
+
+  beforeAll(async () => {
+    dir = mkdtempSync(join(tmpdir(), 'holdfast-memo-service-'));
+    const demo = await createDemoStore(join(dir, 'demo.sqlite'));
+    store = openStore(demo.path, { create: false });
+    service = createService(store, { settingsPath: join(dir, 'settings.json'), demo: true });
+    scenarioId = String(demo.scenarioId);
+  }, 120_000);
+  afterAll(() => {
+    service?.dispose();
+    store?.close();
+    rmSync(dir, { recursive: true, force: true });
+  });
+
+  it('refuses to print before the initials are set, naming the setting', async () => {
+    expect(await call('memos.print', { scenarioId, date: '2026-01-15' })).toMatchObject({
+      ok: false,
+      error: { code: 'bad-request', where: 'preparedBy' },
+    });
+    expect(store.listMemos(Number(scenarioId))).toEqual([]);
+  });
+
+  it('prints a PDF kept in the store, and the same request again returns the same memo', async () => {
+    await call('settings.set', { preparedBy: 'QA' });
+    const first = await call('memos.print', { scenarioId, date: '2026-01-15' });
+    if (!first.ok) throw new Error(first.error.message);
+    const { memo, reused } = first.result as { memo: { id: string; hash: string; bytes: number }; reused: boolean };
+    expect(reused).toBe(false);
+    const got = await call('memos.get', { memoId: memo.id });
+    if (!got.ok) throw new Error(got.error.message);
+    const bytes = Buffer.from((got.result as { pdfBase64: string }).pdfBase64, 'base64');
+    // ISO 32000-1: a PDF file begins with the header "%PDF-" and ends with "%%EOF".
+    expect(bytes.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    expect(bytes.subarray(-6).toString('latin1')).toMatch(/%%EOF\s*$/);
+    expect(bytes.length).toBe(memo.bytes);
+    expect(createHash('sha256').update(bytes).digest('hex')).toBe(memo.hash);
+    const again = await call('memos.print', { scenarioId, date: '2026-01-15' });
+    expect(again).toMatchObject({ ok: true, result: { reused: true, memo: { id: memo.id, hash: memo.hash } } });
+    expect(store.listMemos(Number(scenarioId))).toHaveLength(1);
+  }, 120_000);
+
+  it('refuses a recommended candidate the revision does not have', async () => {
+    expect(await call('memos.print', { scenarioId, recommended: 'no-such-candidate' })).toMatchObject({
+      ok: false,
+      error: { code: 'bad-request', where: 'recommended' },
+    });
+  });
+});
