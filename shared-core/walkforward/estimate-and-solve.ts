@@ -1,9 +1,32 @@
 import { diversificationRatio, portfolioVolatility } from '../analytics/risk.js';
 import { annualised, estimateCovariance } from '../estimators/registry.js';
+import type { CovarianceEstimate, Frequency } from '../estimators/types.js';
+import type { Matrix } from '../linalg/matrix.js';
+import type { EstimatorSpec } from '../scenario/estimator-spec.js';
 import { solveCandidateDetailed } from '../optimise/solve-candidate.js';
 import type { QpWarmStart } from '../optimise/qp/types.js';
 import type { Constraints } from '../scenario/schema.js';
 import type { EstimateAndSolveFn, SolveOutcome } from './run-backtest.js';
+
+/**
+ * Estimates per return window and estimator: candidates that share an estimator (maximum
+ * diversification and ERC on the same Ledoit-Wolf estimate) estimate once per rebalance. Keyed
+ * by the window matrix itself, which the backtest runner shares across candidates; entries go
+ * when the window does.
+ */
+const estimates = new WeakMap<Matrix, Map<string, { estimate: CovarianceEstimate; covariance: Matrix }>>();
+
+function estimated(returns: Matrix, spec: EstimatorSpec, frequency: Frequency, periodsPerYear: number) {
+  let byKey = estimates.get(returns);
+  if (!byKey) estimates.set(returns, (byKey = new Map()));
+  const key = `${JSON.stringify(spec)}|${frequency}|${periodsPerYear}`;
+  let hit = byKey.get(key);
+  if (!hit) {
+    const estimate = estimateCovariance(returns, spec, { frequency, periodsPerYear });
+    byKey.set(key, (hit = { estimate, covariance: annualised(estimate) }));
+  }
+  return hit;
+}
 
 /**
  * The real allocator of the walk-forward: estimate the candidate's covariance on the window
@@ -15,11 +38,7 @@ import type { EstimateAndSolveFn, SolveOutcome } from './run-backtest.js';
  */
 export const estimateAndSolve: EstimateAndSolveFn = (request): SolveOutcome => {
   const { candidate, scenario, assets, returns, periodsPerYear, current } = request;
-  const estimate = estimateCovariance(returns, candidate.estimator, {
-    frequency: scenario.returns.frequency,
-    periodsPerYear,
-  });
-  const covariance = annualised(estimate);
+  const { estimate, covariance } = estimated(returns, candidate.estimator, scenario.returns.frequency, periodsPerYear);
   const merged: Constraints = { ...scenario.constraints, ...candidate.constraints };
   if (current === null) delete merged.maxTurnover;
   const { result, warmStart } = solveCandidateDetailed({
