@@ -5,9 +5,18 @@ import { storeSuite } from './store.js';
 import { memoBench } from './memo.js';
 import { estimatorsSuite } from './estimators.js';
 import { backtestSuite } from './backtest.js';
+import { scenarioRecomputeSuite } from './scenario-recompute.js';
 
 /** Every benchmark suite; a suite is one module in bench/ plus one line here. */
-const suites: BenchSuite[] = [demoDataSuite, webHostSuite, storeSuite, memoBench, estimatorsSuite, backtestSuite];
+const suites: BenchSuite[] = [
+  demoDataSuite,
+  webHostSuite,
+  storeSuite,
+  memoBench,
+  estimatorsSuite,
+  backtestSuite,
+  scenarioRecomputeSuite,
+];
 
 const only = process.argv.slice(2);
 for (const suite of suites) {

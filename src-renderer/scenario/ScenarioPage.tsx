@@ -21,6 +21,7 @@ import { formatDuration } from './format.js';
 import { applyEdit, canRedo, canUndo, createHistory, redo, undo, type History } from './history.js';
 import { ReasonsSection } from './reasons/ReasonsSection.js';
 import { BesidePanel, RevisionBar } from './revisions/RevisionBar.js';
+import { fxSources, fxTable } from './fx-table.js';
 import { fillStoreGaps } from './store-gaps.js';
 import { useRecompute } from './use-recompute.js';
 import { WalkForwardSection } from './walkforward/WalkForwardSection.js';
@@ -152,16 +153,35 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
 
   // ---- prices for the chosen assets ----
   const assetKey = (doc.assets ?? []).slice().sort().join('|');
-  const [prices, setPrices] = useState<{ key: string; table: PriceTable; dataVersion: number } | null>(null);
+  const baseCurrency = typeof doc.baseCurrency === 'string' ? doc.baseCurrency : boot.household.baseCurrency;
+  const [prices, setPrices] = useState<{
+    key: string;
+    table: PriceTable;
+    fx?: PriceTable;
+    dataVersion: number;
+  } | null>(null);
   const [pricesError, setPricesError] = useState<unknown>(null);
   useEffect(() => {
     if (!assetKey) return;
     let live = true;
     const assets = assetKey.split('|');
-    api['prices.table']({ assets }).then(
-      (r) => {
+    const load = async () => {
+      const r = await api['prices.table']({ assets });
+      const table = priceTableFromWire(r.table);
+      // Assets priced in another currency are measured in the base one with the store's rates;
+      // a currency without a rate is left to the core, which says which asset lacks one.
+      const { sources } = fxSources(table.currencies, baseCurrency, boot.catalogue);
+      let fx: PriceTable | undefined;
+      if (sources.length > 0) {
+        const rates = await api['prices.table']({ assets: sources.map((x) => x.assetId) });
+        fx = fxTable(priceTableFromWire(rates.table), sources);
+      }
+      return { key: assetKey, table, fx, dataVersion: r.dataVersion };
+    };
+    load().then(
+      (loaded) => {
         if (!live) return;
-        setPrices({ key: assetKey, table: priceTableFromWire(r.table), dataVersion: r.dataVersion });
+        setPrices(loaded);
         setPricesError(null);
       },
       (error: unknown) => live && setPricesError(error),
@@ -169,7 +189,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
     return () => {
       live = false;
     };
-  }, [assetKey]);
+  }, [assetKey, baseCurrency, boot.catalogue]);
   const pricesNow = prices && prices.key === assetKey ? prices.table : undefined;
 
   // ---- checks as typed ----
@@ -222,7 +242,12 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   const first = useRef(true);
   useEffect(() => {
     if (!check.ok || !pricesNow) return;
-    recompute.request(fillStoreGaps(check.scenario, boot.catalogue, boot.holdings), pricesNow, first.current);
+    recompute.request(
+      fillStoreGaps(check.scenario, boot.catalogue, boot.holdings),
+      pricesNow,
+      first.current,
+      prices?.fx,
+    );
     first.current = false;
   }, [check, pricesNow]);
   // Time from the last keystroke to the comparison on screen (after the browser has painted it).
@@ -432,6 +457,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
             current={doc}
             currentComparison={good?.comparison ?? null}
             prices={pricesNow}
+            fx={prices?.fx}
             onClose={() => setBeside(null)}
             onLoad={loadDocument}
             locale={locale}

@@ -31,8 +31,8 @@ export function useRecompute(onOutcome: (outcome: RecomputeOutcome) => void) {
   }, []);
   return {
     state,
-    request: (scenario: Scenario, prices: PriceTable, immediate = false) =>
-      client.current?.request(scenario, prices, immediate),
+    request: (scenario: Scenario, prices: PriceTable, immediate = false, fx?: PriceTable) =>
+      client.current?.request(scenario, prices, immediate, fx),
     cancel: () => client.current?.cancel(),
   };
 }

@@ -71,10 +71,11 @@ function aligned(covariance: Matrix, from: readonly string[], assets: readonly s
 export function buildComparison(
   scenario: Scenario,
   prices: PriceTable,
+  fx?: PriceTable,
   now: () => number = () => performance.now(),
 ): Comparison {
   const t0 = now();
-  const run = runScenario(scenario, prices);
+  const run = runScenario(scenario, prices, fx ? { fx } : {});
   const assets = [...run.returns.assets];
   const n = assets.length;
   const context = { frequency: scenario.returns.frequency, periodsPerYear: scenario.periodsPerYear };

@@ -3,7 +3,14 @@ import type { Scenario } from '../../shared-core/scenario/schema.js';
 import type { Comparison } from './comparison.js';
 
 /** Messages between the scenario page and the recompute worker (structured clone, no JSON). */
-export type ToWorker = { type: 'run'; requestId: number; scenario: Scenario; prices: PriceTable };
+export type ToWorker = {
+  type: 'run';
+  requestId: number;
+  scenario: Scenario;
+  prices: PriceTable;
+  /** Rates into the base currency, one column per currency (when an asset is priced in another). */
+  fx?: PriceTable;
+};
 
 export type FromWorker =
   | { type: 'ready' }

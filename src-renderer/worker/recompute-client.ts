@@ -50,6 +50,7 @@ export const SUPERSEDE_AFTER_MS = 250;
 interface Job {
   scenario: Scenario;
   prices: PriceTable;
+  fx?: PriceTable;
   /** When the edit that asked for it happened. */
   requestedAt: number;
 }
@@ -74,8 +75,8 @@ export class RecomputeClient {
   }
 
   /** Asks for a run after the debounce; a later call before it starts replaces this one. */
-  request(scenario: Scenario, prices: PriceTable, immediate = false): void {
-    const job: Job = { scenario, prices, requestedAt: this.o.now() };
+  request(scenario: Scenario, prices: PriceTable, immediate = false, fx?: PriceTable): void {
+    const job: Job = { scenario, prices, fx, requestedAt: this.o.now() };
     if (this.timer !== null) this.o.clearTimer(this.timer);
     this.timer = null;
     if (immediate) this.submit(job);
@@ -127,7 +128,7 @@ export class RecomputeClient {
     const id = this.nextId++;
     this.running = { ...job, id, startedAt: this.o.now() };
     this.o.onState({ busy: true, since: this.running.startedAt });
-    worker.postMessage({ type: 'run', requestId: id, scenario: job.scenario, prices: job.prices });
+    worker.postMessage({ type: 'run', requestId: id, scenario: job.scenario, prices: job.prices, fx: job.fx });
   }
 
   private ensureWorker(): WorkerLike {

@@ -15,7 +15,7 @@ scope.onmessage = (event) => {
   const message = event.data;
   if (message.type !== 'run') return;
   try {
-    const comparison = buildComparison(message.scenario, message.prices);
+    const comparison = buildComparison(message.scenario, message.prices, message.fx);
     scope.postMessage({ type: 'done', requestId: message.requestId, comparison });
   } catch (error) {
     if (error instanceof InputError)

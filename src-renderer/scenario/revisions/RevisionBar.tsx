@@ -138,6 +138,8 @@ export function BesidePanel(props: {
   current: ScenarioInput;
   currentComparison: Comparison | null;
   prices: PriceTable | undefined;
+  /** The draft's exchange-rate table (the revision's assets are priced in the same currencies). */
+  fx?: PriceTable;
   onClose: () => void;
   onLoad: (document: ScenarioInput) => void;
   locale?: string;
@@ -170,7 +172,7 @@ export function BesidePanel(props: {
     if (assets.length === 0) return;
     let live = true;
     api['prices.table']({ assets: [...assets] }).then(
-      (r) => live && recompute.request(scenario, priceTableFromWire(r.table), true),
+      (r) => live && recompute.request(scenario, priceTableFromWire(r.table), true, props.fx),
       (e: unknown) => live && setRunError(errorText(e)),
     );
     return () => {
