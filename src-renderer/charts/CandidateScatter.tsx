@@ -32,7 +32,7 @@ export const CandidateScatter = memo(function CandidateScatter(props: {
     () => ({
       animation: false,
       textStyle: { fontFamily: FONT, color: INK },
-      grid: { left: 12, right: 96, top: 20, bottom: 36, containLabel: true },
+      grid: { left: 12, right: 96, top: 34, bottom: 36, containLabel: true },
       tooltip: {
         formatter: (p: { data: { name: string; value: [number, number] } }) =>
           `${p.data.name}: volatility ${p.data.value[0].toFixed(1)}%, diversification ratio ${p.data.value[1].toFixed(2)}`,
@@ -42,16 +42,20 @@ export const CandidateScatter = memo(function CandidateScatter(props: {
         name: 'volatility, per cent a year',
         nameLocation: 'middle',
         nameGap: 26,
-        scale: true,
-        axisLabel: { formatter: '{value}%' },
+        // Room around the outermost points, so a label or a mark never sits on an axis.
+        min: (v: { min: number; max: number }) => Number((v.min - Math.max(0.1, (v.max - v.min) * 0.12)).toFixed(2)),
+        max: (v: { min: number; max: number }) => Number((v.max + Math.max(0.1, (v.max - v.min) * 0.12)).toFixed(2)),
+        axisLabel: { formatter: '{value}%', showMinLabel: false, showMaxLabel: false },
         splitLine: { lineStyle: { color: RULE } },
       },
       yAxis: {
         type: 'value',
         name: 'diversification ratio',
-        nameLocation: 'middle',
-        nameGap: 40,
-        scale: true,
+        nameLocation: 'end',
+        nameTextStyle: { align: 'left' },
+        axisLabel: { showMinLabel: false, showMaxLabel: false },
+        min: (v: { min: number; max: number }) => Number((v.min - Math.max(0.02, (v.max - v.min) * 0.12)).toFixed(2)),
+        max: (v: { min: number; max: number }) => Number((v.max + Math.max(0.02, (v.max - v.min) * 0.12)).toFixed(2)),
         splitLine: { lineStyle: { color: RULE } },
       },
       series: props.points.map((p) => ({

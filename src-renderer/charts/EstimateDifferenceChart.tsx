@@ -38,7 +38,7 @@ export const EstimateDifferenceChart = memo(function EstimateDifferenceChart(pro
     () => ({
       animation: false,
       textStyle: { fontFamily: FONT, color: INK },
-      grid: { left: 8, right: 24, top: 30, bottom: 60, containLabel: true },
+      grid: { left: 8, right: 24, top: 56, bottom: 60, containLabel: true },
       legend: { top: 0, left: 0, textStyle: { color: INK_SOFT } },
       tooltip: { trigger: 'axis', valueFormatter: (v: number) => `\u00d7${v.toFixed(2)}` },
       xAxis: {

@@ -133,10 +133,14 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
         <h2 id="answer-title">2. The candidates</h2>
         <span className="faint">{basis}</span>
       </div>
-      {comparison.window.warnings.length > 0 ? (
-        <div className="note warning" role="note">
-          <strong>About the data: </strong>
-          {comparison.window.warnings.join(' ')}
+      {props.comparison.window.warnings.length > 0 ? (
+        <div className="note warning data-warnings" role="note">
+          <strong>About the data:</strong>
+          <ul>
+            {props.comparison.window.warnings.map((w, k) => (
+              <li key={k}>{w}</li>
+            ))}
+          </ul>
         </div>
       ) : null}
       <CandidateTable
