@@ -7,8 +7,10 @@ import { MEMO_LAYOUT_VERSION, type MemoInput } from './memo-input.js';
  * `{ layout: MEMO_LAYOUT_VERSION, input: MemoInput }`. Canonical JSON: object keys sorted by
  * code unit, no whitespace, undefined members dropped, typed arrays as arrays, numbers as
  * JavaScript prints them (shortest round-trip form), non-finite numbers as the strings "NaN",
- * "Infinity", "-Infinity". Because `renderMemo` is a pure function of its input, equal memo
- * hashes mean equal PDF bytes; the store also keeps the SHA-256 of the bytes themselves.
+ * "Infinity", "-Infinity". The solver's wall time (`run.candidates[].solver.ms`) is left out:
+ * the memo does not print it and it differs from run to run. Because `renderMemo` is a pure
+ * function of the rest, equal memo hashes mean equal PDF bytes; the store also keeps the
+ * SHA-256 of the bytes themselves.
  */
 export function canonicalJson(value: unknown): string {
   if (value === null) return 'null';
@@ -26,8 +28,19 @@ export function canonicalJson(value: unknown): string {
   throw new TypeError(`cannot hash a value of type ${typeof value}`);
 }
 
+/** The input as the memo hash sees it: without the solver's timing. */
+export function hashedInput(input: MemoInput): MemoInput {
+  return {
+    ...input,
+    run: {
+      ...input.run,
+      candidates: input.run.candidates.map((c) => ({ ...c, solver: { ...c.solver, ms: 0 } })),
+    },
+  };
+}
+
 export function memoHash(input: MemoInput): string {
   return createHash('sha256')
-    .update(canonicalJson({ layout: MEMO_LAYOUT_VERSION, input }))
+    .update(canonicalJson({ layout: MEMO_LAYOUT_VERSION, input: hashedInput(input) }))
     .digest('hex');
 }

@@ -44,6 +44,10 @@ export function buildView(input: MemoInput): MemoView {
       `the recommended candidate '${recommended.id}' is ${recommended.status}${recommended.message ? ` (${recommended.message})` : ''}; recommend a solved one`,
       { path: 'recommended' },
     );
+  if (!recommended.metrics)
+    throw new InputError(`the recommended candidate '${recommended.id}' has no figures (metrics)`, {
+      path: `run.candidates[${recommendedIndex}].metrics`,
+    });
   for (const [ci, c] of input.run.candidates.entries())
     for (const asset of Object.keys(c.weights))
       if (!known.has(asset))

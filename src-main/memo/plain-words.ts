@@ -1,5 +1,6 @@
 import type { EstimatorSpec } from '../../shared-core/scenario/estimator-spec.js';
 import type { ObjectiveSpec } from '../../shared-core/scenario/objective-spec.js';
+import { mergedConstraints } from '../../shared-core/scenario/run-scenario.js';
 import type { Constraints, Scenario } from '../../shared-core/scenario/schema.js';
 import { formatPct, listInWords } from './format.js';
 
@@ -110,8 +111,7 @@ export function constraintSentences(
   return out;
 }
 
-/** A candidate's own overrides merged over the scenario's limits (the candidate's wins, key by key). */
+/** The limits a candidate was solved under: the scenario's, with the candidate's own replacing them (runScenario's rule). */
 export function effectiveConstraints(scenario: Scenario, candidateId: string): Constraints {
-  const own = scenario.candidates.find((c) => c.id === candidateId)?.constraints;
-  return own ? { ...scenario.constraints, ...own } : scenario.constraints;
+  return mergedConstraints(scenario.constraints, scenario.candidates.find((c) => c.id === candidateId)?.constraints);
 }

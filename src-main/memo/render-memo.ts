@@ -453,6 +453,15 @@ function candidateFigures(c: CandidateResult): { vol: string; dr: string; bets: 
   };
 }
 
+/** The allocation table's assets, then any other asset some solved candidate holds. */
+function candidateRows(v: MemoView): string[] {
+  const shown = new Set(v.shown);
+  const others = v.unused.filter((a) =>
+    v.input.run.candidates.some((c) => c.status === 'optimal' && Math.abs(c.weights[a] ?? 0) >= 0.0005),
+  );
+  return [...shown, ...others];
+}
+
 function candidates(w: PageWriter, v: MemoView, title: string): void {
   const { input } = v;
   const all = input.run.candidates;
@@ -470,7 +479,7 @@ function candidates(w: PageWriter, v: MemoView, title: string): void {
   for (let start = 0; start < all.length; start += perTable) {
     const chunk = all.slice(start, start + perTable);
     const cols: Column[] = [
-      { header: 'Figure', width: 2.3 },
+      { header: 'Figure', width: 3.0 },
       ...chunk.map((c) => ({
         header: `${v.candidateLabel(c)}${c.id === v.recommended.id ? ' (recommended)' : ''}`,
         width: 1.5,
@@ -488,7 +497,7 @@ function candidates(w: PageWriter, v: MemoView, title: string): void {
       { cells: ['Effective number of bets', ...figs.map((f) => f.bets)] },
       { cells: ['Turnover from current', ...figs.map((f) => f.turnover)] },
       { cells: ['Weights, %', ...chunk.map(() => '')], muted: true },
-      ...v.shown.map((a) => ({
+      ...candidateRows(v).map((a) => ({
         cells: [
           v.name(a),
           ...chunk.map((c) => (c.status === 'optimal' ? formatPercent1(c.weights[a] ?? 0) : '\u2013')),

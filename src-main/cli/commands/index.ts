@@ -3,6 +3,7 @@ import { demoCommand } from './demo.js';
 import { estimateCommand } from './estimate.js';
 import { backupCommand } from './backup.js';
 import { importCommand } from './import.js';
+import { memoCommand } from './memo.js';
 import { restoreCommand } from './restore.js';
 import { serveCommand } from './serve.js';
 import { backtestCommand } from './backtest.js';
@@ -19,6 +20,7 @@ export const commands: readonly Command[] = [
   restoreCommand,
   serveCommand,
   estimateCommand,
+  memoCommand,
   backtestCommand,
   solveCommand,
 ];

@@ -29,7 +29,8 @@ function between(pages: string[], from: string, to: string | null): string[] {
 }
 
 function rowOf(lines: string[], label: string): string[] {
-  const line = lines.find((l) => l.trimStart().startsWith(label + ' '));
+  // The first cell must be exactly `label`: cells are separated by two or more spaces.
+  const line = lines.find((l) => l.trimStart().startsWith(label) && /^\s{2,}/.test(l.trimStart().slice(label.length)));
   expect(line, `a row for '${label}'`).toBeDefined();
   return line!
     .trim()
@@ -141,7 +142,7 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
     for (const c of input.run.candidates) expect(header).toContain(c.label!);
     for (const asset of input.run.estimate.assets) {
       const name = info[asset]!.name!;
-      if (!lines.some((l) => l.trimStart().startsWith(name + ' '))) continue;
+      if (!lines.some((l) => l.trimStart().startsWith(name + '  '))) continue;
       const cells = rowOf(lines, name);
       expect(cells).toEqual(
         input.run.candidates.map((c) => (c.status === 'optimal' ? formatPercent1(c.weights[asset] ?? 0) : '\u2013')),

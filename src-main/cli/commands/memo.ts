@@ -1,0 +1,330 @@
+import { renameSync, rmSync, writeFileSync } from 'node:fs';
+import { basename, resolve } from 'node:path';
+import { InputError } from '../../../shared-core/errors.js';
+import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
+import type { PriceTable } from '../../../shared-core/prices/price-table.js';
+import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
+import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
+import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
+import { storedScenarioInputs } from '../../io/stored-scenario.js';
+import { buildMemoInput } from '../../memo/build-memo-input.js';
+import { memoHash } from '../../memo/memo-hash.js';
+import type { MemoData, MemoPosition } from '../../memo/memo-input.js';
+import { parseHoldingsText } from '../../memo/memo-sources.js';
+import { renderMemo } from '../../memo/render-memo.js';
+import { valueHoldings } from '../../service/valuation.js';
+import { canonicalJson, sha256Hex } from '../../store/canonical-json.js';
+import type { Store } from '../../store/store.js';
+import { EXIT, UsageError, type Command, type OptionValues } from '../command.js';
+import { readInputFile } from '../files.js';
+import { existingStore } from './store-access.js';
+
+/**
+ * `holdfast memo`: the PDF allocation memo of a scenario, from files or from the store. The
+ * whole memo is computed and rendered before anything is written; the file is written to a
+ * temporary name and renamed, so bad input or a crash leaves no partial PDF. The store form also
+ * saves the memo in the store beside the revision it came from.
+ */
+export const memoCommand: Command = {
+  name: 'memo',
+  summary: 'write the PDF allocation memo of a scenario',
+  options: [
+    { name: 'prices', kind: 'string', valueName: 'FILE.csv', description: 'wide price file (file form)' },
+    {
+      name: 'scenario',
+      kind: 'string',
+      valueName: 'FILE.json|NAME',
+      description: 'scenario file, or its name in the store',
+    },
+    { name: 'out', kind: 'string', valueName: 'memo.pdf', required: true, description: 'PDF file to write' },
+    { name: 'household-name', kind: 'string', valueName: '"..."', description: 'household name printed on the memo' },
+    { name: 'date', kind: 'string', valueName: 'YYYY-MM-DD', description: "the memo's date (default: today, UTC)" },
+    {
+      name: 'holdings',
+      kind: 'string',
+      valueName: 'FILE.json',
+      description: 'holdings in the base currency (file form; a demo household file works)',
+    },
+    {
+      name: 'fx',
+      kind: 'string',
+      valueName: 'FILE.csv',
+      description: 'exchange rates, one column per currency in the base currency (file form)',
+    },
+    { name: 'prepared-by', kind: 'string', valueName: '"..."', description: 'name or initials printed as preparer' },
+    { name: 'lot', kind: 'number', valueName: 'AMOUNT', description: 'round trades to this amount (default 1000)' },
+    { name: 'store', kind: 'string', valueName: 'FILE', description: 'the store (store form)' },
+    { name: 'household', kind: 'string', valueName: 'NAME', description: 'household in the store (store form)' },
+  ],
+  details: [
+    'File form:  holdfast memo --prices FILE.csv --scenario FILE.json --out memo.pdf [--holdings FILE.json]',
+    'Store form: holdfast memo --store FILE --household NAME --scenario NAME --out memo.pdf',
+    'The same inputs and --date give the same bytes. Estimates come from past data; past performance',
+    'does not guarantee future results; the memo is not a recommendation until a licensed adviser reviews it.',
+  ].join('\n'),
+  async run(options, io) {
+    const date = (options.date as string | undefined) ?? new Date().toISOString().slice(0, 10);
+    if (!isIsoDate(date)) throw new UsageError(`--date needs a date YYYY-MM-DD, got '${date}'`);
+    const lot = (options.lot as number | undefined) ?? 1000;
+    if (!(lot > 0)) throw new UsageError(`--lot must be a positive amount, got ${lot}`);
+    const out = options.out as string;
+    const preparedBy = ((options['prepared-by'] as string | undefined) ?? '').trim() || 'not given';
+
+    const storeForm = options.store !== undefined;
+    if (storeForm) {
+      for (const bad of ['prices', 'holdings', 'fx'] as const)
+        if (options[bad] !== undefined) throw new UsageError(`--${bad} belongs to the file form, not with --store`);
+      if (options.household === undefined || options.scenario === undefined)
+        throw new UsageError('the store form needs --store FILE --household NAME --scenario NAME');
+    } else {
+      if (options.household !== undefined)
+        throw new UsageError('--household names a household in a store: add --store');
+      if (options.prices === undefined || options.scenario === undefined)
+        throw new UsageError("'memo' needs --prices FILE.csv --scenario FILE.json, or --store with --household");
+    }
+
+    const built = storeForm
+      ? fromStore(existingStore(io.cwd, options.store as string), options, date, lot, preparedBy)
+      : fromFiles(io.cwd, options, date, lot, preparedBy);
+    const pdf = await renderMemo(built.input);
+    if (io.signal.aborted) {
+      built.close?.();
+      io.stderr('holdfast memo: interrupted; nothing written\n');
+      return EXIT.interrupted;
+    }
+    const full = resolve(io.cwd, out);
+    const temporary = `${full}.partial`;
+    try {
+      writeFileSync(temporary, pdf);
+      renameSync(temporary, full);
+    } catch (error) {
+      rmSync(temporary, { force: true });
+      built.close?.();
+      throw new InputError(`cannot write: ${(error as Error).message}`, { file: out });
+    }
+    const saved = built.save?.(pdf);
+    built.close?.();
+    io.stdout(
+      `wrote ${out}: ${pdf.length} bytes, memo hash ${memoHash(built.input)}, pdf sha256 ${sha256Hex(pdf)}` +
+        (saved ? `; ${saved}` : '') +
+        '\n',
+    );
+    return EXIT.ok;
+  },
+};
+
+interface Built {
+  input: ReturnType<typeof buildMemoInput>;
+  save?: (pdf: Buffer) => string;
+  close?: () => void;
+}
+
+/** A run whose input errors name the file they come from: price cells by line, the scenario by JSON path. */
+function runOrLocate(
+  scenario: Scenario,
+  prices: PriceTable,
+  files: { prices: string; scenario: string; fx?: string },
+  fx?: PriceTable,
+) {
+  try {
+    return runScenario(scenario, prices, { locate: wideCsvLocator(prices), ...(fx ? { fx } : {}) });
+  } catch (error) {
+    if (error instanceof InputError && error.location.file === undefined)
+      throw error.inFile(error.location.line !== undefined ? files.prices : files.scenario);
+    throw error;
+  }
+}
+
+function readPriceFile(cwd: string, path: string): { path: string; table: PriceTable } {
+  const file = readInputFile(cwd, path);
+  try {
+    return { path: file.path, table: parseWidePriceCsv(file.text) };
+  } catch (error) {
+    if (error instanceof InputError) throw error.inFile(file.path);
+    throw error;
+  }
+}
+
+/** Exchange rates from the store: for each currency, the price of one unit in `base` (inverted where stored the other way). */
+function storeFx(store: Store, base: string, currencies: readonly (string | undefined)[]): PriceTable | undefined {
+  const wanted = [...new Set(currencies.filter((c): c is string => c !== undefined && c !== base))].sort();
+  if (wanted.length === 0) return undefined;
+  const series = wanted.map((ccy) => {
+    const direct = store.fxAsset(ccy, base);
+    const inverse = direct ? undefined : store.fxAsset(base, ccy);
+    if (!direct && !inverse)
+      throw new InputError(`assets are priced in ${ccy} but the store has no ${ccy}/${base} exchange-rate series`);
+    return { ccy, id: (direct ?? inverse)!.id, invert: !direct };
+  });
+  const table = store.priceTable({ assets: series.map((x) => x.id) });
+  return {
+    dates: table.dates,
+    assets: series.map((x) => x.ccy),
+    closes: table.closes.map((c, i) => (series[i].invert ? c.map((v) => 1 / v) : c)),
+  };
+}
+
+function fromFiles(cwd: string, options: OptionValues, date: string, lot: number, preparedBy: string): Built {
+  const pricesFile = readPriceFile(cwd, options.prices as string);
+  let prices = pricesFile.table;
+  const scenarioFile = readInputFile(cwd, options.scenario as string);
+  const parsed = parseScenarioText(scenarioFile.text);
+  if (!parsed.ok) throw parsed.errors[0].inFile(scenarioFile.path);
+  const scenario = parsed.scenario;
+
+  let holdings: { asOf: string | null; positions: MemoPosition[] } | undefined;
+  let name = options['household-name'] as string | undefined;
+  if (options.holdings !== undefined) {
+    const file = readInputFile(cwd, options.holdings as string);
+    let h;
+    try {
+      h = parseHoldingsText(file.text);
+    } catch (error) {
+      if (error instanceof InputError) throw error.inFile(file.path);
+      throw error;
+    }
+    if (h.baseCurrency && h.baseCurrency !== scenario.baseCurrency)
+      throw new InputError(
+        `the holdings are in ${h.baseCurrency} but the scenario's base currency is ${scenario.baseCurrency}`,
+        { file: file.path, path: 'household.baseCurrency' },
+      );
+    const known = new Set(scenario.assets ?? prices.assets);
+    h.positions.forEach((p, i) => {
+      if (!known.has(p.asset))
+        throw new InputError(`asset '${p.asset}' is held but not in the scenario's assets`, {
+          file: file.path,
+          path: `positions[${i}].asset`,
+        });
+    });
+    holdings = { asOf: h.asOf, positions: h.positions };
+    name ??= h.householdName;
+  }
+  if (!name?.trim()) throw new UsageError('give --household-name "..." (or --holdings with a household document)');
+
+  // With exchange rates, each asset's price currency comes from the scenario's asset information.
+  let fx: PriceTable | undefined;
+  let fxConverted = false;
+  if (options.fx !== undefined) {
+    fx = readPriceFile(cwd, options.fx as string).table;
+    const currencies = prices.assets.map((a) => scenario.assetInfo?.[a]?.currency);
+    prices = { ...prices, currencies };
+    fxConverted = currencies.some((c) => c !== undefined && c !== scenario.baseCurrency);
+  }
+  const run = runOrLocate(
+    scenario,
+    prices,
+    { prices: pricesFile.path, scenario: scenarioFile.path, fx: options.fx as string | undefined },
+    fx,
+  );
+  const data: MemoData = {
+    sources: [
+      {
+        name: basename(pricesFile.path),
+        assets: (scenario.assets ?? prices.assets).length,
+        from: prices.dates[0],
+        to: prices.dates[prices.dates.length - 1],
+      },
+      ...(fx && options.fx !== undefined
+        ? [
+            {
+              name: basename(options.fx as string),
+              assets: fx.assets.length,
+              from: fx.dates[0],
+              to: fx.dates[fx.dates.length - 1],
+            },
+          ]
+        : []),
+    ],
+    flags: [],
+    fxConverted,
+  };
+  const input = buildMemoInput({
+    scenario,
+    // A file has no revision history: revision 1, hashed as the store hashes a saved document.
+    revision: { number: 1, hash: sha256Hex(canonicalJson(scenario)) },
+    run,
+    household: { name: name.trim(), baseCurrency: scenario.baseCurrency, ...(holdings ? { holdings } : {}) },
+    preparedBy,
+    createdOn: date,
+    lot,
+    data,
+  });
+  return { input };
+}
+
+function fromStore(store: Store, options: OptionValues, date: string, lot: number, preparedBy: string): Built {
+  try {
+    const householdName = options.household as string;
+    const inputs = storedScenarioInputs(store, householdName, options.scenario as string);
+    const household = store.getHousehold(householdName)!;
+    const record = store.getScenario(household.id, options.scenario as string)!;
+    const valued = valueHoldings(store, household, store.holdings(household.id));
+    let holdings: { asOf: string | null; positions: MemoPosition[] } | undefined;
+    if (valued.positions.length > 0) {
+      const missing = valued.positions.find((p) => p.valueInBase === null);
+      if (missing)
+        throw new InputError(
+          `holding '${missing.asset}' is in ${missing.currency} and the store has no rate to ${household.baseCurrency} on or before ${valued.asOf}`,
+          { file: options.store as string },
+        );
+      holdings = {
+        asOf: valued.asOf,
+        positions: valued.positions.map((p) => ({ asset: p.asset, amount: p.valueInBase as number })),
+      };
+    }
+    const fx = storeFx(store, household.baseCurrency, inputs.prices.currencies ?? []);
+    const run = runScenario(inputs.scenario, inputs.prices, fx ? { fx } : {});
+    const assets = inputs.scenario.assets ?? inputs.prices.assets;
+    const input = buildMemoInput({
+      scenario: inputs.scenario,
+      revision: inputs.revision,
+      run,
+      household: {
+        name: (options['household-name'] as string | undefined)?.trim() || household.name,
+        baseCurrency: household.baseCurrency,
+        ...(holdings ? { holdings } : {}),
+      },
+      preparedBy,
+      createdOn: date,
+      lot,
+      data: {
+        sources: [
+          {
+            name: `${basename(store.path)}, data version ${inputs.dataVersion}`,
+            assets: assets.length,
+            from: inputs.prices.dates[0],
+            to: inputs.prices.dates[inputs.prices.dates.length - 1],
+          },
+        ],
+        flags: [
+          ...store
+            .listBatches()
+            .map((b) => `Prices imported from ${b.source} on ${b.importedAt.slice(0, 10)} (${b.assets} assets).`),
+          ...valued.rates.map((r) => `Holdings valued with ${r}.`),
+        ],
+      },
+    });
+    return {
+      input,
+      save: (pdf) => {
+        const same = store
+          .listMemos(record.id)
+          .find((m) => m.revisionHash === inputs.revision.hash && m.sha256 === sha256Hex(pdf));
+        if (same) return `identical to memo ${same.id} already in the store`;
+        const info = store.saveMemo({
+          scenarioId: record.id,
+          revisionHash: inputs.revision.hash,
+          dataVersion: inputs.dataVersion,
+          pdf,
+          title: `Allocation memo ${date}, revision ${inputs.revision.number}`,
+        });
+        return `saved in the store as memo ${info.id} beside revision ${inputs.revision.number}`;
+      },
+      close: () => store.close(),
+    };
+  } catch (error) {
+    store.close();
+    if (error instanceof InputError && error.location.file === undefined) throw error.inFile(options.store as string);
+    throw error;
+  }
+}

@@ -1,0 +1,179 @@
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DEMO_SCENARIO_NAME } from '../../../shared-core/demo/index.js';
+import { parseWidePriceCsv } from '../../../shared-core/prices/parse-wide-csv.js';
+import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
+import { parseScenarioText } from '../../../shared-core/scenario/schema.js';
+import type { CliIO } from '../../../src-main/cli/command.js';
+import { runCli } from '../../../src-main/cli/run-cli.js';
+import { createDemoStore } from '../../../src-main/demo/create-demo-store.js';
+import { writeDemoFiles } from '../../../src-main/demo/write-demo-files.js';
+import { formatPercent1 } from '../../../src-main/memo/format.js';
+import { CAUTIONS, SECTION_TITLES } from '../../../src-main/memo/render-memo.js';
+import { sha256Hex } from '../../../src-main/store/canonical-json.js';
+import { openStore } from '../../../src-main/store/store.js';
+import { flatText, pageTexts, renderPngs } from './poppler.js';
+
+const artifacts = fileURLToPath(new URL('../../artifacts/memo/', import.meta.url));
+
+function fakeIo(cwd: string): CliIO & { out: string; err: string } {
+  const io = {
+    out: '',
+    err: '',
+    cwd,
+    env: {},
+    signal: new AbortController().signal,
+    stdout: (t: string) => void (io.out += t),
+    stderr: (t: string) => void (io.err += t),
+  };
+  return io;
+}
+
+describe('holdfast memo on the invented demo household (holdfast demo files)', () => {
+  let dir: string;
+  beforeAll(() => {
+    dir = mkdtempSync(join(tmpdir(), 'holdfast-memo-cli-'));
+    writeDemoFiles(join(dir, 'demo'));
+  });
+  afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+  const args = (out: string) => [
+    'memo',
+    '--prices',
+    'demo/demo-prices.csv',
+    '--scenario',
+    'demo/demo-scenario.json',
+    '--holdings',
+    'demo/demo-household.json',
+    '--fx',
+    'demo/demo-fx.csv',
+    '--prepared-by',
+    'EM',
+    '--date',
+    '2026-01-15',
+    '--out',
+    out,
+  ];
+
+  it('prints every weight of every candidate as the scenario run (the solve) gives it, rounded by formatPercent1', async () => {
+    const io = fakeIo(dir);
+    expect(await runCli(args('memo.pdf'), io)).toBe(0);
+    expect(io.out).toMatch(/^wrote memo\.pdf: \d+ bytes, memo hash [0-9a-f]{64}, pdf sha256 [0-9a-f]{64}\n$/);
+    const pdf = readFileSync(join(dir, 'memo.pdf'));
+    writeFileSync(join(artifacts, 'memo-demo.pdf'), pdf);
+    renderPngs(pdf, artifacts, 'memo-demo');
+
+    const parsed = parseScenarioText(readFileSync(join(dir, 'demo/demo-scenario.json'), 'utf8'));
+    if (!parsed.ok) throw new Error('demo scenario does not parse');
+    // The same run `holdfast solve` makes: prices converted to euro with the demo's FX series.
+    const table = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-prices.csv'), 'utf8'));
+    const fx = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-fx.csv'), 'utf8'));
+    const currencies = table.assets.map((a) => parsed.scenario.assetInfo?.[a]?.currency);
+    const run = runScenario(parsed.scenario, { ...table, currencies }, { fx });
+    const pages = pageTexts(pdf);
+    const text = pages.join('\n');
+    const start = text.indexOf(SECTION_TITLES.candidates);
+    const end = text.indexOf(SECTION_TITLES.method, start);
+    const lines = text.slice(start, end).split('\n');
+    const info = parsed.scenario.assetInfo!;
+    const names = parsed.scenario.assets!.map((a) => info[a]?.name ?? a);
+    // A long name wraps in its cell; its figures sit on the line with the name's first part, so a
+    // row belongs to the one asset whose name is, or uniquely starts with, the first cell.
+    const cellsByName = new Map<string, string[]>();
+    for (const line of lines) {
+      const parts = line.trim().split(/\s{2,}/);
+      if (parts.length < 2 || !parts.slice(1).every((c) => /^(\d+\.\d|\u2013)$/.test(c))) continue;
+      const owners = names.filter((n) => n === parts[0] || (parts[0].length >= 15 && n.startsWith(parts[0])));
+      const owner = owners.includes(parts[0]) ? parts[0] : owners.length === 1 ? owners[0] : undefined;
+      if (owner) cellsByName.set(owner, [...(cellsByName.get(owner) ?? []), ...parts.slice(1)]);
+    }
+    const checked: string[] = [];
+    for (const asset of parsed.scenario.assets!) {
+      const name = info[asset]?.name ?? asset;
+      const cells = cellsByName.get(name);
+      if (!cells) continue;
+      expect(cells, name).toEqual(
+        run.candidates.map((c) => (c.status === 'optimal' ? formatPercent1(c.weights[asset] ?? 0) : '\u2013')),
+      );
+      checked.push(asset);
+    }
+    // Every asset held by some candidate has its row.
+    const held = parsed.scenario.assets!.filter((a) =>
+      run.candidates.some((c) => Math.abs(c.weights[a] ?? 0) >= 0.0005),
+    );
+    expect(checked).toEqual(expect.arrayContaining(held));
+    const flat = flatText(pdf);
+    for (const caution of CAUTIONS) expect(flat).toContain(caution);
+    expect(flat).toContain('Maraval-Lindqvist family (invented)');
+  });
+
+  it('gives the same bytes for the same inputs and date', async () => {
+    expect(await runCli(args('again.pdf'), fakeIo(dir))).toBe(0);
+    expect(readFileSync(join(dir, 'again.pdf')).equals(readFileSync(join(dir, 'memo.pdf')))).toBe(true);
+  });
+
+  it('bad input exits 2 with file, line and column, and writes nothing', async () => {
+    writeFileSync(join(dir, 'broken.json'), '{\n  "format": "holdfast-scenario@1",\n  "name": \n}\n');
+    const io = fakeIo(dir);
+    const argv = args('never.pdf').map((a) => (a === 'demo/demo-scenario.json' ? 'broken.json' : a));
+    expect(await runCli(argv, io)).toBe(2);
+    expect(io.err).toMatch(/^holdfast memo: broken\.json:4:1: /);
+    expect(existsSync(join(dir, 'never.pdf'))).toBe(false);
+    expect(existsSync(join(dir, 'never.pdf.partial'))).toBe(false);
+
+    const io2 = fakeIo(dir);
+    writeFileSync(join(dir, 'holdings.json'), '{"positions":[{"asset":"NOPE","amount":5}]}');
+    const argv2 = args('never.pdf').map((a) => (a === 'demo/demo-household.json' ? 'holdings.json' : a));
+    expect(await runCli(argv2, io2)).toBe(2);
+    expect(io2.err).toContain(
+      "holdings.json: positions[0].asset: asset 'NOPE' is held but not in the scenario's assets",
+    );
+    expect(existsSync(join(dir, 'never.pdf'))).toBe(false);
+  });
+
+  it('store form: saves the memo beside its revision, and a reprint is byte-identical and not saved twice', async () => {
+    const storePath = join(dir, 'demo.hfstore');
+    await createDemoStore(storePath);
+    const argv = [
+      'memo',
+      '--store',
+      'demo.hfstore',
+      '--household',
+      'Maraval-Lindqvist family (invented)',
+      '--scenario',
+      DEMO_SCENARIO_NAME,
+      '--date',
+      '2026-01-15',
+      '--out',
+      'stored.pdf',
+    ];
+    const io = fakeIo(dir);
+    expect(await runCli(argv, io), io.err).toBe(0);
+    expect(io.out).toContain('saved in the store as memo');
+    const pdf = readFileSync(join(dir, 'stored.pdf'));
+    const store = openStore(storePath, { create: false });
+    try {
+      const household = store.getHousehold('Maraval-Lindqvist family (invented)')!;
+      const scenario = store.getScenario(household.id, DEMO_SCENARIO_NAME)!;
+      const memos = store.listMemos(scenario.id);
+      expect(memos).toHaveLength(1);
+      expect(memos[0].sha256).toBe(sha256Hex(pdf));
+      expect(memos[0].revisionHash).toBe(store.getRevision(scenario.id)!.hash);
+      expect(Buffer.from(store.getMemoPdf(memos[0].id)!).equals(pdf)).toBe(true);
+    } finally {
+      store.close();
+    }
+    const io2 = fakeIo(dir);
+    expect(
+      await runCli(
+        argv.map((a) => (a === 'stored.pdf' ? 'reprint.pdf' : a)),
+        io2,
+      ),
+    ).toBe(0);
+    expect(io2.out).toContain('identical to memo');
+    expect(readFileSync(join(dir, 'reprint.pdf')).equals(pdf)).toBe(true);
+  });
+});
