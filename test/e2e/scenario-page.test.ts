@@ -250,6 +250,22 @@ describeInBrowser('scenario page in Chromium', () => {
     expect(reached).toBe(true);
   });
 
+  it('walks every candidate forward on request, with progress, and shows the out-of-sample figures side by side', async () => {
+    await page.locator('[data-path="backtest.estimationWindow"]').fill('36');
+    await settled(page);
+    await page.getByRole('button', { name: 'Run the walk-forward test' }).click();
+    const view = page.getByTestId('walkforward-view');
+    await view.waitFor({ timeout: 180_000 });
+    const heads = await page
+      .getByTestId('walkforward-metrics')
+      .locator('thead th')
+      .evaluateAll((ths) => ths.map((th) => th.textContent ?? ''));
+    expect(heads.slice(1).map((h) => h.replace(' (reference)', ''))).toEqual(EXPECTED);
+    expect(await page.getByTestId('stress-table').locator('tbody tr').count()).toBeGreaterThan(0);
+    await page.getByTestId('walkforward-growth').scrollIntoViewIfNeeded();
+    await app.screenshot('scenario-page-walkforward');
+  }, 240_000);
+
   it('the page logged no console error and asked no other origin', () => {
     expect(app.consoleErrors).toEqual([]);
     expect(app.foreignRequests).toEqual([]);

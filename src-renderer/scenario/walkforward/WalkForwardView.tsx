@@ -193,7 +193,7 @@ function interval(d: { difference: number; lower: number; upper: number; pValue:
   return `${f(d.difference)} [${f(d.lower)}, ${f(d.upper)}], p = ${d.pValue.toFixed(2)}`;
 }
 
-function MetricsTable({ run, caption }: { run: BacktestRun; caption: string }) {
+function MetricsTable({ run, caption, testId }: { run: BacktestRun; caption: string; testId?: string }) {
   const rows: { label: string; value: (c: CandidateBacktest) => string }[] = [
     { label: 'Annualised return', value: (c) => formatPercent(c.metrics.annualisedReturn) },
     { label: 'Volatility, annualised', value: (c) => formatPercent(c.metrics.volatility) },
@@ -223,7 +223,7 @@ function MetricsTable({ run, caption }: { run: BacktestRun; caption: string }) {
   ];
   const against = new Map(run.comparisons.map((k) => [k.a === run.reference ? k.b : k.a, k]));
   return (
-    <table className="grid walkforward-metrics" data-testid="walkforward-metrics">
+    <table className="grid walkforward-metrics" data-testid={testId}>
       <caption>{caption}</caption>
       <thead>
         <tr>
@@ -371,6 +371,7 @@ export const WalkForwardView = memo(function WalkForwardView(props: {
       <GrowthChart run={run} colourIndex={props.colourIndex} />
       <div className="table-scroll">
         <MetricsTable
+          testId="walkforward-metrics"
           run={run}
           caption={`Walk-forward figures from ${formatDate(run.settings.startDate)} to ${formatDate(run.settings.endDate)}; differences by ${run.comparisons[0]?.method ?? 'bootstrap'}`}
         />
