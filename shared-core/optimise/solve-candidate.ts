@@ -36,6 +36,10 @@ import type { CandidateMetrics, CandidateResult } from './result.js';
 
 /** Above this condition number the covariance is treated as singular (common practice for double precision). */
 export const CONDITION_LIMIT = 1e12;
+/** From this many assets, long-only optimisations screen out assets that end at zero (qp/solve-qp.ts). */
+export const SCREEN_FROM = 150;
+/** Least size of the first working set of screening. */
+export const SCREEN_INITIAL = 60;
 /** A rule's weights count as feasible when no limit is broken by more than this. */
 export const RULE_FEASIBILITY = 1e-12;
 
@@ -103,6 +107,34 @@ function covarianceProblem(p: CandidateProblem): string | null {
   return null;
 }
 
+/**
+ * Which assets to try first when screening: the least correlated with the inverse-volatility
+ * portfolio (maximum diversification) or with the lowest covariance with it (minimum variance).
+ * Lower is more promising. Undefined below SCREEN_FROM assets.
+ */
+function screeningScore(S: Matrix, vols: Float64Array, correlation: boolean): Float64Array | undefined {
+  const n = vols.length;
+  if (n < SCREEN_FROM) return undefined;
+  const w = Float64Array.from(vols, (v) => 1 / v);
+  const sw = multiplyVector(S, w);
+  return Float64Array.from(sw, (v, i) => (correlation ? v / vols[i] : v));
+}
+
+function screenPlan(m: LinearMandate, score: Float64Array) {
+  const n = m.assets.length;
+  if (m.variables !== n) return null; // turnover or gross exposure: no screening
+  const candidates: number[] = [];
+  for (let i = 0; i < n; i++) if (m.lb[i] === 0) candidates.push(i);
+  const order = [...candidates].sort((a, b) => score[a] - score[b]);
+  let minCap = 1;
+  for (let i = 0; i < n; i++) minCap = Math.min(minCap, m.ub[i]);
+  const size = Math.min(n, Math.max(SCREEN_INITIAL, Math.ceil(3 / Math.max(minCap, 1e-3))));
+  // Members of a band with a minimum stay in: the band needs them.
+  const keep = new Set(order.slice(0, size));
+  for (const r of m.inequalities) if (r.kind === 'group-min') for (const i of r.row.idx) keep.add(i);
+  return { candidates, keep: [...keep], order };
+}
+
 export function solveCandidateDetailed(p: CandidateProblem): CandidateSolve {
   const t0 = nowMs();
   const n = p.assets.length;
@@ -139,9 +171,13 @@ export function solveCandidateDetailed(p: CandidateProblem): CandidateSolve {
   let expected: Float64Array | undefined;
   let C: Matrix | undefined;
 
-  const runQp = (form: Formulation) => {
+  const runQp = (form: Formulation, score?: Float64Array) => {
     f = form;
-    qp = solveQp(form.qp, { warmStart: p.warmStart, shouldCancel: p.shouldCancel });
+    qp = solveQp(form.qp, {
+      warmStart: p.warmStart,
+      shouldCancel: p.shouldCancel,
+      screen: score ? (screenPlan(m, score) ?? undefined) : undefined,
+    });
     iterations += qp.iterations;
     residual = qp.kktResidual;
     if (qp.status === 'optimal') {
@@ -152,7 +188,7 @@ export function solveCandidateDetailed(p: CandidateProblem): CandidateSolve {
 
   switch (method) {
     case 'max-diversification':
-      runQp(homogenisedForm(m, S, vols));
+      runQp(homogenisedForm(m, S, vols), screeningScore(S, vols, true));
       break;
     case 'max-sharpe': {
       const missing = p.assets.filter((a) => p.expectedReturns?.[a] === undefined);
@@ -162,7 +198,7 @@ export function solveCandidateDetailed(p: CandidateProblem): CandidateSolve {
       break;
     }
     case 'min-variance':
-      runQp(directForm(m, S));
+      runQp(directForm(m, S), screeningScore(S, vols, false));
       break;
     case 'max-decorrelation':
       C = correlationMatrix(S);

@@ -22,6 +22,84 @@ import { QP_TOLERANCES, type QpProblem, type QpResult, type QpSolution, type QpW
 export interface SolveQpOptions {
   warmStart?: QpWarmStart;
   shouldCancel?: () => boolean;
+  /**
+   * Screening for problems where most variables end at a zero lower bound (most assets left out
+   * of a long-only portfolio): solve on `keep` only with the rest held at their lower bounds,
+   * check the full problem's dual condition for those held out, add the violators, repeat; then
+   * polish on the full problem from the active set found. Exact: the final answer satisfies the
+   * full problem's KKT conditions, or the solver falls back to a full interior-point solve.
+   */
+  screen?: { candidates: readonly number[]; keep: readonly number[]; order: readonly number[] };
+}
+
+/** Most variables screening adds per round, as a share of the working set (and at least SCREEN_BATCH_MIN). */
+const SCREEN_BATCH_SHARE = 0.5;
+const SCREEN_BATCH_MIN = 20;
+/** Relative dual tolerance of the screening test. */
+const SCREEN_TOLERANCE = 1e-10;
+
+function screenedGuess(problem: QpProblem, options: SolveQpOptions): { guess: QpWarmStart; iterations: number } | null {
+  const sc = options.screen!;
+  const n = problem.q.length;
+  const inSet = new Uint8Array(n).fill(1);
+  const screenable = new Uint8Array(n);
+  for (const i of sc.candidates) if (Number.isFinite(problem.lb[i])) screenable[i] = 1;
+  for (let i = 0; i < n; i++) if (screenable[i]) inSet[i] = 0;
+  for (const i of sc.keep) inSet[i] = 1;
+  const values = Float64Array.from(problem.lb, (v) => (Number.isFinite(v) ? v : 0));
+  let iterations = 0;
+  for (let round = 0; round < 50; round++) {
+    const keep: number[] = [];
+    for (let i = 0; i < n; i++) if (inSet[i]) keep.push(i);
+    if (keep.length === n) return null;
+    const sub = solveQp(restrict(problem, keep, values), { shouldCancel: options.shouldCancel });
+    iterations += sub.iterations;
+    const working = keep.length;
+    if (sub.status === 'infeasible') {
+      // Too few variables to meet the limits: take the next ones in the caller's order.
+      let added = 0;
+      for (const i of sc.order)
+        if (!inSet[i] && added < Math.max(SCREEN_BATCH_MIN, working)) {
+          inSet[i] = 1;
+          added++;
+        }
+      if (added === 0) return null;
+      continue;
+    }
+    if (sub.status !== 'optimal') return null;
+    const x = Float64Array.from(values);
+    keep.forEach((i, a) => (x[i] = sub.solution.x[a]));
+    // Dual residual of each held-out variable: its lower-bound multiplier must be >= 0.
+    const g = Float64Array.from(problem.q);
+    const scale = { v: 1e-300 };
+    for (let i = 0; i < n; i++) {
+      if (inSet[i]) continue;
+      const off = i * n;
+      let v = 0;
+      for (let j = 0; j < n; j++) v += problem.P.data[off + j] * x[j];
+      g[i] += v;
+    }
+    problem.A.forEach((r, j) => r.idx.forEach((i, t) => (g[i] += r.val[t] * sub.solution.y[j])));
+    problem.G.forEach((r, j) => r.idx.forEach((i, t) => (g[i] += r.val[t] * sub.solution.z[j])));
+    for (let a = 0; a < working; a++)
+      scale.v = Math.max(scale.v, Math.abs(sub.solution.zl[a]), Math.abs(sub.solution.zu[a]));
+    for (const v of sub.solution.y) scale.v = Math.max(scale.v, Math.abs(v));
+    const violators: number[] = [];
+    for (let i = 0; i < n; i++) if (!inSet[i] && g[i] < -SCREEN_TOLERANCE * scale.v) violators.push(i);
+    if (violators.length === 0) {
+      const atLower: number[] = [];
+      for (let i = 0; i < n; i++) if (!inSet[i]) atLower.push(i);
+      sub.warmStart.atLower.forEach((a) => atLower.push(keep[a]));
+      return {
+        guess: { activeRows: sub.warmStart.activeRows, atLower, atUpper: sub.warmStart.atUpper.map((a) => keep[a]) },
+        iterations,
+      };
+    }
+    violators.sort((a, b) => g[a] - g[b]);
+    const batch = Math.max(SCREEN_BATCH_MIN, Math.ceil(SCREEN_BATCH_SHARE * working));
+    for (const i of violators.slice(0, batch)) inSet[i] = 1;
+  }
+  return null;
 }
 
 function checkShapes(p: QpProblem): string | null {
@@ -145,7 +223,11 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
     atLower: w.atLower.map((a) => keep[a]),
     atUpper: w.atUpper.map((a) => keep[a]),
   });
-  const done = (pol: Polished, iterations: number, path: 'warm-start' | 'interior-point+polish'): QpResult => {
+  const done = (
+    pol: Polished,
+    iterations: number,
+    path: 'warm-start' | 'screened' | 'interior-point+polish',
+  ): QpResult => {
     const solution = lift(pol.solution);
     return {
       status: 'optimal',
@@ -158,6 +240,16 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
     };
   };
 
+  let screenIterations = 0;
+  if (options.screen && !options.warmStart && keep.length === n) {
+    const found = screenedGuess(problem, options);
+    if (found) {
+      screenIterations = found.iterations;
+      const pol = polish(p, found.guess);
+      if (pol && pol.residual <= QP_TOLERANCES.optimality) return done(pol, screenIterations + 1, 'screened');
+    }
+  }
+
   if (options.warmStart) {
     const w = options.warmStart;
     const guess: QpWarmStart = {
@@ -169,7 +261,7 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
     if (pol && pol.residual <= QP_TOLERANCES.optimality) return done(pol, 1, 'warm-start');
   }
 
-  let iterations = 0;
+  let iterations = screenIterations;
   const first = interiorPoint(p, {
     tolerance: QP_TOLERANCES.interiorPointHandover,
     detectInfeasibility: true,

@@ -52,7 +52,7 @@ export interface QpStats {
   kktResidual: number;
   ms: number;
   /** How the answer was reached, for diagnostics and the tests. */
-  path: 'warm-start' | 'interior-point+polish' | 'interior-point';
+  path: 'warm-start' | 'screened' | 'interior-point+polish' | 'interior-point';
 }
 
 /** A set of constraints that cannot hold together (a phase-one certificate). */
