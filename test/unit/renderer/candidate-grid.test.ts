@@ -15,7 +15,8 @@ const mv = { method: 'min-variance' } as const;
 
 describe('candidates as estimators x objectives', () => {
   it('keys a spec by method and sorted options, so option order does not matter', () => {
-    expect(specKey({ method: 'ewma', lambda: 0.9 })).toBe('ewma;lambda=0.9');
+    const ewma09 = { method: 'ewma', lambda: 0.9 };
+    expect(specKey(ewma09)).toBe('ewma;lambda=0.9');
     expect(specKey({ method: 'ewma', halfLife: 60, lambda: undefined } as never)).toBe('ewma;halfLife=60');
   });
 
