@@ -79,7 +79,11 @@ export function pairedBarsOption(rows: readonly BarRow[], fill: string): ECharts
  * Correlation heat map on a diverging scale fixed at [-1, 1], so white is exactly zero. Labels
  * are in the given (clustered) order; cells carry their value to two decimals when there is room.
  */
-export function heatmapOption(labels: readonly string[], correlation: readonly (readonly number[])[]): EChartsOption {
+export function heatmapOption(
+  labels: readonly string[],
+  correlation: readonly (readonly number[])[],
+  columnLabels: readonly string[] = labels,
+): EChartsOption {
   const n = labels.length;
   // Dark cells (|rho| above 0.6) carry white figures so the value stays legible.
   const data: { value: [number, number, number]; label: { color: string } }[] = [];
@@ -93,9 +97,14 @@ export function heatmapOption(labels: readonly string[], correlation: readonly (
     grid: { left: 8, right: 56, top: 8, bottom: 8, containLabel: true },
     xAxis: {
       type: 'category',
-      data: [...labels],
+      data: [...columnLabels],
       position: 'top',
-      axisLabel: { ...axisLabel, rotate: 45, interval: 0 },
+      axisLabel: {
+        ...axisLabel,
+        fontSize: n > 15 ? 6 : 8,
+        rotate: columnLabels.some((l) => l.length > 3) ? 45 : 0,
+        interval: 0,
+      },
       axisTick: { show: false },
       axisLine: { show: false },
     },

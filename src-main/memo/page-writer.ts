@@ -36,6 +36,12 @@ export interface TableRow {
   muted?: boolean;
 }
 
+export interface BulletItem {
+  /** Printed in semibold before the text (an asset's name). */
+  lead?: string;
+  text: string;
+}
+
 export interface TableOptions {
   /** Figures in every column but the first use tabular numerals. */
   fontSize?: number;
@@ -150,21 +156,26 @@ export class PageWriter {
     this.doc.fillColor(INK).font(FONT_REGULAR).fontSize(SIZE.body);
   }
 
-  /** A bulleted list; each item stays on one page. */
-  bullets(items: readonly string[], options: { muted?: boolean } = {}): void {
+  /** A bulleted list; each item stays on one page. An item may lead with a few words in semibold. */
+  bullets(items: readonly (string | BulletItem)[], options: { muted?: boolean } = {}): void {
     const indent = 11;
-    for (const item of items) {
+    const opts = { width: CONTENT_WIDTH - indent, lineGap: 2.2, features: [...TNUM] };
+    for (const raw of items) {
+      const item = typeof raw === 'string' ? { text: raw } : raw;
+      const whole = item.lead ? `${item.lead} ${item.text}` : item.text;
       this.doc.font(FONT_REGULAR).fontSize(SIZE.body);
-      const h = this.doc.heightOfString(item, { width: CONTENT_WIDTH - indent, lineGap: 2.2 });
+      const h = this.doc.heightOfString(whole, opts);
       this.keep(h + 3);
       const y = this.doc.y;
       this.doc.fillColor(ACCENT).text('\u2013', MARGIN.left, y, { width: indent, lineBreak: false });
-      this.doc
-        .fillColor(options.muted ? MUTED : INK)
-        .text(item, MARGIN.left + indent, y, { width: CONTENT_WIDTH - indent, lineGap: 2.2, features: [...TNUM] });
+      this.doc.fillColor(options.muted ? MUTED : INK);
+      if (item.lead) {
+        this.doc.font(FONT_BOLD).text(`${item.lead} `, MARGIN.left + indent, y, { ...opts, continued: true });
+        this.doc.font(FONT_REGULAR).text(item.text, opts);
+      } else this.doc.text(item.text, MARGIN.left + indent, y, opts);
       this.space(3);
     }
-    this.doc.fillColor(INK);
+    this.doc.fillColor(INK).font(FONT_REGULAR);
     this.space(3);
   }
 
@@ -309,11 +320,14 @@ export class PageWriter {
       const y = PAGE.height - MARGIN.bottom + 30;
       this.rule(y - 6, RULE, 0.5);
       this.doc.font(FONT_REGULAR).fontSize(7).fillColor(MUTED);
-      this.doc.text(left(i + 1, range.count), MARGIN.left, y, {
-        width: CONTENT_WIDTH - 80,
-        lineBreak: false,
-        features: [...TNUM],
-      });
+      // One line: whatever does not fit ends in an ellipsis.
+      let text = left(i + 1, range.count);
+      const room = CONTENT_WIDTH - 90;
+      if (this.doc.widthOfString(text) > room) {
+        while (text.length > 1 && this.doc.widthOfString(`${text}\u2026`) > room) text = text.slice(0, -1);
+        text = `${text.trimEnd()}\u2026`;
+      }
+      this.doc.text(text, MARGIN.left, y, { width: room, lineBreak: false, features: [...TNUM] });
       this.doc.text(right(i + 1, range.count), MARGIN.left + CONTENT_WIDTH - 80, y, {
         width: 80,
         align: 'right',

@@ -25,7 +25,7 @@ import { memoHash } from './memo-hash.js';
 import type { MemoInput } from './memo-input.js';
 import { buildView, type MemoView } from './memo-view.js';
 import { AMBER, candidateColour, INK, MUTED, RULE } from './palette.js';
-import { CONTENT_WIDTH, MARGIN, PageWriter, SIZE, type Column, type TableRow } from './page-writer.js';
+import { CONTENT_WIDTH, MARGIN, PageWriter, SIZE, type BulletItem, type Column, type TableRow } from './page-writer.js';
 import { FONT_BOLD, FONT_REGULAR } from './fonts.js';
 import {
   constraintSentences,
@@ -84,10 +84,11 @@ export async function renderMemo(input: MemoInput): Promise<Buffer> {
   method(w, view, next(SECTION_TITLES.method), hash);
   cautions(w, view, next(SECTION_TITLES.cautions));
 
+  // Hashes first, so a long household or scenario name is what gets shortened, never the audit trail.
   const short = (h: string) => h.slice(0, 12);
   w.footers(
     () =>
-      `${input.household.name} \u00b7 ${input.scenario.name} rev. ${input.scenario.revision} \u00b7 revision ${short(input.scenario.hash)} \u00b7 memo ${short(hash)}`,
+      `revision ${short(input.scenario.hash)} \u00b7 memo ${short(hash)} \u00b7 ${input.household.name}, ${input.scenario.name}, rev. ${input.scenario.revision}`,
     (page, pages) => `page ${page} of ${pages}`,
   );
   return w.finish();
@@ -253,7 +254,7 @@ function allocation(w: PageWriter, v: MemoView, title: string): void {
   const tradeOf = new Map(trades?.rows.map((r) => [r.asset, r]) ?? []);
   const rows: TableRow[] = v.shown.map((a) => {
     const target = rc.weights[a] ?? 0;
-    const cells = [v.name(a), info[a]?.assetClass ?? '\u2013', info[a]?.currency ?? ccy];
+    const cells = [v.name(a), (info[a]?.assetClass ?? '\u2013').replace(/-/g, ' '), info[a]?.currency ?? ccy];
     if (current)
       cells.push(formatPercent1(current[a] ?? 0), formatPercent1(target), formatWeightChange(current[a] ?? 0, target));
     else cells.push(formatPercent1(target));
@@ -347,7 +348,9 @@ function risk(w: PageWriter, v: MemoView, title: string): void {
   const corr = correlationRows(input);
   const assets = input.run.estimate.assets;
   const order2 = clusterOrder(corr.flat(), assets.length);
-  const labels = order2.map((i) => v.name(assets[i]));
+  // Rows carry a number and the name; columns the number only, so long names never collide.
+  const labels = order2.map((i, k) => `${v.name(assets[i])}  ${k + 1}`);
+  const columns = order2.map((_, k) => String(k + 1));
   const ordered = order2.map((i) => order2.map((j) => corr[i][j]));
   let hi: [number, number, number] = [0, 0, -Infinity];
   let lo: [number, number, number] = [0, 0, Infinity];
@@ -366,12 +369,46 @@ function risk(w: PageWriter, v: MemoView, title: string): void {
   const side = cells + 95;
   const width = Math.min(CONTENT_WIDTH, cells + 170);
   w.chart(
-    renderChartSvg(heatmapOption(labels, ordered), width, side),
+    renderChartSvg(heatmapOption(labels, ordered, columns), width, side),
     side,
     corrFinding,
     `Correlations of the estimate the recommended allocation used (${input.run.estimate.method}). Blue negative, white zero, red positive; assets ordered by average-linkage clustering on sqrt((1 \u2212 rho) / 2) so that correlated groups sit together.`,
     width,
   );
+}
+
+/** Asset ids in the solver's sentences become the names the memo prints. */
+function withNames(v: MemoView, text: string): string {
+  const ids = [...v.assets].sort((a, b) => b.length - a.length);
+  let out = text;
+  for (const id of ids) {
+    const name = v.name(id);
+    if (name === id) continue;
+    const escaped = id.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+    out = out.replace(new RegExp(`(?<![A-Za-z0-9._-])${escaped}(?![A-Za-z0-9_-]|\\.[A-Za-z0-9])`, 'g'), name);
+  }
+  return out;
+}
+
+/** A capital first letter and a closing full stop. */
+function sentence(text: string): string {
+  const t = text.trim();
+  if (t === '') return t;
+  const capital = t[0].toUpperCase() + t.slice(1);
+  return /[.!?]$/.test(capital) ? capital : `${capital}.`;
+}
+
+function byWeight<T extends { weight: number; asset: string }>(items: readonly T[]): T[] {
+  return [...items].sort((a, b) => b.weight - a.weight || (a.asset < b.asset ? -1 : 1));
+}
+
+/** The solver's sentence for one asset, led by the asset's name unless it already names it. */
+function explained(v: MemoView, a: { asset: string; text: string }): BulletItem {
+  const text = withNames(v, a.text);
+  const name = v.name(a.asset);
+  if (text.includes(name)) return { text: sentence(text) };
+  const t = sentence(text);
+  return { lead: name, text: `\u2014 ${t[0].toLowerCase()}${t.slice(1)}` };
 }
 
 function reasons(w: PageWriter, v: MemoView, title: string): void {
@@ -385,19 +422,19 @@ function reasons(w: PageWriter, v: MemoView, title: string): void {
     const out = ex.assets.filter((a) => Math.abs(a.weight) < 0.0005);
     if (held.length) {
       w.subheading('Held');
-      w.bullets(held.map((a) => a.text));
+      w.bullets(byWeight(held).map((a) => explained(v, a)));
     }
     if (out.length) {
       w.subheading('Left out');
-      w.bullets(out.map((a) => a.text));
+      w.bullets(out.map((a) => explained(v, a)));
     }
   }
   w.subheading('What the binding limits cost');
   if (!ex || ex.binding.length === 0) w.paragraph('No limit was binding at the solution.');
-  else w.bullets(ex.binding.map((b) => b.text));
+  else w.bullets(ex.binding.map((b) => sentence(withNames(v, b.text))));
   if (ex && ex.flags.length > 0) {
     w.subheading('Solver notes');
-    w.bullets(ex.flags);
+    w.bullets(ex.flags.map((f) => sentence(withNames(v, f))));
   }
 
   w.subheading('How stable the weights are', 150);
