@@ -64,11 +64,12 @@ export function memoSectionsFromBacktest(
   }));
   const windows = run.stress.historical.map((h) => ({
     name: `${h.name}`,
-    description: `${h.basis} from ${h.from} to ${h.to}, ${formatPct(h.basisReturn)}`,
+    description: `${h.from} to ${h.to}, ${h.basis} ${formatPct(h.basisReturn)}`,
   }));
   const stress: MemoStress | undefined =
     shocks.length + windows.length > 0
       ? {
+          method: `historical windows replay the prices of the period on today's weights; a shock moves its target and, by ${run.stress.method}, the other assets`,
           shocks: [...windows, ...shocks],
           rows: run.candidates.map((c) => ({
             candidateId: c.id,

@@ -107,6 +107,8 @@ export interface MemoWalkForward {
 }
 
 export interface MemoStress {
+  /** How the shocks were applied, in words (printed before the table). */
+  method?: string;
   shocks: { name: string; description: string }[];
   /** Portfolio return under each shock, one row per candidate, in shock order. */
   rows: { candidateId: string; impacts: number[] }[];

@@ -207,14 +207,16 @@ export class PageWriter {
     const xs: number[] = [];
     widths.reduce((x, w) => (xs.push(x), x + w), MARGIN.left);
     const pad = 4;
-    const rowHeight = (cells: readonly string[], font: string) => {
-      this.doc.font(font).fontSize(size);
+    // Many columns: smaller header type, so a word like "diversification" fits its column.
+    const headerSize = columns.length > 6 ? Math.min(size, 7) : size;
+    const rowHeight = (cells: readonly string[], font: string, fontSize = size) => {
+      this.doc.font(font).fontSize(fontSize);
       return (
         Math.max(...cells.map((c, i) => this.doc.heightOfString(c || ' ', { width: widths[i] - 2 * pad }))) + 2 * 2.6
       );
     };
-    const drawRow = (cells: readonly string[], font: string, colour: string, y: number, h: number) => {
-      this.doc.font(font).fontSize(size).fillColor(colour);
+    const drawRow = (cells: readonly string[], font: string, colour: string, y: number, h: number, fontSize = size) => {
+      this.doc.font(font).fontSize(fontSize).fillColor(colour);
       cells.forEach((cell, i) => {
         const align = columns[i].align ?? 'left';
         this.doc.text(cell, xs[i] + pad, y + 2.6, {
@@ -230,6 +232,7 @@ export class PageWriter {
       const h = rowHeight(
         columns.map((c) => c.header),
         FONT_BOLD,
+        headerSize,
       );
       const y = this.doc.y;
       drawRow(
@@ -238,6 +241,7 @@ export class PageWriter {
         MUTED,
         y,
         h,
+        headerSize,
       );
       this.rule(y + h, INK, 0.7);
       this.doc.y = y + h;

@@ -641,21 +641,21 @@ function walkForward(w: PageWriter, v: MemoView, title: string): void {
   const st = input.stress;
   if (st) {
     w.subheading('Stress tests');
-    w.paragraph(
-      `Portfolio return of each candidate when the shocks below are applied to today's weights: ${st.shocks.map((s) => `${s.name} (${s.description})`).join('; ')}.`,
-    );
+    w.paragraph(`Portfolio return of each candidate's weights under each stress${st.method ? `: ${st.method}` : ''}.`);
     // One column per candidate, as everywhere in the memo; one row per stress.
     const ids = st.rows.map((r) => r.candidateId);
     w.table(
       [
-        { header: 'Stress', width: 2.6 },
+        { header: 'Stress', width: 2.2 },
         ...ids.map((id) => ({
           header: `${label(id)}${id === v.recommended.id ? ' (recommended)' : ''}`,
           width: 1.3,
           align: 'right' as const,
         })),
       ],
-      st.shocks.map((s, k) => ({ cells: [s.name, ...st.rows.map((r) => formatPct(r.impacts[k]))] })),
+      st.shocks.map((s, k) => ({
+        cells: [`${s.name}\n${s.description}`, ...st.rows.map((r) => formatPct(r.impacts[k]))],
+      })),
     );
   }
 }

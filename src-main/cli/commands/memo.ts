@@ -5,9 +5,14 @@ import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/p
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
 import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
+import { CancelledError } from '../../../shared-core/stability/cancel.js';
+import { DEFAULT_DRAWS } from '../../../shared-core/stability/weight-bands.js';
+import { estimateAndSolve } from '../../../shared-core/walkforward/estimate-and-solve.js';
+import { runBacktest } from '../../../shared-core/walkforward/run-backtest.js';
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { storedScenarioInputs } from '../../io/stored-scenario.js';
-import { buildMemoInput } from '../../memo/build-memo-input.js';
+import { buildMemoInput, chooseRecommended } from '../../memo/build-memo-input.js';
+import { memoSectionsFromBacktest } from '../../memo/from-backtest.js';
 import { memoHash } from '../../memo/memo-hash.js';
 import type { MemoData, MemoPosition } from '../../memo/memo-input.js';
 import { parseHoldingsText } from '../../memo/memo-sources.js';
@@ -53,6 +58,12 @@ export const memoCommand: Command = {
     },
     { name: 'prepared-by', kind: 'string', valueName: '"..."', description: 'name or initials printed as preparer' },
     { name: 'lot', kind: 'number', valueName: 'AMOUNT', description: 'round trades to this amount (default 1000)' },
+    {
+      name: 'backtest',
+      kind: 'boolean',
+      description: "add the walk-forward and stress sections (the scenario's backtest settings; slower)",
+    },
+    { name: 'stability', kind: 'boolean', description: 'with --backtest: add bootstrap weight bands (200 resamples)' },
     { name: 'store', kind: 'string', valueName: 'FILE', description: 'the store (store form)' },
     { name: 'household', kind: 'string', valueName: 'NAME', description: 'household in the store (store form)' },
   ],
@@ -83,9 +94,17 @@ export const memoCommand: Command = {
         throw new UsageError("'memo' needs --prices FILE.csv --scenario FILE.json, or --store with --household");
     }
 
-    const built = storeForm
-      ? fromStore(existingStore(io.cwd, options.store as string), options, date, lot, preparedBy)
-      : fromFiles(io.cwd, options, date, lot, preparedBy);
+    if (options.stability && !options.backtest) throw new UsageError('--stability goes with --backtest');
+    let built: Built;
+    try {
+      built = storeForm
+        ? await fromStore(existingStore(io.cwd, options.store as string), options, date, lot, preparedBy, io.signal)
+        : await fromFiles(io.cwd, options, date, lot, preparedBy, io.signal);
+    } catch (error) {
+      if (!(error instanceof CancelledError)) throw error;
+      io.stderr('holdfast memo: interrupted; nothing written\n');
+      return EXIT.interrupted;
+    }
     const pdf = await renderMemo(built.input);
     if (io.signal.aborted) {
       built.close?.();
@@ -164,7 +183,32 @@ function storeFx(store: Store, base: string, currencies: readonly (string | unde
   };
 }
 
-function fromFiles(cwd: string, options: OptionValues, date: string, lot: number, preparedBy: string): Built {
+/** Walk-forward, stress and (optionally) stability sections, when asked for with --backtest. */
+async function backtestSections(
+  scenario: Scenario,
+  prices: PriceTable,
+  options: OptionValues,
+  recommended: string,
+  signal: AbortSignal,
+): Promise<{ sections: ReturnType<typeof memoSectionsFromBacktest>; warnings: string[] } | undefined> {
+  if (!options.backtest) return undefined;
+  const run = await runBacktest(scenario, prices, {
+    estimateAndSolve,
+    shouldCancel: () => signal.aborted,
+    pause: () => new Promise((done) => setImmediate(done)),
+    ...(options.stability ? { stabilityDraws: DEFAULT_DRAWS } : {}),
+  });
+  return { sections: memoSectionsFromBacktest(run, recommended), warnings: run.warnings };
+}
+
+async function fromFiles(
+  cwd: string,
+  options: OptionValues,
+  date: string,
+  lot: number,
+  preparedBy: string,
+  signal: AbortSignal,
+): Promise<Built> {
   const pricesFile = readPriceFile(cwd, options.prices as string);
   let prices = pricesFile.table;
   const scenarioFile = readInputFile(cwd, options.scenario as string);
@@ -216,6 +260,15 @@ function fromFiles(cwd: string, options: OptionValues, date: string, lot: number
     { prices: pricesFile.path, scenario: scenarioFile.path, fx: options.fx as string | undefined },
     fx,
   );
+  const recommended = chooseRecommended(scenario, run.candidates);
+  let bt;
+  try {
+    bt = await backtestSections(scenario, prices, options, recommended, signal);
+  } catch (error) {
+    if (error instanceof InputError && error.location.file === undefined)
+      throw error.inFile(error.location.line !== undefined ? pricesFile.path : scenarioFile.path);
+    throw error;
+  }
   const data: MemoData = {
     sources: [
       {
@@ -235,7 +288,7 @@ function fromFiles(cwd: string, options: OptionValues, date: string, lot: number
           ]
         : []),
     ],
-    flags: [],
+    flags: bt ? bt.warnings.map((w) => `Walk-forward: ${w}.`) : [],
     fxConverted,
   };
   const input = buildMemoInput({
@@ -248,11 +301,20 @@ function fromFiles(cwd: string, options: OptionValues, date: string, lot: number
     createdOn: date,
     lot,
     data,
+    recommended,
+    ...(bt?.sections ?? {}),
   });
   return { input };
 }
 
-function fromStore(store: Store, options: OptionValues, date: string, lot: number, preparedBy: string): Built {
+async function fromStore(
+  store: Store,
+  options: OptionValues,
+  date: string,
+  lot: number,
+  preparedBy: string,
+  signal: AbortSignal,
+): Promise<Built> {
   try {
     const householdName = options.household as string;
     const inputs = storedScenarioInputs(store, householdName, options.scenario as string);
@@ -274,6 +336,8 @@ function fromStore(store: Store, options: OptionValues, date: string, lot: numbe
     }
     const fx = storeFx(store, household.baseCurrency, inputs.prices.currencies ?? []);
     const run = runScenario(inputs.scenario, inputs.prices, fx ? { fx } : {});
+    const recommended = chooseRecommended(inputs.scenario, run.candidates);
+    const bt = await backtestSections(inputs.scenario, inputs.prices, options, recommended, signal);
     const assets = inputs.scenario.assets ?? inputs.prices.assets;
     const input = buildMemoInput({
       scenario: inputs.scenario,
@@ -287,6 +351,8 @@ function fromStore(store: Store, options: OptionValues, date: string, lot: numbe
       preparedBy,
       createdOn: date,
       lot,
+      recommended,
+      ...(bt?.sections ?? {}),
       data: {
         sources: [
           {
@@ -301,6 +367,7 @@ function fromStore(store: Store, options: OptionValues, date: string, lot: numbe
             .listBatches()
             .map((b) => `Prices imported from ${b.source} on ${b.importedAt.slice(0, 10)} (${b.assets} assets).`),
           ...valued.rates.map((r) => `Holdings valued with ${r}.`),
+          ...(bt ? bt.warnings.map((w) => `Walk-forward: ${w}.`) : []),
         ],
       },
     });

@@ -7,11 +7,13 @@ import { DEMO_SCENARIO_NAME } from '../../../shared-core/demo/index.js';
 import { parseWidePriceCsv } from '../../../shared-core/prices/parse-wide-csv.js';
 import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
 import { parseScenarioText } from '../../../shared-core/scenario/schema.js';
+import { estimateAndSolve } from '../../../shared-core/walkforward/estimate-and-solve.js';
+import { runBacktest } from '../../../shared-core/walkforward/run-backtest.js';
 import type { CliIO } from '../../../src-main/cli/command.js';
 import { runCli } from '../../../src-main/cli/run-cli.js';
 import { createDemoStore } from '../../../src-main/demo/create-demo-store.js';
 import { writeDemoFiles } from '../../../src-main/demo/write-demo-files.js';
-import { formatPercent1 } from '../../../src-main/memo/format.js';
+import { formatPct, formatPercent1, formatRatio2 } from '../../../src-main/memo/format.js';
 import { CAUTIONS, SECTION_TITLES } from '../../../src-main/memo/render-memo.js';
 import { sha256Hex } from '../../../src-main/store/canonical-json.js';
 import { openStore } from '../../../src-main/store/store.js';
@@ -108,6 +110,42 @@ describe('holdfast memo on the invented demo household (holdfast demo files)', (
     const flat = flatText(pdf);
     for (const caution of CAUTIONS) expect(flat).toContain(caution);
     expect(flat).toContain('Maraval-Lindqvist family (invented)');
+  });
+
+  it('--backtest adds the walk-forward table with the figures runBacktest gives, and the stress table', async () => {
+    const doc = JSON.parse(readFileSync(join(dir, 'demo/demo-scenario.json'), 'utf8'));
+    doc.backtest = { estimationWindow: 36, rebalance: 'quarterly', costBps: 10 };
+    doc.stress = { shocks: [{ name: 'Equity fall', target: 'Equity', shock: -0.3 }] };
+    writeFileSync(join(dir, 'bt-scenario.json'), JSON.stringify(doc));
+    const argv = args('bt.pdf').map((a) => (a === 'demo/demo-scenario.json' ? 'bt-scenario.json' : a));
+    const io = fakeIo(dir);
+    expect(await runCli([...argv, '--backtest'], io), io.err).toBe(0);
+    const pdf = readFileSync(join(dir, 'bt.pdf'));
+    const text = pageTexts(pdf).join('\n');
+    expect(text).toContain(`6 ${SECTION_TITLES.walkForward}`);
+    const parsed = parseScenarioText(JSON.stringify(doc));
+    if (!parsed.ok) throw new Error('scenario does not parse');
+    const table = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-prices.csv'), 'utf8'));
+    const run = await runBacktest(parsed.scenario, table, { estimateAndSolve });
+    const lines = text.slice(text.indexOf(SECTION_TITLES.walkForward)).split('\n');
+    for (const c of run.candidates) {
+      const label = parsed.scenario.candidates.find((x) => x.id === c.id)!.label!;
+      // Long labels wrap: the figures sit on the line holding the label's first part.
+      const line = lines.find((l) => l.trim().startsWith(label.slice(0, 18)) && /%\s*$/.test(l))!;
+      expect(line, label).toBeDefined();
+      const figures = line
+        .trim()
+        .split(/\s{2,}/)
+        .slice(-5);
+      expect(figures).toEqual([
+        formatPct(c.metrics.annualisedReturn),
+        formatPct(c.metrics.volatility),
+        formatRatio2(c.metrics.sharpeRatio),
+        formatPct(-c.metrics.maxDrawdown.depth),
+        formatPct(c.metrics.turnoverPerYear),
+      ]);
+    }
+    expect(flatText(pdf)).toContain('Equity fall');
   });
 
   it('gives the same bytes for the same inputs and date', async () => {
