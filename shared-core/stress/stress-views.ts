@@ -15,7 +15,7 @@ export interface StressCandidate {
 }
 
 export interface HistoricalStressRow extends HistoricalWindow {
-  /** Candidate id -> portfolio return over the window. */
+  /** Candidate id -> portfolio return over the period replayed. */
   portfolioReturns: Record<string, number>;
 }
 

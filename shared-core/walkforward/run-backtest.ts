@@ -120,7 +120,9 @@ export async function runBacktest(
   const table = restrict(prices, assets, scenario.window?.from, scenario.window?.to);
   const warnings: string[] = [];
   if (scenario.window?.years !== undefined)
-    warnings.push('window.years is not used by the backtest: each rebalance estimates on backtest.estimationWindow');
+    warnings.push(
+      "the scenario's window years are not used by the backtest: each rebalance estimates on backtest.estimationWindow",
+    );
   const frequency = scenario.returns.frequency;
   const method = scenario.returns.method;
   const maxFillDays = scenario.returns.maxFillDays;
