@@ -75,11 +75,11 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
   const cancel = () => {
     if (options.shouldCancel?.()) throw new CancelledError();
   };
-  const window = scenario.window;
-  const to = window?.to;
+  const span = scenario.span;
+  const to = span?.to;
   const from =
-    window?.from ??
-    (window?.years !== undefined ? yearsBefore(to ?? prices.dates[prices.dates.length - 1], window.years) : undefined);
+    span?.from ??
+    (span?.years !== undefined ? yearsBefore(to ?? prices.dates[prices.dates.length - 1], span.years) : undefined);
   const returns = buildReturns(prices, {
     assets: scenario.assets,
     from,
