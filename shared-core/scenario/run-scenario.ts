@@ -75,7 +75,7 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
   const cancel = () => {
     if (options.shouldCancel?.()) throw new CancelledError();
   };
-  const span = scenario.span;
+  const span = scenario.window;
   const to = span?.to;
   const from =
     span?.from ??
