@@ -6,6 +6,7 @@ import { memoBench } from './memo.js';
 import { estimatorsSuite } from './estimators.js';
 import { backtestSuite } from './backtest.js';
 import { scenarioRecomputeSuite } from './scenario-recompute.js';
+import { solveSuite } from './solve.js';
 
 /** Every benchmark suite; a suite is one module in bench/ plus one line here. */
 const suites: BenchSuite[] = [
@@ -16,6 +17,7 @@ const suites: BenchSuite[] = [
   estimatorsSuite,
   backtestSuite,
   scenarioRecomputeSuite,
+  solveSuite,
 ];
 
 const only = process.argv.slice(2);

@@ -1,0 +1,180 @@
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { PriceTable } from '../shared-core/prices/price-table.js';
+import { runScenario } from '../shared-core/scenario/run-scenario.js';
+import { parseScenario } from '../shared-core/scenario/schema.js';
+import { seededRng } from '../shared-core/stability/rng.js';
+import { median, timeMedian, type BenchFigure, type BenchSuite } from './harness.js';
+
+/**
+ * Issue 4's speed targets.
+ * 1. Whole-process `holdfast solve` with ledoit-wolf and long-only max-diversification capped
+ *    per asset (N = 500 cap 2%, N = 1500 cap 1%, T = 1260 daily returns) against the script a
+ *    quant would write with numpy, scikit-learn's LedoitWolf and cvxopt's QP (Debian packages),
+ *    the two run alternately in this process; target: at most half the script's wall time.
+ * 2. Live recompute for the editor: 6 candidates (3 estimators x 2 objectives) on N = 100,
+ *    T = 1260, in-process; target 150 ms.
+ * Prices are invented: a seeded four-factor lognormal model.
+ */
+const T = 1260;
+const REPEATS = 3;
+
+function gaussian(rng: ReturnType<typeof seededRng>): number {
+  return Math.sqrt(-2 * Math.log(1 - rng.next())) * Math.cos(2 * Math.PI * rng.next());
+}
+
+function inventedPrices(n: number, seed: number): PriceTable {
+  const rng = seededRng(seed);
+  const rows = T + 1;
+  const load = Array.from({ length: n }, () => [
+    0.5 + rng.next(),
+    gaussian(rng) * 0.5,
+    gaussian(rng) * 0.5,
+    gaussian(rng) * 0.3,
+  ]);
+  const idio = Array.from({ length: n }, () => 0.004 + 0.012 * rng.next());
+  const closes = Array.from({ length: n }, () => new Float64Array(rows));
+  const level = new Float64Array(n).fill(100);
+  const dates: string[] = [];
+  const day = new Date('2019-01-02T00:00:00Z');
+  for (let t = 0; t < rows; t++) {
+    while (day.getUTCDay() === 0 || day.getUTCDay() === 6) day.setUTCDate(day.getUTCDate() + 1);
+    dates.push(day.toISOString().slice(0, 10));
+    day.setUTCDate(day.getUTCDate() + 1);
+    const f = [0.008 * gaussian(rng), 0.004 * gaussian(rng), 0.004 * gaussian(rng), 0.003 * gaussian(rng)];
+    for (let i = 0; i < n; i++) {
+      if (t > 0) {
+        const l = load[i];
+        level[i] *= Math.exp(l[0] * f[0] + l[1] * f[1] + l[2] * f[2] + l[3] * f[3] + idio[i] * gaussian(rng));
+      }
+      closes[i][t] = level[i];
+    }
+  }
+  return { dates, assets: Array.from({ length: n }, (_, i) => `F${String(i + 1).padStart(4, '0')}`), closes };
+}
+
+function csvOf(table: PriceTable): string {
+  const lines = [`date,${table.assets.join(',')}`];
+  table.dates.forEach((d, t) => lines.push(`${d},${table.closes.map((c) => c[t].toFixed(6)).join(',')}`));
+  return lines.join('\n') + '\n';
+}
+
+const PEER = String.raw`
+import sys, json
+import numpy as np
+from sklearn.covariance import LedoitWolf
+from cvxopt import matrix, solvers
+solvers.options["show_progress"] = False
+prices, cap = sys.argv[1], float(sys.argv[2])
+P = np.loadtxt(prices, delimiter=",", skiprows=1, usecols=None, converters={0: lambda s: 0.0})[:, 1:]
+r = np.diff(np.log(P), axis=0)
+S = LedoitWolf().fit(r).covariance_ * 252
+n = S.shape[0]
+sigma = np.sqrt(np.diag(S))
+# Maximum diversification in the rescaled variable: min y'Sy, sigma'y = 1, 0 <= y_i <= cap sum(y).
+G = np.vstack([-np.eye(n), np.eye(n) - cap * np.ones((n, n))])
+h = np.zeros(2 * n)
+sol = solvers.qp(matrix(S), matrix(np.zeros((n, 1))), matrix(G), matrix(h.reshape(-1, 1)), matrix(sigma.reshape(1, n)), matrix(1.0))
+y = np.array(sol["x"]).ravel()
+w = y / y.sum()
+print(json.dumps({"status": sol["status"], "dr": float(w @ sigma / np.sqrt(w @ S @ w))}))
+`;
+
+function peerAvailable(): string | null {
+  const r = spawnSync('/usr/bin/python3', ['-c', 'import numpy, sklearn, cvxopt'], { encoding: 'utf8' });
+  return r.status === 0 ? null : 'python3 with numpy, scikit-learn and cvxopt is absent: no peer measured';
+}
+
+function timed(cmd: string, args: string[]): { ms: number; stdout: string; ok: boolean; stderr: string } {
+  const t0 = performance.now();
+  const r = spawnSync(cmd, args, { encoding: 'utf8', maxBuffer: 1 << 28 });
+  return { ms: performance.now() - t0, stdout: r.stdout, stderr: r.stderr, ok: r.status === 0 };
+}
+
+async function wholeProcess(n: number, cap: number): Promise<BenchFigure> {
+  const dir = mkdtempSync(join(tmpdir(), 'holdfast-bench-solve-'));
+  const prices = join(dir, 'prices.csv');
+  writeFileSync(prices, csvOf(inventedPrices(n, n)));
+  const scenario = join(dir, 'scenario.json');
+  writeFileSync(
+    scenario,
+    JSON.stringify({
+      format: 'holdfast-scenario@1',
+      name: 'Bench',
+      baseCurrency: 'EUR',
+      constraints: { longOnly: true, weightBounds: { default: [0, cap] } },
+      candidates: [{ id: 'md-lw', estimator: { method: 'ledoit-wolf' }, objective: { method: 'max-diversification' } }],
+    }),
+  );
+  const peerScript = join(dir, 'peer.py');
+  writeFileSync(peerScript, PEER);
+  const cli = fileURLToPath(new URL('../src-main/cli/main.js', import.meta.url));
+  const missing = peerAvailable();
+  const ours: number[] = [];
+  const peer: number[] = [];
+  let notes = '';
+  for (let k = 0; k < REPEATS; k++) {
+    const a = timed(process.execPath, [cli, 'solve', '--prices', prices, '--scenario', scenario, '--json']);
+    if (!a.ok) throw new Error(`holdfast solve failed: ${a.stderr}`);
+    ours.push(a.ms);
+    const c = JSON.parse(a.stdout).candidates[0];
+    notes = `DR ${c.metrics.diversificationRatio.toFixed(6)}, held ${Object.values(c.weights as Record<string, number>).filter((w) => w > 1e-9).length}, solver ${c.solver.ms.toFixed(0)} ms`;
+    if (!missing) {
+      const b = timed('/usr/bin/python3', [peerScript, prices, String(cap)]);
+      if (!b.ok) throw new Error(`peer script failed: ${b.stderr}`);
+      peer.push(b.ms);
+      notes += `; peer DR ${JSON.parse(b.stdout).dr.toFixed(6)}`;
+    }
+  }
+  const ourMedian = median(ours);
+  const peerMedian = peer.length ? median(peer) : undefined;
+  return {
+    label: `holdfast solve ledoit-wolf max-diversification N=${n} cap ${cap * 100}% T=${T} (whole process)`,
+    medianMs: ourMedian,
+    ...(peerMedian !== undefined
+      ? { targetMs: Math.round(peerMedian / 2), peerMs: peerMedian, peerLabel: 'numpy + sklearn LedoitWolf + cvxopt' }
+      : {}),
+    notes: missing ? `${notes}; ${missing}` : `${notes}; target is half the peer's time`,
+  };
+}
+
+async function liveRecompute(): Promise<BenchFigure> {
+  const prices = inventedPrices(100, 7);
+  const estimators = [{ method: 'ledoit-wolf' }, { method: 'oas' }, { method: 'ewma' }];
+  const objectives = [{ method: 'max-diversification' }, { method: 'min-variance' }];
+  const parsed = parseScenario({
+    format: 'holdfast-scenario@1',
+    name: 'Live recompute bench',
+    baseCurrency: 'EUR',
+    constraints: { longOnly: true, weightBounds: { default: [0, 0.05] } },
+    candidates: estimators.flatMap((e) =>
+      objectives.map((o) => ({ id: `${o.method}-${e.method}`, estimator: e, objective: o })),
+    ),
+  });
+  if (!parsed.ok) throw new Error(parsed.errors[0].message);
+  const scenario = parsed.scenario;
+  let statuses = '';
+  const ms = await timeMedian(() => {
+    const run = runScenario(scenario, prices);
+    statuses = run.candidates.map((c) => c.status).join(',');
+  }, 7);
+  // The same with the previous run's active sets (what the editor passes between keystrokes).
+  const first = runScenario(scenario, prices);
+  const warm = await timeMedian(() => runScenario(scenario, prices, { warmStarts: first.warmStarts }), 7);
+  return {
+    label: 'live recompute: 6 candidates (3 estimators x 2 objectives) N=100 T=1260 in-process',
+    medianMs: ms,
+    targetMs: 150,
+    notes: `warm-started ${warm.toFixed(1)} ms; statuses ${statuses}`,
+  };
+}
+
+export const solveSuite: BenchSuite = {
+  name: 'solve',
+  async run() {
+    return [await liveRecompute(), await wholeProcess(500, 0.02), await wholeProcess(1500, 0.01)];
+  },
+};
