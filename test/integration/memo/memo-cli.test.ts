@@ -1,4 +1,4 @@
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -20,6 +20,7 @@ import { openStore } from '../../../src-main/store/store.js';
 import { flatText, pageTexts, renderPngs } from './poppler.js';
 
 const artifacts = fileURLToPath(new URL('../../artifacts/memo/', import.meta.url));
+mkdirSync(artifacts, { recursive: true });
 
 function fakeIo(cwd: string): CliIO & { out: string; err: string } {
   const io = {

@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -13,6 +13,7 @@ import { memoFixture } from './memo-fixture.js';
 import { flatText, pageTexts, pdfInfo, renderPngs } from './poppler.js';
 
 const artifacts = fileURLToPath(new URL('../../artifacts/memo/', import.meta.url));
+mkdirSync(artifacts, { recursive: true });
 
 /** "−564,000" -> -564000; "+12.3" -> 12.3. */
 function parseFigure(text: string): number {
