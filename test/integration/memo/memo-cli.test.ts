@@ -22,6 +22,23 @@ import { flatText, pageTexts, renderPngs } from './poppler.js';
 const artifacts = fileURLToPath(new URL('../../artifacts/memo/', import.meta.url));
 mkdirSync(artifacts, { recursive: true });
 
+/**
+ * The figures of each asset's row in the candidates table. A long name wraps in its cell and its
+ * figures sit on the line with the name's first part, so a row belongs to the one asset whose
+ * name is, or uniquely starts with, the first cell; the table's column groups are concatenated.
+ */
+function candidateCells(lines: readonly string[], names: readonly string[]): Map<string, string[]> {
+  const cellsByName = new Map<string, string[]>();
+  for (const line of lines) {
+    const parts = line.trim().split(/\s{2,}/);
+    if (parts.length < 2 || !parts.slice(1).every((c) => /^(\d+\.\d|\u2013)$/.test(c))) continue;
+    const owners = names.filter((n) => n === parts[0] || (parts[0].length >= 15 && n.startsWith(parts[0])));
+    const owner = owners.includes(parts[0]) ? parts[0] : owners.length === 1 ? owners[0] : undefined;
+    if (owner) cellsByName.set(owner, [...(cellsByName.get(owner) ?? []), ...parts.slice(1)]);
+  }
+  return cellsByName;
+}
+
 function fakeIo(cwd: string): CliIO & { out: string; err: string } {
   const io = {
     out: '',
@@ -83,16 +100,7 @@ describe('holdfast memo on the invented demo household (holdfast demo files)', (
     const lines = text.slice(start, end).split('\n');
     const info = parsed.scenario.assetInfo!;
     const names = parsed.scenario.assets!.map((a) => info[a]?.name ?? a);
-    // A long name wraps in its cell; its figures sit on the line with the name's first part, so a
-    // row belongs to the one asset whose name is, or uniquely starts with, the first cell.
-    const cellsByName = new Map<string, string[]>();
-    for (const line of lines) {
-      const parts = line.trim().split(/\s{2,}/);
-      if (parts.length < 2 || !parts.slice(1).every((c) => /^(\d+\.\d|\u2013)$/.test(c))) continue;
-      const owners = names.filter((n) => n === parts[0] || (parts[0].length >= 15 && n.startsWith(parts[0])));
-      const owner = owners.includes(parts[0]) ? parts[0] : owners.length === 1 ? owners[0] : undefined;
-      if (owner) cellsByName.set(owner, [...(cellsByName.get(owner) ?? []), ...parts.slice(1)]);
-    }
+    const cellsByName = candidateCells(lines, names);
     const checked: string[] = [];
     for (const asset of parsed.scenario.assets!) {
       const name = info[asset]?.name ?? asset;
@@ -147,6 +155,38 @@ describe('holdfast memo on the invented demo household (holdfast demo files)', (
       ]);
     }
     expect(flatText(pdf)).toContain('Equity fall');
+  });
+
+  it('matches holdfast solve --json for the same price and scenario files, weight by weight (formatPercent1)', async () => {
+    const solveIo = fakeIo(dir);
+    const files = ['--prices', 'demo/demo-prices.csv', '--scenario', 'demo/demo-scenario.json'];
+    expect(await runCli(['solve', ...files, '--json'], solveIo), solveIo.err).toBe(0);
+    const solved = JSON.parse(solveIo.out) as {
+      candidates: { id: string; status: string; weights: Record<string, number> }[];
+    };
+    const io = fakeIo(dir);
+    const argv = ['memo', ...files, '--household-name', 'Test household', '--date', '2026-01-15', '--out', 'plain.pdf'];
+    expect(await runCli(argv, io), io.err).toBe(0);
+    const text = pageTexts(readFileSync(join(dir, 'plain.pdf'))).join('\n');
+    const lines = text.slice(text.indexOf(SECTION_TITLES.candidates), text.indexOf(SECTION_TITLES.method)).split('\n');
+    const doc = JSON.parse(readFileSync(join(dir, 'demo/demo-scenario.json'), 'utf8')) as {
+      assets: string[];
+      assetInfo: Record<string, { name: string }>;
+    };
+    const cellsByName = candidateCells(
+      lines,
+      doc.assets.map((a) => doc.assetInfo[a].name),
+    );
+    let rows = 0;
+    for (const asset of doc.assets) {
+      const cells = cellsByName.get(doc.assetInfo[asset].name);
+      if (!cells) continue;
+      expect(cells, asset).toEqual(
+        solved.candidates.map((c) => (c.status === 'optimal' ? formatPercent1(c.weights[asset] ?? 0) : '\u2013')),
+      );
+      rows++;
+    }
+    expect(rows).toBeGreaterThan(5);
   });
 
   it('gives the same bytes for the same inputs and date', async () => {
