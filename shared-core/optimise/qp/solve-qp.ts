@@ -30,7 +30,15 @@ export interface SolveQpOptions {
    * full problem's KKT conditions, or the solver falls back to a full interior-point solve.
    */
   screen?: { candidates: readonly number[]; keep: readonly number[]; order: readonly number[] };
+  /**
+   * Give up (status error) instead of running phase one when the interior point fails: screening
+   * only needs to know that a working set is too small, and phase one on a problem with many rows
+   * is the costliest step of the solver (its elastic variables make the normal matrix large).
+   */
+  skipPhaseOne?: boolean;
 }
+
+const NOT_SOLVED = 'the interior point did not converge (phase one skipped)';
 
 /** Most variables screening adds per round, as a share of the working set (and at least SCREEN_BATCH_MIN). */
 const SCREEN_BATCH_SHARE = 0.5;
@@ -52,10 +60,10 @@ function screenedGuess(problem: QpProblem, options: SolveQpOptions): { guess: Qp
     const keep: number[] = [];
     for (let i = 0; i < n; i++) if (inSet[i]) keep.push(i);
     if (keep.length === n) return null;
-    const sub = solveQp(restrict(problem, keep, values), { shouldCancel: options.shouldCancel });
+    const sub = solveQp(restrict(problem, keep, values), { shouldCancel: options.shouldCancel, skipPhaseOne: true });
     iterations += sub.iterations;
     const working = keep.length;
-    if (sub.status === 'infeasible') {
+    if (sub.status === 'infeasible' || (sub.status === 'error' && sub.reason === NOT_SOLVED)) {
       // Too few variables to meet the limits: take the next ones in the caller's order.
       let added = 0;
       for (const i of sc.order)
@@ -295,6 +303,8 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
     return { status: 'iteration-limit', solution, iterations, kktResidual: residual, ms: ms(), path: 'interior-point' };
   }
 
+  if (options.skipPhaseOne)
+    return { status: 'error', reason: NOT_SOLVED, iterations, kktResidual: NaN, ms: ms(), path: 'interior-point' };
   const one = phaseOne(p, options.shouldCancel);
   iterations += one.iterations;
   if (!one.feasible) {
