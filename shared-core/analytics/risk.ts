@@ -1,5 +1,5 @@
 import { zeros, type Matrix } from '../linalg/matrix.js';
-import { symmetricEigen } from '../linalg/symmetric-eigen.js';
+import { spectralExposures } from '../linalg/symmetric-eigen.js';
 
 /**
  * Risk figures of a portfolio for any weights and covariance: the one place the app, the memo
@@ -100,16 +100,10 @@ export function riskContributions(weights: ArrayLike<number>, covariance: Matrix
  */
 export function effectiveBets(weights: ArrayLike<number>, covariance: Matrix): number {
   check(weights, covariance);
-  const n = covariance.rows;
-  const { values, vectors } = symmetricEigen(covariance);
-  const shares = new Float64Array(n);
+  const { values, exposures } = spectralExposures(covariance, weights);
+  const shares = Float64Array.from(exposures, (x, k) => x * Math.max(0, values[k]));
   let total = 0;
-  for (let k = 0; k < n; k++) {
-    let exposure = 0;
-    for (let i = 0; i < n; i++) exposure += vectors.data[i * n + k] * weights[i];
-    shares[k] = exposure * exposure * Math.max(0, values[k]);
-    total += shares[k];
-  }
+  for (const s of shares) total += s;
   let entropy = 0;
   for (const s of shares) {
     const p = s / total;

@@ -27,6 +27,8 @@ import type { Formulation } from './formulate.js';
 export const ERC_TOLERANCES = {
   /** Newton decrement squared at which the unconstrained solve stops. */
   newtonDecrement: 1e-26,
+  /** Below this decrement Newton's full step is taken (Boyd and Vandenberghe 2004, section 9.5.3). */
+  quadraticRegion: 1e-10,
   maxNewton: 100,
   /** Relative step at which the sequential QP stops. */
   sqpStep: 1e-12,
@@ -92,17 +94,27 @@ export function ercUnconstrained(S: Matrix, budgets: ArrayLike<number>): ErcOutc
       };
     const d = Float64Array.from(g, (v) => -v);
     choleskySolveInPlace(H, n, d);
+    const previous = dec;
     dec = 0;
     for (let i = 0; i < n; i++) dec -= g[i] * d[i];
     if (dec < ERC_TOLERANCES.newtonDecrement) break;
-    const f0 = objective(S, budgets, y);
+    // In the region of quadratic convergence the decrement falls at every step until rounding
+    // stops it (an ill-conditioned estimate floors it above the tolerance): stop there.
+    const quadratic = dec < ERC_TOLERANCES.quadraticRegion;
+    if (quadratic && dec >= previous) break;
     let t = 1;
     for (let i = 0; i < n; i++) if (d[i] < 0) t = Math.min(t, (-0.99 * y[i]) / d[i]);
     const trial = new Float64Array(n);
-    for (let k = 0; k < 60; k++) {
-      for (let i = 0; i < n; i++) trial[i] = y[i] + t * d[i];
-      if (objective(S, budgets, trial) <= f0 - ERC_TOLERANCES.armijo * t * dec) break;
-      t *= 0.5;
+    for (let i = 0; i < n; i++) trial[i] = y[i] + t * d[i];
+    // Armijo backtracking away from the optimum; near it the full Newton step is taken, since
+    // the objective's change falls below its own rounding there and cannot be tested.
+    if (!quadratic) {
+      const f0 = objective(S, budgets, y);
+      for (let k = 0; k < 60; k++) {
+        if (objective(S, budgets, trial) <= f0 - ERC_TOLERANCES.armijo * t * dec) break;
+        t *= 0.5;
+        for (let i = 0; i < n; i++) trial[i] = y[i] + t * d[i];
+      }
     }
     y.set(trial);
   }

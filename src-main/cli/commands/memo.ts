@@ -16,7 +16,6 @@ import { memoSectionsFromBacktest } from '../../memo/from-backtest.js';
 import { memoHash } from '../../memo/memo-hash.js';
 import type { MemoData, MemoPosition } from '../../memo/memo-input.js';
 import { parseHoldingsText } from '../../memo/memo-sources.js';
-import { renderMemo } from '../../memo/render-memo.js';
 import { valueHoldings } from '../../service/valuation.js';
 import { canonicalJson, sha256Hex } from '../../store/canonical-json.js';
 import type { Store } from '../../store/store.js';
@@ -105,6 +104,8 @@ export const memoCommand: Command = {
       io.stderr('holdfast memo: interrupted; nothing written\n');
       return EXIT.interrupted;
     }
+    // Loaded here so that every other command starts without pdfkit and ECharts.
+    const { renderMemo } = await import('../../memo/render-memo.js');
     const pdf = await renderMemo(built.input);
     if (io.signal.aborted) {
       built.close?.();

@@ -1,5 +1,4 @@
 import { resolve } from 'node:path';
-import { serveStore } from '../../web-host/serve-store.js';
 import { EXIT, UsageError, type Command } from '../command.js';
 
 /** `holdfast serve`: the application in a browser, on this machine's loopback address only. */
@@ -23,6 +22,8 @@ export const serveCommand: Command = {
     if (port !== undefined && (!Number.isInteger(port) || port < 0 || port > 65535))
       throw new UsageError(`option '--port' needs a whole number from 0 to 65535, got '${port}'`);
     const storeName = options.store as string;
+    // Loaded here so that every other command starts without the service and the memo writer.
+    const { serveStore } = await import('../../web-host/serve-store.js');
     const served = await serveStore({
       storePath: resolve(io.cwd, storeName),
       storeName,

@@ -9,6 +9,7 @@ import {
 } from '../../../shared-core/linalg/cross-product.js';
 import { fromRows, zeros, type Matrix } from '../../../shared-core/linalg/matrix.js';
 import {
+  spectralExposures,
   symmetricEigen,
   symmetricEigenvalues,
   tridiagonalEigenvalues,
@@ -94,6 +95,42 @@ describe('symmetric eigen-decomposition (tred2/tql2)', () => {
       }
     expect(residual).toBeLessThan(1e-12 * values[n - 1]);
     expect(orthogonality).toBeLessThan(1e-13);
+  });
+
+  it("exposures (e_k'v)^2 to the eigenvectors, found without forming them, equal those from the full decomposition", () => {
+    for (const [rows, n, seed] of [
+      [60, 30, 3],
+      [20, 35, 4], // rank-deficient: the null eigenvalue repeats
+      [300, 1, 5],
+    ] as const) {
+      const a = crossProduct(randomMatrix(rows, n, seed));
+      const v = Array.from({ length: n }, stream(seed + 100));
+      const full = symmetricEigen(a);
+      const { values, exposures } = spectralExposures(a, v);
+      const order = Array.from(values, (_, k) => k).sort((i, j) => values[i] - values[j]);
+      expect(
+        relativeError(
+          Float64Array.from(order, (k) => values[k]),
+          full.values,
+        ),
+      ).toBeLessThan(1e-12);
+      let total = 0;
+      for (const x of exposures) total += x;
+      expect(total).toBeCloseTo(
+        v.reduce((s, x) => s + x * x, 0),
+        12,
+      );
+      // Distinct eigenvalues: one exposure each, as from the eigenvectors.
+      const scale = full.values[n - 1];
+      for (let k = 0; k < n; k++) {
+        const sorted = order[k];
+        if (k > 0 && full.values[k] - full.values[k - 1] < 1e-8 * scale) continue;
+        if (k < n - 1 && full.values[k + 1] - full.values[k] < 1e-8 * scale) continue;
+        let e = 0;
+        for (let i = 0; i < n; i++) e += full.vectors.data[i * n + k] * v[i];
+        expect(exposures[sorted]).toBeCloseTo(e * e, 10);
+      }
+    }
   });
 
   it('a tridiagonal matrix with 2 on the diagonal and -1 beside it has eigenvalues 2 - 2 cos(k pi / (n + 1)) (a textbook closed form)', () => {
