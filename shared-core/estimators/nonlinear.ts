@@ -1,4 +1,7 @@
 import type { Matrix } from '../linalg/matrix.js';
+import type { EstimatorSpec } from '../scenario/estimator-spec.js';
+import { periodsPerYear } from './periods.js';
+import type { Estimator } from './types.js';
 import { symmetricEigen } from '../linalg/symmetric-eigen.js';
 import { centred, checkReturns, scatter } from './moments.js';
 
@@ -22,9 +25,6 @@ export interface NonlinearShrinkage {
  * Hilbert transform (Epanechnikov kernel, bandwidth h lambda_j with h = n^(-1/3)). Data are
  * de-meaned, so the effective sample size is n = T - 1. When N > n the N - n null eigenvalues
  * all get the value the paper gives for the point mass at zero.
- *
- * Not yet a scenario method: `estimatorMethods` feeds the app's method labels, which need an
- * entry for it first.
  */
 export function nonlinearShrinkage(returns: Matrix): NonlinearShrinkage {
   checkReturns(returns, 3, 'nonlinear');
@@ -99,3 +99,25 @@ export function nonlinearShrinkage(returns: Matrix): NonlinearShrinkage {
     conditionNumber: smallest > 0 ? largest / smallest : Infinity,
   };
 }
+
+/** The scenario method `nonlinear`: the shrinkage above, its condition number exact from d. */
+export const nonlinearCovariance: Estimator<Extract<EstimatorSpec, { method: 'nonlinear' }>> = (
+  returns,
+  _spec,
+  context,
+) => {
+  const fit = nonlinearShrinkage(returns);
+  return {
+    method: 'nonlinear',
+    covariance: fit.covariance,
+    periodsPerYear: periodsPerYear(context),
+    diagnostics: {
+      observations: returns.rows,
+      effectiveObservations: fit.effectiveObservations,
+      conditionNumber: fit.conditionNumber,
+      conditionNumberMethod: 'eigenvalues',
+      shrinkage: null,
+      bandwidth: fit.bandwidth,
+    },
+  };
+};

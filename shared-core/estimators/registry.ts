@@ -3,6 +3,7 @@ import type { EstimatorMethod, EstimatorSpec } from '../scenario/estimator-spec.
 import { denoisedCovariance } from './denoised.js';
 import { ewmaCovariance } from './ewma.js';
 import { ledoitWolfCovariance } from './ledoit-wolf.js';
+import { nonlinearCovariance } from './nonlinear.js';
 import { oasCovariance } from './oas.js';
 import { robustCovariance } from './robust.js';
 import { sampleCovariance } from './sample.js';
@@ -20,6 +21,7 @@ export const estimators: { [M in EstimatorMethod]: Estimator<Extract<EstimatorSp
   oas: oasCovariance,
   denoised: denoisedCovariance,
   robust: robustCovariance,
+  nonlinear: nonlinearCovariance,
 };
 
 /** The covariance of per-period returns by the method and options of `spec`, with diagnostics. */

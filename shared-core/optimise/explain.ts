@@ -32,6 +32,9 @@ export interface AssetFigures {
   ruleWeights?: Float64Array;
 }
 
+/** Figures this close to their threshold count as on it (the optimum meets it to solver accuracy). */
+const SAME_FIGURE = 1e-6;
+
 /** Assets that sit in a binding band, turnover or gross-exposure limit (their first-order condition moves). */
 function assetsInBindingRows(m: LinearMandate, binding: Sensitivity[]): Map<number, string> {
   const out = new Map<number, string>();
@@ -85,6 +88,8 @@ export function explainAssets(
             : 'held';
     const base = { asset, weight: w[i], reason };
     const tail = reason === 'group-limit' ? `, away from it because ${inBand.get(i)}` : '';
+    // Left out although its own figure says it would be held: some other limit keeps it out.
+    const keptOut = `, but ${inBand.get(i) ?? 'a binding mandate limit'} and keeps it out`;
     switch (objective.method) {
       case 'max-diversification': {
         const t = 1 / dr;
@@ -93,7 +98,9 @@ export function explainAssets(
           reason === 'at-upper-bound'
             ? `held at its ${capWord} of ${pct(w[i])}: ${c}; below the threshold, it would be held more without the ${capWord}`
             : reason === 'excluded'
-              ? `left out: ${c}; an asset this correlated with the portfolio adds less diversification than it costs`
+              ? rho >= t - SAME_FIGURE
+                ? `left out: ${c}; an asset this correlated with the portfolio adds less diversification than it costs`
+                : `left out: ${c}; below the threshold it would be held${keptOut}`
               : reason === 'at-lower-bound'
                 ? `held at its floor of ${pct(w[i])}: ${c}; above the threshold, it would be held less without the floor`
                 : `held at ${pct(w[i])}: ${c}${tail}`;
@@ -111,7 +118,9 @@ export function explainAssets(
           reason === 'at-upper-bound'
             ? `held at its ${capWord} of ${pct(w[i])}: ${what} ${num(beta)}, below 1, so it would be held more without the ${capWord}`
             : reason === 'excluded'
-              ? `left out: ${what} ${num(beta)}, at least 1, so adding it would not lower risk`
+              ? beta >= 1 - SAME_FIGURE
+                ? `left out: ${what} ${num(beta)}, at least 1, so adding it would not lower risk`
+                : `left out: ${what} ${num(beta)}, below 1, so it would lower risk${keptOut}`
               : reason === 'at-lower-bound'
                 ? `held at its floor of ${pct(w[i])}: ${what} ${num(beta)}, above 1`
                 : `held at ${pct(w[i])}: ${what} ${num(beta)}; at the minimum every freely held asset has beta 1${tail}`;
@@ -140,7 +149,9 @@ export function explainAssets(
           reason === 'at-upper-bound'
             ? `held at its ${capWord} of ${pct(w[i])}: ${c}; it would be held more without the ${capWord}`
             : reason === 'excluded'
-              ? `left out: ${c}; it does not pay for the risk it adds`
+              ? mu <= need + SAME_FIGURE
+                ? `left out: ${c}; it does not pay for the risk it adds`
+                : `left out: ${c}; it would pay for its risk${keptOut}`
               : `held at ${pct(w[i])}: ${c}${tail}`;
         out.push({ ...base, text, correlationWithPortfolio: rho, threshold: need });
         break;

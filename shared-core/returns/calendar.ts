@@ -40,9 +40,9 @@ export function isCoarser(a: Frequency, than: Frequency): boolean {
  */
 export function pricingFrequency(days: readonly number[]): { frequency: Frequency; medianGap: number } {
   if (days.length < 3) return { frequency: 'daily', medianGap: 0 };
-  const gaps = [];
-  for (let i = 1; i < days.length; i++) gaps.push(days[i] - days[i - 1]);
-  gaps.sort((a, b) => a - b);
+  const gaps = new Float64Array(days.length - 1);
+  for (let i = 1; i < days.length; i++) gaps[i - 1] = days[i] - days[i - 1];
+  gaps.sort(); // a typed array sorts numerically, and far faster than an array with a comparator
   const medianGap = gaps[gaps.length >> 1];
   return { frequency: medianGap <= 5 ? 'daily' : medianGap <= 10 ? 'weekly' : 'monthly', medianGap };
 }

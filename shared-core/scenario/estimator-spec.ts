@@ -5,7 +5,7 @@ import { z } from 'zod';
  * the command-line flags are (`target`, `lambda`, `halfLife`). The list of methods here is the
  * one registry the UI, the command line and the schema read.
  */
-export const estimatorMethods = ['sample', 'ewma', 'ledoit-wolf', 'oas', 'denoised', 'robust'] as const;
+export const estimatorMethods = ['sample', 'ewma', 'ledoit-wolf', 'oas', 'denoised', 'robust', 'nonlinear'] as const;
 export type EstimatorMethod = (typeof estimatorMethods)[number];
 
 export const shrinkageTargets = ['scaled-identity', 'constant-correlation', 'single-index'] as const;
@@ -24,5 +24,6 @@ export const estimatorSpecSchema = z.discriminatedUnion('method', [
   z.strictObject({ method: z.literal('oas') }),
   z.strictObject({ method: z.literal('denoised') }),
   z.strictObject({ method: z.literal('robust') }),
+  z.strictObject({ method: z.literal('nonlinear') }),
 ]);
 export type EstimatorSpec = z.infer<typeof estimatorSpecSchema>;

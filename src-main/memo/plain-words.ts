@@ -44,6 +44,8 @@ export function estimatorWords(estimator: EstimatorSpec): string {
       return 'random-matrix denoised covariance';
     case 'robust':
       return 'robust covariance';
+    case 'nonlinear':
+      return 'analytical nonlinear shrinkage of the eigenvalues (Ledoit and Wolf 2020)';
   }
 }
 
@@ -68,6 +70,8 @@ export function estimatorShort(estimator: EstimatorSpec): string {
       return 'denoised';
     case 'robust':
       return 'robust';
+    case 'nonlinear':
+      return 'nonlinear shrinkage';
   }
 }
 

@@ -1,6 +1,6 @@
 import { correlationMatrix } from '../../shared-core/analytics/risk.js';
 import type { CandidateResult } from '../../shared-core/optimise/result.js';
-import { clusterOrder } from '../../src-renderer/charts/cluster-order.js';
+import { clusterOrder } from '../../shared-core/analytics/cluster-order.js';
 import {
   bandsOption,
   candidatesScatterOption,

@@ -29,6 +29,7 @@ const estimatorShort: Record<EstimatorSpec['method'], string> = {
   oas: 'oas',
   denoised: 'dn',
   robust: 'rob',
+  nonlinear: 'nls',
 };
 
 const objectiveShort: Record<ObjectiveSpec['method'], string> = {
@@ -48,6 +49,7 @@ export const estimatorNames: Record<EstimatorSpec['method'], string> = {
   oas: 'Oracle approximating shrinkage',
   denoised: 'Denoised (eigenvalue clipping)',
   robust: 'Robust (M-estimator)',
+  nonlinear: 'Nonlinear shrinkage',
 };
 
 export const objectiveNames: Record<ObjectiveSpec['method'], string> = {

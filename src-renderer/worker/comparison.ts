@@ -6,7 +6,7 @@ import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import type { EstimatorSpec } from '../../shared-core/scenario/estimator-spec.js';
 import { runScenario } from '../../shared-core/scenario/run-scenario.js';
 import type { Scenario } from '../../shared-core/scenario/schema.js';
-import { clusterOrder } from '../charts/cluster-order.js';
+import { clusterOrder } from '../../shared-core/analytics/cluster-order.js';
 import { describeEstimator, specKey } from '../scenario/candidate-grid.js';
 import {
   correlationFromCovariance,

@@ -48,4 +48,20 @@ describe('analytical nonlinear shrinkage (Ledoit and Wolf 2020, Annals of Statis
     expect(loss.nonlinear).toBeLessThan(loss.linear);
     expect(loss.linear).toBeLessThan(loss.sample);
   });
+
+  it('is the scenario method `nonlinear`: the same matrix, annualised by the frequency, with its diagnostics', () => {
+    const f = loadFixture<{ returns: number[][] }>(CASES[0]);
+    const x = matrix(f.returns);
+    const direct = nonlinearShrinkage(x);
+    const e = estimateCovariance(x, { method: 'nonlinear' }, { frequency: 'daily' });
+    expect(e.method).toBe('nonlinear');
+    expect(Array.from(e.covariance.data)).toEqual(Array.from(direct.covariance.data));
+    expect(e.periodsPerYear).toBe(252);
+    expect(e.diagnostics).toMatchObject({
+      observations: x.rows,
+      effectiveObservations: x.rows - 1,
+      conditionNumber: direct.conditionNumber,
+      shrinkage: null,
+    });
+  });
 });

@@ -51,6 +51,20 @@ describe('maximum diversification (Choueifaty and Coignard 2008; Choueifaty, Fro
     }
   });
 
+  it('an asset kept out by a band, not by its correlation, is explained by the band (no contradictory sentence)', () => {
+    const S = equicorrelated(4, 0.15, 0.3);
+    const r = solve(
+      S,
+      { method: 'max-diversification' },
+      { groups: [{ name: 'Alternatives', members: ['A004'], min: 0, max: 0 }] },
+    );
+    const out = r.explanations!.assets.find((a) => a.asset === 'A004')!;
+    expect(out.reason).toBe('excluded');
+    expect(out.correlationWithPortfolio!).toBeLessThan(out.threshold!);
+    expect(out.text).toMatch(/below the threshold it would be held, but the Alternatives band binds and keeps it out$/);
+    expect(out.text).not.toMatch(/adds less diversification/);
+  });
+
   it('an asset at its cap has correlation at most 1/DR (first-order conditions with an upper bound)', () => {
     const S = randomCovariance(20, 11);
     const r = solve(S, { method: 'max-diversification' }, { weightBounds: { default: [0, 0.12] } });

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { averageLinkage, clusterOrder, correlationDistance } from '../../../src-renderer/charts/cluster-order.js';
+import { averageLinkage, clusterOrder, correlationDistance } from '../../../shared-core/analytics/cluster-order.js';
 
 interface Case {
   seed: number;
