@@ -2,8 +2,12 @@ import { InputError, type InputLocation } from '../errors.js';
 import type { Frequency } from '../estimators/types.js';
 import { zeros, type Matrix } from '../linalg/matrix.js';
 import type { PriceTable } from '../prices/price-table.js';
+import { rateOn } from './exchange-rate.js';
 import { desmooth } from './desmooth.js';
 import { coarser, dayNumber, isCoarser, monthIndex, pricingFrequency, weekIndex } from './calendar.js';
+
+/** Prices and rates are never carried forward over more than this many calendar days unless the user says so. */
+export const DEFAULT_MAX_FILL_DAYS = 5;
 
 export type ReturnMethod = 'log' | 'simple';
 
@@ -87,7 +91,7 @@ interface SamplePoint {
  * currency before returns are taken.
  */
 export function buildReturns(table: PriceTable, options: BuildReturnsOptions): ReturnsResult {
-  const maxFill = options.maxFillDays ?? 5;
+  const maxFill = options.maxFillDays ?? DEFAULT_MAX_FILL_DAYS;
   const minObservations = options.minObservations ?? 3;
   const locate = options.locate ?? (() => ({}));
   const fail = (message: string, asset?: string, date?: string) => new InputError(message, locate(asset, date));
@@ -433,20 +437,6 @@ function convertedLevels(
     }
   }
   return levels;
-}
-
-/** The last finite rate on or before `day`, if it is at most `maxFill` days old. */
-function rateOn(fxDays: Int32Array, rates: Float64Array, day: number, maxFill: number): number | undefined {
-  let lo = 0;
-  let hi = fxDays.length; // first index with fxDays > day
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    if (fxDays[mid] <= day) lo = mid + 1;
-    else hi = mid;
-  }
-  for (let i = lo - 1; i >= 0 && day - fxDays[i] <= maxFill; i--)
-    if (Number.isFinite(rates[i]) && rates[i] > 0) return rates[i];
-  return undefined;
 }
 
 function endOfMonth(date: string): string {

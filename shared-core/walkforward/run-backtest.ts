@@ -2,7 +2,8 @@ import { InputError } from '../errors.js';
 import { PERIODS_PER_YEAR } from '../estimators/types.js';
 import type { Matrix } from '../linalg/matrix.js';
 import type { PriceTable } from '../prices/price-table.js';
-import { buildReturns, type ReturnsResult } from '../returns/build-returns.js';
+import { buildReturns, DEFAULT_MAX_FILL_DAYS, type ReturnsResult } from '../returns/build-returns.js';
+import { inBaseCurrency } from '../returns/exchange-rate.js';
 import { dayNumber, pricingFrequency } from '../returns/calendar.js';
 import { backtestSpecSchema, type BacktestSpec } from '../scenario/backtest-spec.js';
 import type { Candidate, Scenario } from '../scenario/schema.js';
@@ -65,6 +66,11 @@ export interface BacktestOptions {
   seed?: number;
   /** Bootstrap draws for the weight stability of today's weights; 0 or absent skips it. */
   stabilityDraws?: number;
+  /**
+   * Exchange rates for assets priced in another currency than the scenario's base (the price
+   * table's `currencies`): one column per currency, the price of one unit in the base currency.
+   */
+  fx?: PriceTable;
 }
 
 export interface CandidateBacktest {
@@ -104,6 +110,7 @@ function restrict(table: PriceTable, assets: readonly string[], from?: string, t
     dates: keep.map((t) => table.dates[t]),
     assets,
     closes: cols.map((c) => Float64Array.from(keep, (t) => c[t])),
+    ...(table.currencies ? { currencies: assets.map((a) => table.currencies?.[table.assets.indexOf(a)]) } : {}),
   };
 }
 
@@ -117,7 +124,13 @@ export async function runBacktest(
   assets.forEach((a, k) => {
     if (!prices.assets.includes(a)) throw new InputError(`no price history for asset '${a}'`, { path: `assets[${k}]` });
   });
-  const table = restrict(prices, assets, scenario.window?.from, scenario.window?.to);
+  const maxFillDays = scenario.returns.maxFillDays;
+  const table = inBaseCurrency(
+    restrict(prices, assets, scenario.window?.from, scenario.window?.to),
+    scenario.baseCurrency,
+    options.fx,
+    maxFillDays ?? DEFAULT_MAX_FILL_DAYS,
+  );
   const warnings: string[] = [];
   if (scenario.window?.years !== undefined)
     warnings.push(
@@ -125,11 +138,16 @@ export async function runBacktest(
     );
   const frequency = scenario.returns.frequency;
   const method = scenario.returns.method;
-  const maxFillDays = scenario.returns.maxFillDays;
   const periodsPerYear = scenario.periodsPerYear ?? PERIODS_PER_YEAR[frequency];
   const rowsPerYear = PERIODS_PER_YEAR[pricingFrequency(table.dates.map(dayNumber)).frequency];
   const returnsOf = (history: PriceTable, minObservations?: number): ReturnsResult =>
-    buildReturns(history, { assets, frequency, method, maxFillDays, ...(minObservations ? { minObservations } : {}) });
+    buildReturns(history, {
+      assets,
+      frequency,
+      method,
+      maxFillDays,
+      ...(minObservations ? { minObservations } : {}),
+    });
 
   // First possible rebalance: the date of the estimationWindow-th return (only dates and the
   // pattern of missing prices are read here, never a price level), or `from` if later.

@@ -1,6 +1,10 @@
 import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { InputError } from '../../shared-core/errors.js';
+import { parseWidePriceCsv } from '../../shared-core/prices/parse-wide-csv.js';
+import type { PriceTable } from '../../shared-core/prices/price-table.js';
+import type { Scenario } from '../../shared-core/scenario/schema.js';
+import type { OptionSpec } from './command.js';
 
 /** Reads a UTF-8 text file named on the command line; a missing file is an InputError naming it. */
 export function readInputFile(cwd: string, path: string): { path: string; text: string } {
@@ -12,4 +16,43 @@ export function readInputFile(cwd: string, path: string): { path: string; text: 
     const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'is a directory' : (error as Error).message;
     throw new InputError(why, { file: path });
   }
+}
+
+/** Reads and parses a wide price file named on the command line; errors name the file. */
+export function readPriceFile(cwd: string, path: string): { path: string; table: PriceTable } {
+  const file = readInputFile(cwd, path);
+  try {
+    return { path: file.path, table: parseWidePriceCsv(file.text) };
+  } catch (error) {
+    if (error instanceof InputError) throw error.inFile(file.path);
+    throw error;
+  }
+}
+
+/**
+ * The `--fx FILE.csv` option of the file forms: exchange rates, one column per currency, the
+ * price of one unit in the scenario's base currency. Each asset's own currency comes from the
+ * scenario's `assetInfo` (a wide price file has no place for it).
+ */
+export const fxOption: OptionSpec = {
+  name: 'fx',
+  kind: 'string',
+  valueName: 'FILE.csv',
+  description: "exchange rates, one column per currency, in the base currency (assets' currencies from assetInfo)",
+};
+
+/** The prices with each asset's currency from the scenario, and the rates read from `fxPath`. */
+export function withExchangeRates(
+  cwd: string,
+  prices: PriceTable,
+  scenario: Scenario,
+  fxPath: string,
+): { prices: PriceTable; fx: PriceTable; converted: boolean } {
+  const fx = readPriceFile(cwd, fxPath).table;
+  const currencies = prices.assets.map((a) => scenario.assetInfo?.[a]?.currency);
+  return {
+    prices: { ...prices, currencies },
+    fx,
+    converted: currencies.some((c) => c !== undefined && c !== scenario.baseCurrency),
+  };
 }

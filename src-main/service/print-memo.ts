@@ -8,7 +8,7 @@ import type { MemoPosition } from '../memo/memo-input.js';
 import { renderMemo } from '../memo/render-memo.js';
 import { sha256Hex } from '../store/canonical-json.js';
 import type { HouseholdRecord, ScenarioRecord, Store } from '../store/store.js';
-import { fxTableFor } from './fx-table.js';
+import { storedExchangeRates } from '../io/exchange-rates.js';
 import { memoOut } from './records.js';
 import { valueHoldings } from './valuation.js';
 
@@ -53,7 +53,7 @@ export async function printMemo(
       positions: valued.positions.map((p) => ({ asset: p.asset, amount: p.valueInBase as number })),
     };
   }
-  const fx = fxTableFor(store, household.baseCurrency, inputs.prices.currencies ?? []);
+  const fx = storedExchangeRates(store, household.baseCurrency, inputs.prices.currencies ?? []);
   const run = runScenario(inputs.scenario, inputs.prices, fx ? { fx } : {});
   const assets = inputs.scenario.assets ?? inputs.prices.assets;
   const input = buildMemoInput({

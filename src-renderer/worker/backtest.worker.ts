@@ -8,7 +8,7 @@ import { runBacktest, type BacktestPhase, type BacktestRun } from '../../shared-
  * The walk-forward worker: the shared core's backtest of every candidate, with progress after
  * each step. It is long work, so it runs on request, not on every edit; cancelling terminates it.
  */
-export type ToBacktest = { type: 'run'; requestId: number; scenario: Scenario; prices: PriceTable };
+export type ToBacktest = { type: 'run'; requestId: number; scenario: Scenario; prices: PriceTable; fx?: PriceTable };
 export type FromBacktest =
   | { type: 'progress'; requestId: number; phase: BacktestPhase; candidateId: string; done: number; total: number }
   | { type: 'done'; requestId: number; run: BacktestRun; ms: number }
@@ -20,11 +20,12 @@ const scope = self as unknown as {
 };
 
 scope.onmessage = (event) => {
-  const { requestId, scenario, prices } = event.data;
+  const { requestId, scenario, prices, fx } = event.data;
   const t0 = performance.now();
   let last = 0;
   runBacktest(scenario, prices, {
     estimateAndSolve,
+    ...(fx ? { fx } : {}),
     pause: () => new Promise((resolve) => setTimeout(resolve, 0)),
     onProgress: (phase, candidateId, done, total) => {
       const now = performance.now();

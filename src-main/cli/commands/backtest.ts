@@ -1,5 +1,6 @@
 import { InputError, formatInputError } from '../../../shared-core/errors.js';
 import { parseWidePriceCsv } from '../../../shared-core/prices/parse-wide-csv.js';
+import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { DEFAULT_DRAWS } from '../../../shared-core/stability/weight-bands.js';
@@ -7,7 +8,7 @@ import { BACKTEST_CAUTIONS, backtestJsonText } from '../../../shared-core/walkfo
 import { estimateAndSolve } from '../../../shared-core/walkforward/estimate-and-solve.js';
 import { runBacktest, type BacktestPhase, type BacktestRun } from '../../../shared-core/walkforward/run-backtest.js';
 import { EXIT, UsageError, type CliIO, type Command } from '../command.js';
-import { readInputFile } from '../files.js';
+import { fxOption, readInputFile, withExchangeRates } from '../files.js';
 
 /**
  * `holdfast backtest`: every candidate of a scenario walked forward over a price file, with
@@ -26,6 +27,7 @@ export const backtestCommand: Command = {
       required: true,
       description: 'holdfast-scenario@1 document',
     },
+    fxOption,
     { name: 'json', kind: 'boolean', description: 'print one JSON object on standard output' },
     { name: 'stability', kind: 'boolean', description: "bootstrap today's weights (weight bands)" },
     {
@@ -64,12 +66,15 @@ export const backtestCommand: Command = {
       return EXIT.badInput;
     }
     const scenario: Scenario = parsed.scenario;
+    let fx: PriceTable | undefined;
+    if (options.fx !== undefined) ({ prices, fx } = withExchangeRates(io.cwd, prices, scenario, options.fx as string));
 
     const progress = progressPrinter(io, scenario.candidates.length);
     let run: BacktestRun;
     try {
       run = await runBacktest(scenario, prices, {
         estimateAndSolve,
+        ...(fx ? { fx } : {}),
         onProgress: progress,
         shouldCancel: () => io.signal.aborted,
         pause: () => new Promise((resolve) => setImmediate(resolve)),

@@ -1,7 +1,7 @@
 import { renameSync, rmSync, writeFileSync } from 'node:fs';
 import { basename, resolve } from 'node:path';
 import { InputError } from '../../../shared-core/errors.js';
-import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
+import { wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
 import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
@@ -10,6 +10,7 @@ import { DEFAULT_DRAWS } from '../../../shared-core/stability/weight-bands.js';
 import { estimateAndSolve } from '../../../shared-core/walkforward/estimate-and-solve.js';
 import { runBacktest } from '../../../shared-core/walkforward/run-backtest.js';
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
+import { storedExchangeRates } from '../../io/exchange-rates.js';
 import { storedScenarioInputs } from '../../io/stored-scenario.js';
 import { buildMemoInput, chooseRecommended } from '../../memo/build-memo-input.js';
 import { memoSectionsFromBacktest } from '../../memo/from-backtest.js';
@@ -20,7 +21,7 @@ import { valueHoldings } from '../../service/valuation.js';
 import { canonicalJson, sha256Hex } from '../../store/canonical-json.js';
 import type { Store } from '../../store/store.js';
 import { EXIT, UsageError, type Command, type OptionValues } from '../command.js';
-import { readInputFile } from '../files.js';
+import { fxOption, readInputFile, readPriceFile, withExchangeRates } from '../files.js';
 import { existingStore } from './store-access.js';
 
 /**
@@ -49,12 +50,7 @@ export const memoCommand: Command = {
       valueName: 'FILE.json',
       description: 'holdings in the base currency (file form; a demo household file works)',
     },
-    {
-      name: 'fx',
-      kind: 'string',
-      valueName: 'FILE.csv',
-      description: 'exchange rates, one column per currency in the base currency (file form)',
-    },
+    fxOption,
     { name: 'prepared-by', kind: 'string', valueName: '"..."', description: 'name or initials printed as preparer' },
     { name: 'lot', kind: 'number', valueName: 'AMOUNT', description: 'round trades to this amount (default 1000)' },
     {
@@ -155,35 +151,6 @@ function runOrLocate(
   }
 }
 
-function readPriceFile(cwd: string, path: string): { path: string; table: PriceTable } {
-  const file = readInputFile(cwd, path);
-  try {
-    return { path: file.path, table: parseWidePriceCsv(file.text) };
-  } catch (error) {
-    if (error instanceof InputError) throw error.inFile(file.path);
-    throw error;
-  }
-}
-
-/** Exchange rates from the store: for each currency, the price of one unit in `base` (inverted where stored the other way). */
-function storeFx(store: Store, base: string, currencies: readonly (string | undefined)[]): PriceTable | undefined {
-  const wanted = [...new Set(currencies.filter((c): c is string => c !== undefined && c !== base))].sort();
-  if (wanted.length === 0) return undefined;
-  const series = wanted.map((ccy) => {
-    const direct = store.fxAsset(ccy, base);
-    const inverse = direct ? undefined : store.fxAsset(base, ccy);
-    if (!direct && !inverse)
-      throw new InputError(`assets are priced in ${ccy} but the store has no ${ccy}/${base} exchange-rate series`);
-    return { ccy, id: (direct ?? inverse)!.id, invert: !direct };
-  });
-  const table = store.priceTable({ assets: series.map((x) => x.id) });
-  return {
-    dates: table.dates,
-    assets: series.map((x) => x.ccy),
-    closes: table.closes.map((c, i) => (series[i].invert ? c.map((v) => 1 / v) : c)),
-  };
-}
-
 /** Walk-forward, stress and (optionally) stability sections, when asked for with --backtest. */
 async function backtestSections(
   scenario: Scenario,
@@ -250,10 +217,8 @@ async function fromFiles(
   let fx: PriceTable | undefined;
   let fxConverted = false;
   if (options.fx !== undefined) {
-    fx = readPriceFile(cwd, options.fx as string).table;
-    const currencies = prices.assets.map((a) => scenario.assetInfo?.[a]?.currency);
-    prices = { ...prices, currencies };
-    fxConverted = currencies.some((c) => c !== undefined && c !== scenario.baseCurrency);
+    const rated = withExchangeRates(cwd, prices, scenario, options.fx as string);
+    ({ prices, fx, converted: fxConverted } = rated);
   }
   const run = runOrLocate(
     scenario,
@@ -335,7 +300,7 @@ async function fromStore(
         positions: valued.positions.map((p) => ({ asset: p.asset, amount: p.valueInBase as number })),
       };
     }
-    const fx = storeFx(store, household.baseCurrency, inputs.prices.currencies ?? []);
+    const fx = storedExchangeRates(store, household.baseCurrency, inputs.prices.currencies ?? []);
     const run = runScenario(inputs.scenario, inputs.prices, fx ? { fx } : {});
     const recommended = chooseRecommended(inputs.scenario, run.candidates);
     const bt = await backtestSections(inputs.scenario, inputs.prices, options, recommended, signal);

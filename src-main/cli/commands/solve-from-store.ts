@@ -1,7 +1,7 @@
 import { InputError } from '../../../shared-core/errors.js';
-import type { PriceTable } from '../../../shared-core/prices/price-table.js';
-import type { Scenario } from '../../../shared-core/scenario/schema.js';
+import { storedExchangeRates } from '../../io/exchange-rates.js';
 import { storedScenarioInputs } from '../../io/stored-scenario.js';
+import type { SolveInputs } from './solve.js';
 import { existingStore } from './store-access.js';
 
 /**
@@ -9,16 +9,13 @@ import { existingStore } from './store-access.js';
  * same inputs as the file form (the newest saved revision and the stored prices of its assets).
  * Errors are InputErrors naming the store file, so the command exits 2 with nothing on stdout.
  */
-export function readSolveStore(
-  cwd: string,
-  storeName: string,
-  household: string,
-  scenario: string,
-): { scenario: Scenario; prices: PriceTable; pricesName: string; scenarioName: string; fromStore: true } {
+export function readSolveStore(cwd: string, storeName: string, household: string, scenario: string): SolveInputs {
   const store = existingStore(cwd, storeName);
   try {
     const inputs = storedScenarioInputs(store, household, scenario);
+    const fx = storedExchangeRates(store, inputs.scenario.baseCurrency, inputs.prices.currencies ?? []);
     return {
+      ...(fx ? { fx } : {}),
       scenario: inputs.scenario,
       prices: inputs.prices,
       pricesName: storeName,

@@ -6,7 +6,7 @@ import { runScenario, type ScenarioRun } from '../../../shared-core/scenario/run
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { EXIT, UsageError, type CliIO, type Command, type OptionValues } from '../command.js';
-import { readInputFile } from '../files.js';
+import { fxOption, readInputFile, withExchangeRates } from '../files.js';
 import { readSolveStore } from './solve-from-store.js';
 
 /** What `solve` needs, however it was obtained (files now; the store form reads the same shape). */
@@ -18,10 +18,12 @@ export interface SolveInputs {
   scenarioName: string;
   /** Prices read from the store: no file line or column to point at. */
   fromStore?: boolean;
+  /** Exchange rates into the base currency for assets priced in another currency. */
+  fx?: PriceTable;
 }
 
 /** The file form: `--prices FILE.csv --scenario FILE.json`. Throws InputError naming the file. */
-export function readSolveFiles(io: CliIO, pricesPath: string, scenarioPath: string): SolveInputs {
+export function readSolveFiles(io: CliIO, pricesPath: string, scenarioPath: string, fxPath?: string): SolveInputs {
   const scenarioFile = readInputFile(io.cwd, scenarioPath);
   const parsed = parseScenarioText(scenarioFile.text);
   if (!parsed.ok) {
@@ -38,7 +40,10 @@ export function readSolveFiles(io: CliIO, pricesPath: string, scenarioPath: stri
     if (error instanceof InputError) throw error.inFile(pricesFile.path);
     throw error;
   }
-  return { scenario: parsed.scenario, prices, pricesName: pricesFile.path, scenarioName: scenarioFile.path };
+  const names = { pricesName: pricesFile.path, scenarioName: scenarioFile.path };
+  if (fxPath === undefined) return { scenario: parsed.scenario, prices, ...names };
+  const rated = withExchangeRates(io.cwd, prices, parsed.scenario, fxPath);
+  return { scenario: parsed.scenario, prices: rated.prices, fx: rated.fx, ...names };
 }
 
 /** Runs the scenario; errors in the returns stage name the price file's line and column. */
@@ -46,6 +51,7 @@ export function solveInputs(inputs: SolveInputs, signal?: AbortSignal): Scenario
   try {
     return runScenario(inputs.scenario, inputs.prices, {
       locate: inputs.fromStore ? undefined : wideCsvLocator(inputs.prices),
+      ...(inputs.fx ? { fx: inputs.fx } : {}),
       shouldCancel: signal ? () => signal.aborted : undefined,
     });
   } catch (error) {
@@ -143,6 +149,7 @@ export const solveCommand: Command = {
       required: true,
       description: 'holdfast-scenario@1 document, or a saved scenario name (store form)',
     },
+    fxOption,
     { name: 'json', kind: 'boolean', description: 'print one JSON object instead of a table' },
   ],
   details: [
@@ -159,10 +166,12 @@ export const solveCommand: Command = {
       (options.store !== undefined) === (options.prices !== undefined)
     )
       throw new UsageError("'solve' needs --prices FILE.csv, or --store FILE with --household NAME");
+    if (options.fx !== undefined && options.store !== undefined)
+      throw new UsageError('--fx is for the file form: the store form reads the stored exchange rates');
     const inputs =
       options.store !== undefined
         ? readSolveStore(io.cwd, options.store as string, options.household as string, options.scenario as string)
-        : readSolveFiles(io, options.prices as string, options.scenario as string);
+        : readSolveFiles(io, options.prices as string, options.scenario as string, options.fx as string | undefined);
     return runSolve(inputs, options, io);
   },
 };

@@ -20,6 +20,8 @@ type State =
 export const WalkForwardSection = memo(function WalkForwardSection(props: {
   scenario: Scenario | null;
   prices: PriceTable | undefined;
+  /** Exchange rates into the base currency for assets priced in another currency. */
+  fx?: PriceTable;
   colourIndex: (id: string) => number;
 }) {
   const [state, setState] = useState<State>({ kind: 'idle' });
@@ -28,7 +30,7 @@ export const WalkForwardSection = memo(function WalkForwardSection(props: {
   const nextId = useRef(1);
   useEffect(() => () => worker.current?.terminate(), []);
   const start = () => {
-    const { scenario, prices } = props;
+    const { scenario, prices, fx } = props;
     if (!scenario || !prices) return;
     worker.current?.terminate();
     const w = new Worker(new URL('../../worker/backtest.worker.ts', import.meta.url), {
@@ -55,7 +57,7 @@ export const WalkForwardSection = memo(function WalkForwardSection(props: {
       }
     };
     w.onerror = (e) => setState({ kind: 'failed', message: `the walk-forward worker stopped: ${e.message}` });
-    w.postMessage({ type: 'run', requestId, scenario, prices } satisfies ToBacktest);
+    w.postMessage({ type: 'run', requestId, scenario, prices, ...(fx ? { fx } : {}) } satisfies ToBacktest);
   };
   const cancel = () => {
     worker.current?.terminate();

@@ -1,4 +1,4 @@
-import { ServiceFailure } from '../../shared-core/contract/define.js';
+import { InputError } from '../../shared-core/errors.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import type { Store } from '../store/store.js';
 
@@ -6,8 +6,10 @@ import type { Store } from '../store/store.js';
  * The exchange rates a run needs to bring prices into the base currency: one column per
  * currency (named by its ISO code), units of the base per one unit of it, from the stored
  * exchange-rate series (an inverse series inverted). Undefined when every price is in the base.
+ * Shared by the service and the command line's store forms; a missing series is an InputError
+ * (the service answers it as a bad request, the command line exits 2).
  */
-export function fxTableFor(
+export function storedExchangeRates(
   store: Store,
   base: string,
   currencies: readonly (string | null | undefined)[],
@@ -18,8 +20,7 @@ export function fxTableFor(
     const direct = store.fxAsset(ccy, base);
     const inverse = direct ? undefined : store.fxAsset(base, ccy);
     if (!direct && !inverse)
-      throw new ServiceFailure(
-        'bad-request',
+      throw new InputError(
         `assets are priced in ${ccy} but the store has no ${ccy}/${base} exchange-rate series; import one first`,
       );
     return { ccy, id: (direct ?? inverse)!.id, invert: !direct };
