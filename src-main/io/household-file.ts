@@ -106,6 +106,18 @@ export function exportHousehold(store: Store, name: string, now = new Date()): s
   );
   for (const list of revisions.values())
     for (const r of list) for (const a of r.document.assets ?? []) if (store.getAsset(a)) used.add(a);
+  // The exchange-rate series that bring these assets and holdings into the base currency travel
+  // with them, or the other installation could not value or estimate them.
+  const currencies = new Set<string>(store.holdings(h.id).map((x) => x.currency));
+  for (const a of used) {
+    const c = store.getAsset(a)?.currency;
+    if (c) currencies.add(c);
+  }
+  for (const c of currencies) {
+    if (c === h.baseCurrency) continue;
+    const rate = store.fxAsset(c, h.baseCurrency) ?? store.fxAsset(h.baseCurrency, c);
+    if (rate) used.add(rate.id);
+  }
   const ids = [...used].sort();
   const series = store.priceSeriesMany(ids);
   const body: Omit<HouseholdFile, 'checksum'> = {

@@ -3,6 +3,7 @@ import { demoCommand } from './demo.js';
 import { estimateCommand } from './estimate.js';
 import { backupCommand } from './backup.js';
 import { importCommand } from './import.js';
+import { exportHouseholdCommand, importHouseholdCommand } from './household-transfer.js';
 import { memoCommand } from './memo.js';
 import { restoreCommand } from './restore.js';
 import { serveCommand } from './serve.js';
@@ -18,6 +19,8 @@ export const commands: readonly Command[] = [
   importCommand,
   backupCommand,
   restoreCommand,
+  exportHouseholdCommand,
+  importHouseholdCommand,
   serveCommand,
   estimateCommand,
   memoCommand,
