@@ -6,6 +6,8 @@ import { z } from 'zod';
  */
 export const DIALOG_CHANNELS = { open: 'holdfast-dialog:open', save: 'holdfast-dialog:save' } as const;
 export const MENU_CHANNEL = 'holdfast-menu';
+/** Opens a printed memo in the system's PDF viewer (shell/memo-viewer.ts). */
+export const MEMO_VIEWER_CHANNEL = 'holdfast-memo:open';
 
 const filter = z.strictObject({
   name: z.string().min(1).max(80),

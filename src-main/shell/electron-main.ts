@@ -1,4 +1,4 @@
-import { app, BrowserWindow, dialog, ipcMain, Menu, protocol, screen, session } from 'electron';
+import { app, BrowserWindow, dialog, ipcMain, Menu, protocol, screen, session, shell } from 'electron';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -10,7 +10,8 @@ import { setNativeBinding } from '../store/native-binding.js';
 import { openStore, type Store } from '../store/store.js';
 import { menuTemplate } from './app-menu.js';
 import { APP_ENTRY, APP_SCHEME, appResponse, isAppUrl } from './app-protocol.js';
-import { checkDialogRequest, DIALOG_CHANNELS, MENU_CHANNEL } from './dialog-channels.js';
+import { checkDialogRequest, DIALOG_CHANNELS, MEMO_VIEWER_CHANNEL, MENU_CHANNEL } from './dialog-channels.js';
+import { openMemoInViewer } from './memo-viewer.js';
 import { ipcHandlers } from './ipc-table.js';
 import { electronBindingRelative, unpackedPath } from './native-binding-path.js';
 import { decideDeviceAccess, decidePermission } from './permission-handler.js';
@@ -91,6 +92,11 @@ async function start(): Promise<void> {
         filters: checked.value.filters,
       });
       return { ok: true, path: answer.canceled ? null : (answer.filePath ?? null) };
+    });
+
+    ipcMain.handle(MEMO_VIEWER_CHANNEL, async (event, payload) => {
+      if (!isAppUrl(event.senderFrame?.url)) return { ok: false, error: { code: 'bad-request', message: 'refused' } };
+      return openMemoInViewer(service!, payload, join(userData, 'memos'), (path) => shell.openPath(path));
     });
 
     Menu.setApplicationMenu(

@@ -1,12 +1,13 @@
 import type { IpcRoute } from './ipc-table.js';
-import { MENU_CHANNEL, DIALOG_CHANNELS } from './dialog-channels.js';
+import { MEMO_VIEWER_CHANNEL, MENU_CHANNEL, DIALOG_CHANNELS } from './dialog-channels.js';
 
 /**
  * The preload script's source, generated from the IPC routes so the channel list is declared
  * once (the service API table). A sandboxed preload may require only `electron`, so the routes
  * are written into the script rather than imported. It exposes one object, `window.holdfast`:
  * `call(method, request)` sends to that method's own channel (an unknown name never reaches
- * IPC), the two native dialogs, and a listener for menu commands. Nothing else of Node or
+ * IPC), the two native dialogs, opening a printed memo in the system's PDF viewer, and a listener
+ * for menu commands. Nothing else of Node or
  * Electron reaches the page.
  */
 export function preloadSource(routes: readonly IpcRoute[]): string {
@@ -27,6 +28,9 @@ contextBridge.exposeInMainWorld('holdfast', Object.freeze({
   },
   chooseFileToSave(options) {
     return ipcRenderer.invoke(dialogs.save, options);
+  },
+  openMemo(memoId) {
+    return ipcRenderer.invoke(${JSON.stringify(MEMO_VIEWER_CHANNEL)}, { memoId: String(memoId) });
   },
   onMenu(listener) {
     if (typeof listener !== 'function') return () => {};

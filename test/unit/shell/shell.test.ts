@@ -9,7 +9,12 @@ import type { ImplementationOf, ServiceReply } from '../../../shared-core/contra
 import { serviceApi, type ServiceApiTable } from '../../../shared-core/contract/service-api.js';
 import { menuTemplate } from '../../../src-main/shell/app-menu.js';
 import { APP_ENTRY, appFileOf, appResponse, isAppUrl } from '../../../src-main/shell/app-protocol.js';
-import { checkDialogRequest, DIALOG_CHANNELS, MENU_CHANNEL } from '../../../src-main/shell/dialog-channels.js';
+import {
+  checkDialogRequest,
+  DIALOG_CHANNELS,
+  MEMO_VIEWER_CHANNEL,
+  MENU_CHANNEL,
+} from '../../../src-main/shell/dialog-channels.js';
 import { channelOf, ipcHandlers, ipcRoutes } from '../../../src-main/shell/ipc-table.js';
 import { electronBindingRelative, unpackedPath } from '../../../src-main/shell/native-binding-path.js';
 import { decideDeviceAccess, decidePermission } from '../../../src-main/shell/permission-handler.js';
@@ -220,7 +225,7 @@ describe('shell: the preload exposes the one service API and nothing else', () =
     expect(required).toEqual(['electron']);
     expect(Object.keys(exposed)).toEqual(['holdfast']);
     const api = exposed.holdfast as Record<string, (...a: unknown[]) => Promise<ServiceReply>>;
-    expect(Object.keys(api).sort()).toEqual(['call', 'chooseFileToOpen', 'chooseFileToSave', 'onMenu']);
+    expect(Object.keys(api).sort()).toEqual(['call', 'chooseFileToOpen', 'chooseFileToSave', 'onMenu', 'openMemo']);
     await api.call('households.list', {});
     expect(invoked).toEqual([['holdfast:households.list', {}]]);
     const refused = await api.call('__proto__', {});
@@ -230,11 +235,14 @@ describe('shell: the preload exposes the one service API and nothing else', () =
     expect(invoked).toHaveLength(1);
     await api.chooseFileToOpen({});
     expect(invoked[1][0]).toBe(DIALOG_CHANNELS.open);
+    await api.openMemo('7');
+    expect(invoked[2]).toEqual([MEMO_VIEWER_CHANNEL, { memoId: '7' }]);
   });
 
   it('the menu channel and the dialog channels are not service channels', () => {
     const channels = ipcRoutes(serviceApi).map((r) => r.channel);
-    for (const c of [MENU_CHANNEL, DIALOG_CHANNELS.open, DIALOG_CHANNELS.save]) expect(channels).not.toContain(c);
+    for (const c of [MENU_CHANNEL, MEMO_VIEWER_CHANNEL, DIALOG_CHANNELS.open, DIALOG_CHANNELS.save])
+      expect(channels).not.toContain(c);
   });
 
   it('dialog requests are validated: a path where a file name belongs is refused, naming the field', () => {
