@@ -3,6 +3,8 @@ import { throwIfCancelled, type CancelCheck } from '../stability/cancel.js';
 import { quantile } from '../stability/quantile.js';
 import { seededRng } from '../stability/rng.js';
 import { perPeriodRate } from './metrics.js';
+import { normalCdf } from './normal.js';
+import { SHARPE_HAC_METHOD, sharpeHacTest } from './sharpe-hac.js';
 
 /**
  * Is the difference between two candidates more than noise? Both return series must cover the
@@ -12,8 +14,10 @@ import { perPeriodRate } from './metrics.js';
  * percentile interval for the difference in annualised Sharpe ratio and in volatility. (Ledoit
  * and Wolf 2008, J. Empirical Finance 15, studentise the statistic inside a block bootstrap; the
  * plain percentile interval here is the simpler, unstudentised variant and is named as such.)
- * A second, i.i.d.-normal measure is the delta-method test of Jobson and Korkie (1981, J.
- * Finance 36) with the correction of Memmel (2003, Finance Letters 1).
+ * Two delta-method tests of the Sharpe difference sit beside it: the HAC test of Ledoit and Wolf
+ * (2008), valid under heavy tails and volatility clustering (sharpe-hac.ts), and the i.i.d.-normal
+ * test of Jobson and Korkie (1981, J. Finance 36) with the correction of Memmel (2003, Finance
+ * Letters 1).
  */
 export interface DifferenceInterval {
   /** Estimate on the observed series: a minus b. */
@@ -36,6 +40,11 @@ export interface CandidateComparison {
   volatility: DifferenceInterval;
   /** Jobson-Korkie-Memmel z statistic for the Sharpe difference and its two-sided p-value. */
   iidTest: { z: number; pValue: number };
+  /**
+   * The HAC test of Ledoit and Wolf (2008) for the Sharpe difference, robust to heavy tails and
+   * volatility clustering; null where its moment conditions are collinear.
+   */
+  hacTest: { method: string; z: number; pValue: number; bandwidth: number } | null;
 }
 
 export interface CompareOptions {
@@ -80,15 +89,6 @@ function interval(observed: number, draws: Float64Array, level: number): Differe
   }
   const pValue = Math.min(1, (2 * Math.min(below, above)) / draws.length);
   return { difference: observed, lower: quantile(draws, alpha), upper: quantile(draws, 1 - alpha), pValue };
-}
-
-/** Standard normal CDF (Abramowitz and Stegun 1964, formula 7.1.26 for erf; error below 1.5e-7). */
-export function normalCdf(x: number): number {
-  const z = Math.abs(x) / Math.SQRT2;
-  const t = 1 / (1 + 0.3275911 * z);
-  const poly = t * (0.254829592 + t * (-0.284496736 + t * (1.421413741 + t * (-1.453152027 + t * 1.061405429))));
-  const erf = 1 - poly * Math.exp(-z * z);
-  return x >= 0 ? 0.5 * (1 + erf) : 0.5 * (1 - erf);
 }
 
 /**
@@ -166,5 +166,19 @@ export function compareCandidates(
     sharpeRatio: interval(ma.sharpe - mb.sharpe, dSharpe, level),
     volatility: interval(ma.vol - mb.vol, dVol, level),
     iidTest: jobsonKorkieMemmel(a.returns, b.returns, rf),
+    hacTest: hacOrNull(a.returns, b.returns, rf),
   };
 }
+
+function hacOrNull(a: ArrayLike<number>, b: ArrayLike<number>, rf: number): CandidateComparison['hacTest'] {
+  if (a.length < 10) return null;
+  try {
+    const t = sharpeHacTest(a, b, rf);
+    return { method: SHARPE_HAC_METHOD, z: t.z, pValue: t.pValue, bandwidth: t.bandwidth };
+  } catch (error) {
+    if (error instanceof RangeError) return null;
+    throw error;
+  }
+}
+
+export { normalCdf };

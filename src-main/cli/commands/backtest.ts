@@ -170,17 +170,19 @@ function report(run: BacktestRun): string {
     );
     lines.push(
       ...table(
-        ['candidate', 'Sharpe diff', 'interval', 'p', 'vol diff', 'interval'],
+        ['candidate', 'Sharpe diff', 'interval', 'p', 'p (HAC)', 'vol diff', 'interval'],
         run.comparisons.map((c) => [
           c.a,
           num(c.sharpeRatio.difference),
           `${num(c.sharpeRatio.lower)}..${num(c.sharpeRatio.upper)}`,
           num(c.sharpeRatio.pValue, 3),
+          c.hacTest ? num(c.hacTest.pValue, 3) : '-',
           pct(c.volatility.difference, 2),
           `${pct(c.volatility.lower, 2)}..${pct(c.volatility.upper, 2)}`,
         ]),
       ),
     );
+    lines.push(`p (HAC): ${run.comparisons.find((c) => c.hacTest)?.hacTest?.method ?? 'not available'}.`);
   }
   const ids = run.candidates.filter((c) => c.today.status === 'optimal').map((c) => c.id);
   if (run.stress.historical.length || run.stress.shocks.length) {

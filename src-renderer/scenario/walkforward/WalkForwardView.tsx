@@ -271,6 +271,19 @@ function MetricsTable({ run, caption, testId }: { run: BacktestRun; caption: str
           })}
         </tr>
         <tr>
+          <th scope="row" title={run.comparisons.find((k) => k.hacTest)?.hacTest?.method}>
+            Same Sharpe ratio as the reference? p-value robust to volatility clustering (Ledoit-Wolf)
+          </th>
+          {run.candidates.map((c) => {
+            const hac = against.get(c.id)?.hacTest;
+            return (
+              <td key={c.id} className="num" data-hac-p={hac ? hac.pValue : undefined}>
+                {hac ? hac.pValue.toFixed(3) : '\u2013'}
+              </td>
+            );
+          })}
+        </tr>
+        <tr>
           <th scope="row">Volatility minus the reference’s [95% interval]</th>
           {run.candidates.map((c) => {
             const k = against.get(c.id);
