@@ -4,8 +4,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { inBaseCurrency } from '../../../shared-core/returns/exchange-rate.js';
 import { seededRng } from '../../../shared-core/stability/rng.js';
-import type { CliIO } from '../../../src-main/cli/command.js';
-import { runCli } from '../../../src-main/cli/run-cli.js';
+import { holdfast } from '../../integration/import/cli-io.js';
 import { gaussian } from '../optimise/random-problems.js';
 
 /**
@@ -72,18 +71,7 @@ const scenario = {
 };
 const scenarioPath = write('scenario.json', JSON.stringify(scenario));
 
-async function run(argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const io: CliIO = {
-    stdout: (t) => (stdout += t),
-    stderr: (t) => (stderr += t),
-    cwd: dir,
-    env: {},
-    signal: new AbortController().signal,
-  };
-  return { code: await runCli(argv, io), stdout, stderr };
-}
+const run = (argv: string[]) => holdfast(dir, ...argv);
 
 function close(a: Record<string, number>, b: Record<string, number>, tol: number): void {
   for (const k of Object.keys(b)) expect(Math.abs(a[k] - b[k])).toBeLessThan(tol);
