@@ -11,6 +11,11 @@ import { serviceApi, type ServiceApiTable } from '../shared-core/contract/servic
 
 export interface HoldfastPreload {
   call(method: string, request: unknown): Promise<ServiceReply>;
+  /**
+   * The desktop window's menu commands (see src-renderer/app/menu.ts); returns the function that
+   * unsubscribes. Absent in a browser on the local web host.
+   */
+  onMenu?(listener: (action: string) => void): () => void;
 }
 
 declare global {

@@ -8,6 +8,7 @@ import { LibraryPage } from '../library/LibraryPage.js';
 import { ScenarioPage } from '../scenario/ScenarioPage.js';
 import { SettingsPage } from '../settings/SettingsPage.js';
 import { Cautions } from './Cautions.js';
+import { askForNewScenario, useMenuCommands, useMenuConnection } from './menu.js';
 import { ErrorNote } from './notes.js';
 import { href, navigate, type Route } from './route.js';
 import { Trail } from './Trail.js';
@@ -28,6 +29,17 @@ export function App() {
   const route = useRoute();
   const info = useLoad(() => api['app.info']({}), []);
   const opened = useRef(false);
+
+  // The desktop window's menu: pages answer what belongs to them, the app the rest.
+  useMenuConnection();
+  useMenuCommands({
+    'import-prices': () => navigate({ page: 'import' }),
+    'new-scenario': () => {
+      const householdId = 'householdId' in route ? route.householdId : null;
+      if (householdId) askForNewScenario(householdId);
+      navigate(householdId ? { page: 'household', householdId } : { page: 'households' });
+    },
+  });
 
   // A store that names a first page (the demo: its household's scenario) opens there once.
   useEffect(() => {

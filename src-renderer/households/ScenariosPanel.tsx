@@ -1,7 +1,8 @@
-import { useId, useState, type FormEvent } from 'react';
+import { useEffect, useId, useRef, useState, type FormEvent } from 'react';
 import type { HouseholdSummary, ScenarioSummary } from '../../shared-core/contract/service-api.js';
 import { api } from '../bridge.js';
 import { formatInstant } from '../app/format-time.js';
+import { takeNewScenarioRequest, useMenuCommands } from '../app/menu.js';
 import { ErrorNote, errorText, Loading } from '../app/notes.js';
 import { href, navigate } from '../app/route.js';
 import { useLoad } from '../app/use-load.js';
@@ -11,9 +12,20 @@ import { shareOutsideUniverse, starterScenario } from './starter-scenario.js';
 /** A household's scenarios, each with its revision history; a new one starts from a universe. */
 export function ScenariosPanel({ household }: { household: HouseholdSummary }) {
   const scenarios = useLoad(() => api['scenarios.list']({ householdId: household.id }), [household.id]);
+  // The menu's "New scenario" opens the form here, also when it was chosen on another page.
   const [creating, setCreating] = useState(false);
+  const panel = useRef<HTMLElement>(null);
+  useMenuCommands({ 'new-scenario': () => setCreating(true) });
+  useEffect(() => {
+    if (takeNewScenarioRequest(household.id)) setCreating(true);
+  }, [household.id]);
+  useEffect(() => {
+    if (!creating) return;
+    panel.current?.scrollIntoView({ block: 'start' });
+    panel.current?.querySelector<HTMLInputElement>('form input')?.focus({ preventScroll: true });
+  }, [creating]);
   return (
-    <section className="section" aria-labelledby="scenarios-head">
+    <section className="section" aria-labelledby="scenarios-head" ref={panel}>
       <div className="section-head">
         <h2 id="scenarios-head">Scenarios</h2>
         {!creating ? (

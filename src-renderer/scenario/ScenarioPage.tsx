@@ -9,6 +9,7 @@ import type {
 import { priceTableFromWire } from '../../shared-core/contract/service-api.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import type { Scenario, ScenarioInput } from '../../shared-core/scenario/schema.js';
+import { menu, useMenuCommands } from '../app/menu.js';
 import { errorText } from '../app/notes.js';
 import { api } from '../bridge.js';
 import type { Comparison } from '../worker/comparison.js';
@@ -19,6 +20,7 @@ import { EditorEpoch } from './brief/fields.js';
 import { setField, editorStateFor, type EditorState } from './editor-state.js';
 import { formatDuration } from './format.js';
 import { applyEdit, canRedo, canUndo, createHistory, redo, undo, type History } from './history.js';
+import { MemoSection } from './memo/MemoSection.js';
 import { ReasonsSection } from './reasons/ReasonsSection.js';
 import { BesidePanel, RevisionBar } from './revisions/RevisionBar.js';
 import { fxSources, fxTable } from './fx-table.js';
@@ -279,6 +281,8 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   useEffect(() => {
     if (doc === savedDoc.current) return;
     const timer = setTimeout(() => {
+      // Saved as a revision since this edit: a draft now would stand for changes there are not.
+      if (doc === savedDoc.current) return;
       setDraft((d) => ({ ...d, saving: true }));
       api['scenarios.saveDraft']({ scenarioId, document: doc }).then(
         (r) => {
@@ -311,16 +315,19 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
       const mod = e.ctrlKey || e.metaKey;
+      // In the desktop window the menu sends the same commands for these keys; menu.fromKeyboard
+      // keeps one key press from acting twice.
       if (mod && !e.altKey && e.key.toLowerCase() === 'z') {
         e.preventDefault();
-        if (e.shiftKey) doRedo();
-        else doUndo();
+        if (e.shiftKey) {
+          if (menu.fromKeyboard('redo')) doRedo();
+        } else if (menu.fromKeyboard('undo')) doUndo();
       } else if (mod && e.key.toLowerCase() === 'y') {
         e.preventDefault();
-        doRedo();
+        if (menu.fromKeyboard('redo')) doRedo();
       } else if (mod && e.key.toLowerCase() === 's') {
         e.preventDefault();
-        saveButton.current?.click();
+        if (menu.fromKeyboard('save-revision')) saveButton.current?.click();
       } else if (e.key === 'Escape' && recompute.state.busy) {
         recompute.cancel();
       }
@@ -328,6 +335,9 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
     window.addEventListener('keydown', onKey);
     return () => window.removeEventListener('keydown', onKey);
   }, [doUndo, doRedo, recompute]);
+  // The desktop window's menu (the memo part answers its own "print memo").
+  const openSave = useCallback(() => saveButton.current?.click(), []);
+  useMenuCommands({ undo: doUndo, redo: doRedo, 'save-revision': openSave });
 
   const [focus, setFocus] = useState<string | undefined>(undefined);
   const stateRef = useRef(state);
@@ -449,6 +459,13 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
               </ReasonsSection>
             </>
           ) : null}
+          <MemoSection
+            scenarioId={scenarioId}
+            householdName={boot.household.name}
+            revisions={revisions}
+            unsaved={draft.saving || draft.savedAt !== undefined || doc !== savedDoc.current}
+            onSaveFirst={openSave}
+          />
         </div>
         {beside !== null ? (
           <BesidePanel
