@@ -244,6 +244,15 @@ describeInBrowser('memo section of the scenario page in Chromium', () => {
       .toBe(true);
     expect(await desk.getByLabel('Date on the memo').evaluate((el) => el === document.activeElement)).toBe(true);
 
+    // "New scenario" on a scenario page opens its household's form for one, focus in the name.
+    const householdId = (await app.served.service['households.list']({}))[0].id;
+    await send('new-scenario');
+    await expect.poll(() => new URL(desk.url()).hash).toBe(`#/households/${householdId}`);
+    await desk.getByRole('form', { name: 'New scenario' }).waitFor({ timeout: 10_000 });
+    await expect
+      .poll(() => desk.evaluate(() => (document.activeElement as HTMLElement | null)?.id))
+      .toBe(await desk.getByLabel('Scenario name').getAttribute('id'));
+
     await send('import-prices');
     await expect.poll(() => new URL(desk.url()).hash).toBe('#/library/import');
     await send('not-a-command');
