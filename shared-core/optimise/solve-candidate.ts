@@ -18,6 +18,7 @@ import type { ObjectiveSpec } from '../scenario/objective-spec.js';
 import type { AssetInfo, Constraints } from '../scenario/schema.js';
 import { nowMs } from './clock.js';
 import { ercOverCone, ercUnconstrained } from './erc.js';
+import { solveWithMinimumPosition } from './minimum-position.js';
 import { explainAssets, explainBinding, type AssetFigures, type ObjectiveScale } from './explain.js';
 import {
   directForm,
@@ -136,6 +137,11 @@ function screenPlan(m: LinearMandate, score: Float64Array) {
 }
 
 export function solveCandidateDetailed(p: CandidateProblem): CandidateSolve {
+  const size = p.constraints.minPosition;
+  return size !== undefined ? solveWithMinimumPosition(p, size, solveOnce) : solveOnce(p);
+}
+
+function solveOnce(p: CandidateProblem): CandidateSolve {
   const t0 = nowMs();
   const n = p.assets.length;
   const head = { id: p.id, ...(p.label !== undefined ? { label: p.label } : {}) };

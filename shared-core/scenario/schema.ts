@@ -40,6 +40,8 @@ export const constraintsSchema = z.strictObject({
   maxGrossExposure: z.number().min(1).optional(),
   /** Cap on the total weight of assets whose liquidity is `illiquid`. */
   illiquidMax: z.number().min(0).max(1).optional(),
+  /** Each weight either 0 or at least this (long-only; a heuristic, optimise/minimum-position.ts). */
+  minPosition: z.number().gt(0).lt(1).optional(),
 });
 export type Constraints = z.infer<typeof constraintsSchema>;
 

@@ -112,6 +112,10 @@ export function constraintSentences(
     out.push(`Gross exposure (sum of absolute weights) at most ${formatPct(constraints.maxGrossExposure)}.`);
   if (constraints.illiquidMax !== undefined)
     out.push(`Assets tagged illiquid at most ${formatPct(constraints.illiquidMax)} in total.`);
+  if (constraints.minPosition !== undefined)
+    out.push(
+      `Each position either 0 or at least ${formatPct(constraints.minPosition)}, found by a heuristic (the smallest position below it is left out and the candidate solved again), not a proven optimum.`,
+    );
   return out;
 }
 

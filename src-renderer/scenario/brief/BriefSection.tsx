@@ -520,11 +520,23 @@ function LimitsFields(props: BriefProps & { set: (path: (string | number)[], val
           onTyping={onTyping}
           onChange={(v) => set(['constraints', 'illiquidMax'], v)}
         />
+        <PercentField
+          label="Minimum position size (each weight 0 or at least this)"
+          path="constraints.minPosition"
+          value={c.minPosition}
+          placeholder="none"
+          disabled={!longOnly && c.minPosition === undefined}
+          hint={longOnly ? 'found by a heuristic, not a proven optimum' : 'applies to long-only mandates'}
+          messages={at('constraints.minPosition')}
+          onTyping={onTyping}
+          onChange={(v) => set(['constraints', 'minPosition'], v)}
+        />
       </div>
       <FieldNote
         id="limits-note"
         messages={at('constraints').filter(
-          (m) => !/^constraints\.(weightBounds|maxTurnover|maxGrossExposure|illiquidMax|groups)/.test(m.path),
+          (m) =>
+            !/^constraints\.(weightBounds|maxTurnover|maxGrossExposure|illiquidMax|minPosition|groups)/.test(m.path),
         )}
       />
     </fieldset>
