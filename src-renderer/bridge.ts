@@ -16,6 +16,13 @@ export interface HoldfastPreload {
    * unsubscribes. Absent in a browser on the local web host.
    */
   onMenu?(listener: (action: string) => void): () => void;
+  /**
+   * The desktop window only: opens a printed memo in the system's own PDF viewer, from which it
+   * can be printed (src-main/shell/memo-viewer.ts).
+   */
+  openMemo?(
+    memoId: string,
+  ): Promise<{ ok: true; path: string } | { ok: false; error: { code: string; message: string } }>;
 }
 
 declare global {

@@ -455,7 +455,12 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
                 colourIndex={colourIndex}
                 locale={locale}
               >
-                <WalkForwardSection scenario={good.scenario} prices={pricesNow} colourIndex={colourIndex} />
+                <WalkForwardSection
+                  scenario={good.scenario}
+                  prices={pricesNow}
+                  fx={prices?.fx}
+                  colourIndex={colourIndex}
+                />
               </ReasonsSection>
             </>
           ) : null}

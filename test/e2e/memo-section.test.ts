@@ -208,6 +208,10 @@ describeInBrowser('memo section of the scenario page in Chromium', () => {
           listeners.push(listener);
           return () => listeners.splice(listeners.indexOf(listener), 1);
         },
+        async openMemo(memoId: string) {
+          ((window as unknown as { opened: string[] }).opened ??= []).push(memoId);
+          return { ok: true, path: `/invented/holdfast-memo-${memoId}.pdf` };
+        },
       };
     });
     const send = (action: string) =>
@@ -243,6 +247,15 @@ describeInBrowser('memo section of the scenario page in Chromium', () => {
       .poll(() => desk.evaluate(() => document.activeElement?.closest('[data-testid=memo-section]') !== null))
       .toBe(true);
     expect(await desk.getByLabel('Date on the memo').evaluate((el) => el === document.activeElement)).toBe(true);
+
+    // In the desktop window a printed memo also opens in the system's PDF viewer, to read or print.
+    const row = desk.locator('[data-testid=memo-list] tr[data-memo-id]').first();
+    const memoId = await row.getAttribute('data-memo-id');
+    await row.getByRole('button', { name: /in the PDF viewer/ }).click();
+    await expect
+      .poll(() => row.getByRole('status').textContent())
+      .toBe(`Opened in the PDF viewer from /invented/holdfast-memo-${memoId}.pdf.`);
+    expect(await desk.evaluate(() => (window as unknown as { opened: string[] }).opened)).toEqual([memoId]);
 
     // "New scenario" on a scenario page opens its household's form for one, focus in the name.
     const householdId = (await app.served.service['households.list']({}))[0].id;

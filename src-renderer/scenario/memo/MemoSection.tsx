@@ -350,7 +350,7 @@ function MemoList(props: {
 }) {
   const [opening, setOpening] = useState<string | null>(null);
   const [failure, setFailure] = useState<{ memoId: string; error: unknown } | null>(null);
-  const [saved, setSaved] = useState<{ memoId: string; fileName: string } | null>(null);
+  const [saved, setSaved] = useState<{ memoId: string; text: string } | null>(null);
   const urls = useRef(new Set<string>());
   useEffect(() => {
     const live = urls.current;
@@ -388,7 +388,25 @@ function MemoList(props: {
         URL.revokeObjectURL(url);
         urls.current.delete(url);
       }, 30_000);
-      setSaved({ memoId: item.id, fileName });
+      setSaved({ memoId: item.id, text: `Offered as ${fileName}.` });
+    } catch (error) {
+      setFailure({ memoId: item.id, error });
+    } finally {
+      setOpening(null);
+    }
+  };
+
+  // In the desktop window the memo opens in the system's PDF viewer, which also prints it.
+  const viewer = window.holdfast?.openMemo;
+  const openInViewer = async (item: MemoSummary) => {
+    if (!viewer) return;
+    setOpening(item.id);
+    setFailure(null);
+    setSaved(null);
+    try {
+      const answer = await viewer(item.id);
+      if (answer.ok) setSaved({ memoId: item.id, text: `Opened in the PDF viewer from ${answer.path}.` });
+      else setFailure({ memoId: item.id, error: new Error(answer.error.message) });
     } catch (error) {
       setFailure({ memoId: item.id, error });
     } finally {
@@ -456,6 +474,17 @@ function MemoList(props: {
                     >
                       {opening === m.id ? 'Fetching…' : 'Download PDF'}
                     </button>
+                    {viewer ? (
+                      <button
+                        type="button"
+                        className="quiet"
+                        disabled={opening !== null}
+                        onClick={() => void openInViewer(m)}
+                        aria-label={`Open the memo printed ${formatInstant(m.printedAt)} in the PDF viewer to read or print it`}
+                      >
+                        Open to print
+                      </button>
+                    ) : null}
                     {failure?.memoId === m.id ? (
                       <div className="reason" role="alert">
                         Not downloaded: {errorText(failure.error)}
@@ -463,7 +492,7 @@ function MemoList(props: {
                     ) : null}
                     {saved?.memoId === m.id ? (
                       <div className="hint" role="status">
-                        Offered as {saved.fileName}.
+                        {saved.text}
                       </div>
                     ) : null}
                   </td>
