@@ -158,10 +158,12 @@ async function backtestSections(
   options: OptionValues,
   recommended: string,
   signal: AbortSignal,
+  fx: PriceTable | undefined,
 ): Promise<{ sections: ReturnType<typeof memoSectionsFromBacktest>; warnings: string[] } | undefined> {
   if (!options.backtest) return undefined;
   const run = await runBacktest(scenario, prices, {
     estimateAndSolve,
+    ...(fx ? { fx } : {}),
     shouldCancel: () => signal.aborted,
     pause: () => new Promise((done) => setImmediate(done)),
     ...(options.stability ? { stabilityDraws: DEFAULT_DRAWS } : {}),
@@ -229,7 +231,7 @@ async function fromFiles(
   const recommended = chooseRecommended(scenario, run.candidates);
   let bt;
   try {
-    bt = await backtestSections(scenario, prices, options, recommended, signal);
+    bt = await backtestSections(scenario, prices, options, recommended, signal, fx);
   } catch (error) {
     if (error instanceof InputError && error.location.file === undefined)
       throw error.inFile(error.location.line !== undefined ? pricesFile.path : scenarioFile.path);
@@ -303,7 +305,7 @@ async function fromStore(
     const fx = storedExchangeRates(store, household.baseCurrency, inputs.prices.currencies ?? []);
     const run = runScenario(inputs.scenario, inputs.prices, fx ? { fx } : {});
     const recommended = chooseRecommended(inputs.scenario, run.candidates);
-    const bt = await backtestSections(inputs.scenario, inputs.prices, options, recommended, signal);
+    const bt = await backtestSections(inputs.scenario, inputs.prices, options, recommended, signal, fx);
     const assets = inputs.scenario.assets ?? inputs.prices.assets;
     const input = buildMemoInput({
       scenario: inputs.scenario,

@@ -134,8 +134,11 @@ describe('holdfast memo on the invented demo household (holdfast demo files)', (
     expect(text).toContain(`6 ${SECTION_TITLES.walkForward}`);
     const parsed = parseScenarioText(JSON.stringify(doc));
     if (!parsed.ok) throw new Error('scenario does not parse');
-    const table = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-prices.csv'), 'utf8'));
-    const run = await runBacktest(parsed.scenario, table, { estimateAndSolve });
+    // As the memo reads them: each asset in its own currency, converted with the --fx rates.
+    const local = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-prices.csv'), 'utf8'));
+    const table = { ...local, currencies: local.assets.map((a) => parsed.scenario.assetInfo?.[a]?.currency) };
+    const fx = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-fx.csv'), 'utf8'));
+    const run = await runBacktest(parsed.scenario, table, { estimateAndSolve, fx });
     const lines = text.slice(text.indexOf(SECTION_TITLES.walkForward)).split('\n');
     for (const c of run.candidates) {
       const label = parsed.scenario.candidates.find((x) => x.id === c.id)!.label!;
