@@ -108,15 +108,59 @@ export function prewhitenedQsCovariance(u: Float64Array, T: number): { psi: Floa
   weights.forEach((w, j) => {
     if (Math.abs(w) > WEIGHT_TOLERANCE) last = j;
   });
-  // Kernel sum as sandwich's meatHAC: half the lag-0 term plus the weighted lags, then its transpose.
+  // Kernel sum as sandwich's meatHAC: half the lag-0 term plus the weighted lags, then its
+  // transpose. The 16 cross-products of a lag are summed at once over the four columns.
+  const cols = [0, 1, 2, 3].map((c) => Float64Array.from({ length: n }, (_, t) => e[t * K + c]));
+  const [c0, c1, c2, c3] = cols;
   const s = new Float64Array(K * K);
+  const lagSums = new Float64Array(K * K);
   for (let lag = 0; lag <= last; lag++) {
+    // Sixteen scalar accumulators: V8 keeps them in registers.
+    let s00 = 0,
+      s01 = 0,
+      s02 = 0,
+      s03 = 0,
+      s10 = 0,
+      s11 = 0,
+      s12 = 0,
+      s13 = 0;
+    let s20 = 0,
+      s21 = 0,
+      s22 = 0,
+      s23 = 0,
+      s30 = 0,
+      s31 = 0,
+      s32 = 0,
+      s33 = 0;
+    for (let t = 0, u = lag; u < n; t++, u++) {
+      const a0 = c0[t];
+      const a1 = c1[t];
+      const a2 = c2[t];
+      const a3 = c3[t];
+      const b0 = c0[u];
+      const b1 = c1[u];
+      const b2 = c2[u];
+      const b3 = c3[u];
+      s00 += a0 * b0;
+      s01 += a0 * b1;
+      s02 += a0 * b2;
+      s03 += a0 * b3;
+      s10 += a1 * b0;
+      s11 += a1 * b1;
+      s12 += a1 * b2;
+      s13 += a1 * b3;
+      s20 += a2 * b0;
+      s21 += a2 * b1;
+      s22 += a2 * b2;
+      s23 += a2 * b3;
+      s30 += a3 * b0;
+      s31 += a3 * b1;
+      s32 += a3 * b2;
+      s33 += a3 * b3;
+    }
+    lagSums.set([s00, s01, s02, s03, s10, s11, s12, s13, s20, s21, s22, s23, s30, s31, s32, s33]);
     const w = lag === 0 ? 0.5 * weights[0] : weights[lag];
-    for (let t = 0; t + lag < n; t++)
-      for (let i = 0; i < K; i++) {
-        const ei = e[t * K + i] * w;
-        for (let j = 0; j < K; j++) s[i * K + j] += ei * e[(t + lag) * K + j];
-      }
+    for (let k = 0; k < K * K; k++) s[k] += w * lagSums[k];
   }
   const sym = new Float64Array(K * K);
   const adjust = T / (T - K);

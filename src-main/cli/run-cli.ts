@@ -12,13 +12,14 @@ export function version(): string {
 }
 
 function overview(): string {
+  const width = Math.max(...commands.map((c) => c.name.length)) + 2;
   const lines = [
     `holdfast ${version()}: offline portfolio construction for client households`,
     '',
     'Usage: holdfast COMMAND [options]     holdfast COMMAND --help for its options',
     '',
     'Commands:',
-    ...commands.map((c) => `  ${c.name.padEnd(12)}${c.summary}`),
+    ...commands.map((c) => `  ${c.name.padEnd(width)}${c.summary}`),
     '',
     'Estimates come from past data; past performance does not guarantee future results. Output is',
     'decision support, not advice, until a licensed adviser reviews it under the local rules.',
