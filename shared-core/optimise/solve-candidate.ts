@@ -62,6 +62,11 @@ export interface CandidateProblem {
   estimator?: string;
   warmStart?: QpWarmStart;
   shouldCancel?: () => boolean;
+  /**
+   * `weights`: the walk-forward's many solves need only the weights; the effective number of
+   * bets (an eigen-decomposition) is NaN and there are no explanations. `full` by default.
+   */
+  detail?: 'full' | 'weights';
 }
 
 export interface CandidateSolve {
@@ -73,6 +78,7 @@ export interface CandidateSolve {
 const pctText = (v: number): string => `${Number((v * 100).toFixed(2))}%`;
 
 function metricsOf(w: Float64Array, p: CandidateProblem, m: LinearMandate): CandidateMetrics {
+  const full = p.detail !== 'weights';
   const S = p.covariance;
   const rc = riskContributions(w, S);
   let turnover = 0;
@@ -82,7 +88,7 @@ function metricsOf(w: Float64Array, p: CandidateProblem, m: LinearMandate): Cand
   return {
     volatility: portfolioVolatility(w, S),
     diversificationRatio: diversificationRatio(w, S),
-    effectiveBets: effectiveBets(w, S),
+    effectiveBets: full ? effectiveBets(w, S) : NaN,
     effectiveHoldings: effectiveHoldings(w),
     riskContributions: Object.fromEntries(p.assets.map((a, i) => [a, rc[i]])),
     turnover: p.current ? turnover : 0,
@@ -311,6 +317,22 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
 
   const status = q && q.status === 'iteration-limit' ? 'iteration-limit' : 'optimal';
   const metrics = metricsOf(w, p, m);
+  const limitMessage =
+    status === 'iteration-limit'
+      ? { message: `stopped at the iteration limit with KKT residual ${residual.toExponential(1)}` }
+      : {};
+  if (p.detail === 'weights')
+    return {
+      result: {
+        ...head,
+        status,
+        ...limitMessage,
+        weights: Object.fromEntries(p.assets.map((a, i) => [a, w[i]])),
+        metrics,
+        solver: { iterations, kktResidual: residual, ms: nowMs() - t0 },
+      },
+      warmStart,
+    };
   const sens: Sensitivity[] = form && q && q.status === 'optimal' ? sensitivities(form, m, q.solution) : [];
   const sigmaW = multiplyVector(S, w);
   const fig: AssetFigures = {
@@ -364,9 +386,7 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
   const result: CandidateResult = {
     ...head,
     status,
-    ...(status === 'iteration-limit'
-      ? { message: `stopped at the iteration limit with KKT residual ${residual.toExponential(1)}` }
-      : {}),
+    ...limitMessage,
     weights: Object.fromEntries(p.assets.map((a, i) => [a, w[i]])),
     metrics,
     solver: { iterations, kktResidual: residual, ms: nowMs() - t0 },

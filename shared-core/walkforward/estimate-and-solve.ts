@@ -53,6 +53,7 @@ export const estimateAndSolve: EstimateAndSolveFn = (request): SolveOutcome => {
     conditionNumber: estimate.diagnostics.conditionNumber,
     observations: estimate.diagnostics.observations,
     estimator: candidate.estimator.method,
+    detail: 'weights',
     ...(request.previous ? { warmStart: request.previous as QpWarmStart } : {}),
   });
   const weights = Float64Array.from(assets, (a) => result.weights[a] ?? 0);

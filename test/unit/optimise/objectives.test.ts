@@ -251,3 +251,22 @@ describe('portfolio volatility helper agrees with the reported metric', () => {
     expect(r.metrics!.volatility).toBeCloseTo(portfolioVolatility(weightsArray(r, 9), S), 14);
   });
 });
+
+describe("the walk-forward's light solve (detail: 'weights')", () => {
+  it('gives the same weights, volatility and DR, without the effective bets or explanations', () => {
+    for (const objective of [
+      { method: 'max-diversification' },
+      { method: 'equal-risk-contribution' },
+      { method: 'min-variance' },
+    ] as const) {
+      const S = randomCovariance(25, 4);
+      const full = solve(S, objective, { weightBounds: { default: [0, 0.15] } });
+      const light = solve(S, objective, { weightBounds: { default: [0, 0.15] } }, { detail: 'weights' });
+      expect(light.weights).toEqual(full.weights);
+      expect(light.metrics!.volatility).toBe(full.metrics!.volatility);
+      expect(light.metrics!.diversificationRatio).toBe(full.metrics!.diversificationRatio);
+      expect(light.metrics!.effectiveBets).toBeNaN();
+      expect(light.explanations).toBeUndefined();
+    }
+  });
+});
