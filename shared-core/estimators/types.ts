@@ -6,10 +6,18 @@ export type Frequency = 'daily' | 'weekly' | 'monthly';
 /** Periods per year by frequency (common practice: 252 trading days, 52 weeks, 12 months). */
 export const PERIODS_PER_YEAR: Record<Frequency, number> = { daily: 252, weekly: 52, monthly: 12 };
 
+/** X'X of a T x N matrix, N x N (linalg/cross-product.ts has the one the core uses). */
+export type CrossProduct = (x: Matrix) => Matrix;
+
 export interface EstimateContext {
   frequency: Frequency;
   /** Overrides PERIODS_PER_YEAR[frequency]. */
   periodsPerYear?: number;
+  /**
+   * An edge may hand in the same X'X computed faster, on several threads
+   * (src-main/compute/two-thread-cross-product.ts); the core itself never starts a thread.
+   */
+  crossProduct?: CrossProduct;
 }
 
 export interface EstimateDiagnostics {

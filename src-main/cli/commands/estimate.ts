@@ -12,6 +12,7 @@ import {
   type EstimatorSpec,
 } from '../../../shared-core/scenario/estimator-spec.js';
 import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
+import { twoThreadCrossProduct } from '../../compute/two-thread-cross-product.js';
 import { EXIT, UsageError, type Command, type OptionValues } from '../command.js';
 import { readInputFile } from '../files.js';
 
@@ -114,7 +115,11 @@ export const estimateCommand: Command = {
         locate,
         desmooth: desmoothed,
       });
-      estimate = estimateCovariance(returns.returns, spec, { frequency: returns.frequency, periodsPerYear });
+      estimate = estimateCovariance(returns.returns, spec, {
+        frequency: returns.frequency,
+        periodsPerYear,
+        crossProduct: twoThreadCrossProduct,
+      });
     } catch (error) {
       if (error instanceof InputError && error.location.line === undefined)
         throw new InputError(error.message, { ...pointAtAsset(error.location, table.assets, locate), file: file.path });

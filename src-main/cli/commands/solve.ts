@@ -5,6 +5,7 @@ import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { runScenario, type ScenarioRun } from '../../../shared-core/scenario/run-scenario.js';
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
+import { twoThreadCrossProduct } from '../../compute/two-thread-cross-product.js';
 import { EXIT, UsageError, type CliIO, type Command, type OptionValues } from '../command.js';
 import { fxOption, readInputFile, withExchangeRates } from '../files.js';
 import { readSolveStore } from './solve-from-store.js';
@@ -53,6 +54,7 @@ export function solveInputs(inputs: SolveInputs, signal?: AbortSignal): Scenario
       locate: inputs.fromStore ? undefined : wideCsvLocator(inputs.prices),
       ...(inputs.fx ? { fx: inputs.fx } : {}),
       shouldCancel: signal ? () => signal.aborted : undefined,
+      crossProduct: twoThreadCrossProduct,
     });
   } catch (error) {
     if (error instanceof InputError) {
