@@ -1,6 +1,7 @@
 import { formatFigure, type BenchSuite } from './harness.js';
 import { demoDataSuite } from './demo-data.js';
 import { webHostSuite } from './web-host.js';
+import { firstScreenSuite } from './first-screen.js';
 import { storeSuite } from './store.js';
 import { memoBench } from './memo.js';
 import { estimatorsSuite } from './estimators.js';
@@ -12,6 +13,7 @@ import { solveSuite } from './solve.js';
 const suites: BenchSuite[] = [
   demoDataSuite,
   webHostSuite,
+  firstScreenSuite,
   storeSuite,
   memoBench,
   estimatorsSuite,

@@ -1,11 +1,14 @@
 import { spawnSync } from 'node:child_process';
-import { accessSync, constants, existsSync, mkdirSync, mkdtempSync, rmSync, rmdirSync, statSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, rmSync, rmdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { describe, it } from 'vitest';
 import { serveStore, type ServedStore } from '../../src-main/web-host/serve-store.js';
+import { CHROMIUM_FLAGS, findChromium } from './chromium.js';
+
+export { CHROMIUM_FLAGS, findChromium, type ChromiumLookup } from './chromium.js';
 
 /**
  * The end-to-end harness: the local web host on a temporary store and a free loopback port,
@@ -19,33 +22,6 @@ import { serveStore, type ServedStore } from '../../src-main/web-host/serve-stor
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
 export const ARTIFACTS = join(root, 'test', 'artifacts');
 const RENDERER = join(root, 'dist', 'renderer');
-
-export const CHROMIUM_FLAGS = [
-  '--headless',
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-  '--disable-quic',
-  '--no-first-run',
-] as const;
-
-export type ChromiumLookup = { found: true; path: string } | { found: false; reason: string };
-
-export function findChromium(env: Record<string, string | undefined> = process.env): ChromiumLookup {
-  const path = env.CHROMIUM_PATH || '/usr/bin/chromium';
-  try {
-    accessSync(path, constants.X_OK);
-    if (!statSync(path).isFile()) return { found: false, reason: `${path} is not a file` };
-    return { found: true, path };
-  } catch {
-    return {
-      found: false,
-      reason: `no Chromium at ${path}${env.CHROMIUM_PATH ? ' ($CHROMIUM_PATH)' : ' (set $CHROMIUM_PATH or apt-get install chromium)'}`,
-    };
-  }
-}
 
 /** `describe` for browser tests: runs with Chromium, fails without it on CI, skips loudly elsewhere. */
 export function describeInBrowser(name: string, body: () => void): void {
