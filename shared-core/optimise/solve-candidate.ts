@@ -321,18 +321,15 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
     status === 'iteration-limit'
       ? { message: `stopped at the iteration limit with KKT residual ${residual.toExponential(1)}` }
       : {};
-  if (p.detail === 'weights')
-    return {
-      result: {
-        ...head,
-        status,
-        ...limitMessage,
-        weights: Object.fromEntries(p.assets.map((a, i) => [a, w[i]])),
-        metrics,
-        solver: { iterations, kktResidual: residual, ms: nowMs() - t0 },
-      },
-      warmStart,
-    };
+  const solved = (): CandidateResult => ({
+    ...head,
+    status,
+    ...limitMessage,
+    weights: Object.fromEntries(p.assets.map((a, i) => [a, w[i]])),
+    metrics,
+    solver: { iterations, kktResidual: residual, ms: nowMs() - t0 },
+  });
+  if (p.detail === 'weights') return { result: solved(), warmStart };
   const sens: Sensitivity[] = form && q && q.status === 'optimal' ? sensitivities(form, m, q.solution) : [];
   const sigmaW = multiplyVector(S, w);
   const fig: AssetFigures = {
@@ -383,15 +380,8 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
       method !== 'inverse-volatility'
     )
       flags.push(`the ${pctText(m.inequalities[s.item.index].limit)} turnover limit binds`);
-  const result: CandidateResult = {
-    ...head,
-    status,
-    ...limitMessage,
-    weights: Object.fromEntries(p.assets.map((a, i) => [a, w[i]])),
-    metrics,
-    solver: { iterations, kktResidual: residual, ms: nowMs() - t0 },
-    explanations: { assets: explainAssets(p.objective, m, fig, sens), binding, flags },
-  };
+  const explanations = { assets: explainAssets(p.objective, m, fig, sens), binding, flags };
+  const result: CandidateResult = { ...solved(), explanations };
   return { result, warmStart };
 }
 
