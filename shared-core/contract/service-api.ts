@@ -385,6 +385,9 @@ export const memoSummarySchema = z.object({
   printedAt: instant,
   title: z.string(),
   bytes: z.number().int(),
+  /** The memo's own hash, as its footer prints it (absent for memos printed before it was kept). */
+  memoHash: z.string().optional(),
+  preparedBy: z.string().optional(),
 });
 export type MemoSummary = z.infer<typeof memoSummarySchema>;
 

@@ -81,6 +81,8 @@ const fileSchema = z.strictObject({
           printedAt: timestamp,
           title: z.string().optional(),
           sha256: z.string(),
+          memoHash: z.string().optional(),
+          preparedBy: z.string().optional(),
           pdfBase64: z.string(),
         }),
       ),
@@ -152,6 +154,8 @@ export function exportHousehold(store: Store, name: string, now = new Date()): s
           printedAt: m.printedAt,
           title: m.title,
           sha256: m.sha256,
+          memoHash: m.memoHash,
+          preparedBy: m.preparedBy,
           pdfBase64: Buffer.from(store.getMemoPdf(m.id)!).toString('base64'),
         })),
       };
@@ -263,6 +267,8 @@ export function importHousehold(store: Store, text: string, file: string): House
           pdf,
           title: m.title,
           printedAt: m.printedAt,
+          ...(m.memoHash !== undefined ? { memoHash: m.memoHash } : {}),
+          ...(m.preparedBy !== undefined ? { preparedBy: m.preparedBy } : {}),
         });
       });
     });

@@ -5,6 +5,7 @@ import { runScenario } from '../../shared-core/scenario/run-scenario.js';
 import { storedScenarioInputs } from '../io/stored-scenario.js';
 import { buildMemoInput } from '../memo/build-memo-input.js';
 import type { MemoPosition } from '../memo/memo-input.js';
+import { memoHash } from '../memo/memo-hash.js';
 import { renderMemo } from '../memo/render-memo.js';
 import { sha256Hex } from '../store/canonical-json.js';
 import type { HouseholdRecord, ScenarioRecord, Store } from '../store/store.js';
@@ -94,6 +95,8 @@ export async function printMemo(
     dataVersion: inputs.dataVersion,
     pdf,
     title: `Allocation memo ${request.date}, revision ${inputs.revision.number}`,
+    memoHash: memoHash(input),
+    preparedBy: request.preparedBy,
   });
   return { memo: memoOut(info), reused: false };
 }

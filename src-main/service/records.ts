@@ -63,6 +63,8 @@ export function memoOut(info: MemoInfo): MemoSummary {
     printedAt: info.printedAt,
     title: info.title ?? '',
     bytes: info.bytes,
+    ...(info.memoHash !== undefined ? { memoHash: info.memoHash } : {}),
+    ...(info.preparedBy !== undefined ? { preparedBy: info.preparedBy } : {}),
   };
 }
 

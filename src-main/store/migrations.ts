@@ -135,6 +135,13 @@ const migrations: readonly ((db: Database.Database) => void)[] = [
       INSERT INTO meta (key, value) SELECT 'data_version', CAST(count(*) AS TEXT) FROM import_batches;
     `);
   },
+  // 4: a memo's own hash (the one its footer prints) and who prepared it, for the audit trail.
+  (db) => {
+    db.exec(`
+      ALTER TABLE memos ADD COLUMN memo_hash TEXT;
+      ALTER TABLE memos ADD COLUMN prepared_by TEXT;
+    `);
+  },
 ];
 
 export const LATEST_SCHEMA_VERSION = migrations.length;

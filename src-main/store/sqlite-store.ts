@@ -79,6 +79,8 @@ interface MemoRow {
   printed_at: string;
   title: string | null;
   bytes: number;
+  memo_hash: string | null;
+  prepared_by: string | null;
 }
 
 const ASSET_ID = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;
@@ -713,7 +715,7 @@ export class SqliteStore implements Store {
       const sha = sha256Hex(memo.pdf);
       const id = Number(
         this.sql(
-          'INSERT INTO memos (scenario_id, revision_hash, data_version, sha256, printed_at, title, pdf) VALUES (?, ?, ?, ?, ?, ?, ?)',
+          'INSERT INTO memos (scenario_id, revision_hash, data_version, sha256, printed_at, title, pdf, memo_hash, prepared_by) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
         ).run(
           memo.scenarioId,
           memo.revisionHash,
@@ -722,6 +724,8 @@ export class SqliteStore implements Store {
           memo.printedAt ?? this.stamp(),
           memo.title ?? null,
           Buffer.from(memo.pdf.buffer, memo.pdf.byteOffset, memo.pdf.byteLength),
+          memo.memoHash ?? null,
+          memo.preparedBy ?? null,
         ).lastInsertRowid,
       );
       this.audit('print', 'memo', id, memo.revisionHash, sha);
@@ -798,7 +802,7 @@ export class SqliteStore implements Store {
 }
 
 const MEMO_COLUMNS =
-  'SELECT id, scenario_id, revision_hash, data_version, sha256, printed_at, title, length(pdf) AS bytes FROM memos';
+  'SELECT id, scenario_id, revision_hash, data_version, sha256, printed_at, title, length(pdf) AS bytes, memo_hash, prepared_by FROM memos';
 
 function memoInfo(r: MemoRow): MemoInfo {
   return {
@@ -810,6 +814,8 @@ function memoInfo(r: MemoRow): MemoInfo {
     printedAt: r.printed_at,
     ...(r.title !== null ? { title: r.title } : {}),
     bytes: r.bytes,
+    ...(r.memo_hash !== null ? { memoHash: r.memo_hash } : {}),
+    ...(r.prepared_by !== null ? { preparedBy: r.prepared_by } : {}),
   };
 }
 

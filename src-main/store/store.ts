@@ -198,6 +198,9 @@ export interface MemoInput {
   title?: string;
   /** The original print time when a memo comes from a household file; default now. */
   printedAt?: string;
+  /** The memo's own hash, printed in its footer (src-main/memo/memo-hash.ts). */
+  memoHash?: string;
+  preparedBy?: string;
 }
 
 export interface MemoInfo {
@@ -210,6 +213,8 @@ export interface MemoInfo {
   printedAt: string;
   title?: string;
   bytes: number;
+  memoHash?: string;
+  preparedBy?: string;
 }
 
 export interface AuditEntry {

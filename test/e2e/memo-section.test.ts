@@ -154,7 +154,10 @@ describeInBrowser('memo section of the scenario page in Chromium', () => {
     const cells = await rows.first().locator('td').allTextContents();
     expect(cells[1]).toBe(String(newest));
     expect(cells[2]).toBe('EM');
-    expect(cells[3]).toBe(memos[0].hash.slice(0, 12));
+    expect(memos[0].preparedBy).toBe('EM');
+    // The memo hash the footer prints, so the list and the paper can be matched.
+    expect(memos[0].memoHash).toMatch(/^[0-9a-f]{64}$/);
+    expect(cells[3]).toBe(memos[0].memoHash!.slice(0, 12));
   }, 180_000);
 
   it('downloads the printed PDF: %PDF bytes naming the household and carrying the caution', async () => {
@@ -176,6 +179,7 @@ describeInBrowser('memo section of the scenario page in Chromium', () => {
     expect(createHash('sha256').update(bytes).digest('hex')).toBe(memo.hash);
     const text = pdfText(file);
     expect(text).toContain(householdName);
+    expect(text.replace(/\s+/g, '')).toContain(memo.memoHash!);
     expect(text).toContain('Past performance does not guarantee future results.');
     expect(text).toContain('Keeps the household within its drawdown comfort while lowering turnover.');
     writeFileSync(join(ARTIFACTS, 'memo-section-download.txt'), text);

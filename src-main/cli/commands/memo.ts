@@ -352,6 +352,8 @@ async function fromStore(
           dataVersion: inputs.dataVersion,
           pdf,
           title: `Allocation memo ${date}, revision ${inputs.revision.number}`,
+          memoHash: memoHash(input),
+          preparedBy: input.preparedBy,
         });
         return `saved in the store as memo ${info.id} beside revision ${inputs.revision.number}`;
       },

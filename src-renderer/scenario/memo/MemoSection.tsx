@@ -433,7 +433,8 @@ function MemoList(props: {
       ) : (
         <table className="grid" aria-labelledby={props.titleId} data-testid="memo-list">
           <caption>
-            Newest first. Each is kept exactly as printed; the fingerprint is the SHA-256 of the PDF file.
+            Newest first. Each is kept exactly as printed; the memo hash is the one its footer prints, and the PDF
+            file&apos;s own SHA-256 shows on pointing at it.
           </caption>
           <thead>
             <tr>
@@ -441,8 +442,8 @@ function MemoList(props: {
               <th scope="col" className="num">
                 Revision
               </th>
-              <th scope="col">Revision saved by</th>
-              <th scope="col">Fingerprint</th>
+              <th scope="col">Prepared by</th>
+              <th scope="col">Memo hash</th>
               <th scope="col" className="num">
                 Size
               </th>
@@ -459,9 +460,18 @@ function MemoList(props: {
                 <tr key={m.id} data-memo-id={m.id}>
                   <td className="tabular printed">{formatInstant(m.printedAt)}</td>
                   <td className="num">{number ?? <span className="faint">not found</span>}</td>
-                  <td>{rev?.author ?? <span className="faint">unknown</span>}</td>
-                  <td className="code" title={m.hash}>
-                    {m.hash.slice(0, 12)}
+                  <td>
+                    {m.preparedBy ??
+                      (rev?.author ? (
+                        <span title="printed before the preparer was kept: the initials that saved the revision">
+                          {rev.author} (revision)
+                        </span>
+                      ) : (
+                        <span className="faint">unknown</span>
+                      ))}
+                  </td>
+                  <td className="code" title={`memo hash ${m.memoHash ?? 'not kept'}; PDF SHA-256 ${m.hash}`}>
+                    {m.memoHash ? m.memoHash.slice(0, 12) : <span className="faint">PDF {m.hash.slice(0, 12)}</span>}
                   </td>
                   <td className="num tabular">{formatKilobytes(m.bytes)}</td>
                   <td>

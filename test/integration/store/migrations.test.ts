@@ -33,6 +33,10 @@ function seedAt(db: Database.Database, version: number): void {
     db.prepare("INSERT INTO households (name, base_currency) VALUES ('H', 'EUR')").run();
     db.prepare("INSERT INTO scenarios (household_id, name, created_at) VALUES (1, 'S', '2025-01-03')").run();
   }
+  if (version >= 3)
+    db.prepare(
+      "INSERT INTO memos (scenario_id, revision_hash, data_version, sha256, printed_at, title, pdf) VALUES (1, 'r', 2, 's', '2025-01-04', 'M', x'25504446')",
+    ).run();
 }
 
 describe('store schema migrations (PRAGMA user_version)', () => {
@@ -52,11 +56,18 @@ describe('store schema migrations (PRAGMA user_version)', () => {
         expect(store.priceTable({ universe: 'Core' }).dates).toEqual(['2025-01-02', '2025-01-03']);
         expect(store.getUniverse('Core')!.members).toEqual([{ assetId: 'EQ1', tags: ['Equity'] }]);
         // Version 3 seeds the data version from the batches imported before it existed.
-        expect(store.dataVersion()).toBe(2);
+        if (from < 3) expect(store.dataVersion()).toBe(2);
       }
       if (from >= 2) {
         const h = store.getHousehold('H')!;
         expect(store.getScenario(h.id, 'S')).toMatchObject({ latestRevision: 0 });
+      }
+      if (from >= 3) {
+        // Version 4 adds the memo hash and the preparer; a memo printed before keeps neither.
+        const [memo] = store.listMemos(store.getScenario(store.getHousehold('H')!.id, 'S')!.id);
+        expect(memo).toMatchObject({ title: 'M', bytes: 4 });
+        expect(memo.memoHash).toBeUndefined();
+        expect(memo.preparedBy).toBeUndefined();
       }
       store.close();
     });

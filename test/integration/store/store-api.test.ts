@@ -221,6 +221,19 @@ describe('store: households, scenarios and revisions', () => {
     expect(memo.sha256).toBe(sha256Hex(pdf));
     expect(store.findMemo(r.hash, v)?.id).toBe(memo.id);
     expect(Buffer.from(store.getMemoPdf(memo.id)!).equals(Buffer.from(pdf))).toBe(true);
+    expect(memo.memoHash).toBeUndefined();
+    const signed = store.saveMemo({
+      scenarioId: s.id,
+      revisionHash: r.hash,
+      dataVersion: v,
+      pdf,
+      memoHash: 'ab'.repeat(32),
+      preparedBy: 'EM',
+    });
+    expect(store.listMemos(s.id).find((m) => m.id === signed.id)).toMatchObject({
+      memoHash: 'ab'.repeat(32),
+      preparedBy: 'EM',
+    });
     store.deleteHousehold(h.id);
     expect(store.listMemos(s.id)).toEqual([]);
     expect(store.check()).toEqual([]);
