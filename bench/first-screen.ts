@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium } from 'playwright-core';
 import { serveStore } from '../src-main/web-host/serve-store.js';
+import { DEBOUNCE_MS } from '../src-renderer/worker/recompute-client.js';
 import { CHROMIUM_FLAGS, findChromium } from '../test/e2e/chromium.js';
 import { median, type BenchFigure, type BenchSuite } from './harness.js';
 
@@ -118,7 +119,7 @@ export const firstScreenSuite: BenchSuite = {
         label: 'recompute of the 6-candidate demo comparison: last keystroke to comparison painted',
         medianMs: median(edits),
         targetMs: 200,
-        notes: `phases (edit to run start incl. 40 ms debounce, run in the worker with copies, render and paint) in ms: ${phases.join('; ')}`,
+        notes: `phases (edit to run start incl. the ${DEBOUNCE_MS} ms debounce, run in the worker with copies, render and paint) in ms: ${phases.join('; ')}`,
       },
     ];
   },
