@@ -31,15 +31,15 @@ export function inBaseCurrency(
 ): PriceTable {
   const currencies = table.currencies;
   if (!currencies || currencies.every((c) => c === undefined || c === base)) return table;
+  const days = fx ? Int32Array.from(fx.dates, dayNumber) : undefined;
   const closes = table.closes.map((c, a) => {
     const currency = currencies[a];
     if (currency === undefined || currency === base) return c;
     const f = fx?.assets.indexOf(currency) ?? -1;
-    if (!fx || f === -1)
+    if (!fx || !days || f === -1)
       throw new InputError(
         `${table.assets[a]} is priced in ${currency} but there is no ${currency} rate series in ${base}`,
       );
-    const days = Int32Array.from(fx.dates, dayNumber);
     const rates = fx.closes[f];
     return c.map((close, t) => {
       if (!Number.isFinite(close)) return close;

@@ -1,3 +1,4 @@
+import { luFactor, luSolve } from '../optimise/qp/dense-factor.js';
 import { normalCdf } from './normal.js';
 
 /**
@@ -91,8 +92,8 @@ export function prewhitenedQsCovariance(u: Float64Array, T: number): { psi: Floa
         yx[i * K + j] += u[t * K + i] * u[(t - 1) * K + j];
       }
   // A = yx xx^-1, i.e. A' = xx^-1 yx' (xx is symmetric).
-  const At = solveSquare(xx, transpose(yx), K);
-  const A = transpose(At);
+  // Row i of A solves xx a_i = (row i of yx), xx being symmetric.
+  const A = rowsSolving(xx, yx);
   const n = T - 1;
   const e = new Float64Array(n * K);
   for (let t = 1; t < T; t++)
@@ -168,7 +169,7 @@ export function prewhitenedQsCovariance(u: Float64Array, T: number): { psi: Floa
   // Recolour: D S D' with D = (I - A)^-1, then per observation of the original series.
   const ia = new Float64Array(K * K);
   for (let i = 0; i < K; i++) for (let j = 0; j < K; j++) ia[i * K + j] = (i === j ? 1 : 0) - A[i * K + j];
-  const D = solveSquare(ia, identityK(), K);
+  const D = rowsSolving(transpose(ia), identityK()); // rows of D solve (I - A)' d = e_i, so D = (I - A)^-1
   const psi = multiply(multiply(D, sym), transpose(D));
   for (let k = 0; k < psi.length; k++) psi[k] /= T;
   return { psi, bandwidth };
@@ -249,30 +250,11 @@ function multiply(p: Float64Array, q: Float64Array): Float64Array {
   return out;
 }
 
-/** Solves M X = B for small square M by Gaussian elimination with partial pivoting. */
-function solveSquare(m: Float64Array, b: Float64Array, k: number): Float64Array {
-  const a = Float64Array.from(m);
-  const x = Float64Array.from(b);
-  for (let c = 0; c < k; c++) {
-    let p = c;
-    for (let r = c + 1; r < k; r++) if (Math.abs(a[r * k + c]) > Math.abs(a[p * k + c])) p = r;
-    if (a[p * k + c] === 0) throw new RangeError('the moment conditions are collinear: no HAC test');
-    if (p !== c)
-      for (let j = 0; j < k; j++) {
-        [a[c * k + j], a[p * k + j]] = [a[p * k + j], a[c * k + j]];
-        [x[c * k + j], x[p * k + j]] = [x[p * k + j], x[c * k + j]];
-      }
-    for (let r = c + 1; r < k; r++) {
-      const f = a[r * k + c] / a[c * k + c];
-      for (let j = c; j < k; j++) a[r * k + j] -= f * a[c * k + j];
-      for (let j = 0; j < k; j++) x[r * k + j] -= f * x[c * k + j];
-    }
-  }
-  for (let c = k - 1; c >= 0; c--)
-    for (let j = 0; j < k; j++) {
-      let s = x[c * k + j];
-      for (let q = c + 1; q < k; q++) s -= a[c * k + q] * x[q * k + j];
-      x[c * k + j] = s / a[c * k + c];
-    }
-  return x;
+/** The K x K matrix whose row i solves M x = (row i of B), with the optimiser's LU (qp/dense-factor.ts). */
+function rowsSolving(m: Float64Array, b: Float64Array): Float64Array {
+  const f = luFactor(m, K);
+  if (!f) throw new RangeError('the moment conditions are collinear: no HAC test');
+  const out = new Float64Array(K * K);
+  for (let i = 0; i < K; i++) out.set(luSolve(f, b.subarray(i * K, i * K + K)), i * K);
+  return out;
 }

@@ -1,7 +1,7 @@
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
-import { crossProductRows, mirrorLower } from '../../shared-core/linalg/cross-product.js';
+import { crossProduct as oneThread, crossProductRows, mirrorLower } from '../../shared-core/linalg/cross-product.js';
 import type { Matrix } from '../../shared-core/linalg/matrix.js';
 
 /**
@@ -60,13 +60,9 @@ export function createTwoThreadCrossProduct(options: TwoThreadOptions = {}): {
   };
   const crossProduct = (x: Matrix): Matrix => {
     const n = x.cols;
-    const out = new Float64Array(new SharedArrayBuffer(n * n * 8));
     const helper = (n * (n + 1) * x.rows) / 2 < minWork ? undefined : theWorker();
-    if (!helper) {
-      crossProductRows(x, out, 0, n);
-      mirrorLower(out, n);
-      return { rows: n, cols: n, data: out };
-    }
+    if (!helper) return oneThread(x);
+    const out = new Float64Array(new SharedArrayBuffer(n * n * 8));
     const byWorker = onTwoThreads(x, out, helper);
     stats.rowsByWorker += byWorker;
     return { rows: n, cols: n, data: out };
