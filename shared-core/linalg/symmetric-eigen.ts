@@ -1,4 +1,5 @@
 import type { Matrix } from './matrix.js';
+import { intoTridiagonalBasis, tridiagonalForm, type TridiagonalForm } from './tridiagonal-form.js';
 
 export interface SymmetricEigen {
   /** Eigenvalues in ascending order. */
@@ -17,7 +18,7 @@ export function symmetricEigen(m: Matrix): SymmetricEigen {
   const w = transposedLower(m);
   const d = new Float64Array(n);
   const e = new Float64Array(n);
-  tridiagonalise(w, n, d, e, true);
+  tridiagonalise(w, n, d, e);
   diagonalise(d, e, w, n);
   const order = ascending(d);
   // Rows of w into ascending order (following the permutation's cycles with one spare row),
@@ -50,12 +51,14 @@ export function symmetricEigen(m: Matrix): SymmetricEigen {
 
 /** Eigenvalues only, ascending: about 4/3 N^3 flops instead of about 9 N^3 with vectors. */
 export function symmetricEigenvalues(m: Matrix): Float64Array {
-  const n = m.rows;
-  const w = transposedLower(m);
-  const d = new Float64Array(n);
-  const e = new Float64Array(n);
-  tridiagonalise(w, n, d, e, false);
-  diagonalise(d, e, undefined, n);
+  return formEigenvalues(tridiagonalForm(m));
+}
+
+/** Every eigenvalue of a reduced matrix, ascending, in O(N^2). */
+export function formEigenvalues(form: TridiagonalForm): Float64Array {
+  const d = Float64Array.from(form.diagonal);
+  const e = Float64Array.from(form.offDiagonal);
+  diagonalise(d, e, undefined, form.n);
   return d.sort();
 }
 
@@ -67,57 +70,45 @@ export interface SpectralExposures {
 }
 
 /**
+ * Eigenvalues this close (relative to the largest in size) count as one repeated eigenvalue:
+ * a few hundred times the rounding error of the reduction and QL, far below any gap an estimate
+ * can resolve.
+ */
+export const REPEATED_EIGENVALUE = 2 ** -40;
+
+/**
  * The squared exposures of a vector v to the eigenvectors of a symmetric matrix, without forming
- * the eigenvectors. A reflector H maps v to |v| e_n; the Householder reduction of H M H keeps e_n
- * fixed, so (e_k'v)^2 = |v|^2 z_k^2 where z is the last row of the tridiagonal's eigenvectors,
- * carried through the QL rotations in O(N) each (the device of Golub and Welsch 1969, Math.
- * Comp. 23, for Gauss quadrature weights). About 4/3 N^3 flops instead of about 9 N^3. Where an
- * eigenvalue repeats, its whole exposure lands on one of its copies, which is the only
- * basis-free way to split it.
+ * the eigenvectors: v is carried into the tridiagonal basis by the reduction's reflectors
+ * (O(N^2)), then through the QL rotations at O(1) each, as Golub and Welsch (1969, Math. Comp.
+ * 23) carry one row of the eigenvectors for Gauss quadrature weights. Where an eigenvalue
+ * repeats, the split of v's exposure among its eigenvectors depends on an arbitrary choice of
+ * basis; its whole exposure (the squared length of v's projection on the eigenspace, which does
+ * not) lands on one of its copies.
  */
 export function spectralExposures(m: Matrix, v: ArrayLike<number>): SpectralExposures {
-  const n = m.rows;
-  const w = transposedLower(m);
-  if (v.length !== n) throw new RangeError(`expected ${n} entries, got ${v.length}`);
-  let norm2 = 0;
-  for (let i = 0; i < n; i++) norm2 += v[i] * v[i];
-  const d = new Float64Array(n);
-  const exposures = new Float64Array(n);
-  if (n === 0 || norm2 === 0) return { values: symmetricEigenvalues(m), exposures };
-  const norm = Math.sqrt(norm2);
-  // u = v - alpha e_n with alpha of the opposite sign to v_n (no cancellation); H = I - beta u u'.
-  const alpha = v[n - 1] > 0 ? -norm : norm;
-  const u = Float64Array.from(v);
-  u[n - 1] -= alpha;
-  let uu = 0;
-  for (let i = 0; i < n; i++) uu += u[i] * u[i];
-  if (uu > 0) {
-    // H M H = M - u q' - q u' with p = beta M u, q = p - (beta u'p / 2) u.
-    const beta = 2 / uu;
-    const q = new Float64Array(n);
-    let up = 0;
-    for (let i = 0; i < n; i++) {
-      let s = 0;
-      const row = i * n;
-      for (let j = 0; j < n; j++) s += w[row + j] * u[j];
-      q[i] = beta * s;
-      up += u[i] * q[i];
+  return formExposures(tridiagonalForm(m), v);
+}
+
+export function formExposures(form: TridiagonalForm, v: ArrayLike<number>): SpectralExposures {
+  const n = form.n;
+  const y = intoTridiagonalBasis(form, v);
+  const d = Float64Array.from(form.diagonal);
+  const e = Float64Array.from(form.offDiagonal);
+  diagonalise(d, e, undefined, n, y);
+  const exposures = Float64Array.from(y, (x) => x * x);
+  const order = ascending(d);
+  let size = 0;
+  for (const x of d) size = Math.max(size, Math.abs(x));
+  const tie = REPEATED_EIGENVALUE * size;
+  for (let a = 0; a < n;) {
+    let b = a + 1;
+    while (b < n && d[order[b]] - d[order[b - 1]] <= tie) b++;
+    for (let c = a + 1; c < b; c++) {
+      exposures[order[a]] += exposures[order[c]];
+      exposures[order[c]] = 0;
     }
-    const k = (beta * up) / 2;
-    for (let i = 0; i < n; i++) q[i] -= k * u[i];
-    for (let i = 0; i < n; i++) {
-      const row = i * n;
-      const ui = u[i];
-      const qi = q[i];
-      for (let j = 0; j < n; j++) w[row + j] -= ui * q[j] + qi * u[j];
-    }
+    a = b;
   }
-  const e = new Float64Array(n);
-  tridiagonalise(w, n, d, e, false);
-  const z = new Float64Array(n);
-  z[n - 1] = 1;
-  diagonalise(d, e, undefined, n, z);
-  for (let k = 0; k < n; k++) exposures[k] = norm2 * z[k] * z[k];
   return { values: d, exposures };
 }
 
@@ -142,8 +133,11 @@ function transposedLower(m: Matrix): Float64Array {
   return w;
 }
 
-/** Householder tridiagonalisation (tred2). On return d is the diagonal and e[1..n-1] the off-diagonal. */
-function tridiagonalise(w: Float64Array, n: number, d: Float64Array, e: Float64Array, accumulate: boolean): void {
+/**
+ * Householder tridiagonalisation with the transformation accumulated (tred2), for the full
+ * decomposition. On return d is the diagonal and e[1..n-1] the off-diagonal.
+ */
+function tridiagonalise(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
   // V[r][c] is w[c * n + r].
   for (let j = 0; j < n; j++) d[j] = w[j * n + n - 1];
   for (let i = n - 1; i > 0; i--) {
@@ -217,11 +211,6 @@ function tridiagonalise(w: Float64Array, n: number, d: Float64Array, e: Float64A
     }
     d[i] = h;
   }
-  if (!accumulate) {
-    for (let j = 0; j < n; j++) d[j] = w[j * n + j];
-    e[0] = 0;
-    return;
-  }
   for (let i = 0; i < n - 1; i++) {
     w[i * n + n - 1] = w[i * n + i];
     w[i * n + i] = 1;
@@ -248,14 +237,15 @@ function tridiagonalise(w: Float64Array, n: number, d: Float64Array, e: Float64A
 
 /**
  * Implicit QL on the tridiagonal (d, e[1..n-1]) (tql2); rotates the rows of w when given, and
- * the entries of `last` (the last component of every eigenvector) when given.
+ * `tracked` (a vector's coordinates in the tridiagonal basis, which end as its coordinates in
+ * the eigenvector basis) when given.
  */
 function diagonalise(
   d: Float64Array,
   e: Float64Array,
   w: Float64Array | undefined,
   n: number,
-  last?: Float64Array,
+  tracked?: Float64Array,
 ): void {
   for (let i = 1; i < n; i++) e[i - 1] = e[i];
   if (n > 0) e[n - 1] = 0;
@@ -302,10 +292,10 @@ function diagonalise(
           c = p / r;
           p = c * d[i] - s * g;
           d[i + 1] = h + s * (c * g + s * d[i]);
-          if (last) {
-            const hk = last[i + 1];
-            last[i + 1] = s * last[i] + c * hk;
-            last[i] = c * last[i] - s * hk;
+          if (tracked) {
+            const hk = tracked[i + 1];
+            tracked[i + 1] = s * tracked[i] + c * hk;
+            tracked[i] = c * tracked[i] - s * hk;
           }
           if (w) {
             const a = i * n;

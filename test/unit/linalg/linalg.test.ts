@@ -14,6 +14,13 @@ import {
   symmetricEigenvalues,
   tridiagonalEigenvalues,
 } from '../../../shared-core/linalg/symmetric-eigen.js';
+import {
+  HAND_OFF_FROM,
+  fusedColumns,
+  intoTridiagonalBasis,
+  tridiagonalForm,
+  type SecondHalf,
+} from '../../../shared-core/linalg/tridiagonal-form.js';
 import { loadFixture, matrix, relativeError } from '../estimators/fixtures.js';
 
 /** A seeded linear congruential stream in (-0.5, 0.5) (Park and Miller 1988 multiplier). */
@@ -212,5 +219,97 @@ describe('Cholesky', () => {
         ]),
       ),
     ).toBeUndefined();
+  });
+});
+
+describe("tridiagonal form A = Q T Q' (one Householder reduction shared by every spectral question)", () => {
+  /** Q'AQ from the stored reflectors, against the tridiagonal T the reduction reports. */
+  function similarityError(a: Matrix): number {
+    const n = a.rows;
+    const form = tridiagonalForm(a);
+    const qt = Array.from({ length: n }, (_, k) => {
+      const unit = new Float64Array(n);
+      unit[k] = 1;
+      return intoTridiagonalBasis(form, unit); // column k of Q'
+    });
+    let worst = 0;
+    let size = 0;
+    for (const x of a.data) size = Math.max(size, Math.abs(x));
+    for (let r = 0; r < n; r++)
+      for (let c = 0; c < n; c++) {
+        let s = 0;
+        for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) s += qt[i][r] * a.data[i * n + j] * qt[j][c];
+        const t = r === c ? form.diagonal[r] : Math.abs(r - c) === 1 ? form.offDiagonal[Math.max(r, c)] : 0;
+        worst = Math.max(worst, Math.abs(s - t));
+      }
+    return worst / size;
+  }
+
+  it('the reflectors carry A into the reported tridiagonal T (an orthogonal similarity, Golub and Van Loan 2013, section 8.3.1)', () => {
+    expect(similarityError(crossProduct(randomMatrix(40, 17, 8)))).toBeLessThan(1e-14);
+    // Rank-deficient, and with rows that are already reduced (nothing to reflect at some steps).
+    const a = crossProduct(randomMatrix(5, 12, 9));
+    for (let j = 0; j < 12; j++) if (j !== 11) a.data[11 * 12 + j] = a.data[j * 12 + 11] = 0;
+    expect(similarityError(a)).toBeLessThan(1e-14);
+    const diagonal = zeros(6, 6);
+    for (let i = 0; i < 6; i++) diagonal.data[i * 7] = i + 1;
+    expect(similarityError(diagonal)).toBe(0);
+  });
+
+  it('the second half of every pass run elsewhere gives the same bits (what lets an edge use a second thread)', () => {
+    const n = HAND_OFF_FROM + 57;
+    const a = crossProduct(randomMatrix(n + 20, n, 10));
+    const alone = tridiagonalForm(a);
+    let space: ReturnType<SecondHalf['allocate']> | undefined;
+    let step: [number, number] = [0, 0];
+    let handed = 0;
+    const second: SecondHalf = {
+      allocate(length) {
+        space = {
+          w: new Float64Array(length * length),
+          u: new Float64Array(length),
+          q: new Float64Array(length),
+          v: new Float64Array(length),
+          second: new Float64Array(length),
+        };
+        return space;
+      },
+      start(m, split) {
+        step = [m, split];
+        handed++;
+      },
+      finish() {
+        const s = space!;
+        fusedColumns(s.w, n, step[0], step[1], step[0], s.u, s.q, s.v, s.second);
+      },
+    };
+    const split = tridiagonalForm(a, second);
+    expect(handed).toBe(n - HAND_OFF_FROM - 1);
+    for (const key of ['diagonal', 'offDiagonal', 'halfNorms'] as const)
+      expect(Array.from(split[key]).every((x, i) => Object.is(x, alone[key][i]))).toBe(true);
+  });
+
+  it("a repeated eigenvalue takes the whole exposure of its eigenspace, which does not depend on the basis numpy's eigh happens to pick", () => {
+    const n = 30;
+    const a = crossProduct(randomMatrix(12, n, 11)); // the zero eigenvalue repeats 18 times
+    const v = Array.from({ length: n }, stream(12));
+    const full = symmetricEigen(a);
+    let null2 = 0;
+    for (let k = 0; k < n - 12; k++) {
+      let e = 0;
+      for (let i = 0; i < n; i++) e += full.vectors.data[i * n + k] * v[i];
+      null2 += e * e;
+    }
+    const { values, exposures } = spectralExposures(a, v);
+    const small = Array.from(values, (x, k) => [x, exposures[k]]).filter(
+      ([x]) => Math.abs(x) < 1e-9 * full.values[n - 1],
+    );
+    expect(small).toHaveLength(n - 12);
+    expect(small.filter(([, e]) => e > 0)).toHaveLength(1);
+    expect(small.reduce((s, [, e]) => s + e, 0)).toBeCloseTo(null2, 12);
+    // The identity: one eigenvalue, one bet whatever the vector.
+    const identity = zeros(5, 5);
+    for (let i = 0; i < 5; i++) identity.data[i * 6] = 1;
+    expect(spectralExposures(identity, [0.1, 0.2, 0.3, 0.2, 0.2]).exposures.filter((e) => e > 0)).toHaveLength(1);
   });
 });
