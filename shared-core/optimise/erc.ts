@@ -19,10 +19,11 @@
  */
 import type { Matrix } from '../linalg/matrix.js';
 import { zeros } from '../linalg/matrix.js';
-import { choleskyInPlace, choleskySolveInPlace } from './qp/dense-factor.js';
+import { choleskyInPlace, choleskySolveInPlace, luFactor, luSolve } from './qp/dense-factor.js';
 import { solveQp } from './qp/solve-qp.js';
-import type { QpResult, QpWarmStart } from './qp/types.js';
-import type { Formulation } from './formulate.js';
+import type { QpResult, QpSolution, QpWarmStart, SparseRow } from './qp/types.js';
+import type { Formulation, Sensitivity } from './formulate.js';
+import type { LinearMandate } from './mandate.js';
 
 export const ERC_TOLERANCES = {
   /** Newton decrement squared at which the unconstrained solve stops. */
@@ -208,4 +209,151 @@ export function ercOverCone(
     lastQp: last,
     warmStart: warm,
   };
+}
+
+/** A constraint row whose part on the free variables is shorter than this, relative to its length, repeats earlier rows. */
+const DEPENDENT_ROW = 1e-10;
+
+/**
+ * How the weights of the risk-budgeting solution over the mandate cone move when one binding
+ * limit moves: d w / d limit, from the KKT conditions of min F over the cone differentiated in the
+ * limit (the basic sensitivity theorem of Fiacco 1976, "Sensitivity analysis for nonlinear
+ * programming using penalty methods", Mathematical Programming 10, recalled from memory: under
+ * strict complementarity, independent active rows and second-order sufficiency the solution is
+ * differentiable in the limit; the multiplier as the envelope derivative is Nocedal and Wright
+ * 2006, Numerical Optimization, section 12.8). With the active rows J (equalities and the inequalities whose multiplier is
+ * positive, those at a bound held fixed), Hessian H = Sigma + diag(b / y^2) on the assets, and a
+ * limit L that enters its row as a'x - sign L kappa <= 0:
+ *
+ *   [H J'; J 0] [dx; dmu] = [sign z_L e_kappa; sign kappa e_L],   dw = (dy - w dkappa) / kappa.
+ *
+ * The multipliers are those of the last Newton model (at convergence its KKT conditions are the
+ * cone problem's). Rows that repeat earlier ones on the free variables (an asset left at its
+ * current weight under a turnover limit activates both halves of |w - current|) are dropped, so
+ * J has full row rank. Consistency: g'dy equals the envelope value -sign z_L kappa, which
+ * test/unit/optimise/shadow-prices.test.ts checks along with a re-solve with the limit moved.
+ * Undefined when the limit is not a positive-multiplier row of the cone or the system is singular.
+ */
+export function ercWeightSensitivity(
+  S: Matrix,
+  budgets: ArrayLike<number>,
+  f: Formulation,
+  m: LinearMandate,
+  sol: QpSolution,
+): (item: Sensitivity['item']) => Float64Array | undefined {
+  const n = budgets.length;
+  const dim = f.qp.q.length;
+  const x = sol.x;
+  const kappa = x[f.kappa];
+  // Candidate rows: equalities, then the mandate's own limits, then the linearisation rows.
+  const isLink = (r: number) => {
+    const p = f.rowsG[r];
+    if (p.type !== 'inequality') return false;
+    const kind = m.inequalities[p.index].kind;
+    return kind === 'turnover-link' || kind === 'gross-link';
+  };
+  const activeG: number[] = [];
+  for (let r = 0; r < f.qp.G.length; r++) if (sol.z[r] > 0 && !isLink(r)) activeG.push(r);
+  for (let r = 0; r < f.qp.G.length; r++) if (sol.z[r] > 0 && isLink(r)) activeG.push(r);
+  const candidates: { row: SparseRow; g: number }[] = [
+    ...f.qp.A.map((row) => ({ row, g: -1 })),
+    ...activeG.map((r) => ({ row: f.qp.G[r], g: r })),
+  ];
+  // Variables held at a bound, and those no active row touches (no curvature, no effect on w).
+  const fixed = new Uint8Array(dim);
+  for (let i = 0; i < dim; i++) if (sol.zl[i] > 0 || sol.zu[i] > 0) fixed[i] = 1;
+  const touched = new Uint8Array(dim);
+  for (let i = 0; i < n; i++) touched[i] = 1;
+  for (const c of candidates) c.row.idx.forEach((j, t) => (c.row.val[t] !== 0 ? (touched[j] = 1) : 0));
+  const pos = new Int32Array(dim).fill(-1);
+  let nf = 0;
+  for (let i = 0; i < dim; i++) if (!fixed[i] && touched[i]) pos[i] = nf++;
+  if (pos[f.kappa] < 0) return () => undefined;
+  // Keep the rows independent on the free variables (modified Gram-Schmidt).
+  const basis: Float64Array[] = [];
+  const kept: { row: SparseRow; g: number }[] = [];
+  for (const c of candidates) {
+    const v = new Float64Array(nf);
+    c.row.idx.forEach((j, t) => {
+      if (pos[j] >= 0) v[pos[j]] += c.row.val[t];
+    });
+    let norm0 = 0;
+    for (const e of v) norm0 += e * e;
+    if (!(norm0 > 0)) continue;
+    for (const q of basis) {
+      let d = 0;
+      for (let i = 0; i < nf; i++) d += q[i] * v[i];
+      for (let i = 0; i < nf; i++) v[i] -= d * q[i];
+    }
+    let norm = 0;
+    for (const e of v) norm += e * e;
+    if (norm <= DEPENDENT_ROW * DEPENDENT_ROW * norm0) continue;
+    const inv = 1 / Math.sqrt(norm);
+    basis.push(v.map((e) => e * inv));
+    kept.push(c);
+  }
+  const N = nf + kept.length;
+  const K = new Float64Array(N * N);
+  for (let i = 0; i < n; i++) {
+    if (pos[i] < 0) continue;
+    for (let j = 0; j < n; j++)
+      if (pos[j] >= 0) K[pos[i] * N + pos[j]] = S.data[i * n + j] + (i === j ? budgets[i] / (x[i] * x[i]) : 0);
+  }
+  kept.forEach((c, k) =>
+    c.row.idx.forEach((j, t) => {
+      if (pos[j] < 0) return;
+      K[(nf + k) * N + pos[j]] += c.row.val[t];
+      K[pos[j] * N + nf + k] += c.row.val[t];
+    }),
+  );
+  const lu = luFactor(K, N);
+  const w = Float64Array.from(x.subarray(0, n), (v) => v / kappa);
+  return (item) => {
+    const r = f.rowsG.findIndex((p) =>
+      item.type === 'inequality'
+        ? p.type === 'inequality' && p.index === item.index
+        : p.type === item.type && p.variable === item.variable,
+    );
+    const k = kept.findIndex((c) => c.g === r);
+    if (!lu || r < 0 || k < 0) return undefined;
+    const sign = item.type === 'inequality' ? m.inequalities[item.index].sign : item.type === 'upper' ? 1 : -1;
+    const rhs = new Float64Array(N);
+    rhs[pos[f.kappa]] = sign * sol.z[r];
+    rhs[nf + k] = sign * kappa;
+    const d = luSolve(lu, rhs);
+    if (!d.every(Number.isFinite)) return undefined;
+    const dk = d[pos[f.kappa]];
+    return Float64Array.from(w, (wi, i) => ((pos[i] >= 0 ? d[pos[i]] : 0) - wi * dk) / kappa);
+  };
+}
+
+/** Each asset's risk share minus its budget, w_i (Sigma w)_i / w'Sigma w - b_i, and its derivative along dw. */
+export function budgetGaps(
+  S: Matrix,
+  budgets: ArrayLike<number>,
+  w: ArrayLike<number>,
+  dw?: ArrayLike<number>,
+): { gap: Float64Array; dGap: Float64Array } {
+  const n = budgets.length;
+  const sw = new Float64Array(n);
+  const sdw = new Float64Array(n);
+  for (let i = 0; i < n; i++)
+    for (let j = 0; j < n; j++) {
+      sw[i] += S.data[i * n + j] * w[j];
+      if (dw) sdw[i] += S.data[i * n + j] * dw[j];
+    }
+  let V = 0;
+  let dV = 0;
+  for (let i = 0; i < n; i++) {
+    V += w[i] * sw[i];
+    if (dw) dV += 2 * dw[i] * sw[i];
+  }
+  const gap = new Float64Array(n);
+  const dGap = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const rc = (w[i] * sw[i]) / V;
+    gap[i] = rc - budgets[i];
+    if (dw) dGap[i] = (dw[i] * sw[i] + w[i] * sdw[i]) / V - (rc * dV) / V;
+  }
+  return { gap, dGap };
 }

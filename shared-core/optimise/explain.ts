@@ -1,7 +1,10 @@
 /**
  * Explanations an advisor can repeat: per asset, why it is held at its weight or left out, from
  * the optimality conditions; per binding limit, its shadow price from the solver's multipliers
- * in the objective's own units.
+ * in a unit an advisor can repeat: the diversification ratio, the Sharpe ratio, volatility,
+ * volatility from correlations alone, the distance from a rule's weights, or (equal risk
+ * contribution) the largest gap between an asset's share of risk and its budget. Each is checked
+ * against re-solves with the limit moved in test/unit/optimise/shadow-prices.test.ts.
  *
  * Maximum diversification (Choueifaty, Froidure and Reynier 2013, J. Portfolio Management,
  * "Properties of the most diversified portfolio"): at the optimum every held asset not at a limit
@@ -178,6 +181,16 @@ export interface ObjectiveScale {
   maximise: boolean;
   /** d(objective)/d(QP objective value) at the solution. */
   chain: number;
+  /**
+   * When set, replaces chain * dObjective: d(objective)/d(limit) taken in the direction that
+   * loosens the limit (`loosenUp`: a cap or maximum rises, a floor or minimum falls); undefined
+   * when it cannot be measured (a degenerate solution), and the limit is then left out.
+   */
+  shadow?: (s: Sensitivity, loosenUp: boolean) => number | undefined;
+  /** The objective is a share (volatility, a share of risk, a distance between weights): changes are told in percentage points. */
+  points?: boolean;
+  /** Verbs for a rise and a fall of the objective; 'raise' and 'lower' when absent. */
+  verbs?: readonly [string, string];
 }
 
 /** Binding limits with shadow prices: dObjective/dLimit per unit (1.00 = 100 points) of the limit. */
@@ -212,13 +225,17 @@ export function explainBinding(m: LinearMandate, sens: Sensitivity[], scale: Obj
         ? `${m.upperSource[i] === 'liquidity-cap' ? 'liquidity cap' : 'cap'} on ${m.assets[i]}`
         : `floor on ${m.assets[i]}`;
     }
-    const shadow = scale.chain * s.dObjective;
-    if (!(Math.abs(shadow) > 0)) continue;
+    const shadow = scale.shadow ? scale.shadow(s, kindUpper) : scale.chain * s.dObjective;
+    if (shadow === undefined || !(Math.abs(shadow) > 0)) continue;
     const step = kindUpper ? 0.01 : -0.01;
     const change = shadow * step;
     const better = scale.maximise ? change > 0 : change < 0;
-    const verb = `${change > 0 ? 'raise' : 'lower'} ${scale.name}`;
-    const text = `${kindUpper ? 'raising' : 'lowering'} the ${label} from ${pct(limit)} to ${pct(limit + step)} would ${verb} by about ${Math.abs(change).toPrecision(2)}${better ? '' : ' (a cost)'}`;
+    const [up, down] = scale.verbs ?? ['raise', 'lower'];
+    const verb = `${change > 0 ? up : down} ${scale.name}`;
+    const size = scale.points
+      ? `${(Math.abs(change) * 100).toPrecision(2)} percentage points`
+      : Math.abs(change).toPrecision(2);
+    const text = `${kindUpper ? 'raising' : 'lowering'} the ${label} from ${pct(limit)} to ${pct(limit + step)} would ${verb} by about ${size}${better ? '' : ' (a cost)'}`;
     out.push({ constraint: `${label} ${pct(limit)}`, shadowPrice: shadow, objectiveUnit: scale.unit, text });
   }
   return out;

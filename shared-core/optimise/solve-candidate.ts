@@ -17,7 +17,7 @@ import { identity, multiplyVector, type Matrix } from '../linalg/matrix.js';
 import type { ObjectiveSpec } from '../scenario/objective-spec.js';
 import type { AssetInfo, Constraints } from '../scenario/schema.js';
 import { nowMs } from './clock.js';
-import { ercOverCone, ercUnconstrained } from './erc.js';
+import { budgetGaps, ercOverCone, ercUnconstrained, ercWeightSensitivity } from './erc.js';
 import { solveWithMinimumPosition } from './minimum-position.js';
 import { explainAssets, explainBinding, type AssetFigures, type ObjectiveScale } from './explain.js';
 import {
@@ -344,34 +344,7 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
     ruleWeights,
   };
   const phi = q && q.status === 'optimal' ? q.solution.objective : NaN;
-  const scale: ObjectiveScale =
-    method === 'max-diversification' || method === 'max-sharpe'
-      ? // R = 1 / sqrt(2 phi) (formulate.ts), so dR/dphi = -(2 phi)^(-3/2).
-        {
-          name: method === 'max-sharpe' ? 'the Sharpe ratio' : 'DR',
-          unit: method === 'max-sharpe' ? 'Sharpe ratio' : 'diversification ratio',
-          maximise: true,
-          chain: -Math.pow(2 * phi, -1.5),
-        }
-      : method === 'min-variance'
-        ? // sigma_p = sqrt(2 phi): dsigma/dphi = 1 / sigma.
-          { name: 'volatility', unit: 'annualised volatility', maximise: false, chain: 1 / Math.sqrt(2 * phi) }
-        : method === 'max-decorrelation'
-          ? { name: "w'Cw", unit: "w'Cw (variance on the correlation matrix)", maximise: false, chain: 2 }
-          : method === 'equal-risk-contribution'
-            ? {
-                name: 'the risk-budgeting objective',
-                unit: 'risk-budgeting objective F (erc.ts)',
-                maximise: false,
-                chain: 1,
-              }
-            : {
-                name: 'the distance from the rule',
-                unit: 'half squared distance from the rule weights',
-                maximise: false,
-                chain: 1,
-              };
-  const binding = explainBinding(m, sens, scale);
+  const binding = explainBinding(m, sens, objectiveScale(method, phi, { S, m, w, form, q, budgets, ruleWeights }));
   for (const s of sens)
     if (
       s.item.type === 'inequality' &&
@@ -383,6 +356,102 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
   const explanations = { assets: explainAssets(p.objective, m, fig, sens), binding, flags };
   const result: CandidateResult = { ...solved(), explanations };
   return { result, warmStart };
+}
+
+/** Two largest gaps closer than this (a share of risk) are treated as tied. */
+const GAP_TIE = 1e-9;
+
+/**
+ * The unit each objective's shadow prices are told in, and how the solver's multipliers reach it.
+ * Every one is checked against re-solves with the limit moved in test/unit/optimise/shadow-prices.test.ts.
+ */
+function objectiveScale(
+  method: ObjectiveSpec['method'],
+  phi: number,
+  at: {
+    S: Matrix;
+    m: LinearMandate;
+    w: Float64Array;
+    form: Formulation | null;
+    q: QpResult | null;
+    budgets?: Float64Array;
+    ruleWeights?: Float64Array;
+  },
+): ObjectiveScale {
+  switch (method) {
+    case 'max-diversification':
+    case 'max-sharpe':
+      // R = 1 / sqrt(2 phi) (formulate.ts), so dR/dphi = -(2 phi)^(-3/2).
+      return {
+        name: method === 'max-sharpe' ? 'the Sharpe ratio' : 'DR',
+        unit: method === 'max-sharpe' ? 'Sharpe ratio' : 'diversification ratio',
+        maximise: true,
+        chain: -Math.pow(2 * phi, -1.5),
+      };
+    case 'min-variance':
+      // sigma_p = sqrt(2 phi): dsigma/dphi = 1 / sigma.
+      return {
+        name: 'volatility',
+        unit: 'annualised volatility',
+        maximise: false,
+        chain: 1 / Math.sqrt(2 * phi),
+        points: true,
+      };
+    case 'max-decorrelation':
+      // phi = w'Cw / 2 with C the correlation matrix; sqrt(w'Cw) is the volatility the portfolio
+      // would have if every asset had the same volatility, as a share of it: d sqrt(2 phi)/dphi = 1 / sqrt(2 phi).
+      return {
+        name: 'the volatility from correlations alone',
+        unit: 'volatility from correlations alone (every asset at the same volatility, as a share of it)',
+        maximise: false,
+        chain: 1 / Math.sqrt(2 * phi),
+        points: true,
+      };
+    case 'equal-risk-contribution': {
+      // The risk-budgeting objective F of erc.ts means nothing to a client; its limits are priced
+      // by what they do to the largest gap between an asset's share of risk and its budget,
+      // through the derivative of the weights in the limit (erc.ts, ercWeightSensitivity).
+      const { S, m, w, form, q, budgets } = at;
+      const move =
+        form && q && q.status === 'optimal' && budgets ? ercWeightSensitivity(S, budgets, form, m, q.solution) : null;
+      return {
+        name: 'the largest gap between a risk contribution and its budget',
+        unit: 'largest gap between a risk contribution and its budget (share of risk)',
+        maximise: false,
+        chain: NaN,
+        points: true,
+        verbs: ['widen', 'narrow'],
+        shadow: (s, loosenUp) => {
+          const dw = move?.(s.item);
+          if (!dw || !budgets) return undefined;
+          const { gap, dGap } = budgetGaps(S, budgets, w, dw);
+          let largest = 0;
+          for (const g of gap) largest = Math.max(largest, Math.abs(g));
+          // The largest of several functions moves, in the loosening direction, as the fastest
+          // rising of those tied at the top.
+          const dir = loosenUp ? 1 : -1;
+          let slope = -Infinity;
+          for (let i = 0; i < gap.length; i++)
+            if (Math.abs(gap[i]) >= largest - GAP_TIE) slope = Math.max(slope, Math.sign(gap[i]) * dGap[i] * dir);
+          return Number.isFinite(slope) ? slope * dir : undefined;
+        },
+      };
+    }
+    default: {
+      // phi = |w - r|^2 / 2 - |r|^2 / 2; the distance |w - r| has d|w - r|/dphi = 1 / |w - r|.
+      const r = at.ruleWeights;
+      let d2 = 0;
+      if (r) for (let i = 0; i < r.length; i++) d2 += (at.w[i] - r[i]) ** 2;
+      const rule = method === 'equal-weight' ? 'equal weights' : 'inverse-volatility weights';
+      return {
+        name: `the distance from the ${rule}`,
+        unit: `distance from the ${rule} (square root of the summed squared weight differences)`,
+        maximise: false,
+        chain: 1 / Math.sqrt(d2),
+        points: true,
+      };
+    }
+  }
 }
 
 export function solveCandidate(problem: CandidateProblem): CandidateResult {
