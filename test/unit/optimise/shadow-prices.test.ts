@@ -37,7 +37,7 @@ import type { CandidateProblem } from '../../../shared-core/optimise/solve-candi
 import type { CandidateResult } from '../../../shared-core/optimise/result.js';
 import type { ObjectiveSpec } from '../../../shared-core/scenario/objective-spec.js';
 import type { Constraints } from '../../../shared-core/scenario/schema.js';
-import { ids, solve, weightsArray } from './helpers.js';
+import { equicorrelated, ids, solve, weightsArray } from './helpers.js';
 import { randomCovariance } from './random-problems.js';
 
 const H = 1e-5;
@@ -390,5 +390,31 @@ describe('equal risk contribution: the derivative of the weights in a limit (erc
     const again = ercWeightSensitivity(S, budgets, twice, m, sol)(item)!;
     expect(again).toBeDefined();
     for (let i = 0; i < N; i++) expect(again[i]).toBeCloseTo(dw[i], 12);
+  });
+});
+
+describe('equal risk contribution: a tie for the largest gap', () => {
+  it('is priced by the one-sided derivative in the loosening direction (Danskin 1967)', () => {
+    // Four alike assets, two capped at 20%: by symmetry all four gaps have the same size (the
+    // capped two below their budgets, the free two above by as much). The largest gap is then a
+    // maximum of several smooth functions, whose derivative in one direction is the largest of
+    // theirs (Danskin 1967, The Theory of Max-Min, recalled from memory): compare with a forward
+    // difference, raising the cap, whose error h f'' / 2 is about 1e-5 of the slope here.
+    const S4 = equicorrelated(4, 0.2, 0.3);
+    const objective: ObjectiveSpec = { method: 'equal-risk-contribution' };
+    const make = (cap: number): Constraints => ({ weightBounds: { A001: [0, cap], A002: [0, 0.2] } });
+    const at = (cap: number) => solve(S4, objective, make(cap));
+    const r = at(0.2);
+    const gaps = ids(4).map((a) => Math.abs(r.metrics!.riskContributions[a] - 0.25));
+    for (const g of gaps) expect(g).toBeCloseTo(gaps[0], 9);
+    expect(gaps[0]).toBeGreaterThan(0.01);
+    const b = r.explanations!.binding.find((x) => x.constraint.startsWith('cap on A001 '))!;
+    expect(b).toBeDefined();
+    const f = (cap: number) => objectiveValue(S4, objective, at(cap), []);
+    const h = 1e-6;
+    const forward = (f(0.2 + h) - f(0.2)) / h;
+    const backward = (f(0.2) - f(0.2 - h)) / h;
+    expect(Math.abs(forward - backward)).toBeGreaterThan(0.01 * Math.abs(forward));
+    expect(Math.abs(b.shadowPrice - forward) / Math.abs(forward)).toBeLessThan(1e-3);
   });
 });
