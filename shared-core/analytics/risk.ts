@@ -1,5 +1,6 @@
 import { zeros, type Matrix } from '../linalg/matrix.js';
-import { spectralExposures } from '../linalg/symmetric-eigen.js';
+import { formExposures } from '../linalg/symmetric-eigen.js';
+import { tridiagonalForm, type TridiagonalForm } from '../linalg/tridiagonal-form.js';
 
 /**
  * Risk figures of a portfolio for any weights and covariance: the one place the app, the memo
@@ -96,11 +97,14 @@ export function riskContributions(weights: ArrayLike<number>, covariance: Matrix
  * Effective number of bets from principal components (Meucci 2009, "Managing diversification",
  * Risk 22): with Sigma = E Lambda E', the exposures to the principal portfolios are E'w, their
  * shares of variance p_k = (E'w)_k^2 lambda_k / w'Sigma w, and the effective number of bets is
- * exp(-sum p_k ln p_k), between 1 and N.
+ * exp(-sum p_k ln p_k), between 1 and N. `form` is the covariance's tridiagonal form (or that of
+ * a positive multiple of it, which has the same shares) where the caller has it already.
  */
-export function effectiveBets(weights: ArrayLike<number>, covariance: Matrix): number {
+export function effectiveBets(weights: ArrayLike<number>, covariance: Matrix, form?: TridiagonalForm): number {
   check(weights, covariance);
-  const { values, exposures } = spectralExposures(covariance, weights);
+  if (form && form.n !== covariance.rows)
+    throw new RangeError(`a tridiagonal form of size ${form.n} for a ${covariance.rows}-asset covariance`);
+  const { values, exposures } = formExposures(form ?? tridiagonalForm(covariance), weights);
   const shares = Float64Array.from(exposures, (x, k) => x * Math.max(0, values[k]));
   let total = 0;
   for (const s of shares) total += s;

@@ -13,6 +13,7 @@ import {
   riskContributions,
 } from '../analytics/risk.js';
 import { conditionNumber } from '../linalg/condition.js';
+import type { TridiagonalForm } from '../linalg/tridiagonal-form.js';
 import { identity, multiplyVector, type Matrix } from '../linalg/matrix.js';
 import type { ObjectiveSpec } from '../scenario/objective-spec.js';
 import type { AssetInfo, Constraints } from '../scenario/schema.js';
@@ -58,6 +59,8 @@ export interface CandidateProblem {
   assetInfo?: Record<string, AssetInfo>;
   /** From the estimate's diagnostics when known (saves recomputing it). */
   conditionNumber?: number;
+  /** The covariance's tridiagonal form, shared by the candidates of one estimate (linalg/tridiagonal-form.ts). */
+  spectrum?: () => TridiagonalForm;
   observations?: number;
   estimator?: string;
   warmStart?: QpWarmStart;
@@ -88,7 +91,7 @@ function metricsOf(w: Float64Array, p: CandidateProblem, m: LinearMandate): Cand
   return {
     volatility: portfolioVolatility(w, S),
     diversificationRatio: diversificationRatio(w, S),
-    effectiveBets: full ? effectiveBets(w, S) : NaN,
+    effectiveBets: full ? effectiveBets(w, S, p.spectrum?.()) : NaN,
     effectiveHoldings: effectiveHoldings(w),
     riskContributions: Object.fromEntries(p.assets.map((a, i) => [a, rc[i]])),
     turnover: p.current ? turnover : 0,

@@ -6,6 +6,7 @@ import { InputError } from '../errors.js';
 import { annualised, estimateCovariance } from '../estimators/registry.js';
 import type { CovarianceEstimate, CrossProduct, EstimateContext } from '../estimators/types.js';
 import type { Matrix } from '../linalg/matrix.js';
+import { tridiagonalForm, type TridiagonalForm } from '../linalg/tridiagonal-form.js';
 import type { QpWarmStart } from '../optimise/qp/types.js';
 import type { CandidateResult } from '../optimise/result.js';
 import { solveCandidateDetailed } from '../optimise/solve-candidate.js';
@@ -24,6 +25,8 @@ export interface RunScenarioOptions {
   fx?: PriceTable;
   /** A faster X'X from the edge (several threads); see EstimateContext. */
   crossProduct?: CrossProduct;
+  /** The same tridiagonal reduction from the edge, faster (two threads: src-main/compute/). */
+  tridiagonalise?: (m: Matrix) => TridiagonalForm;
 }
 
 export interface CandidateEstimate {
@@ -116,7 +119,9 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
     periodsPerYear: scenario.periodsPerYear,
     ...(options.crossProduct ? { crossProduct: options.crossProduct } : {}),
   };
-  const cache = new Map<string, { estimate: CovarianceEstimate; covariance: Matrix }>();
+  const reduce = options.tridiagonalise ?? tridiagonalForm;
+  // One reduction per estimate serves the effective bets of every candidate that shares it.
+  const cache = new Map<string, { estimate: CovarianceEstimate; covariance: Matrix; form?: TridiagonalForm }>();
   const candidates: CandidateResult[] = [];
   const estimates: Record<string, CandidateEstimate> = {};
   const warmStarts: Record<string, QpWarmStart> = {};
@@ -131,6 +136,7 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
     }
     estimates[c.id] = { assets, covariance: entry.covariance, estimate: entry.estimate };
     cancel();
+    const shared = entry;
     const solved = solveCandidateDetailed({
       id: c.id,
       label: c.label,
@@ -142,6 +148,7 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
       expectedReturns: scenario.expectedReturns,
       assetInfo: scenario.assetInfo,
       conditionNumber: entry.estimate.diagnostics.conditionNumber,
+      spectrum: () => (shared.form ??= reduce(shared.covariance)),
       observations: entry.estimate.diagnostics.observations,
       estimator: c.estimator.method,
       warmStart: options.warmStarts?.[c.id],

@@ -1,13 +1,24 @@
 import { parentPort } from 'node:worker_threads';
 import { crossProductRows } from '../../shared-core/linalg/cross-product.js';
+import { fusedColumns } from '../../shared-core/linalg/tridiagonal-form.js';
 import { CLAIMED, DONE, FAILED, TAKEN_BACK, type RowsJob } from './two-thread-cross-product.js';
+import * as tri from './two-thread-tridiagonal.js';
 
 /**
- * The second thread of two-thread-cross-product.ts: claims a job (unless the main thread took it
- * back), computes its rows of X'X with the core's kernel into shared memory, and says so through
- * the job's flag, which the waiting main thread reads.
+ * The helper thread of src-main/compute: it runs its share of a two-thread kernel with the core's
+ * own code on shared memory and says so through the job's flags, which the waiting main thread
+ * reads.
+ * - `rows` (two-thread-cross-product.ts): claims the job unless the main thread took it back,
+ *   computes its rows of X'X.
+ * - `tridiagonal` (two-thread-tridiagonal.ts): claims the job unless the main thread closed it,
+ *   then runs the second column range of every step it is handed until told to stop.
  */
-parentPort!.on('message', (job: RowsJob) => {
+parentPort!.on('message', (job: RowsJob | tri.TridiagonalJob) => {
+  if (job.kind === 'rows') rows(job);
+  else tridiagonal(job);
+});
+
+function rows(job: RowsJob): void {
   const flag = new Int32Array(job.flag);
   if (Atomics.compareExchange(flag, 0, 0, CLAIMED) === TAKEN_BACK) return;
   try {
@@ -18,4 +29,37 @@ parentPort!.on('message', (job: RowsJob) => {
     Atomics.store(flag, 0, FAILED);
   }
   Atomics.notify(flag, 0);
-});
+}
+
+function tridiagonal(job: tri.TridiagonalJob): void {
+  const control = new Int32Array(job.control);
+  if (Atomics.compareExchange(control, tri.STATE, tri.OPEN, tri.CLAIMED) !== tri.OPEN) return;
+  const w = new Float64Array(job.w);
+  const u = new Float64Array(job.u);
+  const q = new Float64Array(job.q);
+  const v = new Float64Array(job.v);
+  const second = new Float64Array(job.second);
+  // Steps are numbered from 1 and none is handed over before the claim, so 0 is the last seen.
+  let seen = 0;
+  for (;;) {
+    awaitChange(control, tri.GO, seen);
+    seen = Atomics.load(control, tri.GO);
+    const size = Atomics.load(control, tri.SIZE);
+    if (size === tri.STOP_SIZE) return;
+    try {
+      fusedColumns(w, job.n, size, Atomics.load(control, tri.SPLIT), size, u, q, v, second);
+      Atomics.store(control, tri.DONE, seen);
+    } catch {
+      Atomics.store(control, tri.DONE, tri.FAILED_STEP);
+      Atomics.notify(control, tri.DONE);
+      return;
+    }
+    Atomics.notify(control, tri.DONE);
+  }
+}
+
+/** Waits until control[slot] differs from `from`: spins, then sleeps (the main thread never goes quiet for long). */
+function awaitChange(control: Int32Array, slot: number, from: number): void {
+  for (let spin = 0; spin < tri.SPINS; spin++) if (Atomics.load(control, slot) !== from) return;
+  while (Atomics.load(control, slot) === from) Atomics.wait(control, slot, from);
+}

@@ -1,8 +1,7 @@
-import { existsSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
-import { Worker } from 'node:worker_threads';
+import type { Worker } from 'node:worker_threads';
 import { crossProduct as oneThread, crossProductRows, mirrorLower } from '../../shared-core/linalg/cross-product.js';
 import type { Matrix } from '../../shared-core/linalg/matrix.js';
+import { createSecondThread, processSecondThread, type SecondThread } from './second-thread.js';
 
 /**
  * X'X on both cores: the main thread computes the first rows of the lower triangle, a worker
@@ -13,6 +12,7 @@ import type { Matrix } from '../../shared-core/linalg/matrix.js';
  * does all of it.
  */
 export interface RowsJob {
+  kind: 'rows';
   x: SharedArrayBuffer;
   out: SharedArrayBuffer;
   flag: SharedArrayBuffer;
@@ -34,7 +34,8 @@ const STARTUP_MS = 2000;
 const JOB_MS = 10 * 60 * 1000;
 
 export interface TwoThreadOptions {
-  /** The worker's compiled script; by default cross-product-thread.js beside this module. */
+  /** The helper thread; by default a new one from `script` (compute-thread.js beside this module). */
+  thread?: SecondThread;
   script?: URL;
   minWork?: number;
 }
@@ -44,23 +45,12 @@ export function createTwoThreadCrossProduct(options: TwoThreadOptions = {}): {
   crossProduct: (x: Matrix) => Matrix;
   stats: { rowsByWorker: number };
 } {
-  const script = options.script ?? new URL('./cross-product-thread.js', import.meta.url);
+  const thread = options.thread ?? createSecondThread(options.script);
   const minWork = options.minWork ?? MIN_WORK;
   const stats = { rowsByWorker: 0 };
-  let worker: Worker | undefined;
-  /** Started on first use; undefined where the compiled script is absent (sources run by a test runner). */
-  const theWorker = (): Worker | undefined => {
-    if (!worker) {
-      if (!existsSync(fileURLToPath(script))) return undefined;
-      worker = new Worker(script);
-      worker.unref(); // never keeps the process alive
-      worker.on('error', () => (worker = undefined));
-    }
-    return worker;
-  };
   const crossProduct = (x: Matrix): Matrix => {
     const n = x.cols;
-    const helper = (n * (n + 1) * x.rows) / 2 < minWork ? undefined : theWorker();
+    const helper = (n * (n + 1) * x.rows) / 2 < minWork ? undefined : thread.worker();
     if (!helper) return oneThread(x);
     const out = new Float64Array(new SharedArrayBuffer(n * n * 8));
     const byWorker = onTwoThreads(x, out, helper);
@@ -70,8 +60,8 @@ export function createTwoThreadCrossProduct(options: TwoThreadOptions = {}): {
   return { crossProduct, stats };
 }
 
-/** The command line's: one worker for the process. */
-export const twoThreadCrossProduct = createTwoThreadCrossProduct().crossProduct;
+/** The command line's, on the process's one helper thread. */
+export const twoThreadCrossProduct = createTwoThreadCrossProduct({ thread: processSecondThread }).crossProduct;
 
 /** Fills `out` with X'X, the worker taking the last rows; returns how many rows it computed. */
 function onTwoThreads(x: Matrix, out: Float64Array, helper: Worker): number {
@@ -84,6 +74,7 @@ function onTwoThreads(x: Matrix, out: Float64Array, helper: Worker): number {
   const split = Math.round(n / Math.SQRT2 / 4) * 4;
   const flag = new Int32Array(new SharedArrayBuffer(4));
   helper.postMessage({
+    kind: 'rows',
     x: shared,
     out: out.buffer as SharedArrayBuffer,
     flag: flag.buffer as SharedArrayBuffer,

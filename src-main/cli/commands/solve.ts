@@ -6,6 +6,7 @@ import { runScenario, type ScenarioRun } from '../../../shared-core/scenario/run
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { twoThreadCrossProduct } from '../../compute/two-thread-cross-product.js';
+import { twoThreadTridiagonal } from '../../compute/two-thread-tridiagonal.js';
 import { EXIT, UsageError, type CliIO, type Command, type OptionValues } from '../command.js';
 import { fxOption, readInputFile, withExchangeRates } from '../files.js';
 import { readSolveStore } from './solve-from-store.js';
@@ -55,6 +56,7 @@ export function solveInputs(inputs: SolveInputs, signal?: AbortSignal): Scenario
       ...(inputs.fx ? { fx: inputs.fx } : {}),
       shouldCancel: signal ? () => signal.aborted : undefined,
       crossProduct: twoThreadCrossProduct,
+      tridiagonalise: twoThreadTridiagonal,
     });
   } catch (error) {
     if (error instanceof InputError) {

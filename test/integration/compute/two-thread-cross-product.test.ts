@@ -11,7 +11,7 @@ import { createTwoThreadCrossProduct } from '../../../src-main/compute/two-threa
  * kernel) gives the single-thread numbers bit for bit. The worker runs from the build that
  * `npm test` makes first (dist/), as it does for `holdfast`.
  */
-const script = new URL('../../../dist/src-main/compute/cross-product-thread.js', import.meta.url);
+const script = new URL('../../../dist/src-main/compute/compute-thread.js', import.meta.url);
 
 function returns(t: number, n: number) {
   let s = 7;
