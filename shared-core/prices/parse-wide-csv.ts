@@ -38,13 +38,8 @@ export function parseWidePriceCsv(text: string): PriceTable {
     const lineNo = r + 2;
     const line = lines[r + 1];
     if (line.trim() === '') throw new InputError('empty line inside the price table', at(lineNo, 1));
-    const cells = splitLine(line, lineNo);
-    if (cells.length !== header.length)
-      throw new InputError(
-        `expected ${header.length} cells (date and ${assets.length} prices), found ${cells.length}`,
-        at(lineNo, Math.min(cells.length, header.length) + 1),
-      );
-    const date = cells[0];
+    const comma = line.indexOf(',');
+    const date = comma === -1 || line.charCodeAt(0) === QUOTE ? splitLine(line, lineNo)[0] : line.slice(0, comma);
     const why = isoDateProblem(date);
     if (why) throw new InputError(`"${date}" is not a date: ${why}`, at(lineNo, 1));
     if (r > 0) {
@@ -57,6 +52,13 @@ export function parseWidePriceCsv(text: string): PriceTable {
         });
     }
     dates[r] = date;
+    if (comma !== -1 && line.charCodeAt(0) !== QUOTE && scanPrices(line, comma + 1, closes, r)) continue;
+    const cells = splitLine(line, lineNo);
+    if (cells.length !== header.length)
+      throw new InputError(
+        `expected ${header.length} cells (date and ${assets.length} prices), found ${cells.length}`,
+        at(lineNo, Math.min(cells.length, header.length) + 1),
+      );
     for (let k = 0; k < assets.length; k++) {
       const cell = cells[k + 1];
       if (cell === '') {
@@ -91,6 +93,56 @@ export function wideCsvLocator(table: PriceTable): (asset: string | undefined, d
 // Plain decimal notation with an optional exponent; no sign other than an explicit '+' or '-'
 // (a '-' is caught as "not positive" with a clearer message), no thousands separators.
 const DECIMAL = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
+
+const QUOTE = 34;
+const COMMA = 44;
+const DOT = 46;
+const ZERO = 48;
+/** Exact powers of ten as doubles: 10^0 .. 10^22 (every one is representable). */
+const POWERS = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
+
+/**
+ * The common line, read without splitting it: every price cell unquoted, empty or a plain
+ * positive decimal of at most 15 significant digits, with no exponent. Such a value is m / 10^k
+ * with m < 2^53 and k <= 22, both exact doubles, so one division rounds it exactly as Number()
+ * does (Clinger 1990, "How to read floating point numbers accurately", PLDI). Returns false,
+ * having written nothing that matters, as soon as a cell is anything else: the caller then
+ * re-reads the line cell by cell, which finds and explains any error.
+ */
+function scanPrices(line: string, start: number, closes: Float64Array[], r: number): boolean {
+  const end = line.length;
+  let i = start;
+  for (let k = 0; k < closes.length; k++) {
+    if (i > end) return false; // fewer cells than assets
+    let c = i < end ? line.charCodeAt(i) : COMMA;
+    if (c === COMMA) {
+      closes[k][r] = NaN;
+      i++;
+      continue;
+    }
+    let mantissa = 0;
+    let digits = 0;
+    let scale = 0;
+    let seen = false;
+    let point = false;
+    for (; i < end; i++) {
+      c = line.charCodeAt(i);
+      const d = c - ZERO;
+      if (d >= 0 && d <= 9) {
+        seen = true;
+        if (mantissa !== 0 || d !== 0) digits++;
+        mantissa = mantissa * 10 + d;
+        if (point) scale++;
+      } else if (c === DOT && !point) point = true;
+      else break;
+    }
+    if (i < end && c !== COMMA) return false; // a sign, an exponent, a quote, a stray character
+    if (!seen || digits > 15 || scale > 22 || mantissa === 0) return false;
+    closes[k][r] = mantissa / POWERS[scale];
+    i++;
+  }
+  return i > end; // and not more cells than assets
+}
 
 function at(line: number, column: number): InputLocation {
   return { line, column };

@@ -60,4 +60,36 @@ describe('parseWidePriceCsv: the wide price file of the estimators issue', () =>
     const table = parseWidePriceCsv('date,A\n2024-02-29,1\n\n\n');
     expect(table.dates).toEqual(['2024-02-29']);
   });
+
+  it('reads every price exactly as Number() does, on the quick path and off it (ECMA-262 section 7.1.4.1.1: the conversion is correctly rounded)', () => {
+    let seed = 17;
+    const next = () => (seed = (seed * 16807) % 2147483647) / 2147483647;
+    const cells = [
+      '5.',
+      '.5',
+      '0.5',
+      '007.25',
+      '1e3',
+      '2.5E-2',
+      '+3',
+      '123456789012345',
+      '1234567890123456',
+      '0.1234567890123456789',
+    ];
+    for (let c = 0; c < 2000; c++) {
+      const digits = 1 + Math.floor(next() * 18);
+      let body = String(1 + Math.floor(next() * 9));
+      for (let d = 1; d < digits; d++) body += Math.floor(next() * 10);
+      const point = Math.floor(next() * (digits + 1));
+      cells.push(point === digits ? body : `${body.slice(0, point)}.${body.slice(point)}`);
+    }
+    const header = cells.map((_, k) => `A${k}`).join(',');
+    const table = parseWidePriceCsv(
+      `date,${header}\n2024-01-02,${cells.join(',')}\n2024-01-03,${cells.map((_, k) => (k % 3 === 0 ? '' : cells[k])).join(',')}\n`,
+    );
+    cells.forEach((cell, k) => {
+      expect(Object.is(table.closes[k][0], Number(cell)), cell).toBe(true);
+      expect(Object.is(table.closes[k][1], k % 3 === 0 ? NaN : Number(cell)), cell).toBe(true);
+    });
+  });
 });
