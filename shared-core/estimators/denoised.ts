@@ -49,6 +49,6 @@ export const denoisedCovariance: Estimator<Extract<EstimatorSpec, { method: 'den
     method: 'denoised',
     covariance: c,
     periodsPerYear: periodsPerYear(context),
-    diagnostics: diagnose(c, t, t, null, { eigenvaluesClipped: clipped, marchenkoPasturEdge: edge }),
+    diagnostics: diagnose(c, t, t, null, { eigenvaluesClipped: clipped, marchenkoPasturEdge: edge }, { context }),
   };
 };

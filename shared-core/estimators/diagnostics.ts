@@ -1,6 +1,15 @@
-import { conditionNumber } from '../linalg/condition.js';
+import { EXACT_CONDITION_LIMIT, conditionNumber } from '../linalg/condition.js';
 import type { Matrix } from '../linalg/matrix.js';
-import type { EstimateDiagnostics } from './types.js';
+import type { EstimateContext, EstimateDiagnostics } from './types.js';
+
+export interface DiagnoseOptions {
+  /** Singular by rank (N >= T for the sample covariance): no condition number is computed. */
+  singular?: boolean;
+  /** The smallest eigenvalue when the method knows it exactly (shrinkage of a rank-deficient S). */
+  knownSmallest?: number;
+  /** The run's context: its tridiagonal reduction, where it has one, is shared with later steps. */
+  context?: EstimateContext;
+}
 
 /** The diagnostics every estimate carries; `extra` adds the method's own figures. */
 export function diagnose(
@@ -9,11 +18,11 @@ export function diagnose(
   effectiveObservations: number,
   shrinkage: number | null,
   extra: Partial<EstimateDiagnostics> & Record<string, unknown> = {},
-  singular = false,
-  /** The smallest eigenvalue when the method knows it exactly (shrinkage of a rank-deficient S). */
-  knownSmallest?: number,
+  options: DiagnoseOptions = {},
 ): EstimateDiagnostics {
-  const condition = singular ? undefined : conditionNumber(covariance, knownSmallest);
+  const reduce = options.context?.tridiagonalise;
+  const form = !options.singular && reduce && covariance.rows <= EXACT_CONDITION_LIMIT ? reduce(covariance) : undefined;
+  const condition = options.singular ? undefined : conditionNumber(covariance, options.knownSmallest, form);
   return {
     observations,
     effectiveObservations,

@@ -58,7 +58,7 @@ export const ewmaCovariance: Estimator<Extract<EstimatorSpec, { method: 'ewma' }
       1 / squares,
       null,
       { lambda, halfLife: Math.log(0.5) / Math.log(lambda) },
-      n > t,
+      { singular: n > t, context },
     ),
   };
 };

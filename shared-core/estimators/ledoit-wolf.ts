@@ -41,8 +41,10 @@ export const ledoitWolfCovariance: Estimator<Extract<EstimatorSpec, { method: 'l
       t,
       shrinkage,
       { target },
-      false,
-      target === 'scaled-identity' && x.cols >= t ? (shrinkage * trace(s)) / x.cols : undefined,
+      {
+        knownSmallest: target === 'scaled-identity' && x.cols >= t ? (shrinkage * trace(s)) / x.cols : undefined,
+        context,
+      },
     ),
   };
 };

@@ -27,6 +27,6 @@ export const oasCovariance: Estimator<Extract<EstimatorSpec, { method: 'oas' }>>
     covariance: s,
     periodsPerYear: periodsPerYear(context),
     // With N >= T, S is rank-deficient and the smallest eigenvalue of the shrunk matrix is delta mu.
-    diagnostics: diagnose(s, t, t, delta, {}, false, n >= t ? delta * mu : undefined),
+    diagnostics: diagnose(s, t, t, delta, {}, { knownSmallest: n >= t ? delta * mu : undefined, context }),
   };
 };

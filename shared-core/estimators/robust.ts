@@ -67,11 +67,18 @@ export const robustCovariance: Estimator<Extract<EstimatorSpec, { method: 'robus
     method: 'robust',
     covariance: cov,
     periodsPerYear: periodsPerYear(context),
-    diagnostics: diagnose(cov, t, rows.length, null, {
-      estimator: 'Tyler (1987) shape with median centre and MAD scales',
-      iterations,
-      converged,
-    }),
+    diagnostics: diagnose(
+      cov,
+      t,
+      rows.length,
+      null,
+      {
+        estimator: 'Tyler (1987) shape with median centre and MAD scales',
+        iterations,
+        converged,
+      },
+      { context },
+    ),
   };
 };
 

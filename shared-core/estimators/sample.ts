@@ -13,6 +13,6 @@ export const sampleCovariance: Estimator<Extract<EstimatorSpec, { method: 'sampl
     method: 'sample',
     covariance,
     periodsPerYear: periodsPerYear(context),
-    diagnostics: diagnose(covariance, t, t, null, {}, returns.cols >= t),
+    diagnostics: diagnose(covariance, t, t, null, {}, { singular: returns.cols >= t, context }),
   };
 };

@@ -1,4 +1,5 @@
 import type { Matrix } from '../linalg/matrix.js';
+import type { TridiagonalForm } from '../linalg/tridiagonal-form.js';
 import type { EstimatorSpec } from '../scenario/estimator-spec.js';
 
 export type Frequency = 'daily' | 'weekly' | 'monthly';
@@ -18,6 +19,12 @@ export interface EstimateContext {
    * (src-main/compute/two-thread-cross-product.ts); the core itself never starts a thread.
    */
   crossProduct?: CrossProduct;
+  /**
+   * The tridiagonal reduction to use (linalg/tridiagonal-form.ts): an edge's faster one, or a
+   * run's memoised one, so that the exact condition number and the effective bets of the
+   * candidates come from one reduction of the estimate.
+   */
+  tridiagonalise?: (m: Matrix) => TridiagonalForm;
 }
 
 export interface EstimateDiagnostics {

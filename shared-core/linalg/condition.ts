@@ -1,5 +1,6 @@
 import type { Matrix } from './matrix.js';
-import { symmetricEigenvalues, tridiagonalEigenvalues } from './symmetric-eigen.js';
+import { formEigenvalues, symmetricEigenvalues, tridiagonalEigenvalues } from './symmetric-eigen.js';
+import type { TridiagonalForm } from './tridiagonal-form.js';
 
 /** Up to this size the condition number comes from every eigenvalue (4/3 N^3 flops). */
 export const EXACT_CONDITION_LIMIT = 600;
@@ -24,14 +25,18 @@ export interface ConditionNumber {
  * reorthogonalisation (Golub and Van Loan, Matrix Computations, 4th ed. 2013, section 10.1),
  * which keeps the diagnostic cheap (30 matrix-vector products) for large universes. The
  * largest Ritz value converges first; the smallest is an upper bound on the smallest eigenvalue,
- * so callers that know it exactly (a shrunk rank-deficient matrix) pass it in.
+ * so callers that know it exactly (a shrunk rank-deficient matrix) pass it in. A caller that has
+ * the matrix's tridiagonal form gets the exact figure at any size for O(N^2).
  */
-export function conditionNumber(m: Matrix, knownSmallest?: number): ConditionNumber {
+export function conditionNumber(m: Matrix, knownSmallest?: number, form?: TridiagonalForm): ConditionNumber {
   const n = m.rows;
   if (n === 0) return { value: 1, method: 'eigenvalues', largest: 0, smallest: 0 };
   let values: Float64Array;
   let method: ConditionNumber['method'] = 'eigenvalues';
-  if (n <= EXACT_CONDITION_LIMIT) values = symmetricEigenvalues(m);
+  if (form) {
+    if (form.n !== n) throw new RangeError(`a tridiagonal form of size ${form.n} for a ${n} x ${n} matrix`);
+    values = formEigenvalues(form);
+  } else if (n <= EXACT_CONDITION_LIMIT) values = symmetricEigenvalues(m);
   else {
     values = lanczosRitzValues(m, LANCZOS_STEPS);
     method = 'lanczos';

@@ -59,7 +59,10 @@ export interface CandidateProblem {
   assetInfo?: Record<string, AssetInfo>;
   /** From the estimate's diagnostics when known (saves recomputing it). */
   conditionNumber?: number;
-  /** The covariance's tridiagonal form, shared by the candidates of one estimate (linalg/tridiagonal-form.ts). */
+  /**
+   * The tridiagonal form (linalg/tridiagonal-form.ts) of the covariance or of a positive multiple
+   * of it (the per-period estimate), shared by the candidates of one estimate.
+   */
   spectrum?: () => TridiagonalForm;
   observations?: number;
   estimator?: string;

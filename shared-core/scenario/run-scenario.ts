@@ -114,14 +114,21 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
           throw new InputError(`unknown asset '${key}'`, { path: `candidates[${i}].objective.budgets.${key}` });
   });
 
+  // One reduction per estimate serves its exact condition number and the effective bets of every
+  // candidate that shares it (the bets do not change when the covariance is annualised).
+  const forms = new Map<Matrix, TridiagonalForm>();
+  const reduceOnce = (m: Matrix): TridiagonalForm => {
+    let form = forms.get(m);
+    if (!form) forms.set(m, (form = (options.tridiagonalise ?? tridiagonalForm)(m)));
+    return form;
+  };
   const context: EstimateContext = {
     frequency: returns.frequency,
     periodsPerYear: scenario.periodsPerYear,
     ...(options.crossProduct ? { crossProduct: options.crossProduct } : {}),
+    tridiagonalise: reduceOnce,
   };
-  const reduce = options.tridiagonalise ?? tridiagonalForm;
-  // One reduction per estimate serves the effective bets of every candidate that shares it.
-  const cache = new Map<string, { estimate: CovarianceEstimate; covariance: Matrix; form?: TridiagonalForm }>();
+  const cache = new Map<string, { estimate: CovarianceEstimate; covariance: Matrix }>();
   const candidates: CandidateResult[] = [];
   const estimates: Record<string, CandidateEstimate> = {};
   const warmStarts: Record<string, QpWarmStart> = {};
@@ -136,7 +143,7 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
     }
     estimates[c.id] = { assets, covariance: entry.covariance, estimate: entry.estimate };
     cancel();
-    const shared = entry;
+    const perPeriod = entry.estimate.covariance;
     const solved = solveCandidateDetailed({
       id: c.id,
       label: c.label,
@@ -148,7 +155,7 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
       expectedReturns: scenario.expectedReturns,
       assetInfo: scenario.assetInfo,
       conditionNumber: entry.estimate.diagnostics.conditionNumber,
-      spectrum: () => (shared.form ??= reduce(shared.covariance)),
+      spectrum: () => reduceOnce(perPeriod),
       observations: entry.estimate.diagnostics.observations,
       estimator: c.estimator.method,
       warmStart: options.warmStarts?.[c.id],
