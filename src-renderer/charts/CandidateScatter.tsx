@@ -59,6 +59,7 @@ export const CandidateScatter = memo(function CandidateScatter(props: {
         splitLine: { lineStyle: { color: RULE } },
       },
       series: props.points.map((p) => ({
+        id: p.id,
         name: p.id,
         type: 'scatter',
         symbol: p.symbol,
@@ -76,6 +77,7 @@ export const CandidateScatter = memo(function CandidateScatter(props: {
       title={scatterFinding(props.points)}
       basis={`Each candidate's annualised volatility against its diversification ratio (higher is more diversified), each estimated with its own risk estimate. ${props.basis}`}
       option={option}
+      seriesById
       height={300}
       table={
         <table className="grid">

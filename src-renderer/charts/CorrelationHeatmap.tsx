@@ -70,7 +70,13 @@ export const CorrelationHeatmap = memo(function CorrelationHeatmap(props: {
         inRange: { color: DIVERGING },
       },
       series: [
-        { type: 'heatmap', data, progressive: 0, emphasis: { itemStyle: { borderColor: INK, borderWidth: 1 } } },
+        {
+          id: 'correlation',
+          type: 'heatmap',
+          data,
+          progressive: 0,
+          emphasis: { itemStyle: { borderColor: INK, borderWidth: 1 } },
+        },
       ],
     };
   }, [correlation, order, labels, n]);
@@ -80,6 +86,7 @@ export const CorrelationHeatmap = memo(function CorrelationHeatmap(props: {
       title={correlationFinding(assets, correlation)}
       basis={`Correlations of the ${props.estimateLabel} estimate, from \u22121 (blue) through 0 (white) to +1 (red); assets ordered by hierarchical clustering (average linkage) so related assets sit together. ${props.basis}`}
       option={option}
+      seriesById
       height={Math.max(320, 16 * n + 110)}
       table={
         <div className="table-scroll">

@@ -5,9 +5,25 @@ import { echarts, type EChartsOption } from './echarts-setup.js';
  * One ECharts canvas that follows its option and its box size. The canvas is a picture for the
  * eye: the figure around it carries the title, the units and the data table for everyone else.
  */
-export function EChart({ option, height, label }: { option: EChartsOption; height: number; label: string }) {
+export function EChart({
+  option,
+  height,
+  label,
+  seriesById = false,
+}: {
+  option: EChartsOption;
+  height: number;
+  label: string;
+  /**
+   * Every series of every option has an `id`: a new option then updates the chart in place
+   * (axes, legend and tooltip kept, series matched by id, series not named any more removed)
+   * instead of building it again, which costs several ms per chart on every recompute.
+   */
+  seriesById?: boolean;
+}) {
   const box = useRef<HTMLDivElement>(null);
   const chart = useRef<ReturnType<typeof echarts.init> | null>(null);
+  const drawn = useRef(false);
   useEffect(() => {
     if (!box.current) return;
     const instance = echarts.init(box.current, undefined, { renderer: 'canvas' });
@@ -18,11 +34,16 @@ export function EChart({ option, height, label }: { option: EChartsOption; heigh
       observer.disconnect();
       instance.dispose();
       chart.current = null;
+      drawn.current = false;
     };
   }, []);
   useEffect(() => {
-    chart.current?.setOption(option, { notMerge: true, lazyUpdate: true });
-  }, [option]);
+    const instance = chart.current;
+    if (!instance) return;
+    if (seriesById && drawn.current) instance.setOption(option, { replaceMerge: ['series'], lazyUpdate: true });
+    else instance.setOption(option, { notMerge: true, lazyUpdate: true });
+    drawn.current = true;
+  }, [option, seriesById]);
   return <div ref={box} className="echart" style={{ height }} role="img" aria-label={label} />;
 }
 
@@ -37,6 +58,8 @@ export function ChartFigure(props: {
   height: number;
   table: ReactNode;
   testId?: string;
+  /** See EChart. */
+  seriesById?: boolean;
 }) {
   return (
     <figure className="chart-box chart-figure" data-testid={props.testId}>
@@ -44,7 +67,7 @@ export function ChartFigure(props: {
         <h4 className="chart-title">{props.title}</h4>
         <p className="chart-basis">{props.basis}</p>
       </figcaption>
-      <EChart option={props.option} height={props.height} label={props.title} />
+      <EChart option={props.option} height={props.height} label={props.title} seriesById={props.seriesById} />
       <details className="chart-data">
         <summary>Figures as a table</summary>
         {props.table}

@@ -33,7 +33,7 @@ export const EstimateDifferenceChart = memo(function EstimateDifferenceChart(pro
   locale?: string;
 }) {
   const { assets, estimates } = props;
-  const shown = estimates.filter((e) => e.spec.method !== 'sample');
+  const shown = useMemo(() => estimates.filter((e) => e.spec.method !== 'sample'), [estimates]);
   const option = useMemo(
     () => ({
       animation: false,
@@ -58,6 +58,7 @@ export const EstimateDifferenceChart = memo(function EstimateDifferenceChart(pro
         splitLine: { lineStyle: { color: RULE } },
       },
       series: shown.map((e, k) => ({
+        id: e.key,
         name: e.label,
         type: 'line',
         lineStyle: { width: 0 },
@@ -85,6 +86,7 @@ export const EstimateDifferenceChart = memo(function EstimateDifferenceChart(pro
       title={differenceFinding(estimates)}
       basis={`Per asset, each estimate's annualised volatility as a multiple of the sample estimate's on the same returns (\u00d71 = the same; log scale); the table adds how far correlations move. ${props.basis}`}
       option={option}
+      seriesById
       height={300}
       table={
         <table className="grid">

@@ -52,6 +52,7 @@ function barOption(
     yAxis: { type: 'category', data: categories, axisTick: { show: false }, axisLabel: { fontSize: 11 } },
     series: [
       {
+        id: 'fill',
         name: fillName,
         type: 'bar',
         data: fill,
@@ -60,6 +61,7 @@ function barOption(
         z: 2,
       },
       {
+        id: 'outline',
         name: outlineName,
         type: 'bar',
         data: outline,
@@ -96,6 +98,7 @@ export const WeightsChart = memo(function WeightsChart(props: {
       title={weightsFinding(props.candidateLabel, props.rows)}
       basis={`Weights, per cent of the portfolio: current holdings as outlines, proposed weights filled. ${props.basis}`}
       option={option}
+      seriesById
       height={Math.max(220, 18 * sorted.length + 70)}
       table={
         <table className="grid">
@@ -175,6 +178,7 @@ export const RiskContributionChart = memo(function RiskContributionChart(props: 
       title={riskFinding(props.candidateLabel, props.rows)}
       basis={`Euler risk contributions, per cent of portfolio volatility, in the order of the weights chart; weights as outlines. ${props.basis}`}
       option={option}
+      seriesById
       height={Math.max(220, 18 * ordered.length + 70)}
       table={
         <table className="grid">

@@ -102,6 +102,8 @@ type Problem = { summary: string; details: string[]; messages: FieldMessage[] };
 
 /** Time from the last edit (or the page opening) to the comparison painted on screen. */
 interface Shown {
+  /** Counts the measures, so a reader can wait for the one after its edit. */
+  seq: number;
   ms: number;
   computeMs: number;
   afterEdit: boolean;
@@ -261,13 +263,14 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
       setTimeout(() => {
         const now = performance.now();
         const p = phases.current;
-        setShown({
+        setShown((before) => ({
+          seq: (before?.seq ?? 0) + 1,
           ms: now - from,
           computeMs: good.comparison.computeMs,
           afterEdit: edited.current,
           // Edit to run start (debounce, queue); the run with its copies to and from the worker; paint.
           phases: p ? [p.started - from, p.finished - p.started, now - p.finished] : null,
-        });
+        }));
       }, 0),
     );
   }, [good]);
@@ -348,14 +351,10 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   );
   const names = useMemo(() => new Map(boot.catalogue.map((a) => [a.id, a.name])), [boot.catalogue]);
   const messages = useMemo(() => [...check.messages, ...(problem?.messages ?? [])], [check, problem]);
-  const colourIndex = useCallback(
-    (id: string) =>
-      Math.max(
-        0,
-        (good?.scenario.candidates ?? []).findIndex((c) => c.id === id),
-      ),
-    [good],
-  );
+  // The same function while the candidates keep their ids, so the reasons and the walk-forward
+  // part do not render again for a result that only moved figures.
+  const candidateIds = (good?.scenario.candidates ?? []).map((c) => c.id).join('\n');
+  const colourIndex = useCallback((id: string) => Math.max(0, candidateIds.split('\n').indexOf(id)), [candidateIds]);
   const deferredCandidates = useDeferredValue(good?.comparison.candidates);
   const stale = recompute.state.busy || !check.ok || problem !== null;
 
@@ -505,6 +504,7 @@ function RecomputeStatus(props: {
       className={`recompute-status ${state}`}
       data-testid="recompute-status"
       data-state={state}
+      data-shown-seq={props.shown ? props.shown.seq : undefined}
       data-shown-ms={props.shown ? props.shown.ms.toFixed(1) : undefined}
       data-after-edit={props.shown ? String(props.shown.afterEdit) : undefined}
       data-phases-ms={props.shown?.phases ? props.shown.phases.map((v) => v.toFixed(0)).join(' ') : undefined}

@@ -6,7 +6,7 @@ import { CorrelationHeatmap } from '../../charts/CorrelationHeatmap.js';
 import { EstimateDifferenceChart } from '../../charts/EstimateDifferenceChart.js';
 import { candidateColour, candidateSymbol } from '../../charts/palette.js';
 import { RiskContributionChart, sortByTarget, WeightsChart } from '../../charts/WeightsChart.js';
-import { sameNumbers, useStable } from '../../charts/use-stable.js';
+import { sameNumberRecord, sameNumbers, sameRows, sameStrings, useStable } from '../../charts/use-stable.js';
 import type { Comparison, EstimateView } from '../../worker/comparison.js';
 import { describeEstimator } from '../candidate-grid.js';
 import { formatDate } from '../format.js';
@@ -52,21 +52,39 @@ export function basisOf(comparison: Comparison, scenario: Scenario, locale?: str
   return `${frequency} ${scenario.returns.method} returns, ${span} (${w.observations} periods).`;
 }
 
+const NO_HOLDINGS: Readonly<Record<string, number>> = {};
+
+/**
+ * Colour position and label of each candidate, as functions that stay the same object while the
+ * scenario's candidates keep their ids and labels (so a cap edit redraws no chart for them).
+ */
+function useNaming(scenario: Scenario) {
+  const labels = scenario.candidates.map(
+    (c) => [c.id, c.label ?? `${c.objective.method} · ${describeEstimator(c.estimator)}`] as const,
+  );
+  const key = labels.map(([id, label]) => `${id}\t${label}`).join('\n');
+  // Keyed on `key`, the content of `labels`.
+  return useMemo(() => {
+    const order = new Map(labels.map(([id], i) => [id, i]));
+    const text = new Map(labels);
+    return {
+      colourIndex: (id: string) => order.get(id) ?? 0,
+      describe: (id: string) => text.get(id) ?? id,
+    };
+  }, [key]);
+}
+
 export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
-  const { scenario, locale } = props;
-  // The table shows a new result at once; the pictures below follow a moment later, so the
-  // figures an advisor reads first are never held back by chart drawing.
+  const { locale } = props;
+  // The table shows a new result at once; the pictures below follow in a deferred render, so the
+  // figures an advisor reads first are never held back by chart drawing. Everything the charts
+  // get is kept as the same object while its content is unchanged, so a chart whose figures an
+  // edit did not move neither renders nor redraws.
   const comparison = useDeferredValue(props.comparison);
-  const colourIndex = useMemo(() => {
-    const order = new Map(scenario.candidates.map((c, i) => [c.id, i]));
-    return (id: string) => order.get(id) ?? 0;
-  }, [scenario]);
-  const describe = useMemo(() => {
-    const labels = new Map(
-      scenario.candidates.map((c) => [c.id, c.label ?? `${c.objective.method} · ${describeEstimator(c.estimator)}`]),
-    );
-    return (id: string) => labels.get(id) ?? id;
-  }, [scenario]);
+  const scenario = useDeferredValue(props.scenario);
+  const table = useNaming(props.scenario);
+  const { colourIndex, describe } = useNaming(scenario);
+  const assets = useStable(comparison.assets, sameStrings);
   const solvedCandidates = useMemo(() => comparison.candidates.filter(solved), [comparison]);
   const focus =
     comparison.candidates.find((c) => c.id === props.focused && solved(c)) ??
@@ -82,45 +100,44 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
     comparison.estimates,
     (a, b) => a.length === b.length && a.every((e, i) => sameEstimate(e, b[i])),
   );
-  const basis = basisOf(comparison, scenario, locale);
-  const current = useMemo(() => scenario.current ?? {}, [scenario]);
+  const basis = basisOf(props.comparison, props.scenario, locale);
+  const chartBasis = basisOf(comparison, scenario, locale);
+  const current = useStable(scenario.current ?? NO_HOLDINGS, sameNumberRecord);
+  const focusWeights = useStable(focus?.weights ?? NO_HOLDINGS, sameNumberRecord);
 
-  const weightRows = useMemo(
-    () =>
-      focus
-        ? comparison.assets.map((a) => ({
-            asset: a,
-            name: props.names.get(a) ?? '',
-            current: current[a] ?? 0,
-            target: focus.weights[a] ?? 0,
-          }))
-        : [],
-    [focus, comparison.assets, current, props.names],
+  const weightRows = useStable(
+    focus
+      ? assets.map((a) => ({
+          asset: a,
+          name: props.names.get(a) ?? '',
+          current: current[a] ?? 0,
+          target: focus.weights[a] ?? 0,
+        }))
+      : [],
+    sameRows,
   );
-  const riskRows = useMemo(
-    () =>
-      focus?.metrics
-        ? comparison.assets.map((a) => ({
-            asset: a,
-            name: props.names.get(a) ?? '',
-            weight: focus.weights[a] ?? 0,
-            contribution: focus.metrics?.riskContributions[a] ?? 0,
-          }))
-        : [],
-    [focus, comparison.assets, props.names],
+  const riskRows = useStable(
+    focus?.metrics
+      ? assets.map((a) => ({
+          asset: a,
+          name: props.names.get(a) ?? '',
+          weight: focus.weights[a] ?? 0,
+          contribution: focus.metrics?.riskContributions[a] ?? 0,
+        }))
+      : [],
+    sameRows,
   );
   const order = useMemo(() => sortByTarget(weightRows).map((r) => r.asset), [weightRows]);
-  const points: ScatterPoint[] = useMemo(
-    () =>
-      solvedCandidates.map((c) => ({
-        id: c.id,
-        label: describe(c.id),
-        colour: candidateColour(colourIndex(c.id)),
-        symbol: candidateSymbol(colourIndex(c.id)),
-        volatility: c.metrics?.volatility ?? 0,
-        diversificationRatio: c.metrics?.diversificationRatio ?? 0,
-      })),
-    [solvedCandidates, describe, colourIndex],
+  const points: ScatterPoint[] = useStable(
+    solvedCandidates.map((c) => ({
+      id: c.id,
+      label: describe(c.id),
+      colour: candidateColour(colourIndex(c.id)),
+      symbol: candidateSymbol(colourIndex(c.id)),
+      volatility: c.metrics?.volatility ?? 0,
+      diversificationRatio: c.metrics?.diversificationRatio ?? 0,
+    })),
+    sameRows,
   );
 
   return (
@@ -147,13 +164,13 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
         assets={props.comparison.assets}
         names={props.names}
         candidates={props.comparison.candidates}
-        colourIndex={colourIndex}
-        current={current}
+        colourIndex={table.colourIndex}
+        current={props.scenario.current ?? NO_HOLDINGS}
         recommended={props.recommended}
         focused={focus?.id}
         onFocus={props.onFocus}
         onRecommend={props.onRecommend}
-        describe={describe}
+        describe={table.describe}
         locale={locale}
       />
       {focus ? (
@@ -172,7 +189,7 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
               candidateLabel={focus.id}
               colour={candidateColour(colourIndex(focus.id))}
               rows={weightRows}
-              basis={basis}
+              basis={chartBasis}
               locale={locale}
             />
             <RiskContributionChart
@@ -180,14 +197,14 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
               colour={candidateColour(colourIndex(focus.id))}
               rows={riskRows}
               order={order}
-              basis={basis}
+              basis={chartBasis}
               locale={locale}
             />
           </div>
           <h3>Trades</h3>
           <TradeListView
             candidateId={focus.id}
-            weights={focus.weights}
+            weights={focusWeights}
             holdings={props.holdings}
             names={props.names}
             locale={locale}
@@ -203,8 +220,8 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
       )}
       <h3>All candidates and their risk estimates</h3>
       <div className="chart-pair">
-        <CandidateScatter points={points} basis={basis} locale={locale} />
-        <EstimateDifferenceChart assets={comparison.assets} estimates={estimates} basis={basis} locale={locale} />
+        <CandidateScatter points={points} basis={chartBasis} locale={locale} />
+        <EstimateDifferenceChart assets={assets} estimates={estimates} basis={chartBasis} locale={locale} />
       </div>
       {heat ? (
         <div className="heat-block">
@@ -219,11 +236,11 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
             </select>
           </label>
           <CorrelationHeatmap
-            assets={comparison.assets}
+            assets={assets}
             correlation={heat.correlation}
             order={heat.order}
             estimateLabel={heat.label}
-            basis={basis}
+            basis={chartBasis}
             locale={locale}
           />
         </div>
