@@ -1,4 +1,4 @@
-import { EXACT_CONDITION_LIMIT, conditionNumber } from '../linalg/condition.js';
+import { conditionNumber } from '../linalg/condition.js';
 import type { Matrix } from '../linalg/matrix.js';
 import type { EstimateContext, EstimateDiagnostics } from './types.js';
 
@@ -20,8 +20,10 @@ export function diagnose(
   extra: Partial<EstimateDiagnostics> & Record<string, unknown> = {},
   options: DiagnoseOptions = {},
 ): EstimateDiagnostics {
+  // A run that reduces the estimate anyway (for the effective bets) gets the exact figure at any
+  // size; otherwise conditionNumber chooses by size (exact up to EXACT_CONDITION_LIMIT, Lanczos above).
   const reduce = options.context?.tridiagonalise;
-  const form = !options.singular && reduce && covariance.rows <= EXACT_CONDITION_LIMIT ? reduce(covariance) : undefined;
+  const form = !options.singular && reduce ? reduce(covariance) : undefined;
   const condition = options.singular ? undefined : conditionNumber(covariance, options.knownSmallest, form);
   return {
     observations,

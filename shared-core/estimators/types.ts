@@ -21,8 +21,9 @@ export interface EstimateContext {
   crossProduct?: CrossProduct;
   /**
    * The tridiagonal reduction to use (linalg/tridiagonal-form.ts): an edge's faster one, or a
-   * run's memoised one, so that the exact condition number and the effective bets of the
-   * candidates come from one reduction of the estimate.
+   * run's memoised one, so that the exact condition number (at any size) and the effective bets
+   * of the candidates come from one reduction of the estimate. Without it the condition number
+   * is exact up to EXACT_CONDITION_LIMIT assets and a Lanczos bound above.
    */
   tridiagonalise?: (m: Matrix) => TridiagonalForm;
 }
