@@ -28,7 +28,7 @@ class FakeWorker implements WorkerLike {
   }
 }
 
-function harness() {
+function harness(debounceMs = 60) {
   let clock = 0;
   const timers: { fn: () => void; at: number; id: number }[] = [];
   let nextTimer = 1;
@@ -43,7 +43,7 @@ function harness() {
     },
     onOutcome: (o) => outcomes.push(o),
     onState: (s) => states.push(s),
-    debounceMs: 60,
+    debounceMs,
     supersedeAfterMs: 250,
     now: () => clock,
     setTimer: (fn, ms) => {
@@ -90,6 +90,35 @@ describe('recompute client', () => {
         requestedAt: 30,
         startedAt: 90,
         finishedAt: 90,
+      },
+    ]);
+    expect(h.states.at(-1)).toEqual({ busy: false });
+  });
+
+  it('without a debounce, starts an edit at once when idle and folds edits during a run into one', () => {
+    const h = harness(0);
+    h.client.request(scenario('1'), prices);
+    expect(h.workers[0].sent.map((m) => (m.scenario as unknown as { name: string }).name)).toEqual(['1']);
+    expect(h.states.at(-1)).toEqual({ busy: true, since: 0 });
+    h.advance(20);
+    h.client.request(scenario('15'), prices);
+    h.advance(10);
+    h.client.request(scenario('150'), prices);
+    expect(h.workers[0].sent).toHaveLength(1);
+    h.advance(20);
+    h.workers[0].finish(1, 'one');
+    // The run for '1' is stale: skip straight to the newest edit, never showing '1' or '15'.
+    expect(h.outcomes).toEqual([]);
+    expect(h.workers[0].sent.map((m) => (m.scenario as unknown as { name: string }).name)).toEqual(['1', '150']);
+    h.workers[0].finish(2, 'one-fifty');
+    expect(h.outcomes).toEqual([
+      {
+        kind: 'done',
+        comparison: { computeMs: 1, name: 'one-fifty' },
+        scenario: { name: '150' },
+        requestedAt: 30,
+        startedAt: 50,
+        finishedAt: 50,
       },
     ]);
     expect(h.states.at(-1)).toEqual({ busy: false });
