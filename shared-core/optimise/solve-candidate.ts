@@ -14,7 +14,7 @@ import {
 } from '../analytics/risk.js';
 import { conditionNumber } from '../linalg/condition.js';
 import type { TridiagonalForm } from '../linalg/tridiagonal-form.js';
-import { identity, multiplyVector, type Matrix } from '../linalg/matrix.js';
+import { allFinite, identity, multiplyVector, type Matrix } from '../linalg/matrix.js';
 import type { ObjectiveSpec } from '../scenario/objective-spec.js';
 import type { AssetInfo, Constraints } from '../scenario/schema.js';
 import { nowMs } from './clock.js';
@@ -105,7 +105,7 @@ function covarianceProblem(p: CandidateProblem): string | null {
   const S = p.covariance;
   const n = p.assets.length;
   if (S.rows !== n || S.cols !== n) return `the covariance is ${S.rows} x ${S.cols} for ${n} assets`;
-  if (!S.data.every(Number.isFinite)) return 'the covariance has missing or infinite entries';
+  if (!allFinite(S.data)) return 'the covariance has missing or infinite entries';
   for (let i = 0; i < n; i++)
     if (!(S.data[i * n + i] > 0))
       return `${p.assets[i]} has zero variance over the window, so its risk cannot be estimated`;

@@ -11,7 +11,7 @@
  * changes state; polishing turns the interior point's 1e-9 into the issue's 1e-10 and gives exact
  * multipliers for the shadow prices.
  */
-import { zeros } from '../../linalg/matrix.js';
+import { allFinite, zeros } from '../../linalg/matrix.js';
 import { nowMs } from '../clock.js';
 import { interiorPoint } from './interior-point.js';
 import { kktResidual } from './kkt.js';
@@ -119,7 +119,7 @@ function checkShapes(p: QpProblem): string | null {
   for (const rows of [p.A, p.G])
     for (const r of rows) for (const i of r.idx) if (!(i >= 0 && i < n)) return `row index ${i} out of range`;
   for (let i = 0; i < n; i++) if (p.lb[i] > p.ub[i]) return `lower bound above upper bound for variable ${i}`;
-  if (!p.P.data.every(Number.isFinite) || !p.q.every(Number.isFinite)) return 'objective has non-finite entries';
+  if (!allFinite(p.P.data) || !allFinite(p.q)) return 'objective has non-finite entries';
   return null;
 }
 
