@@ -1,10 +1,10 @@
-import { UsageError, type Command, type OptionValues } from './command.js';
+import { UsageError, type CommandSpec, type OptionValues } from './command.js';
 
 /**
  * Parses `--name value`, `--name=value` and boolean `--flag` against a command's option specs.
  * Anything it does not know is a one-line UsageError naming the bad word.
  */
-export function parseOptions(command: Command, argv: readonly string[]): OptionValues {
+export function parseOptions(command: CommandSpec, argv: readonly string[]): OptionValues {
   const values: OptionValues = {};
   for (let i = 0; i < argv.length; i++) {
     const word = argv[i];
@@ -41,7 +41,7 @@ export function parseOptions(command: Command, argv: readonly string[]): OptionV
   return values;
 }
 
-export function commandHelp(command: Command): string {
+export function commandHelp(command: CommandSpec): string {
   const lines = [`holdfast ${command.name}: ${command.summary}`, '', 'Options:'];
   for (const o of command.options) {
     const value =

@@ -1,6 +1,7 @@
 /**
  * The shape every `holdfast` command shares. Commands are plain objects listed in
- * `commands/index.ts`; the parser, `--help` and the error messages all read these specs.
+ * `commands/index.ts`; the parser, `--help` and the error messages all read these specs, and
+ * each command's implementation module is imported only when it runs.
  */
 export interface CliIO {
   stdout(text: string): void;
@@ -27,13 +28,24 @@ export interface OptionSpec {
 
 export type OptionValues = Record<string, string | number | boolean | undefined>;
 
-export interface Command {
+/** What `--help`, the parser and the error messages read: static, with no implementation loaded. */
+export interface CommandSpec {
   name: string;
   summary: string;
   options: readonly OptionSpec[];
   /** Extra lines for `holdfast COMMAND --help`. */
   details?: string;
-  run(options: OptionValues, io: CliIO): Promise<number>;
+}
+
+/** A command's implementation: runs on options already checked against its spec. */
+export type RunCommand = (options: OptionValues, io: CliIO) => Promise<number>;
+
+export interface Command extends CommandSpec {
+  /**
+   * Imports the implementation module. Called only when this command runs, so that a command
+   * starts without loading the others' dependencies (the store, the PDF writer, the schemas).
+   */
+  load(): Promise<RunCommand>;
 }
 
 /** Exit codes of the command line. */

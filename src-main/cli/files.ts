@@ -4,7 +4,6 @@ import { InputError } from '../../shared-core/errors.js';
 import { parseWidePriceCsv } from '../../shared-core/prices/parse-wide-csv.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import type { Scenario } from '../../shared-core/scenario/schema.js';
-import type { OptionSpec } from './command.js';
 
 /** Reads a UTF-8 text file named on the command line; a missing file is an InputError naming it. */
 export function readInputFile(cwd: string, path: string): { path: string; text: string } {
@@ -28,18 +27,6 @@ export function readPriceFile(cwd: string, path: string): { path: string; table:
     throw error;
   }
 }
-
-/**
- * The `--fx FILE.csv` option of the file forms: exchange rates, one column per currency, the
- * price of one unit in the scenario's base currency. Each asset's own currency comes from the
- * scenario's `assetInfo` (a wide price file has no place for it).
- */
-export const fxOption: OptionSpec = {
-  name: 'fx',
-  kind: 'string',
-  valueName: 'FILE.csv',
-  description: "exchange rates, one column per currency, in the base currency (assets' currencies from assetInfo)",
-};
 
 /** The prices with each asset's currency from the scenario, and the rates read from `fxPath`. */
 export function withExchangeRates(

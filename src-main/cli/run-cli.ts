@@ -49,7 +49,8 @@ export async function runCli(argv: readonly string[], io: CliIO): Promise<number
   }
   try {
     const options = parseOptions(command, rest);
-    return await command.run(options, io);
+    const run = await command.load();
+    return await run(options, io);
   } catch (error) {
     if (error instanceof UsageError) {
       io.stderr(`holdfast ${command.name}: ${error.message}\n`);

@@ -7,93 +7,65 @@ import { DEFAULT_DRAWS } from '../../../shared-core/stability/weight-bands.js';
 import { BACKTEST_CAUTIONS, backtestJsonText } from '../../../shared-core/walkforward/backtest-json.js';
 import { estimateAndSolve } from '../../../shared-core/walkforward/estimate-and-solve.js';
 import { runBacktest, type BacktestPhase, type BacktestRun } from '../../../shared-core/walkforward/run-backtest.js';
-import { EXIT, UsageError, type CliIO, type Command } from '../command.js';
-import { fxOption, readInputFile, withExchangeRates } from '../files.js';
+import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
+import { readInputFile, withExchangeRates } from '../files.js';
 
 /**
  * `holdfast backtest`: every candidate of a scenario walked forward over a price file, with
  * metrics, the significance of differences, stress views and (on request) weight stability.
  * Progress goes to standard error; Ctrl-C stops between steps and nothing is printed on stdout.
  */
-export const backtestCommand: Command = {
-  name: 'backtest',
-  summary: 'walk every candidate forward out of sample, with costs, stress views and stability',
-  options: [
-    { name: 'prices', kind: 'string', valueName: 'FILE.csv', required: true, description: 'wide price file' },
-    {
-      name: 'scenario',
-      kind: 'string',
-      valueName: 'FILE.json',
-      required: true,
-      description: 'holdfast-scenario@1 document',
-    },
-    fxOption,
-    { name: 'json', kind: 'boolean', description: 'print one JSON object on standard output' },
-    { name: 'stability', kind: 'boolean', description: "bootstrap today's weights (weight bands)" },
-    {
-      name: 'draws',
-      kind: 'number',
-      valueName: 'N',
-      description: `bootstrap draws for --stability (default ${DEFAULT_DRAWS})`,
-    },
-    { name: 'seed', kind: 'number', valueName: 'N', description: 'seed of every bootstrap (default 1)' },
-  ],
-  details:
-    'The scenario\'s "backtest" block sets estimationWindow, expanding, rebalance (monthly, quarterly,\n' +
-    'yearly, drift), driftBand, costBps (one figure or per asset class), cashRate and from; its\n' +
-    '"stress" block holds user-defined shocks. Exit 0 on success, 2 on bad input, 130 when interrupted.',
-  async run(options, io) {
-    const draws = options.draws as number | undefined;
-    if (draws !== undefined && (!Number.isInteger(draws) || draws < 2))
-      throw new UsageError(`option '--draws' needs a whole number of at least 2, got '${draws}'`);
-    if (draws !== undefined && !options.stability) throw new UsageError("option '--draws' needs --stability");
-    const seed = options.seed as number | undefined;
-    if (seed !== undefined && !Number.isInteger(seed))
-      throw new UsageError(`option '--seed' needs a whole number, got '${seed}'`);
+export async function runBacktestCommand(options: OptionValues, io: CliIO): Promise<number> {
+  const draws = options.draws as number | undefined;
+  if (draws !== undefined && (!Number.isInteger(draws) || draws < 2))
+    throw new UsageError(`option '--draws' needs a whole number of at least 2, got '${draws}'`);
+  if (draws !== undefined && !options.stability) throw new UsageError("option '--draws' needs --stability");
+  const seed = options.seed as number | undefined;
+  if (seed !== undefined && !Number.isInteger(seed))
+    throw new UsageError(`option '--seed' needs a whole number, got '${seed}'`);
 
-    const pricesFile = readInputFile(io.cwd, options.prices as string);
-    const scenarioFile = readInputFile(io.cwd, options.scenario as string);
-    let prices;
-    try {
-      prices = parseWidePriceCsv(pricesFile.text);
-    } catch (error) {
-      if (error instanceof InputError) throw error.inFile(pricesFile.path);
-      throw error;
-    }
-    const parsed = parseScenarioText(scenarioFile.text);
-    if (!parsed.ok) {
-      for (const e of parsed.errors) io.stderr(`holdfast backtest: ${formatInputError(e.inFile(scenarioFile.path))}\n`);
-      return EXIT.badInput;
-    }
-    const scenario: Scenario = parsed.scenario;
-    let fx: PriceTable | undefined;
-    if (options.fx !== undefined) ({ prices, fx } = withExchangeRates(io.cwd, prices, scenario, options.fx as string));
+  const pricesFile = readInputFile(io.cwd, options.prices as string);
+  const scenarioFile = readInputFile(io.cwd, options.scenario as string);
+  let prices;
+  try {
+    prices = parseWidePriceCsv(pricesFile.text);
+  } catch (error) {
+    if (error instanceof InputError) throw error.inFile(pricesFile.path);
+    throw error;
+  }
+  const parsed = parseScenarioText(scenarioFile.text);
+  if (!parsed.ok) {
+    for (const e of parsed.errors) io.stderr(`holdfast backtest: ${formatInputError(e.inFile(scenarioFile.path))}\n`);
+    return EXIT.badInput;
+  }
+  const scenario: Scenario = parsed.scenario;
+  let fx: PriceTable | undefined;
+  if (options.fx !== undefined) ({ prices, fx } = withExchangeRates(io.cwd, prices, scenario, options.fx as string));
 
-    const progress = progressPrinter(io, scenario.candidates.length);
-    let run: BacktestRun;
-    try {
-      run = await runBacktest(scenario, prices, {
-        estimateAndSolve,
-        ...(fx ? { fx } : {}),
-        onProgress: progress,
-        shouldCancel: () => io.signal.aborted,
-        pause: () => new Promise((resolve) => setImmediate(resolve)),
-        ...(options.stability ? { stabilityDraws: draws ?? DEFAULT_DRAWS } : {}),
-        ...(seed !== undefined ? { seed } : {}),
-      });
-    } catch (error) {
-      if (error instanceof CancelledError) {
-        io.stderr('holdfast backtest: interrupted; nothing written\n');
-        return EXIT.interrupted;
-      }
-      if (error instanceof InputError && error.location.file === undefined) throw error.inFile(scenarioFile.path);
-      throw error;
+  const progress = progressPrinter(io, scenario.candidates.length);
+  let run: BacktestRun;
+  try {
+    run = await runBacktest(scenario, prices, {
+      estimateAndSolve,
+      ...(fx ? { fx } : {}),
+      onProgress: progress,
+      shouldCancel: () => io.signal.aborted,
+      pause: () => new Promise((resolve) => setImmediate(resolve)),
+      ...(options.stability ? { stabilityDraws: draws ?? DEFAULT_DRAWS } : {}),
+      ...(seed !== undefined ? { seed } : {}),
+    });
+  } catch (error) {
+    if (error instanceof CancelledError) {
+      io.stderr('holdfast backtest: interrupted; nothing written\n');
+      return EXIT.interrupted;
     }
-    for (const w of run.warnings) io.stderr(`holdfast backtest: warning: ${w}\n`);
-    io.stdout(options.json ? backtestJsonText(run) + '\n' : report(run));
-    return EXIT.ok;
-  },
-};
+    if (error instanceof InputError && error.location.file === undefined) throw error.inFile(scenarioFile.path);
+    throw error;
+  }
+  for (const w of run.warnings) io.stderr(`holdfast backtest: warning: ${w}\n`);
+  io.stdout(options.json ? backtestJsonText(run) + '\n' : report(run));
+  return EXIT.ok;
+}
 
 /** One stderr line per candidate and phase at each quarter of the way. */
 function progressPrinter(io: CliIO, candidates: number) {

@@ -5,15 +5,10 @@ import type { CovarianceEstimate, Frequency } from '../../../shared-core/estimat
 import { toRows } from '../../../shared-core/linalg/matrix.js';
 import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
 import { buildReturns, type ReturnMethod, type ReturnsResult } from '../../../shared-core/returns/build-returns.js';
-import {
-  estimatorMethods,
-  estimatorSpecSchema,
-  shrinkageTargets,
-  type EstimatorSpec,
-} from '../../../shared-core/scenario/estimator-spec.js';
+import { estimatorSpecSchema, type EstimatorSpec } from '../../../shared-core/scenario/estimator-spec.js';
 import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
 import { twoThreadCrossProduct } from '../../compute/two-thread-cross-product.js';
-import { EXIT, UsageError, type Command, type OptionValues } from '../command.js';
+import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
 import { readInputFile } from '../files.js';
 
 /**
@@ -21,139 +16,86 @@ import { readInputFile } from '../files.js';
  * with its diagnostics; one JSON object with --json, a readable table otherwise. Everything is
  * computed before anything is written, so bad input leaves standard output empty.
  */
-export const estimateCommand: Command = {
-  name: 'estimate',
-  summary: 'estimate the covariance of the returns in a price file',
-  options: [
-    {
-      name: 'prices',
-      kind: 'string',
-      valueName: 'FILE.csv',
-      required: true,
-      description: 'wide price file: date, then one column per asset',
-    },
-    { name: 'method', kind: 'string', choices: estimatorMethods, description: 'estimator (default ledoit-wolf)' },
-    {
-      name: 'target',
-      kind: 'string',
-      choices: shrinkageTargets,
-      description: 'ledoit-wolf target (default scaled-identity)',
-    },
-    {
-      name: 'lambda',
-      kind: 'number',
-      description: 'ewma decay in (0, 1) (default 0.94 daily, 0.97 weekly and monthly)',
-    },
-    { name: 'half-life', kind: 'number', description: 'ewma half-life in periods, instead of --lambda' },
-    {
-      name: 'from',
-      kind: 'string',
-      valueName: 'YYYY-MM-DD',
-      description: 'first date of the window (default: whole common window)',
-    },
-    { name: 'to', kind: 'string', valueName: 'YYYY-MM-DD', description: 'last date of the window' },
-    {
-      name: 'frequency',
-      kind: 'string',
-      choices: ['daily', 'weekly', 'monthly'],
-      description: 'return frequency (default daily)',
-    },
-    { name: 'returns', kind: 'string', choices: ['log', 'simple'], description: 'return type (default log)' },
-    { name: 'periods-per-year', kind: 'number', description: 'annualisation factor (default 252, 52 or 12)' },
-    { name: 'max-fill-days', kind: 'number', description: 'longest carry of a stale price, calendar days (default 5)' },
-    {
-      name: 'desmooth',
-      kind: 'string',
-      valueName: 'ID[,ID...]',
-      description: 'assets with smoothed (appraisal) returns to desmooth (Getmansky, Lo and Makarov 2004)',
-    },
-    { name: 'json', kind: 'boolean', description: 'print one JSON object instead of a table' },
-  ],
-  details: [
-    'The covariance printed is annualised: periods per year times the per-period covariance.',
-    'Estimates come from past data; past performance does not guarantee future results.',
-  ].join('\n'),
-  async run(options, io) {
-    const spec = estimatorSpec(options);
-    const frequency = (options.frequency as Frequency | undefined) ?? 'daily';
-    const method = (options.returns as ReturnMethod | undefined) ?? 'log';
-    for (const key of ['from', 'to'] as const) {
-      const value = options[key];
-      if (value !== undefined && !isIsoDate(String(value)))
-        throw new UsageError(`--${key} needs a date YYYY-MM-DD, got '${value}'`);
-    }
-    const periodsPerYear = options['periods-per-year'] as number | undefined;
-    if (periodsPerYear !== undefined && !(periodsPerYear > 0))
-      throw new UsageError(`--periods-per-year must be positive, got ${periodsPerYear}`);
-    const maxFillDays = options['max-fill-days'] as number | undefined;
-    if (maxFillDays !== undefined && !(Number.isInteger(maxFillDays) && maxFillDays >= 0))
-      throw new UsageError(`--max-fill-days must be a whole number of days, got ${maxFillDays}`);
+export async function runEstimate(options: OptionValues, io: CliIO): Promise<number> {
+  const spec = estimatorSpec(options);
+  const frequency = (options.frequency as Frequency | undefined) ?? 'daily';
+  const method = (options.returns as ReturnMethod | undefined) ?? 'log';
+  for (const key of ['from', 'to'] as const) {
+    const value = options[key];
+    if (value !== undefined && !isIsoDate(String(value)))
+      throw new UsageError(`--${key} needs a date YYYY-MM-DD, got '${value}'`);
+  }
+  const periodsPerYear = options['periods-per-year'] as number | undefined;
+  if (periodsPerYear !== undefined && !(periodsPerYear > 0))
+    throw new UsageError(`--periods-per-year must be positive, got ${periodsPerYear}`);
+  const maxFillDays = options['max-fill-days'] as number | undefined;
+  if (maxFillDays !== undefined && !(Number.isInteger(maxFillDays) && maxFillDays >= 0))
+    throw new UsageError(`--max-fill-days must be a whole number of days, got ${maxFillDays}`);
 
-    const desmoothed = options.desmooth === undefined ? undefined : String(options.desmooth).split(',');
-    if (desmoothed?.some((id) => id === '')) throw new UsageError(`--desmooth needs asset ids separated by commas`);
+  const desmoothed = options.desmooth === undefined ? undefined : String(options.desmooth).split(',');
+  if (desmoothed?.some((id) => id === '')) throw new UsageError(`--desmooth needs asset ids separated by commas`);
 
-    const file = readInputFile(io.cwd, String(options.prices));
-    const inFile = (error: unknown) => (error instanceof InputError ? error.inFile(file.path) : error);
-    let table;
-    try {
-      table = parseWidePriceCsv(file.text);
-    } catch (error) {
-      throw inFile(error);
-    }
-    for (const id of desmoothed ?? [])
-      if (!table.assets.includes(id)) throw new UsageError(`--desmooth: no asset '${id}' in ${file.path}`);
-    const locate = wideCsvLocator(table);
-    let returns: ReturnsResult;
-    let estimate: CovarianceEstimate;
-    try {
-      returns = buildReturns(table, {
-        from: options.from as string | undefined,
-        to: options.to as string | undefined,
-        frequency,
-        method,
-        maxFillDays,
-        locate,
-        desmooth: desmoothed,
-      });
-      estimate = estimateCovariance(returns.returns, spec, {
-        frequency: returns.frequency,
-        periodsPerYear,
-        crossProduct: twoThreadCrossProduct,
-      });
-    } catch (error) {
-      if (error instanceof InputError && error.location.line === undefined)
-        throw new InputError(error.message, { ...pointAtAsset(error.location, table.assets, locate), file: file.path });
-      throw inFile(error);
-    }
-    if (io.signal.aborted) return EXIT.interrupted;
+  const file = readInputFile(io.cwd, String(options.prices));
+  const inFile = (error: unknown) => (error instanceof InputError ? error.inFile(file.path) : error);
+  let table;
+  try {
+    table = parseWidePriceCsv(file.text);
+  } catch (error) {
+    throw inFile(error);
+  }
+  for (const id of desmoothed ?? [])
+    if (!table.assets.includes(id)) throw new UsageError(`--desmooth: no asset '${id}' in ${file.path}`);
+  const locate = wideCsvLocator(table);
+  let returns: ReturnsResult;
+  let estimate: CovarianceEstimate;
+  try {
+    returns = buildReturns(table, {
+      from: options.from as string | undefined,
+      to: options.to as string | undefined,
+      frequency,
+      method,
+      maxFillDays,
+      locate,
+      desmooth: desmoothed,
+    });
+    estimate = estimateCovariance(returns.returns, spec, {
+      frequency: returns.frequency,
+      periodsPerYear,
+      crossProduct: twoThreadCrossProduct,
+    });
+  } catch (error) {
+    if (error instanceof InputError && error.location.line === undefined)
+      throw new InputError(error.message, { ...pointAtAsset(error.location, table.assets, locate), file: file.path });
+    throw inFile(error);
+  }
+  if (io.signal.aborted) return EXIT.interrupted;
 
-    const covariance = annualised(estimate);
-    const window = { from: returns.dates[0], to: returns.dates[returns.dates.length - 1] };
-    const text = options.json
-      ? JSON.stringify({
-          assets: returns.assets,
-          periodsPerYear: estimate.periodsPerYear,
-          observations: estimate.diagnostics.observations,
-          covariance: toRows(covariance),
-          shrinkage: estimate.diagnostics.shrinkage,
-          diagnostics: {
-            ...jsonSafe(estimate.diagnostics),
-            method: spec.method,
-            ...(spec.method === 'ledoit-wolf' ? { target: spec.target ?? 'scaled-identity' } : {}),
-            frequency: returns.frequency,
-            returns: method,
-            window,
-            coverage: returns.coverage,
-            ...(returns.desmoothing.length > 0 ? { desmoothing: returns.desmoothing } : {}),
-            warnings: returns.warnings,
-          },
-        }) + '\n'
-      : readableTable(returns, estimate, spec, window);
-    for (const warning of returns.warnings) io.stderr(`holdfast estimate: warning: ${warning}\n`);
-    io.stdout(text);
-    return EXIT.ok;
-  },
-};
+  const covariance = annualised(estimate);
+  const window = { from: returns.dates[0], to: returns.dates[returns.dates.length - 1] };
+  const text = options.json
+    ? JSON.stringify({
+        assets: returns.assets,
+        periodsPerYear: estimate.periodsPerYear,
+        observations: estimate.diagnostics.observations,
+        covariance: toRows(covariance),
+        shrinkage: estimate.diagnostics.shrinkage,
+        diagnostics: {
+          ...jsonSafe(estimate.diagnostics),
+          method: spec.method,
+          ...(spec.method === 'ledoit-wolf' ? { target: spec.target ?? 'scaled-identity' } : {}),
+          frequency: returns.frequency,
+          returns: method,
+          window,
+          coverage: returns.coverage,
+          ...(returns.desmoothing.length > 0 ? { desmoothing: returns.desmoothing } : {}),
+          warnings: returns.warnings,
+        },
+      }) + '\n'
+    : readableTable(returns, estimate, spec, window);
+  for (const warning of returns.warnings) io.stderr(`holdfast estimate: warning: ${warning}\n`);
+  io.stdout(text);
+  return EXIT.ok;
+}
 
 function estimatorSpec(options: OptionValues): EstimatorSpec {
   const method = (options.method as string | undefined) ?? 'ledoit-wolf';

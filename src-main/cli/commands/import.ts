@@ -5,83 +5,49 @@ import { importPriceFile, type PriceImportOutcome } from '../../io/import-prices
 import type { ValidationReport } from '../../io/validate-prices.js';
 import type { ImportPlan } from '../../io/plan-import.js';
 import { CancelledError, type Store } from '../../store/store.js';
-import { EXIT, UsageError, type Command, type CliIO } from '../command.js';
+import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
 import { storeAt } from './store-access.js';
 
 const SHOWN = 40;
 
 /** `holdfast import`: a price file into the store, validated first, changes only on --apply. */
-export const importCommand: Command = {
-  name: 'import',
-  summary: 'import a price file (wide or long CSV) into the store and a universe',
-  options: [
-    { name: 'store', kind: 'string', valueName: 'FILE', required: true, description: 'the store (created if absent)' },
-    { name: 'prices', kind: 'string', valueName: 'FILE.csv', required: true, description: 'the price file' },
-    { name: 'universe', kind: 'string', valueName: 'NAME', required: true, description: 'universe the assets join' },
-    { name: 'apply', kind: 'boolean', description: 'confirm replacing stored prices that the file changes' },
-    { name: 'json', kind: 'boolean', description: 'print one JSON object: status, validation report, plan, batch' },
-    {
-      name: 'date-order',
-      kind: 'string',
-      choices: ['day-first', 'month-first'],
-      description: 'how to read dates such as 03/04/2025 when the file does not show it',
-    },
-    {
-      name: 'decimal',
-      kind: 'string',
-      choices: ['point', 'comma'],
-      description: 'decimal mark, if not detected right',
-    },
-    {
-      name: 'currency',
-      kind: 'string',
-      valueName: 'CODE',
-      description: 'currency of assets new to the store (ISO 4217)',
-    },
-  ],
-  details:
-    'Wide form: a header "date" then one column per asset id. Long form: the columns date, asset, close.\n' +
-    'Separators comma, semicolon or tab; decimal point or comma; dates YYYY-MM-DD, DD/MM/YYYY or MM/DD/YYYY.\n' +
-    'Exit 0 when written (or nothing new), 2 on invalid input with the validation report (nothing written),\n' +
-    '1 when stored prices would change: the difference is shown and nothing is written until --apply.',
-  async run(options, io) {
-    const currency = options.currency as string | undefined;
-    if (currency !== undefined && !/^[A-Z]{3}$/.test(currency))
-      throw new UsageError(`option '--currency' needs an ISO 4217 code such as EUR, got '${currency}'`);
-    const pricesName = options.prices as string;
-    const pricesPath = resolve(io.cwd, pricesName);
-    if (!existsSync(pricesPath)) throw new InputError('no such file', { file: pricesName });
-    if (statSync(pricesPath).isDirectory()) throw new InputError('is a directory', { file: pricesName });
-    const storeName = options.store as string;
-    let opened: Store | undefined;
-    const store = (mode: 'read' | 'write') => (opened ??= storeAt(io.cwd, storeName, { create: mode === 'write' }));
-    let outcome: PriceImportOutcome;
-    try {
-      outcome = await importPriceFile(store, pricesPath, {
-        file: pricesName,
-        universe: options.universe as string,
-        apply: options.apply === true,
-        dateOrder: options['date-order'] as 'day-first' | 'month-first' | undefined,
-        decimal: options.decimal as 'point' | 'comma' | undefined,
-        currency,
-        signal: io.signal,
-      });
-    } catch (error) {
-      if (error instanceof CancelledError) {
-        io.stderr(`holdfast import: ${error.message}\n`);
-        return EXIT.interrupted;
-      }
-      if (error instanceof InputError && error.location.file === undefined) throw error.inFile(pricesName);
-      throw error;
-    } finally {
-      opened?.close();
+export async function runImport(options: OptionValues, io: CliIO): Promise<number> {
+  const currency = options.currency as string | undefined;
+  if (currency !== undefined && !/^[A-Z]{3}$/.test(currency))
+    throw new UsageError(`option '--currency' needs an ISO 4217 code such as EUR, got '${currency}'`);
+  const pricesName = options.prices as string;
+  const pricesPath = resolve(io.cwd, pricesName);
+  if (!existsSync(pricesPath)) throw new InputError('no such file', { file: pricesName });
+  if (statSync(pricesPath).isDirectory()) throw new InputError('is a directory', { file: pricesName });
+  const storeName = options.store as string;
+  let opened: Store | undefined;
+  const store = (mode: 'read' | 'write') => (opened ??= storeAt(io.cwd, storeName, { create: mode === 'write' }));
+  let outcome: PriceImportOutcome;
+  try {
+    outcome = await importPriceFile(store, pricesPath, {
+      file: pricesName,
+      universe: options.universe as string,
+      apply: options.apply === true,
+      dateOrder: options['date-order'] as 'day-first' | 'month-first' | undefined,
+      decimal: options.decimal as 'point' | 'comma' | undefined,
+      currency,
+      signal: io.signal,
+    });
+  } catch (error) {
+    if (error instanceof CancelledError) {
+      io.stderr(`holdfast import: ${error.message}\n`);
+      return EXIT.interrupted;
     }
-    if (options.json) io.stdout(JSON.stringify(outcome) + '\n');
-    else printOutcome(outcome, storeName, io);
-    if (outcome.status === 'invalid') return EXIT.badInput;
-    return outcome.status === 'needs-confirmation' ? EXIT.failure : EXIT.ok;
-  },
-};
+    if (error instanceof InputError && error.location.file === undefined) throw error.inFile(pricesName);
+    throw error;
+  } finally {
+    opened?.close();
+  }
+  if (options.json) io.stdout(JSON.stringify(outcome) + '\n');
+  else printOutcome(outcome, storeName, io);
+  if (outcome.status === 'invalid') return EXIT.badInput;
+  return outcome.status === 'needs-confirmation' ? EXIT.failure : EXIT.ok;
+}
 
 function printOutcome(outcome: PriceImportOutcome, storeName: string, io: CliIO): void {
   const r = outcome.report;

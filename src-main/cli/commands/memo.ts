@@ -20,8 +20,8 @@ import { parseHoldingsText } from '../../memo/memo-sources.js';
 import { valueHoldings } from '../../service/valuation.js';
 import { canonicalJson, sha256Hex } from '../../store/canonical-json.js';
 import type { Store } from '../../store/store.js';
-import { EXIT, UsageError, type Command, type OptionValues } from '../command.js';
-import { fxOption, readInputFile, readPriceFile, withExchangeRates } from '../files.js';
+import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
+import { readInputFile, readPriceFile, withExchangeRates } from '../files.js';
 import { existingStore } from './store-access.js';
 
 /**
@@ -30,104 +30,64 @@ import { existingStore } from './store-access.js';
  * temporary name and renamed, so bad input or a crash leaves no partial PDF. The store form also
  * saves the memo in the store beside the revision it came from.
  */
-export const memoCommand: Command = {
-  name: 'memo',
-  summary: 'write the PDF allocation memo of a scenario',
-  options: [
-    { name: 'prices', kind: 'string', valueName: 'FILE.csv', description: 'wide price file (file form)' },
-    {
-      name: 'scenario',
-      kind: 'string',
-      valueName: 'FILE.json|NAME',
-      description: 'scenario file, or its name in the store',
-    },
-    { name: 'out', kind: 'string', valueName: 'memo.pdf', required: true, description: 'PDF file to write' },
-    { name: 'household-name', kind: 'string', valueName: '"..."', description: 'household name printed on the memo' },
-    { name: 'date', kind: 'string', valueName: 'YYYY-MM-DD', description: "the memo's date (default: today, UTC)" },
-    {
-      name: 'holdings',
-      kind: 'string',
-      valueName: 'FILE.json',
-      description: 'holdings in the base currency (file form; a demo household file works)',
-    },
-    fxOption,
-    { name: 'prepared-by', kind: 'string', valueName: '"..."', description: 'name or initials printed as preparer' },
-    { name: 'lot', kind: 'number', valueName: 'AMOUNT', description: 'round trades to this amount (default 1000)' },
-    {
-      name: 'backtest',
-      kind: 'boolean',
-      description: "add the walk-forward and stress sections (the scenario's backtest settings; slower)",
-    },
-    { name: 'stability', kind: 'boolean', description: 'with --backtest: add bootstrap weight bands (200 resamples)' },
-    { name: 'store', kind: 'string', valueName: 'FILE', description: 'the store (store form)' },
-    { name: 'household', kind: 'string', valueName: 'NAME', description: 'household in the store (store form)' },
-  ],
-  details: [
-    'File form:  holdfast memo --prices FILE.csv --scenario FILE.json --out memo.pdf [--holdings FILE.json]',
-    'Store form: holdfast memo --store FILE --household NAME --scenario NAME --out memo.pdf',
-    'The same inputs and --date give the same bytes. Estimates come from past data; past performance',
-    'does not guarantee future results; the memo is not a recommendation until a licensed adviser reviews it.',
-  ].join('\n'),
-  async run(options, io) {
-    const date = (options.date as string | undefined) ?? new Date().toISOString().slice(0, 10);
-    if (!isIsoDate(date)) throw new UsageError(`--date needs a date YYYY-MM-DD, got '${date}'`);
-    const lot = (options.lot as number | undefined) ?? 1000;
-    if (!(lot > 0)) throw new UsageError(`--lot must be a positive amount, got ${lot}`);
-    const out = options.out as string;
-    const preparedBy = ((options['prepared-by'] as string | undefined) ?? '').trim() || 'not given';
+export async function runMemo(options: OptionValues, io: CliIO): Promise<number> {
+  const date = (options.date as string | undefined) ?? new Date().toISOString().slice(0, 10);
+  if (!isIsoDate(date)) throw new UsageError(`--date needs a date YYYY-MM-DD, got '${date}'`);
+  const lot = (options.lot as number | undefined) ?? 1000;
+  if (!(lot > 0)) throw new UsageError(`--lot must be a positive amount, got ${lot}`);
+  const out = options.out as string;
+  const preparedBy = ((options['prepared-by'] as string | undefined) ?? '').trim() || 'not given';
 
-    const storeForm = options.store !== undefined;
-    if (storeForm) {
-      for (const bad of ['prices', 'holdings', 'fx'] as const)
-        if (options[bad] !== undefined) throw new UsageError(`--${bad} belongs to the file form, not with --store`);
-      if (options.household === undefined || options.scenario === undefined)
-        throw new UsageError('the store form needs --store FILE --household NAME --scenario NAME');
-    } else {
-      if (options.household !== undefined)
-        throw new UsageError('--household names a household in a store: add --store');
-      if (options.prices === undefined || options.scenario === undefined)
-        throw new UsageError("'memo' needs --prices FILE.csv --scenario FILE.json, or --store with --household");
-    }
+  const storeForm = options.store !== undefined;
+  if (storeForm) {
+    for (const bad of ['prices', 'holdings', 'fx'] as const)
+      if (options[bad] !== undefined) throw new UsageError(`--${bad} belongs to the file form, not with --store`);
+    if (options.household === undefined || options.scenario === undefined)
+      throw new UsageError('the store form needs --store FILE --household NAME --scenario NAME');
+  } else {
+    if (options.household !== undefined) throw new UsageError('--household names a household in a store: add --store');
+    if (options.prices === undefined || options.scenario === undefined)
+      throw new UsageError("'memo' needs --prices FILE.csv --scenario FILE.json, or --store with --household");
+  }
 
-    if (options.stability && !options.backtest) throw new UsageError('--stability goes with --backtest');
-    let built: Built;
-    try {
-      built = storeForm
-        ? await fromStore(existingStore(io.cwd, options.store as string), options, date, lot, preparedBy, io.signal)
-        : await fromFiles(io.cwd, options, date, lot, preparedBy, io.signal);
-    } catch (error) {
-      if (!(error instanceof CancelledError)) throw error;
-      io.stderr('holdfast memo: interrupted; nothing written\n');
-      return EXIT.interrupted;
-    }
-    // Loaded here so that every other command starts without pdfkit and ECharts.
-    const { renderMemo } = await import('../../memo/render-memo.js');
-    const pdf = await renderMemo(built.input);
-    if (io.signal.aborted) {
-      built.close?.();
-      io.stderr('holdfast memo: interrupted; nothing written\n');
-      return EXIT.interrupted;
-    }
-    const full = resolve(io.cwd, out);
-    const temporary = `${full}.partial`;
-    try {
-      writeFileSync(temporary, pdf);
-      renameSync(temporary, full);
-    } catch (error) {
-      rmSync(temporary, { force: true });
-      built.close?.();
-      throw new InputError(`cannot write: ${(error as Error).message}`, { file: out });
-    }
-    const saved = built.save?.(pdf);
+  if (options.stability && !options.backtest) throw new UsageError('--stability goes with --backtest');
+  let built: Built;
+  try {
+    built = storeForm
+      ? await fromStore(existingStore(io.cwd, options.store as string), options, date, lot, preparedBy, io.signal)
+      : await fromFiles(io.cwd, options, date, lot, preparedBy, io.signal);
+  } catch (error) {
+    if (!(error instanceof CancelledError)) throw error;
+    io.stderr('holdfast memo: interrupted; nothing written\n');
+    return EXIT.interrupted;
+  }
+  // Loaded here so that every other command starts without pdfkit and ECharts.
+  const { renderMemo } = await import('../../memo/render-memo.js');
+  const pdf = await renderMemo(built.input);
+  if (io.signal.aborted) {
     built.close?.();
-    io.stdout(
-      `wrote ${out}: ${pdf.length} bytes, memo hash ${memoHash(built.input)}, pdf sha256 ${sha256Hex(pdf)}` +
-        (saved ? `; ${saved}` : '') +
-        '\n',
-    );
-    return EXIT.ok;
-  },
-};
+    io.stderr('holdfast memo: interrupted; nothing written\n');
+    return EXIT.interrupted;
+  }
+  const full = resolve(io.cwd, out);
+  const temporary = `${full}.partial`;
+  try {
+    writeFileSync(temporary, pdf);
+    renameSync(temporary, full);
+  } catch (error) {
+    rmSync(temporary, { force: true });
+    built.close?.();
+    throw new InputError(`cannot write: ${(error as Error).message}`, { file: out });
+  }
+  const saved = built.save?.(pdf);
+  built.close?.();
+  io.stdout(
+    `wrote ${out}: ${pdf.length} bytes, memo hash ${memoHash(built.input)}, pdf sha256 ${sha256Hex(pdf)}` +
+      (saved ? `; ${saved}` : '') +
+      '\n',
+  );
+  return EXIT.ok;
+}
 
 interface Built {
   input: ReturnType<typeof buildMemoInput>;

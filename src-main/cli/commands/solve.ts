@@ -7,9 +7,8 @@ import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { twoThreadCrossProduct } from '../../compute/two-thread-cross-product.js';
 import { twoThreadTridiagonal } from '../../compute/two-thread-tridiagonal.js';
-import { EXIT, UsageError, type CliIO, type Command, type OptionValues } from '../command.js';
-import { fxOption, readInputFile, withExchangeRates } from '../files.js';
-import { readSolveStore } from './solve-from-store.js';
+import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
+import { readInputFile, withExchangeRates } from '../files.js';
 
 /** What `solve` needs, however it was obtained (files now; the store form reads the same shape). */
 export interface SolveInputs {
@@ -134,48 +133,20 @@ export async function runSolve(inputs: SolveInputs, options: OptionValues, io: C
  * `holdfast solve`: every candidate of a scenario on a price file. Everything is computed before
  * anything is written, so bad input leaves standard output empty.
  */
-export const solveCommand: Command = {
-  name: 'solve',
-  summary: 'solve the candidate allocations of a scenario',
-  options: [
-    {
-      name: 'prices',
-      kind: 'string',
-      valueName: 'FILE.csv',
-      description: 'wide price file: date, then one column per asset (file form)',
-    },
-    { name: 'store', kind: 'string', valueName: 'FILE', description: 'the store (store form, with --household)' },
-    { name: 'household', kind: 'string', valueName: 'NAME', description: 'household in the store (store form)' },
-    {
-      name: 'scenario',
-      kind: 'string',
-      valueName: 'FILE.json|NAME',
-      required: true,
-      description: 'holdfast-scenario@1 document, or a saved scenario name (store form)',
-    },
-    fxOption,
-    { name: 'json', kind: 'boolean', description: 'print one JSON object instead of a table' },
-  ],
-  details: [
-    'Exit status: 0 when every candidate is optimal, 3 when any is infeasible (the output is still',
-    'printed), 1 when a candidate failed otherwise (a singular covariance, an iteration limit), 2 on',
-    'bad input (nothing printed on standard output).',
-    'Store form: --store FILE --household NAME --scenario NAME solves the newest saved revision on the',
-    "stored prices of its assets; asset tags and holdings fill the document's assetInfo and current if absent.",
-    'Estimates come from past data; past performance does not guarantee future results.',
-  ].join('\n'),
-  async run(options, io) {
-    if (
-      (options.store === undefined) !== (options.household === undefined) ||
-      (options.store !== undefined) === (options.prices !== undefined)
-    )
-      throw new UsageError("'solve' needs --prices FILE.csv, or --store FILE with --household NAME");
-    if (options.fx !== undefined && options.store !== undefined)
-      throw new UsageError('--fx is for the file form: the store form reads the stored exchange rates');
-    const inputs =
-      options.store !== undefined
-        ? readSolveStore(io.cwd, options.store as string, options.household as string, options.scenario as string)
-        : readSolveFiles(io, options.prices as string, options.scenario as string, options.fx as string | undefined);
-    return runSolve(inputs, options, io);
-  },
-};
+export async function runSolveCommand(options: OptionValues, io: CliIO): Promise<number> {
+  if (
+    (options.store === undefined) !== (options.household === undefined) ||
+    (options.store !== undefined) === (options.prices !== undefined)
+  )
+    throw new UsageError("'solve' needs --prices FILE.csv, or --store FILE with --household NAME");
+  if (options.fx !== undefined && options.store !== undefined)
+    throw new UsageError('--fx is for the file form: the store form reads the stored exchange rates');
+  let inputs: SolveInputs;
+  if (options.store !== undefined) {
+    // Loaded here so that the file form starts without the store and SQLite.
+    const { readSolveStore } = await import('./solve-from-store.js');
+    inputs = readSolveStore(io.cwd, options.store as string, options.household as string, options.scenario as string);
+  } else
+    inputs = readSolveFiles(io, options.prices as string, options.scenario as string, options.fx as string | undefined);
+  return runSolve(inputs, options, io);
+}

@@ -1,0 +1,41 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { DEFAULT_DEMO_SEED as demoSeed } from '../../../shared-core/demo/index.js';
+import { estimatorMethods, shrinkageTargets } from '../../../shared-core/scenario/estimator-spec.js';
+import { DEFAULT_DRAWS as draws } from '../../../shared-core/stability/weight-bands.js';
+import { HOUSEHOLD_FILE_FORMAT as householdFormat } from '../../../src-main/io/household-file.js';
+import {
+  DEFAULT_DEMO_SEED,
+  DEFAULT_DRAWS,
+  ESTIMATOR_METHODS,
+  HOUSEHOLD_FILE_FORMAT,
+  SHRINKAGE_TARGETS,
+  commands,
+} from '../../../src-main/cli/commands/index.js';
+
+// The command table answers --help and bad options without loading any command's module; the
+// values it writes out must stay those of the modules they come from.
+describe('command table', () => {
+  it('writes out the same values as their sources', () => {
+    expect(ESTIMATOR_METHODS).toEqual(estimatorMethods);
+    expect(SHRINKAGE_TARGETS).toEqual(shrinkageTargets);
+    expect(DEFAULT_DEMO_SEED).toBe(demoSeed);
+    expect(DEFAULT_DRAWS).toBe(draws);
+    expect(HOUSEHOLD_FILE_FORMAT).toBe(householdFormat);
+  });
+
+  it('imports nothing at run time but loads each implementation on demand', () => {
+    const source = readFileSync(new URL('../../../src-main/cli/commands/index.ts', import.meta.url), 'utf8');
+    const staticImports = source.match(/^import .*$/gm) ?? [];
+    expect(staticImports.length).toBeGreaterThan(0);
+    for (const line of staticImports) expect(line).toMatch(/^import type /);
+  });
+
+  it('has unique names and a loadable implementation for every command', async () => {
+    expect(new Set(commands.map((c) => c.name)).size).toBe(commands.length);
+    for (const command of commands) {
+      const run = await command.load();
+      expect(typeof run, command.name).toBe('function');
+    }
+  });
+});
