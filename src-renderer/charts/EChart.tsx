@@ -1,4 +1,4 @@
-import { useEffect, useRef, type ReactNode } from 'react';
+import { useLayoutEffect, useRef, type ReactNode } from 'react';
 import { echarts, type EChartsOption } from './echarts-setup.js';
 
 /**
@@ -24,7 +24,7 @@ export function EChart({
   const box = useRef<HTMLDivElement>(null);
   const chart = useRef<ReturnType<typeof echarts.init> | null>(null);
   const drawn = useRef(false);
-  useEffect(() => {
+  useLayoutEffect(() => {
     if (!box.current) return;
     const instance = echarts.init(box.current, undefined, { renderer: 'canvas' });
     chart.current = instance;
@@ -37,7 +37,9 @@ export function EChart({
       drawn.current = false;
     };
   }, []);
-  useEffect(() => {
+  // Set in the layout phase, before the browser paints the commit: ECharts draws a lazy update in
+  // its next frame callback, so the picture is drawn in the frame that paints the page around it.
+  useLayoutEffect(() => {
     const instance = chart.current;
     if (!instance) return;
     if (seriesById && drawn.current) instance.setOption(option, { replaceMerge: ['series'], lazyUpdate: true });

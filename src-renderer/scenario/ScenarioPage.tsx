@@ -1,4 +1,4 @@
-import { useCallback, useDeferredValue, useEffect, useMemo, useRef, useState } from 'react';
+import { useCallback, useDeferredValue, useEffect, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import type {
   Asset,
   Holdings,
@@ -105,6 +105,8 @@ interface Shown {
   /** Counts the measures, so a reader can wait for the one after its edit. */
   seq: number;
   ms: number;
+  /** To the charts below the comparison drawn with the same result as well. */
+  chartsMs: number;
   computeMs: number;
   afterEdit: boolean;
   phases: [number, number, number] | null;
@@ -203,8 +205,15 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   const [good, setGood] = useState<Good | null>(null);
   const [problem, setProblem] = useState<Problem | null>(null);
   const [shown, setShown] = useState<Shown | null>(null);
-  const paintFrom = useRef<number | null>(null);
-  const phases = useRef<{ started: number; finished: number } | null>(null);
+  /** The measure under way: the result it is for, when its edit was, and the moments seen so far. */
+  const measuring = useRef<{
+    comparison: Comparison;
+    from: number;
+    started: number;
+    finished: number;
+    tableAt?: number;
+    chartsAt?: number;
+  } | null>(null);
   const hadGood = useRef(false);
   const onOutcome = useCallback((o: RecomputeOutcome) => {
     if (o.kind === 'cancelled') {
@@ -237,8 +246,12 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
       return;
     }
     hadGood.current = true;
-    paintFrom.current = lastEditAt.current;
-    phases.current = { started: o.startedAt, finished: o.finishedAt };
+    measuring.current = {
+      comparison: o.comparison,
+      from: lastEditAt.current,
+      started: o.startedAt,
+      finished: o.finishedAt,
+    };
     setGood({ comparison: o.comparison, scenario: o.scenario });
     setProblem(null);
   }, []);
@@ -254,26 +267,45 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
     );
     first.current = false;
   }, [check, pricesNow]);
-  // Time from the last keystroke to the comparison on screen (after the browser has painted it).
-  useEffect(() => {
-    if (!good || paintFrom.current === null) return;
-    const from = paintFrom.current;
-    paintFrom.current = null;
+  // Time from the last keystroke to the comparison on screen, after the browser has painted it.
+  // Registered in a layout effect, before the browser paints this commit: the frame callback runs
+  // in the frame that paints the new comparison, and a task queued from it runs once that frame's
+  // paint is done. The charts below report their own moment (AnswerSection's onChartsDrawn).
+  const report = useCallback(() => {
+    const m = measuring.current;
+    if (!m || m.tableAt === undefined || m.chartsAt === undefined) return;
+    measuring.current = null;
+    const { from, started, finished, tableAt } = m;
+    const chartsAt = Math.max(m.chartsAt, tableAt);
+    setShown((before) => ({
+      seq: (before?.seq ?? 0) + 1,
+      ms: tableAt - from,
+      chartsMs: chartsAt - from,
+      computeMs: m.comparison.computeMs,
+      afterEdit: edited.current,
+      // Edit to run start (queue); the run with its copies to and from the worker; render and paint.
+      phases: [started - from, finished - started, tableAt - finished],
+    }));
+  }, []);
+  useLayoutEffect(() => {
+    const m = measuring.current;
+    if (!good || !m || m.comparison !== good.comparison) return;
     requestAnimationFrame(() =>
       setTimeout(() => {
-        const now = performance.now();
-        const p = phases.current;
-        setShown((before) => ({
-          seq: (before?.seq ?? 0) + 1,
-          ms: now - from,
-          computeMs: good.comparison.computeMs,
-          afterEdit: edited.current,
-          // Edit to run start (debounce, queue); the run with its copies to and from the worker; paint.
-          phases: p ? [p.started - from, p.finished - p.started, now - p.finished] : null,
-        }));
+        m.tableAt = performance.now();
+        if (measuring.current === m) report();
       }, 0),
     );
-  }, [good]);
+  }, [good, report]);
+  const onChartsDrawn = useCallback(
+    (comparison: Comparison, at: number) => {
+      const m = measuring.current;
+      if (!m || m.comparison !== comparison) return;
+      m.chartsAt = at;
+      report();
+    },
+    [report],
+  );
 
   // ---- autosave the draft ----
   const [draft, setDraft] = useState<{ savedAt?: string; error?: unknown; saving: boolean }>({
@@ -446,6 +478,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
                 names={names}
                 locale={locale}
                 stale={stale}
+                onChartsDrawn={onChartsDrawn}
               />
               <ReasonsSection
                 candidates={deferredCandidates ?? good.comparison.candidates}
@@ -506,6 +539,7 @@ function RecomputeStatus(props: {
       data-state={state}
       data-shown-seq={props.shown ? props.shown.seq : undefined}
       data-shown-ms={props.shown ? props.shown.ms.toFixed(1) : undefined}
+      data-charts-ms={props.shown ? props.shown.chartsMs.toFixed(1) : undefined}
       data-after-edit={props.shown ? String(props.shown.afterEdit) : undefined}
       data-phases-ms={props.shown?.phases ? props.shown.phases.map((v) => v.toFixed(0)).join(' ') : undefined}
       data-compute-ms={props.shown ? props.shown.computeMs.toFixed(1) : undefined}

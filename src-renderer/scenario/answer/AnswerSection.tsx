@@ -1,4 +1,4 @@
-import { memo, useDeferredValue, useMemo, useState } from 'react';
+import { memo, useDeferredValue, useLayoutEffect, useMemo, useState } from 'react';
 import type { Holdings } from '../../../shared-core/contract/service-api.js';
 import type { Scenario } from '../../../shared-core/scenario/schema.js';
 import { CandidateScatter, type ScatterPoint } from '../../charts/CandidateScatter.js';
@@ -31,6 +31,8 @@ export interface AnswerProps {
   locale?: string;
   /** True while the comparison is from an earlier edit (a recompute runs or the last edit failed). */
   stale: boolean;
+  /** Called once the browser has painted the charts drawn for `comparison` (the page's own measure). */
+  onChartsDrawn?: (comparison: Comparison, at: number) => void;
 }
 
 function sameEstimate(a: EstimateView | undefined, b: EstimateView | undefined): boolean {
@@ -82,6 +84,14 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
   // edit did not move neither renders nor redraws.
   const comparison = useDeferredValue(props.comparison);
   const scenario = useDeferredValue(props.scenario);
+  // When the deferred render has caught up, the charts have their new options (EChart sets them in
+  // its layout effect, before this one) and draw them in their next frame callback; one queued from
+  // here runs in that frame after theirs, and a task from it after the frame is painted.
+  const { onChartsDrawn } = props;
+  useLayoutEffect(() => {
+    if (comparison !== props.comparison || !onChartsDrawn) return;
+    requestAnimationFrame(() => setTimeout(() => onChartsDrawn(comparison, performance.now()), 0));
+  }, [comparison, props.comparison, onChartsDrawn]);
   const table = useNaming(props.scenario);
   const { colourIndex, describe } = useNaming(scenario);
   const assets = useStable(comparison.assets, sameStrings);
