@@ -3,7 +3,14 @@ import { estimateCovariance } from '../shared-core/estimators/registry.js';
 import { centred } from '../shared-core/estimators/moments.js';
 import { LANCZOS_STEPS } from '../shared-core/linalg/condition.js';
 import { crossProduct, crossProductNaive } from '../shared-core/linalg/cross-product.js';
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { tridiagonalForm } from '../shared-core/linalg/tridiagonal-form.js';
+import { formEigenvalues } from '../shared-core/linalg/symmetric-eigen.js';
 import { twoThreadCrossProduct } from '../src-main/compute/two-thread-cross-product.js';
+import { twoThreadTridiagonal } from '../src-main/compute/two-thread-tridiagonal.js';
 import { zeros, type Matrix } from '../shared-core/linalg/matrix.js';
 import { timeMedian, type BenchFigure, type BenchSuite } from './harness.js';
 
@@ -111,6 +118,59 @@ export const estimatorsSuite: BenchSuite = {
       peerLabel: 'one thread',
       notes: `${gflops(lwMadds, lwTwo)} GFLOP/s`,
     });
+    figures.push(...(await reductionFigures(estimate.covariance)));
     return figures;
   },
 };
+
+/** numpy's eigvalsh (LAPACK dsytrd + dsterf through Debian's BLAS), median of `repeats` after a warm-up. */
+const EIGVALSH = String.raw`
+import sys, time, json
+import numpy as np
+a = np.fromfile(sys.argv[1], dtype="<f8").reshape(int(sys.argv[2]), -1)
+np.linalg.eigvalsh(a)
+times = []
+for _ in range(int(sys.argv[3])):
+    t0 = time.perf_counter(); v = np.linalg.eigvalsh(a); times.append((time.perf_counter() - t0) * 1000)
+print(json.dumps({"ms": sorted(times)[len(times) // 2], "largest": float(v[-1])}))
+`;
+
+/**
+ * The tridiagonal reduction behind the effective number of bets and the exact condition number
+ * (linalg/tridiagonal-form.ts), on the shrunk N x N estimate: one thread, two threads (as
+ * holdfast solve runs it) and numpy's eigvalsh on the same matrix, which also finds every
+ * eigenvalue from one reduction.
+ */
+async function reductionFigures(covariance: Matrix): Promise<BenchFigure[]> {
+  const n = covariance.rows;
+  const flops = (4 / 3) * n * n * n;
+  const one = await timeMedian(() => tridiagonalForm(covariance), 3);
+  twoThreadTridiagonal(covariance); // starts the helper thread outside the timing
+  const two = await timeMedian(() => twoThreadTridiagonal(covariance), 3);
+  const viaTwo = formEigenvalues(twoThreadTridiagonal(covariance));
+  const viaOne = formEigenvalues(tridiagonalForm(covariance));
+  const same = viaTwo.every((v, k) => Object.is(v, viaOne[k]));
+  const dir = mkdtempSync(join(tmpdir(), 'holdfast-bench-eig-'));
+  const file = join(dir, 'a.f64');
+  writeFileSync(file, Buffer.from(covariance.data.buffer, covariance.data.byteOffset, covariance.data.byteLength));
+  const script = join(dir, 'eig.py');
+  writeFileSync(script, EIGVALSH);
+  const peer = spawnSync('/usr/bin/python3', [script, file, String(n), '3'], { encoding: 'utf8' });
+  const peerMs = peer.status === 0 ? (JSON.parse(peer.stdout) as { ms: number }).ms : undefined;
+  const rate = (ms: number) => (flops / (ms * 1e6)).toFixed(2);
+  return [
+    {
+      label: `tridiagonal reduction (effective bets, exact condition number) N=${n}, one thread`,
+      medianMs: one,
+      ...(peerMs !== undefined ? { peerMs, peerLabel: 'numpy eigvalsh (LAPACK, Debian BLAS)' } : {}),
+      notes: `${rate(one)} GFLOP/s on 4/3 N^3 flops${peerMs === undefined ? '; python3 with numpy is absent: no peer' : ''}`,
+    },
+    {
+      label: `tridiagonal reduction N=${n} on two threads (src-main/compute, as holdfast solve runs it)`,
+      medianMs: two,
+      peerMs: one,
+      peerLabel: 'one thread',
+      notes: `${rate(two)} GFLOP/s; eigenvalues bit-identical to one thread: ${same ? 'yes' : 'NO'}; the 2 cores are shared with every other process`,
+    },
+  ];
+}
