@@ -38,11 +38,30 @@ export function isCoarser(a: Frequency, than: Frequency): boolean {
  * up to 5 days is daily (weekends and holidays), up to 10 weekly, longer monthly (fund NAVs).
  * The thresholds are Holdfast's choice.
  */
-export function pricingFrequency(days: readonly number[]): { frequency: Frequency; medianGap: number } {
+export function pricingFrequency(days: ArrayLike<number>): { frequency: Frequency; medianGap: number } {
   if (days.length < 3) return { frequency: 'daily', medianGap: 0 };
-  const gaps = new Float64Array(days.length - 1);
-  for (let i = 1; i < days.length; i++) gaps[i - 1] = days[i] - days[i - 1];
-  gaps.sort(); // a typed array sorts numerically, and far faster than an array with a comparator
-  const medianGap = gaps[gaps.length >> 1];
+  // The median gap by counting (gaps are whole days, nearly all short), as a sort would find it:
+  // element (gaps >> 1) of [gaps below 0 sorted, 0 .. COUNTED_GAPS counted, longer ones sorted].
+  const rank = (days.length - 1) >> 1;
+  const counts = new Int32Array(COUNTED_GAPS + 1);
+  const below: number[] = [];
+  const above: number[] = [];
+  for (let i = 1; i < days.length; i++) {
+    const gap = days[i] - days[i - 1];
+    if (gap < 0) below.push(gap);
+    else if (gap > COUNTED_GAPS) above.push(gap);
+    else counts[gap]++;
+  }
+  let medianGap: number;
+  if (rank < below.length) medianGap = below.sort((a, b) => a - b)[rank];
+  else {
+    let seen = below.length;
+    let g = 0;
+    while (g <= COUNTED_GAPS && rank >= seen + counts[g]) seen += counts[g++];
+    medianGap = g <= COUNTED_GAPS ? g : above.sort((a, b) => a - b)[rank - seen];
+  }
   return { frequency: medianGap <= 5 ? 'daily' : medianGap <= 10 ? 'weekly' : 'monthly', medianGap };
 }
+
+/** Gaps up to this many days are counted in a table; longer ones (rare) are sorted. */
+const COUNTED_GAPS = 64;

@@ -4,6 +4,7 @@ import { toRows } from '../../../shared-core/linalg/matrix.js';
 import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { buildReturns, type BuildReturnsOptions } from '../../../shared-core/returns/build-returns.js';
+import { pricingFrequency } from '../../../shared-core/returns/calendar.js';
 
 /** Weekdays from `start` (a Monday), `count` of them. */
 function weekdays(start: string, count: number): string[] {
@@ -178,5 +179,27 @@ describe('buildReturns: aligned returns (returns engine of the estimators issue)
     const r = buildReturns(t, { ...daily, assets: ['C', 'A'] });
     expect(r.assets).toEqual(['C', 'A']);
     expect(toRows(r.returns)[0][0]).toBeCloseTo(Math.log(t.closes[2][1] / t.closes[2][0]), 15);
+  });
+});
+
+describe('pricingFrequency (how often a series is priced)', () => {
+  it('takes the median gap a sort would give, for short, long and unsorted gaps', () => {
+    let s = 9;
+    const next = () => (s = (s * 16807) % 2147483647) / 2147483647;
+    for (let c = 0; c < 300; c++) {
+      const days = [0];
+      const length = 3 + Math.floor(next() * 60);
+      for (let i = 1; i < length; i++) {
+        const u = next();
+        days.push(
+          days[i - 1] +
+            (u < 0.05 ? -Math.ceil(next() * 5) : u < 0.2 ? 60 + Math.floor(next() * 300) : 1 + Math.floor(next() * 35)),
+        );
+      }
+      const gaps = Float64Array.from(days.slice(1), (d, i) => d - days[i]).sort();
+      expect(pricingFrequency(days).medianGap).toBe(gaps[gaps.length >> 1]);
+    }
+    expect(pricingFrequency([0, 31, 59, 90, 120]).frequency).toBe('monthly');
+    expect(pricingFrequency([0, 1, 2, 3, 6, 7]).frequency).toBe('daily');
   });
 });

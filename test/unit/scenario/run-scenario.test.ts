@@ -56,7 +56,7 @@ describe('runScenario: one tridiagonal reduction per estimate', () => {
       expect(c.status).toBe('optimal');
       const { covariance, assets, estimate } = run.estimates[c.id];
       const w = assets.map((a) => c.weights[a]);
-      expect(c.metrics.effectiveBets).toBeCloseTo(effectiveBets(w, covariance), 12);
+      expect(c.metrics!.effectiveBets).toBeCloseTo(effectiveBets(w, covariance), 12);
       expect(estimate.diagnostics.conditionNumber).toBeCloseTo(conditionNumber(estimate.covariance).value, 8);
     }
   });
