@@ -1,4 +1,4 @@
-import { zeros, type Matrix } from '../linalg/matrix.js';
+import { multiplyVector, zeros, type Matrix } from '../linalg/matrix.js';
 import { formExposures } from '../linalg/symmetric-eigen.js';
 import { tridiagonalForm, type TridiagonalForm } from '../linalg/tridiagonal-form.js';
 
@@ -15,18 +15,8 @@ function check(weights: ArrayLike<number>, covariance: Matrix): void {
     throw new RangeError(`${weights.length} weights for a ${covariance.rows}-asset covariance`);
 }
 
-/** Sigma w */
-function times(covariance: Matrix, weights: ArrayLike<number>): Float64Array {
-  const n = covariance.rows;
-  const out = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let s = 0;
-    const o = i * n;
-    for (let j = 0; j < n; j++) s += covariance.data[o + j] * weights[j];
-    out[i] = s;
-  }
-  return out;
-}
+/** Sigma w (skipping the zero weights). */
+const times = (covariance: Matrix, weights: ArrayLike<number>): Float64Array => multiplyVector(covariance, weights);
 
 function dot(a: ArrayLike<number>, b: ArrayLike<number>): number {
   let s = 0;

@@ -54,13 +54,36 @@ export function scale(m: Matrix, factor: number): Matrix {
   return out;
 }
 
-/** y = M x */
+/**
+ * y = M x. Where most of x is zero (a portfolio holds few of a large universe's assets), only its
+ * non-zero entries are visited: the same sums in the same order, O(rows x held) instead of
+ * O(rows x cols).
+ */
 export function multiplyVector(m: Matrix, x: ArrayLike<number>): Float64Array {
   const y = new Float64Array(m.rows);
+  const cols = m.cols;
+  let held = 0;
+  for (let j = 0; j < cols; j++) if (x[j] !== 0) held++;
+  if (held * 2 < cols) {
+    const at = new Int32Array(held);
+    const value = new Float64Array(held);
+    for (let j = 0, k = 0; j < cols; j++)
+      if (x[j] !== 0) {
+        at[k] = j;
+        value[k++] = x[j];
+      }
+    for (let i = 0; i < m.rows; i++) {
+      let s = 0;
+      const off = i * cols;
+      for (let k = 0; k < held; k++) s += m.data[off + at[k]] * value[k];
+      y[i] = s;
+    }
+    return y;
+  }
   for (let i = 0; i < m.rows; i++) {
     let s = 0;
-    const off = i * m.cols;
-    for (let j = 0; j < m.cols; j++) s += m.data[off + j] * x[j];
+    const off = i * cols;
+    for (let j = 0; j < cols; j++) s += m.data[off + j] * x[j];
     y[i] = s;
   }
   return y;

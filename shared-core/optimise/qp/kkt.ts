@@ -2,6 +2,7 @@
  * Residuals of the Karush-Kuhn-Tucker conditions of a QP (see types.ts), relative to the size
  * of the terms they balance, so one number says how exact a point and its multipliers are.
  */
+import { multiplyVector } from '../../linalg/matrix.js';
 import type { QpProblem, QpSolution, SparseRow } from './types.js';
 
 export function rowDot(row: SparseRow, x: ArrayLike<number>): number {
@@ -16,15 +17,9 @@ export function addRow(out: Float64Array, row: SparseRow, factor: number): void 
   for (let k = 0; k < row.idx.length; k++) out[row.idx[k]] += factor * row.val[k];
 }
 
+/** P x with P n x n (linalg's multiplyVector, which skips the zero entries of x). */
 export function symmetricTimes(P: { data: Float64Array; cols: number }, x: ArrayLike<number>, n: number): Float64Array {
-  const out = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const off = i * n;
-    let s = 0;
-    for (let j = 0; j < n; j++) s += P.data[off + j] * x[j];
-    out[i] = s;
-  }
-  return out;
+  return multiplyVector({ rows: n, cols: n, data: P.data }, x);
 }
 
 const infNorm = (v: ArrayLike<number>): number => {

@@ -77,14 +77,17 @@ function screenedGuess(problem: QpProblem, options: SolveQpOptions): { guess: Qp
     if (sub.status !== 'optimal') return null;
     const x = Float64Array.from(values);
     keep.forEach((i, a) => (x[i] = sub.solution.x[a]));
-    // Dual residual of each held-out variable: its lower-bound multiplier must be >= 0.
+    // Dual residual of each held-out variable: its lower-bound multiplier must be >= 0. Only the
+    // non-zero entries of x enter P x (most held-out variables sit at a zero bound).
     const g = Float64Array.from(problem.q);
     const scale = { v: 1e-300 };
+    const nonZero: number[] = [];
+    for (let j = 0; j < n; j++) if (x[j] !== 0) nonZero.push(j);
     for (let i = 0; i < n; i++) {
       if (inSet[i]) continue;
       const off = i * n;
       let v = 0;
-      for (let j = 0; j < n; j++) v += problem.P.data[off + j] * x[j];
+      for (const j of nonZero) v += problem.P.data[off + j] * x[j];
       g[i] += v;
     }
     problem.A.forEach((r, j) => r.idx.forEach((i, t) => (g[i] += r.val[t] * sub.solution.y[j])));
