@@ -1,4 +1,4 @@
-import { useLayoutEffect, useRef, type ReactNode } from 'react';
+import { useEffect, useLayoutEffect, useRef, type ReactNode } from 'react';
 import { echarts, type EChartsOption } from './echarts-setup.js';
 
 /**
@@ -23,28 +23,31 @@ export function EChart({
 }) {
   const box = useRef<HTMLDivElement>(null);
   const chart = useRef<ReturnType<typeof echarts.init> | null>(null);
-  const drawn = useRef(false);
-  useLayoutEffect(() => {
+  const latest = useRef(option);
+  latest.current = option;
+  // Created after the first paint (a passive effect): making the canvas reads the box's size, and
+  // doing that before the page is painted held back the first screen.
+  useEffect(() => {
     if (!box.current) return;
     const instance = echarts.init(box.current, undefined, { renderer: 'canvas' });
     chart.current = instance;
+    instance.setOption(latest.current, { notMerge: true, lazyUpdate: true });
     const observer = new ResizeObserver(() => instance.resize());
     observer.observe(box.current);
     return () => {
       observer.disconnect();
       instance.dispose();
       chart.current = null;
-      drawn.current = false;
     };
   }, []);
-  // Set in the layout phase, before the browser paints the commit: ECharts draws a lazy update in
-  // its next frame callback, so the picture is drawn in the frame that paints the page around it.
+  // Later options are set in the layout phase, before the browser paints the commit: ECharts draws
+  // a lazy update in its next frame callback, so the picture is drawn in the frame that paints the
+  // page around it.
   useLayoutEffect(() => {
     const instance = chart.current;
     if (!instance) return;
-    if (seriesById && drawn.current) instance.setOption(option, { replaceMerge: ['series'], lazyUpdate: true });
+    if (seriesById) instance.setOption(option, { replaceMerge: ['series'], lazyUpdate: true });
     else instance.setOption(option, { notMerge: true, lazyUpdate: true });
-    drawn.current = true;
   }, [option, seriesById]);
   return <div ref={box} className="echart" style={{ height }} role="img" aria-label={label} />;
 }

@@ -86,7 +86,9 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
   const scenario = useDeferredValue(props.scenario);
   // When the deferred render has caught up, the charts have their new options (EChart sets them in
   // its layout effect, before this one) and draw them in their next frame callback; one queued from
-  // here runs in that frame after theirs, and a task from it after the frame is painted.
+  // here runs in that frame after theirs, and a task from it after the frame is painted. (A chart
+  // that this render mounts is created after the paint instead, so on opening the page, or when a
+  // candidate first solves, this moment can come before its first picture.)
   const { onChartsDrawn } = props;
   useLayoutEffect(() => {
     if (comparison !== props.comparison || !onChartsDrawn) return;
