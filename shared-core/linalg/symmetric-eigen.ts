@@ -62,6 +62,50 @@ export function formEigenvalues(form: TridiagonalForm): Float64Array {
   return d.sort();
 }
 
+/**
+ * The smallest and the largest eigenvalue of a reduced matrix by bisection on Sturm counts of the
+ * tridiagonal (Barth, Martin and Wilkinson 1967, Numer. Math. 9; Golub and Van Loan 2013, section
+ * 8.4.1): O(N) per step, about 60 steps each, to the same absolute accuracy as QL (a few eps
+ * times the largest eigenvalue in size), without the O(N^2) of all the eigenvalues.
+ */
+export function formExtremes(form: TridiagonalForm): { smallest: number; largest: number } {
+  const { n, diagonal: d, offDiagonal: e } = form;
+  if (n === 0) return { smallest: 0, largest: 0 };
+  // Gershgorin bounds.
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const r = (i > 0 ? Math.abs(e[i]) : 0) + (i + 1 < n ? Math.abs(e[i + 1]) : 0);
+    lo = Math.min(lo, d[i] - r);
+    hi = Math.max(hi, d[i] + r);
+  }
+  const size = Math.max(Math.abs(lo), Math.abs(hi));
+  const tiny = 2 ** -52 * size || Number.MIN_VALUE;
+  /** How many eigenvalues lie below x (the sign changes of the Sturm sequence). */
+  const below = (x: number): number => {
+    let count = 0;
+    let q = 1;
+    for (let i = 0; i < n; i++) {
+      q = d[i] - x - (i > 0 ? (e[i] * e[i]) / q : 0);
+      if (q === 0) q = -tiny;
+      if (q < 0) count++;
+    }
+    return count;
+  };
+  /** The k-th eigenvalue (0-based, ascending). */
+  const kth = (k: number): number => {
+    let a = lo - tiny;
+    let b = hi + tiny;
+    for (let step = 0; step < 200 && b - a > 2 * 2 ** -52 * Math.max(Math.abs(a), Math.abs(b)) + tiny; step++) {
+      const mid = a + (b - a) / 2;
+      if (below(mid) > k) b = mid;
+      else a = mid;
+    }
+    return a + (b - a) / 2;
+  };
+  return { smallest: kth(0), largest: kth(n - 1) };
+}
+
 export interface SpectralExposures {
   /** Eigenvalues of the matrix (in no particular order). */
   values: Float64Array;

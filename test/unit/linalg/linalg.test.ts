@@ -9,6 +9,8 @@ import {
 } from '../../../shared-core/linalg/cross-product.js';
 import { fromRows, zeros, type Matrix } from '../../../shared-core/linalg/matrix.js';
 import {
+  formEigenvalues,
+  formExtremes,
   spectralExposures,
   symmetricEigen,
   symmetricEigenvalues,
@@ -311,5 +313,21 @@ describe("tridiagonal form A = Q T Q' (one Householder reduction shared by every
     const identity = zeros(5, 5);
     for (let i = 0; i < 5; i++) identity.data[i * 6] = 1;
     expect(spectralExposures(identity, [0.1, 0.2, 0.3, 0.2, 0.2]).exposures.filter((e) => e > 0)).toHaveLength(1);
+  });
+
+  it('bisection on Sturm counts finds the extreme eigenvalues that QL finds (Barth, Martin and Wilkinson 1967)', () => {
+    for (const [rows, n, seed] of [
+      [60, 30, 21],
+      [20, 35, 22], // rank-deficient: the smallest is zero up to rounding
+      [500, 3, 23],
+      [1, 1, 24],
+    ] as const) {
+      const form = tridiagonalForm(crossProduct(randomMatrix(rows, n, seed)));
+      const all = formEigenvalues(form);
+      const { smallest, largest } = formExtremes(form);
+      const size = Math.abs(all[n - 1]);
+      expect(Math.abs(largest - all[n - 1])).toBeLessThan(8 * 2 ** -52 * size * n);
+      expect(Math.abs(smallest - all[0])).toBeLessThan(8 * 2 ** -52 * size * n);
+    }
   });
 });
