@@ -1,6 +1,6 @@
 import type { Matrix } from './matrix.js';
-import { formExtremes, symmetricEigenvalues, tridiagonalEigenvalues } from './symmetric-eigen.js';
-import type { TridiagonalForm } from './tridiagonal-form.js';
+import { formExtremes, tridiagonalEigenvalues } from './symmetric-eigen.js';
+import { tridiagonalForm, type TridiagonalForm } from './tridiagonal-form.js';
 
 /** Up to this size the condition number comes from every eigenvalue (4/3 N^3 flops). */
 export const EXACT_CONDITION_LIMIT = 600;
@@ -33,12 +33,11 @@ export function conditionNumber(m: Matrix, knownSmallest?: number, form?: Tridia
   if (n === 0) return { value: 1, method: 'eigenvalues', largest: 0, smallest: 0 };
   let values: Float64Array;
   let method: ConditionNumber['method'] = 'eigenvalues';
-  if (form) {
-    if (form.n !== n) throw new RangeError(`a tridiagonal form of size ${form.n} for a ${n} x ${n} matrix`);
-    const { smallest, largest } = formExtremes(form);
+  if (form && form.n !== n) throw new RangeError(`a tridiagonal form of size ${form.n} for a ${n} x ${n} matrix`);
+  if (form || n <= EXACT_CONDITION_LIMIT) {
+    const { smallest, largest } = formExtremes(form ?? tridiagonalForm(m));
     values = Float64Array.of(smallest, largest);
-  } else if (n <= EXACT_CONDITION_LIMIT) values = symmetricEigenvalues(m);
-  else {
+  } else {
     values = lanczosRitzValues(m, LANCZOS_STEPS);
     method = 'lanczos';
   }
