@@ -1,20 +1,13 @@
-import { readFileSync } from 'node:fs';
 import { InputError, formatInputError } from '../../shared-core/errors.js';
+import { packageVersion } from '../service/app-info.js';
 import { commandHelp, parseOptions } from './args.js';
 import { EXIT, UsageError, type CliIO } from './command.js';
 import { commands } from './commands/index.js';
 
-export function version(): string {
-  const pkg = JSON.parse(readFileSync(new URL('../../../package.json', import.meta.url), 'utf8')) as {
-    version: string;
-  };
-  return pkg.version;
-}
-
 function overview(): string {
   const width = Math.max(...commands.map((c) => c.name.length)) + 2;
   const lines = [
-    `holdfast ${version()}: offline portfolio construction for client households`,
+    `holdfast ${packageVersion()}: offline portfolio construction for client households`,
     '',
     'Usage: holdfast COMMAND [options]     holdfast COMMAND --help for its options',
     '',
@@ -35,7 +28,7 @@ export async function runCli(argv: readonly string[], io: CliIO): Promise<number
     return first === undefined ? EXIT.badInput : EXIT.ok;
   }
   if (first === '--version' || first === '-v') {
-    io.stdout(`${version()}\n`);
+    io.stdout(`${packageVersion()}\n`);
     return EXIT.ok;
   }
   const command = commands.find((c) => c.name === first);
