@@ -1,0 +1,107 @@
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, readdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { CliIO } from '../../../src-main/cli/command.js';
+import { runCli } from '../../../src-main/cli/run-cli.js';
+
+/**
+ * `npm run build` bundles the command line (scripts/build.mjs): dist/src-main/cli/main.js and its
+ * chunks. The bundle must answer as the sources do, and every path it finds from a module's own
+ * URL (package.json, the memo fonts, the renderer, the helper thread's script) must point at a
+ * file that exists in dist/. Runs after a build, as `npm test` does.
+ */
+const cliDir = fileURLToPath(new URL('../../../dist/src-main/cli/', import.meta.url));
+const bin = join(cliDir, 'main.js');
+const built = existsSync(bin) && existsSync(join(cliDir, 'chunks'));
+const dir = mkdtempSync(join(tmpdir(), 'holdfast-bundled-cli-'));
+
+function spawned(argv: string[]) {
+  const r = spawnSync(process.execPath, [bin, ...argv], { cwd: dir, encoding: 'utf8' });
+  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+async function inProcess(argv: string[]) {
+  let stdout = '';
+  let stderr = '';
+  const io: CliIO = {
+    stdout: (t) => (stdout += t),
+    stderr: (t) => (stderr += t),
+    cwd: dir,
+    env: {},
+    signal: new AbortController().signal,
+  };
+  const code = await runCli(argv, io);
+  return { code, stdout, stderr };
+}
+
+/** Solver times differ from run to run; everything else must not. */
+const withoutTimes = (json: string) => JSON.stringify(JSON.parse(json), (k, v: unknown) => (k === 'ms' ? 0 : v));
+
+describe.runIf(built)('the bundled command line (dist/src-main/cli/main.js)', () => {
+  beforeAll(() => {
+    expect(spawned(['demo', '--out', '.']).code).toBe(0);
+  });
+
+  it('prints the same overview, version, command help and usage errors as the sources', async () => {
+    for (const argv of [['--help'], ['--version'], ['solve', '--help'], ['estimate', '--method', 'nope'], ['nope']]) {
+      const a = spawned(argv);
+      const b = await inProcess(argv);
+      expect({ code: a.code, stdout: a.stdout, stderr: a.stderr }, argv.join(' ')).toEqual(b);
+    }
+    const pkg = JSON.parse(readFileSync(new URL('../../../package.json', import.meta.url), 'utf8')) as {
+      version: string;
+    };
+    expect(spawned(['--version']).stdout).toBe(`${pkg.version}\n`);
+  });
+
+  it('solves the demonstration scenario to the same JSON as the sources', async () => {
+    const argv = [
+      'solve',
+      '--prices',
+      'demo-prices.csv',
+      '--scenario',
+      'demo-scenario.json',
+      '--fx',
+      'demo-fx.csv',
+      '--json',
+    ];
+    const a = spawned(argv);
+    const b = await inProcess(argv);
+    expect(a.stderr).toBe(b.stderr);
+    expect(a.code).toBe(b.code);
+    expect(withoutTimes(a.stdout)).toBe(withoutTimes(b.stdout));
+  });
+
+  it('writes the same memo bytes as the sources (its fonts found from the bundle)', async () => {
+    const common = ['--prices', 'demo-prices.csv', '--scenario', 'demo-scenario.json', '--fx', 'demo-fx.csv'];
+    const rest = ['--holdings', 'demo-household.json', '--date', '2025-06-30'];
+    const a = spawned(['memo', ...common, ...rest, '--out', 'bundled.pdf']);
+    expect(a.stderr).toBe('');
+    expect(a.code).toBe(0);
+    const b = await inProcess(['memo', ...common, ...rest, '--out', 'sources.pdf']);
+    expect(b.code).toBe(0);
+    expect(readFileSync(join(dir, 'bundled.pdf')).equals(readFileSync(join(dir, 'sources.pdf')))).toBe(true);
+  });
+
+  it("points every module's own URL at its emitted file, the helper thread's script among them", () => {
+    const files = [bin, ...readdirSync(join(cliDir, 'chunks')).map((f) => join(cliDir, 'chunks', f))];
+    const targets: string[] = [];
+    for (const file of files) {
+      const code = readFileSync(file, 'utf8');
+      const uses = code.split('import.meta.url').length - 1;
+      const mapped = [...code.matchAll(/new URL\("([^"]+)", import\.meta\.url\)/g)];
+      expect(mapped.length, file).toBe(uses);
+      for (const [, path] of mapped) {
+        const target = fileURLToPath(new URL(path, pathToFileURL(file)));
+        expect(existsSync(target), `${file}: ${path}`).toBe(true);
+        targets.push(target);
+      }
+    }
+    const thread = join(dirname(cliDir), 'compute', 'second-thread.js');
+    expect(targets).toContain(thread);
+    expect(existsSync(join(dirname(thread), 'compute-thread.js'))).toBe(true);
+  });
+});
