@@ -13,6 +13,7 @@ import { solveCandidateDetailed } from '../optimise/solve-candidate.js';
 import type { PriceTable } from '../prices/price-table.js';
 import { buildReturns, type BuildReturnsOptions, type ReturnsResult } from '../returns/build-returns.js';
 import { CancelledError, type CancelCheck } from '../stability/cancel.js';
+import { createRunCache, samePrices, type RunCache } from './run-cache.js';
 import type { Constraints, Scenario } from './schema.js';
 
 export interface RunScenarioOptions {
@@ -27,6 +28,11 @@ export interface RunScenarioOptions {
   crossProduct?: CrossProduct;
   /** The same tridiagonal reduction from the edge, faster (two threads: src-main/compute/). */
   tridiagonalise?: (m: Matrix) => TridiagonalForm;
+  /**
+   * The previous run's returns, estimates and active sets, reused where their inputs are
+   * unchanged (run-cache.ts); updated by this run. Explicit `warmStarts` take precedence.
+   */
+  cache?: RunCache;
 }
 
 export interface CandidateEstimate {
@@ -85,7 +91,7 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
   const from =
     span?.from ??
     (span?.years !== undefined ? yearsBefore(to ?? prices.dates[prices.dates.length - 1], span.years) : undefined);
-  const returns = buildReturns(prices, {
+  const returnsOptions = {
     assets: scenario.assets,
     from,
     to,
@@ -93,9 +99,21 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
     method: scenario.returns.method,
     maxFillDays: scenario.returns.maxFillDays,
     baseCurrency: scenario.baseCurrency,
-    fx: options.fx,
-    locate: options.locate,
-  });
+  };
+  const memo = options.cache ?? createRunCache();
+  const returnsKey = JSON.stringify(returnsOptions);
+  const reuse =
+    memo.returns !== undefined &&
+    memo.returnsKey === returnsKey &&
+    samePrices(memo.prices, prices) &&
+    samePrices(memo.fx, options.fx);
+  if (!reuse) {
+    const built = buildReturns(prices, { ...returnsOptions, fx: options.fx, locate: options.locate });
+    Object.assign(memo, { prices, fx: options.fx, returnsKey, returns: built });
+    memo.estimates.clear();
+    memo.forms.clear();
+  }
+  const returns = memo.returns!;
   const assets = returns.assets;
   const known = new Set(assets);
   checkAssets(scenario.constraints, known, 'constraints');
@@ -116,7 +134,7 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
 
   // One reduction per estimate serves its exact condition number and the effective bets of every
   // candidate that shares it (the bets do not change when the covariance is annualised).
-  const forms = new Map<Matrix, TridiagonalForm>();
+  const forms = memo.forms;
   const reduceOnce = (m: Matrix): TridiagonalForm => {
     let form = forms.get(m);
     if (!form) forms.set(m, (form = (options.tridiagonalise ?? tridiagonalForm)(m)));
@@ -128,13 +146,13 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
     ...(options.crossProduct ? { crossProduct: options.crossProduct } : {}),
     tridiagonalise: reduceOnce,
   };
-  const cache = new Map<string, { estimate: CovarianceEstimate; covariance: Matrix }>();
+  const cache = memo.estimates;
   const candidates: CandidateResult[] = [];
   const estimates: Record<string, CandidateEstimate> = {};
   const warmStarts: Record<string, QpWarmStart> = {};
   for (const c of scenario.candidates) {
     cancel();
-    const key = JSON.stringify(c.estimator);
+    const key = `${JSON.stringify(c.estimator)}|${scenario.periodsPerYear ?? ''}`;
     let entry = cache.get(key);
     if (!entry) {
       const estimate = estimateCovariance(returns.returns, c.estimator, context);
@@ -158,12 +176,13 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
       spectrum: () => reduceOnce(perPeriod),
       observations: entry.estimate.diagnostics.observations,
       estimator: c.estimator.method,
-      warmStart: options.warmStarts?.[c.id],
+      warmStart: options.warmStarts ? options.warmStarts[c.id] : memo.warmStarts[c.id],
       shouldCancel: options.shouldCancel,
     });
     cancel();
     candidates.push(solved.result);
     if (solved.warmStart) warmStarts[c.id] = solved.warmStart;
   }
+  memo.warmStarts = warmStarts;
   return { candidates, estimates, returns, warmStarts };
 }

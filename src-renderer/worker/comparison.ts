@@ -4,6 +4,7 @@ import type { Matrix } from '../../shared-core/linalg/matrix.js';
 import type { CandidateResult } from '../../shared-core/optimise/result.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import type { EstimatorSpec } from '../../shared-core/scenario/estimator-spec.js';
+import { createRunCache, type RunCache } from '../../shared-core/scenario/run-cache.js';
 import { runScenario } from '../../shared-core/scenario/run-scenario.js';
 import type { Scenario } from '../../shared-core/scenario/schema.js';
 import { clusterOrder } from '../../shared-core/analytics/cluster-order.js';
@@ -68,27 +69,49 @@ function aligned(covariance: Matrix, from: readonly string[], assets: readonly s
   return { rows: n, cols: n, data };
 }
 
+/**
+ * What a comparison leaves for the next one in the same worker: the core's run cache (returns,
+ * estimates, active sets) and, per reused estimate, the views built from it. An edit that leaves
+ * the returns' inputs alone then costs only the solves.
+ */
+export interface ComparisonCache {
+  run: RunCache;
+  views: WeakMap<
+    CovarianceEstimate,
+    { assets: string; sample: Matrix; view: Omit<EstimateView, 'candidateIds' | 'key' | 'label' | 'spec'> }
+  >;
+  sample?: { returns: object; periodsPerYear?: number; covariance: Matrix };
+}
+
+export function createComparisonCache(): ComparisonCache {
+  return { run: createRunCache(), views: new WeakMap() };
+}
+
 export function buildComparison(
   scenario: Scenario,
   prices: PriceTable,
   fx?: PriceTable,
   now: () => number = () => performance.now(),
+  cache: ComparisonCache = createComparisonCache(),
 ): Comparison {
   const t0 = now();
-  const run = runScenario(scenario, prices, fx ? { fx } : {});
+  const run = runScenario(scenario, prices, { ...(fx ? { fx } : {}), cache: cache.run });
   const assets = [...run.returns.assets];
   const n = assets.length;
   const context = { frequency: scenario.returns.frequency, periodsPerYear: scenario.periodsPerYear };
 
   // The sample estimate is the yardstick of "how far each estimate moves"; reuse it when a
-  // candidate already has it.
+  // candidate already has it, or when the returns are the ones it was computed on.
   const sampleCandidate = scenario.candidates.find((c) => c.estimator.method === 'sample');
   let sample: Matrix;
   if (sampleCandidate && run.estimates[sampleCandidate.id]) {
     const e = run.estimates[sampleCandidate.id];
     sample = aligned(e.covariance, e.assets, assets);
+  } else if (cache.sample?.returns === run.returns && cache.sample.periodsPerYear === scenario.periodsPerYear) {
+    sample = cache.sample.covariance;
   } else {
     sample = annualised(estimateCovariance(run.returns.returns, { method: 'sample' }, context));
+    cache.sample = { returns: run.returns, periodsPerYear: scenario.periodsPerYear, covariance: sample };
   }
 
   const byKey = new Map<string, EstimateView>();
@@ -103,20 +126,32 @@ export function buildComparison(
     }
     const entry = run.estimates[candidate.id];
     if (!entry) continue;
-    const covariance = aligned(entry.covariance, entry.assets, assets);
-    const correlation = correlationFromCovariance(covariance);
     const estimate: CovarianceEstimate = entry.estimate;
+    const assetKey = assets.join('\u0000');
+    let built = cache.views.get(estimate);
+    if (!built || built.assets !== assetKey || built.sample !== sample) {
+      const covariance = aligned(entry.covariance, entry.assets, assets);
+      const correlation = correlationFromCovariance(covariance);
+      built = {
+        assets: assetKey,
+        sample,
+        view: {
+          volatilities: volatilities(covariance),
+          correlation: Array.from(correlation),
+          order: clusterOrder(correlation, n),
+          distance: estimateDistance(sample, covariance),
+          shrinkage: estimate.diagnostics.shrinkage,
+          conditionNumber: estimate.diagnostics.conditionNumber,
+          effectiveObservations: estimate.diagnostics.effectiveObservations,
+        },
+      };
+      cache.views.set(estimate, built);
+    }
     byKey.set(key, {
       key,
       label: describeEstimator(candidate.estimator),
       spec: candidate.estimator,
-      volatilities: volatilities(covariance),
-      correlation: Array.from(correlation),
-      order: clusterOrder(correlation, n),
-      distance: estimateDistance(sample, covariance),
-      shrinkage: estimate.diagnostics.shrinkage,
-      conditionNumber: estimate.diagnostics.conditionNumber,
-      effectiveObservations: estimate.diagnostics.effectiveObservations,
+      ...built.view,
       candidateIds: [candidate.id],
     });
   }

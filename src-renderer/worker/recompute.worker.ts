@@ -1,5 +1,5 @@
 import { InputError } from '../../shared-core/errors.js';
-import { buildComparison } from './comparison.js';
+import { buildComparison, createComparisonCache } from './comparison.js';
 import type { FromWorker, ToWorker } from './protocol.js';
 
 /**
@@ -11,11 +11,14 @@ const scope = self as unknown as {
   onmessage: ((event: MessageEvent<ToWorker>) => void) | null;
 };
 
+// Returns, estimates and their views carry over between edits that leave their inputs alone.
+const cache = createComparisonCache();
+
 scope.onmessage = (event) => {
   const message = event.data;
   if (message.type !== 'run') return;
   try {
-    const comparison = buildComparison(message.scenario, message.prices, message.fx);
+    const comparison = buildComparison(message.scenario, message.prices, message.fx, undefined, cache);
     scope.postMessage({ type: 'done', requestId: message.requestId, comparison });
   } catch (error) {
     if (error instanceof InputError)

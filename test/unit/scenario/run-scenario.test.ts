@@ -4,6 +4,7 @@ import { effectiveBets } from '../../../shared-core/analytics/risk.js';
 import { tridiagonalForm } from '../../../shared-core/linalg/tridiagonal-form.js';
 import type { Matrix } from '../../../shared-core/linalg/matrix.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
+import { createRunCache } from '../../../shared-core/scenario/run-cache.js';
 import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
 import { parseScenario } from '../../../shared-core/scenario/schema.js';
 
@@ -59,5 +60,63 @@ describe('runScenario: one tridiagonal reduction per estimate', () => {
       expect(c.metrics!.effectiveBets).toBeCloseTo(effectiveBets(w, covariance), 12);
       expect(estimate.diagnostics.conditionNumber).toBeCloseTo(conditionNumber(estimate.covariance).value, 8);
     }
+  });
+});
+
+describe('runScenario with a run cache (the editor’s live recompute)', () => {
+  const parsed = parseScenario({
+    format: 'holdfast-scenario@1',
+    name: 'Cache',
+    baseCurrency: 'EUR',
+    returns: { frequency: 'daily', method: 'log' },
+    constraints: { longOnly: true, weightBounds: { default: [0, 0.3] } },
+    candidates: [
+      { id: 'md', estimator: { method: 'ledoit-wolf' }, objective: { method: 'max-diversification' } },
+      { id: 'erc', estimator: { method: 'ewma' }, objective: { method: 'equal-risk-contribution' } },
+    ],
+  });
+  if (!parsed.ok) throw new Error(parsed.errors[0].message);
+  const scenario = parsed.scenario;
+  const copy = (t: PriceTable): PriceTable => ({ ...t, dates: [...t.dates], closes: t.closes.map((c) => c.slice()) });
+  const sameWeights = (a: ReturnType<typeof runScenario>, b: ReturnType<typeof runScenario>) =>
+    a.candidates.forEach((c, k) => {
+      for (const [asset, w] of Object.entries(c.weights)) expect(w).toBeCloseTo(b.candidates[k].weights[asset], 12);
+    });
+
+  it('reuses the returns and estimates while their inputs are unchanged, even for a copied price table, and answers as a run without it', () => {
+    const table = prices(10, 260);
+    const cache = createRunCache();
+    const first = runScenario(scenario, table, { cache });
+    const again = runScenario(scenario, copy(table), { cache });
+    expect(again.returns).toBe(first.returns);
+    expect(again.estimates.md.estimate).toBe(first.estimates.md.estimate);
+    const capped = {
+      ...scenario,
+      constraints: { ...scenario.constraints, weightBounds: { default: [0, 0.2] as [number, number] } },
+    };
+    const edited = runScenario(capped, table, { cache });
+    expect(edited.returns).toBe(first.returns);
+    const cold = runScenario(capped, table);
+    sameWeights(edited, cold);
+    edited.candidates.forEach((c, k) =>
+      expect(c.metrics!.effectiveBets).toBeCloseTo(cold.candidates[k].metrics!.effectiveBets, 12),
+    );
+  });
+
+  it('builds afresh when a price, the window or the frequency changes', () => {
+    const table = prices(10, 260);
+    const cache = createRunCache();
+    const first = runScenario(scenario, table, { cache });
+    const moved = copy(table);
+    (moved.closes[3] as Float64Array)[100] *= 1.01;
+    const afterPrice = runScenario(scenario, moved, { cache });
+    expect(afterPrice.returns).not.toBe(first.returns);
+    sameWeights(afterPrice, runScenario(scenario, moved));
+    const windowed = { ...scenario, window: { from: '2021-03-01' } };
+    const afterWindow = runScenario(windowed, moved, { cache });
+    expect(afterWindow.returns).not.toBe(afterPrice.returns);
+    expect(afterWindow.returns.dates[0] >= '2021-03-01').toBe(true);
+    const weekly = { ...scenario, returns: { ...scenario.returns, frequency: 'weekly' as const } };
+    expect(runScenario(weekly, moved, { cache }).returns.frequency).toBe('weekly');
   });
 });
