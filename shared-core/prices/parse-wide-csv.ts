@@ -1,4 +1,5 @@
 import { InputError, type InputLocation } from '../errors.js';
+import { scanPlainDecimal } from './plain-decimal.js';
 import type { PriceTable } from './price-table.js';
 
 /**
@@ -95,53 +96,29 @@ export function wideCsvLocator(table: PriceTable): (asset: string | undefined, d
 const DECIMAL = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 
 const QUOTE = 34;
-const COMMA = 44;
-const DOT = 46;
-const ZERO = 48;
-/** Exact powers of ten as doubles: 10^0 .. 10^22 (every one is representable). */
-const POWERS = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
 
 /**
- * The common line, read without splitting it: every price cell unquoted, empty or a plain
- * positive decimal of at most 15 significant digits, with no exponent. Such a value is m / 10^k
- * with m < 2^53 and k <= 22, both exact doubles, so one division rounds it exactly as Number()
- * does (Clinger 1990, "How to read floating point numbers accurately", PLDI). Returns false,
- * having written nothing that matters, as soon as a cell is anything else: the caller then
- * re-reads the line cell by cell, which finds and explains any error.
+ * The common line, read without splitting it into strings: every price cell unquoted, empty or a
+ * plain positive decimal of at most 15 digits (scanPlainDecimal, exact as Number()). Returns
+ * false, having written nothing that matters, as soon as a cell is anything else: the caller
+ * then re-reads the line cell by cell, which finds and explains any error.
  */
 function scanPrices(line: string, start: number, closes: Float64Array[], r: number): boolean {
-  const end = line.length;
+  const length = line.length;
   let i = start;
   for (let k = 0; k < closes.length; k++) {
-    if (i > end) return false; // fewer cells than assets
-    let c = i < end ? line.charCodeAt(i) : COMMA;
-    if (c === COMMA) {
-      closes[k][r] = NaN;
-      i++;
-      continue;
+    if (i > length) return false; // fewer cells than assets
+    let end = line.indexOf(',', i);
+    if (end === -1) end = length;
+    if (end === i) closes[k][r] = NaN;
+    else {
+      const value = line.charCodeAt(i) === QUOTE ? NaN : scanPlainDecimal(line, i, end, 'point');
+      if (!(value > 0)) return false;
+      closes[k][r] = value;
     }
-    let mantissa = 0;
-    let digits = 0;
-    let scale = 0;
-    let seen = false;
-    let point = false;
-    for (; i < end; i++) {
-      c = line.charCodeAt(i);
-      const d = c - ZERO;
-      if (d >= 0 && d <= 9) {
-        seen = true;
-        if (mantissa !== 0 || d !== 0) digits++;
-        mantissa = mantissa * 10 + d;
-        if (point) scale++;
-      } else if (c === DOT && !point) point = true;
-      else break;
-    }
-    if (i < end && c !== COMMA) return false; // a sign, an exponent, a quote, a stray character
-    if (!seen || digits > 15 || scale > 22 || mantissa === 0) return false;
-    closes[k][r] = mantissa / POWERS[scale];
-    i++;
+    i = end + 1;
   }
-  return i > end; // and not more cells than assets
+  return i > length; // and not more cells than assets
 }
 
 function at(line: number, column: number): InputLocation {

@@ -1,7 +1,9 @@
 /** Reading single cells of a price file: dates in three orders, numbers with either decimal mark. */
 
 export type DateOrder = 'iso' | 'day-first' | 'month-first';
-export type DecimalMark = 'point' | 'comma';
+import { scanPlainDecimal, type DecimalMark } from '../../shared-core/prices/plain-decimal.js';
+
+export { scanPlainDecimal, type DecimalMark };
 
 /** A date cell as read, before the file's date order is known. */
 export interface DateToken {
@@ -72,41 +74,4 @@ export function decimalEvidence(text: string): number {
   if (/^[+-]?\d*,\d+$/.test(t)) return 1;
   if (/^[+-]?\d*\.\d+([eE][+-]?\d+)?$/.test(t)) return -1;
   return 0;
-}
-
-const POW10 = Array.from({ length: 23 }, (_, k) => 10 ** k);
-
-/**
- * A plain decimal `[+-]digits[.digits]` in `text[start, end)` without making a substring, or
- * NaN when the cell is anything else (the caller then takes the general path). With at most 15
- * significant digits the digits form an exact integer and 10^k is exact, so one division gives
- * the correctly rounded double, the same as Number() (Clinger 1990, "How to read floating point
- * numbers accurately", the fast path).
- */
-export function scanPlainDecimal(text: string, start: number, end: number, mark: DecimalMark): number {
-  const markCode = mark === 'point' ? 46 : 44;
-  let i = start;
-  let c = text.charCodeAt(i);
-  const negative = c === 45;
-  if (negative || c === 43) i++;
-  let mantissa = 0;
-  let digits = 0;
-  let fraction = 0;
-  for (; i < end; i++) {
-    c = text.charCodeAt(i);
-    if (c < 48 || c > 57) break;
-    mantissa = mantissa * 10 + (c - 48);
-    digits++;
-  }
-  if (i < end && c === markCode)
-    for (i++; i < end; i++) {
-      c = text.charCodeAt(i);
-      if (c < 48 || c > 57) break;
-      mantissa = mantissa * 10 + (c - 48);
-      digits++;
-      fraction++;
-    }
-  if (i !== end || digits === 0 || digits > 15) return NaN;
-  const value = fraction ? mantissa / POW10[fraction] : mantissa;
-  return negative ? -value : value;
 }
