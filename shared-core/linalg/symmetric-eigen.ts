@@ -1,5 +1,5 @@
 import type { Matrix } from './matrix.js';
-import { intoTridiagonalBasis, tridiagonalForm, type TridiagonalForm } from './tridiagonal-form.js';
+import { householderVector, intoTridiagonalBasis, tridiagonalForm, type TridiagonalForm } from './tridiagonal-form.js';
 
 export interface SymmetricEigen {
   /** Eigenvalues in ascending order. */
@@ -185,27 +185,16 @@ function tridiagonalise(w: Float64Array, n: number, d: Float64Array, e: Float64A
   // V[r][c] is w[c * n + r].
   for (let j = 0; j < n; j++) d[j] = w[j * n + n - 1];
   for (let i = n - 1; i > 0; i--) {
-    let scale = 0;
-    let h = 0;
-    for (let k = 0; k < i; k++) scale += Math.abs(d[k]);
-    if (scale === 0) {
-      e[i] = d[i - 1];
+    const h = householderVector(d, i, e);
+    if (h === 0) {
       for (let j = 0; j < i; j++) {
         d[j] = w[j * n + i - 1];
         w[j * n + i] = 0;
         w[i * n + j] = 0;
       }
     } else {
-      for (let k = 0; k < i; k++) {
-        d[k] /= scale;
-        h += d[k] * d[k];
-      }
-      let f = d[i - 1];
-      let g = Math.sqrt(h);
-      if (f > 0) g = -g;
-      e[i] = scale * g;
-      h -= f * g;
-      d[i - 1] = f - g;
+      let f: number;
+      let g: number;
       for (let j = 0; j < i; j++) e[j] = 0;
       for (let j = 0; j < i; j++) {
         f = d[j];

@@ -83,14 +83,14 @@ export function tridiagonalForm(m: Matrix, second?: SecondHalf): TridiagonalForm
   }
   let ready = false;
   for (let j = 0; j < n - 1; j++) v[j] = w[j * n + n - 1];
-  let h = reflector(v, n - 1, e);
+  let h = householderVector(v, n - 1, e);
   for (let i = n - 1; i > 0; i--) {
     if (h === 0) {
       // Row i is already zero left of the diagonal: nothing to reflect; the next row as it stands.
       ready = false;
       if (i > 1) {
         for (let j = 0; j < i - 1; j++) v[j] = w[j * n + i - 1];
-        h = reflector(v, i - 1, e);
+        h = householderVector(v, i - 1, e);
       }
       continue;
     }
@@ -113,7 +113,7 @@ export function tridiagonalForm(m: Matrix, second?: SecondHalf): TridiagonalForm
     for (let j = 0; j <= last; j++) w[j * n + last] -= u[j] * ql + q[j] * ul;
     if (last === 0) break;
     for (let j = 0; j < last; j++) v[j] = w[j * n + last];
-    h = reflector(v, last, e);
+    h = householderVector(v, last, e);
     if (h === 0) {
       for (let j = 0; j < last; j++) {
         const col = j * n;
@@ -147,7 +147,7 @@ export function tridiagonalForm(m: Matrix, second?: SecondHalf): TridiagonalForm
  * shifted by the new off-diagonal, as tred2 does), writes that off-diagonal to e[m] and returns
  * h = u'u / 2, or 0 when the row is already zero.
  */
-function reflector(r: Float64Array, m: number, e: Float64Array): number {
+export function householderVector(r: Float64Array, m: number, e: Float64Array): number {
   let scale = 0;
   for (let k = 0; k < m; k++) scale += Math.abs(r[k]);
   if (scale === 0) {

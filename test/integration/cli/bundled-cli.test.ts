@@ -4,8 +4,7 @@ import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
-import type { CliIO } from '../../../src-main/cli/command.js';
-import { runCli } from '../../../src-main/cli/run-cli.js';
+import { runCliInProcess } from '../../support/run-cli-in-process.js';
 
 /**
  * `npm run build` bundles the command line (scripts/build.mjs): dist/src-main/cli/main.js and its
@@ -23,19 +22,7 @@ function spawned(argv: string[]) {
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
-async function inProcess(argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const io: CliIO = {
-    stdout: (t) => (stdout += t),
-    stderr: (t) => (stderr += t),
-    cwd: dir,
-    env: {},
-    signal: new AbortController().signal,
-  };
-  const code = await runCli(argv, io);
-  return { code, stdout, stderr };
-}
+const inProcess = (argv: string[]) => runCliInProcess(argv, dir);
 
 /** Solver times differ from run to run; everything else must not. */
 const withoutTimes = (json: string) => JSON.stringify(JSON.parse(json), (k, v: unknown) => (k === 'ms' ? 0 : v));

@@ -2,9 +2,8 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import type { CliIO } from '../../../src-main/cli/command.js';
-import { runCli } from '../../../src-main/cli/run-cli.js';
 import { flat, loadFixture, relativeError } from '../estimators/fixtures.js';
+import { runCliInProcess } from '../../support/run-cli-in-process.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'holdfast-estimate-'));
 
@@ -13,19 +12,7 @@ function write(name: string, text: string): string {
   return name;
 }
 
-async function run(...argv: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  let stdout = '';
-  let stderr = '';
-  const io: CliIO = {
-    stdout: (t) => (stdout += t),
-    stderr: (t) => (stderr += t),
-    cwd: dir,
-    env: {},
-    signal: new AbortController().signal,
-  };
-  const code = await runCli(['estimate', ...argv], io);
-  return { code, stdout, stderr };
-}
+const run = (...argv: string[]) => runCliInProcess(['estimate', ...argv], dir);
 
 interface Prices {
   assets: string[];

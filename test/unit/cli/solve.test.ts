@@ -2,10 +2,9 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runCli } from '../../../src-main/cli/run-cli.js';
-import type { CliIO } from '../../../src-main/cli/command.js';
 import { seededRng } from '../../../shared-core/stability/rng.js';
 import { gaussian } from '../optimise/random-problems.js';
+import { runCliInProcess } from '../../support/run-cli-in-process.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'holdfast-solve-'));
 
@@ -50,19 +49,7 @@ const base = {
   ],
 };
 
-async function run(argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const io: CliIO = {
-    stdout: (t) => (stdout += t),
-    stderr: (t) => (stderr += t),
-    cwd: dir,
-    env: {},
-    signal: new AbortController().signal,
-  };
-  const code = await runCli(argv, io);
-  return { code, stdout, stderr };
-}
+const run = (argv: string[]) => runCliInProcess(argv, dir);
 
 describe('holdfast solve', () => {
   it('prints one JSON object with the issue’s keys and exits 0 when every candidate is optimal', async () => {
