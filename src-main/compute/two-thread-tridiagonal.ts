@@ -44,8 +44,13 @@ export const CLAIMED = 1;
 export const CLOSED = 2;
 const CONTROL_SLOTS = 5;
 
-/** Below this size the whole reduction (4/3 N^3 flops) takes less than handing steps over is worth. */
-export const MIN_SIZE = 400;
+/**
+ * Below this size the second thread costs more than it saves: starting it (40-60 ms) and N
+ * hand-offs against about 45 % of a reduction that takes 2.3 s x (N / 1500)^3 on one thread. At
+ * N = 500 one thread was faster by 42 ms in a whole-process A/B run (medians of 11); the two
+ * break even near N = 600.
+ */
+export const MIN_SIZE = 700;
 /** Spins before a wait: a few microseconds. */
 export const SPINS = 2000;
 const STEP_MS = 60 * 1000;
