@@ -53,7 +53,7 @@ export function passSplit(m: number): number {
  * product that step i - 1 needs share each load of an entry, because the next reflector comes
  * from row i - 1, which is updated first. Each pass is split at passSplit(m) into two column
  * ranges with their own accumulators, summed in a fixed order, so that the result is the same bit
- * for bit whether an edge runs the second range on another thread or not. Only the lower triangle
+ * for bit whether an edge runs the second range on another thread or not. Only the upper triangle
  * of `m` is read.
  */
 export function tridiagonalForm(m: Matrix, second?: SecondHalf): TridiagonalForm {
@@ -68,9 +68,10 @@ export function tridiagonalForm(m: Matrix, second?: SecondHalf): TridiagonalForm
         v: new Float64Array(n),
         second: new Float64Array(n),
       };
-  // A[k][j] (k >= j) lives in w[j * n + k]: column j of the lower triangle is contiguous.
+  // A[k][j] (k >= j) lives in w[j * n + k]: column j of the lower triangle is contiguous. It is
+  // row j of the upper triangle of the symmetric input, so each column is one contiguous copy.
   const w = space.w;
-  for (let j = 0; j < n; j++) for (let k = j; k < n; k++) w[j * n + k] = m.data[k * n + j];
+  for (let j = 0; j < n; j++) w.set(m.data.subarray(j * n + j, j * n + n), j * n + j);
   const { u, q, v } = space;
   const p2 = space.second;
   const d = new Float64Array(n);
