@@ -194,7 +194,17 @@ export interface ObjectiveScale {
 }
 
 /** Binding limits with shadow prices: dObjective/dLimit per unit (1.00 = 100 points) of the limit. */
-export function explainBinding(m: LinearMandate, sens: Sensitivity[], scale: ObjectiveScale): BindingConstraint[] {
+/**
+ * Binding limits with their prices; `unpriced` names the binding limits whose price the solution
+ * does not determine (a degenerate set of limits at the optimum, where the derivative of the
+ * weights does not exist), so that they are flagged rather than left out in silence.
+ */
+export function explainBinding(
+  m: LinearMandate,
+  sens: Sensitivity[],
+  scale: ObjectiveScale,
+  unpriced: string[] = [],
+): BindingConstraint[] {
   const out: BindingConstraint[] = [];
   for (const s of sens) {
     let label: string;
@@ -226,7 +236,11 @@ export function explainBinding(m: LinearMandate, sens: Sensitivity[], scale: Obj
         : `floor on ${m.assets[i]}`;
     }
     const shadow = scale.shadow ? scale.shadow(s, kindUpper) : scale.chain * s.dObjective;
-    if (shadow === undefined || !(Math.abs(shadow) > 0)) continue;
+    if (shadow === undefined || !Number.isFinite(shadow)) {
+      unpriced.push(`${label} ${pct(limit)}`);
+      continue;
+    }
+    if (!(Math.abs(shadow) > 0)) continue;
     const step = kindUpper ? 0.01 : -0.01;
     const change = shadow * step;
     const better = scale.maximise ? change > 0 : change < 0;

@@ -356,7 +356,17 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
     ruleWeights,
   };
   const phi = q && q.status === 'optimal' ? q.solution.objective : NaN;
-  const binding = explainBinding(m, sens, objectiveScale(method, phi, { S, m, w, form, q, budgets, ruleWeights }));
+  const unpriced: string[] = [];
+  const binding = explainBinding(
+    m,
+    sens,
+    objectiveScale(method, phi, { S, m, w, form, q, budgets, ruleWeights }),
+    unpriced,
+  );
+  if (unpriced.length > 0)
+    flags.push(
+      `${unpriced.join(', ')} ${unpriced.length === 1 ? 'binds' : 'bind'} but cannot be priced: the limits that bind at this solution are degenerate`,
+    );
   for (const s of sens)
     if (
       s.item.type === 'inequality' &&

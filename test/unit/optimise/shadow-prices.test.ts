@@ -30,6 +30,7 @@ import { describe, expect, it } from 'vitest';
 import { correlationMatrix, portfolioVolatility } from '../../../shared-core/analytics/risk.js';
 import { multiplyVector, type Matrix } from '../../../shared-core/linalg/matrix.js';
 import { ercOverCone, ercWeightSensitivity } from '../../../shared-core/optimise/erc.js';
+import { explainBinding } from '../../../shared-core/optimise/explain.js';
 import { homogenisedForm, sensitivities } from '../../../shared-core/optimise/formulate.js';
 import { buildMandate } from '../../../shared-core/optimise/mandate.js';
 import type { QpResult } from '../../../shared-core/optimise/qp/types.js';
@@ -416,5 +417,35 @@ describe('equal risk contribution: a tie for the largest gap', () => {
     const backward = (f(0.2) - f(0.2 - h)) / h;
     expect(Math.abs(forward - backward)).toBeGreaterThan(0.01 * Math.abs(forward));
     expect(Math.abs(b.shadowPrice - forward) / Math.abs(forward)).toBeLessThan(1e-3);
+  });
+});
+
+describe('a binding limit the solution cannot price', () => {
+  it('is named in a flag instead of being left out of the explanation in silence', () => {
+    const m = buildMandate(
+      ['A', 'B', 'C'],
+      { longOnly: true, weightBounds: { default: [0, 0.4] } },
+      undefined,
+      undefined,
+    );
+    const unpriced: string[] = [];
+    const binding = explainBinding(
+      m,
+      [
+        { item: { type: 'upper', variable: 0 }, multiplier: 1, dObjective: 0.5 },
+        { item: { type: 'upper', variable: 1 }, multiplier: 1, dObjective: 0.5 },
+      ],
+      {
+        name: 'the largest gap',
+        unit: 'share of risk',
+        maximise: false,
+        chain: 1,
+        // A degenerate active set: the derivative of the weights exists for A, not for B.
+        shadow: (s) => (s.item.type === 'upper' && s.item.variable === 0 ? 0.2 : undefined),
+      },
+      unpriced,
+    );
+    expect(binding.map((b) => b.constraint)).toEqual(['cap on A 40.0%']);
+    expect(unpriced).toEqual(['cap on B 40.0%']);
   });
 });
