@@ -57,7 +57,8 @@ export function scale(m: Matrix, factor: number): Matrix {
 /**
  * y = M x. Where most of x is zero (a portfolio holds few of a large universe's assets), only its
  * non-zero entries are visited: the same sums in the same order, O(rows x held) instead of
- * O(rows x cols).
+ * O(rows x cols). The columns of zero entries are then not read, so a non-finite entry there
+ * does not reach y: callers check M's entries first (solveCandidate does).
  */
 export function multiplyVector(m: Matrix, x: ArrayLike<number>): Float64Array {
   const y = new Float64Array(m.rows);

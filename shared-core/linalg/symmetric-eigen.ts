@@ -69,24 +69,32 @@ export function formEigenvalues(form: TridiagonalForm): Float64Array {
  * times the largest eigenvalue in size), without the O(N^2) of all the eigenvalues.
  */
 export function formExtremes(form: TridiagonalForm): { smallest: number; largest: number } {
-  const { n, diagonal: d, offDiagonal: e } = form;
+  const n = form.n;
   if (n === 0) return { smallest: 0, largest: 0 };
-  // Gershgorin bounds.
+  // Gershgorin bounds; the count runs on T / size, so that no square of an entry overflows or
+  // underflows whatever the matrix's scale.
+  let size = 0;
+  for (let i = 0; i < n; i++) {
+    const r = (i > 0 ? Math.abs(form.offDiagonal[i]) : 0) + (i + 1 < n ? Math.abs(form.offDiagonal[i + 1]) : 0);
+    size = Math.max(size, Math.abs(form.diagonal[i]) + r);
+  }
+  if (!(size > 0)) return { smallest: 0, largest: 0 };
+  const d = Float64Array.from(form.diagonal, (x) => x / size);
+  const e2 = Float64Array.from(form.offDiagonal, (x) => (x / size) * (x / size));
   let lo = Infinity;
   let hi = -Infinity;
   for (let i = 0; i < n; i++) {
-    const r = (i > 0 ? Math.abs(e[i]) : 0) + (i + 1 < n ? Math.abs(e[i + 1]) : 0);
+    const r = (i > 0 ? Math.sqrt(e2[i]) : 0) + (i + 1 < n ? Math.sqrt(e2[i + 1]) : 0);
     lo = Math.min(lo, d[i] - r);
     hi = Math.max(hi, d[i] + r);
   }
-  const size = Math.max(Math.abs(lo), Math.abs(hi));
-  const tiny = 2 ** -52 * size || Number.MIN_VALUE;
+  const tiny = 2 ** -52;
   /** How many eigenvalues lie below x (the sign changes of the Sturm sequence). */
   const below = (x: number): number => {
     let count = 0;
     let q = 1;
     for (let i = 0; i < n; i++) {
-      q = d[i] - x - (i > 0 ? (e[i] * e[i]) / q : 0);
+      q = d[i] - x - (i > 0 ? e2[i] / q : 0);
       if (q === 0) q = -tiny;
       if (q < 0) count++;
     }
@@ -101,7 +109,7 @@ export function formExtremes(form: TridiagonalForm): { smallest: number; largest
       if (below(mid) > k) b = mid;
       else a = mid;
     }
-    return a + (b - a) / 2;
+    return (a + (b - a) / 2) * size;
   };
   return { smallest: kth(0), largest: kth(n - 1) };
 }

@@ -10,7 +10,10 @@ import type { ReturnsResult } from '../returns/build-returns.js';
  * estimates with their tridiagonal forms, and the solver's active sets. Most edits (a cap, a band,
  * an objective) change none of the returns' inputs, so the next run only solves. Everything here
  * is a pure function of inputs that are compared before reuse, so a run with the cache gives the
- * same answer as one without; the cache only saves the time.
+ * same weights and figures as one without (only the solver's iteration counts and times differ,
+ * the active sets being warm); the cache only saves the time. A run keeps the estimates its own
+ * candidates used and drops the rest. Price tables are taken as immutable: the same object is
+ * the same prices (a table edited in place needs a new cache).
  */
 export interface RunCache {
   prices?: PriceTable;

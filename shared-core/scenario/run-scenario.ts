@@ -146,13 +146,15 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
     ...(options.crossProduct ? { crossProduct: options.crossProduct } : {}),
     tridiagonalise: reduceOnce,
   };
+  const estimateKey = (c: Scenario['candidates'][number]) =>
+    `${JSON.stringify(c.estimator)}|${scenario.periodsPerYear ?? ''}`;
   const cache = memo.estimates;
   const candidates: CandidateResult[] = [];
   const estimates: Record<string, CandidateEstimate> = {};
   const warmStarts: Record<string, QpWarmStart> = {};
   for (const c of scenario.candidates) {
     cancel();
-    const key = `${JSON.stringify(c.estimator)}|${scenario.periodsPerYear ?? ''}`;
+    const key = estimateKey(c);
     let entry = cache.get(key);
     if (!entry) {
       const estimate = estimateCovariance(returns.returns, c.estimator, context);
@@ -183,6 +185,14 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
     candidates.push(solved.result);
     if (solved.warmStart) warmStarts[c.id] = solved.warmStart;
   }
+  // Keep only what this scenario used: an editor field typed digit by digit (a half-life, a
+  // lambda) would otherwise leave one N x N estimate and its reduction behind per value.
+  const used = new Set(scenario.candidates.map(estimateKey));
+  for (const [key, entry] of memo.estimates)
+    if (!used.has(key)) {
+      memo.estimates.delete(key);
+      memo.forms.delete(entry.estimate.covariance);
+    }
   memo.warmStarts = warmStarts;
   return { candidates, estimates, returns, warmStarts };
 }

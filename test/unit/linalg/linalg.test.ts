@@ -329,5 +329,18 @@ describe("tridiagonal form A = Q T Q' (one Householder reduction shared by every
       expect(Math.abs(largest - all[n - 1])).toBeLessThan(8 * 2 ** -52 * size * n);
       expect(Math.abs(smallest - all[0])).toBeLessThan(8 * 2 ** -52 * size * n);
     }
+    // Any scale: the count works on T / (its Gershgorin bound), so no square overflows or underflows.
+    // [[2,1,0],[1,2,1],[0,1,2]] has eigenvalues 2 - sqrt(2), 2, 2 + sqrt(2) (a textbook closed form).
+    for (const scale of [1e-165, 1e-160, 1, 1e155, 1e300]) {
+      const m = fromRows([
+        [2, 1, 0],
+        [1, 2, 1],
+        [0, 1, 2],
+      ]);
+      for (let k = 0; k < 9; k++) m.data[k] *= scale;
+      const { smallest, largest } = formExtremes(tridiagonalForm(m));
+      expect(smallest / scale).toBeCloseTo(2 - Math.SQRT2, 12);
+      expect(largest / scale).toBeCloseTo(2 + Math.SQRT2, 12);
+    }
   });
 });

@@ -119,4 +119,24 @@ describe('runScenario with a run cache (the editor’s live recompute)', () => {
     const weekly = { ...scenario, returns: { ...scenario.returns, frequency: 'weekly' as const } };
     expect(runScenario(weekly, moved, { cache }).returns.frequency).toBe('weekly');
   });
+
+  it('keeps only the estimates the last run used (a half-life typed digit by digit leaves nothing behind)', () => {
+    const table = prices(10, 260);
+    const cache = createRunCache();
+    for (const halfLife of [1, 12, 126, 30])
+      runScenario(
+        {
+          ...scenario,
+          candidates: [
+            { ...scenario.candidates[0] },
+            { ...scenario.candidates[1], estimator: { method: 'ewma', halfLife } },
+          ],
+        },
+        table,
+        { cache },
+      );
+    expect(cache.estimates.size).toBe(2);
+    expect(cache.forms.size).toBe(2);
+    expect([...cache.estimates.keys()].some((k) => k.includes('"halfLife":30'))).toBe(true);
+  });
 });
