@@ -92,7 +92,9 @@ export function explainAssets(
     const base = { asset, weight: w[i], reason };
     const tail = reason === 'group-limit' ? `, away from it because ${inBand.get(i)}` : '';
     // Left out although its own figure says it would be held: some other limit keeps it out.
-    const keptOut = `, but ${inBand.get(i) ?? 'a binding mandate limit'} and keeps it out`;
+    const keptOut = inBand.has(i)
+      ? `, but ${inBand.get(i)} and keeps it out`
+      : ', but the limits that bind elsewhere in the mandate keep it out';
     switch (objective.method) {
       case 'max-diversification': {
         const t = 1 / dr;

@@ -65,6 +65,21 @@ describe('maximum diversification (Choueifaty and Coignard 2008; Choueifaty, Fro
     expect(out.text).not.toMatch(/adds less diversification/);
   });
 
+  it('an asset kept out by limits on other assets says so in a whole sentence', () => {
+    const S = equicorrelated(4, 0.15, 0.3);
+    const r = solve(
+      S,
+      { method: 'max-diversification' },
+      { groups: [{ name: 'Core', members: ['A001', 'A002', 'A003'], min: 1, max: 1 }] },
+    );
+    const out = r.explanations!.assets.find((a) => a.asset === 'A004')!;
+    expect(out.reason).toBe('excluded');
+    expect(out.correlationWithPortfolio!).toBeLessThan(out.threshold!);
+    expect(out.text).toMatch(
+      /below the threshold it would be held, but the limits that bind elsewhere in the mandate keep it out$/,
+    );
+  });
+
   it('an asset at its cap has correlation at most 1/DR (first-order conditions with an upper bound)', () => {
     const S = randomCovariance(20, 11);
     const r = solve(S, { method: 'max-diversification' }, { weightBounds: { default: [0, 0.12] } });
