@@ -9,7 +9,10 @@
  * Maximum diversification (Choueifaty, Froidure and Reynier 2013, J. Portfolio Management,
  * "Properties of the most diversified portfolio"): at the optimum every held asset not at a limit
  * has correlation exactly 1/DR with the portfolio, every asset left out at least 1/DR, an asset at
- * its cap at most 1/DR. Minimum variance (first-order conditions, common practice): every held
+ * its cap at most 1/DR. That holds with no limit binding but the budget and long-only; binding
+ * caps, bands or turnover move each asset's threshold by an amount that depends on its
+ * volatility (formulate.ts ratioThresholds, from the multipliers), and then each asset is told
+ * its own, which it meets exactly. Minimum variance (first-order conditions, common practice): every held
  * asset has beta 1 to the portfolio, an excluded asset at least 1, a capped one at most 1.
  */
 import type { ObjectiveSpec } from '../scenario/objective-spec.js';
@@ -33,10 +36,14 @@ export interface AssetFigures {
   /** Correlation-matrix product C w and w'Cw for maximum decorrelation. */
   corrW?: Float64Array;
   ruleWeights?: Float64Array;
+  /** Maximum diversification: each asset's correlation threshold with the binding limits counted (formulate.ts ratioThresholds). */
+  ownThresholds?: Float64Array;
 }
 
 /** Figures this close to their threshold count as on it (the optimum meets it to solver accuracy). */
 const SAME_FIGURE = 1e-6;
+/** An asset's own threshold this far from 1/DR is told (half a unit of the two decimals shown). */
+const MOVED_THRESHOLD = 0.005;
 
 /** Assets that sit in a binding band, turnover or gross-exposure limit (their first-order condition moves). */
 function assetsInBindingRows(m: LinearMandate, binding: Sensitivity[]): Map<number, string> {
@@ -98,6 +105,25 @@ export function explainAssets(
     switch (objective.method) {
       case 'max-diversification': {
         const t = 1 / dr;
+        const own = fig.ownThresholds?.[i];
+        if (own !== undefined && Number.isFinite(own) && Math.abs(own - t) > MOVED_THRESHOLD) {
+          // Binding limits move this asset's threshold away from 1/DR (formulate.ts ratioThresholds):
+          // say its own, which its correlation meets exactly as the optimality conditions require.
+          const without = `1/DR = ${num(t)} without them`;
+          const c = `correlation ${num(rho)} with the portfolio`;
+          const text =
+            reason === 'at-upper-bound'
+              ? `held at its ${capWord} of ${pct(w[i])}: ${c}, at or below its threshold of ${num(own)} once the binding limits are counted (${without}); it would be held more without the ${capWord}`
+              : reason === 'excluded'
+                ? own < -1
+                  ? `left out: ${c}; once the binding limits are counted, an asset of its volatility (${pct(fig.vols[i])}) would need a correlation below ${num(own)}, which no asset can have (${without})`
+                  : `left out: ${c}, at or above its threshold of ${num(own)} once the binding limits are counted (${without})${inBand.has(i) ? `; ${inBand.get(i)}` : ''}; under these limits an asset this correlated and this volatile adds less diversification than it costs`
+                : reason === 'at-lower-bound'
+                  ? `held at its floor of ${pct(w[i])}: ${c}, at or above its threshold of ${num(own)} once the binding limits are counted (${without}); it would be held less without the floor`
+                  : `held at ${pct(w[i])}: ${c}, equal to its threshold once the binding limits are counted (${without})${tail}`;
+          out.push({ ...base, text, correlationWithPortfolio: rho, threshold: own });
+          break;
+        }
         const c = `correlation ${num(rho)} with the portfolio, threshold 1/DR = ${num(t)}`;
         const text =
           reason === 'at-upper-bound'

@@ -165,3 +165,41 @@ export function sensitivities(f: Formulation, m: LinearMandate, s: QpSolution): 
   }
   return out;
 }
+
+/**
+ * Each asset's own correlation threshold at a ratio optimum (maximum diversification) when limits
+ * bind. Stationarity of the homogenised QP for asset i reads (Sigma y)_i = lambda sigma_i - f_i
+ * + (its own bound multipliers), with lambda = y'Sigma y the numerator row's multiplier (sign
+ * flipped) and f_i what every other active row (budget, bands, turnover links) exerts on asset
+ * i. Dividing by sigma_i sqrt(y'Sigma y) gives its correlation with the portfolio against
+ * (lambda sigma_i - f_i) / (sigma_i sqrt(y'Sigma y)): equal for a freely held asset, at least
+ * that for one left out, at most for one at its cap. With no limit binding f_i = 0 and every
+ * threshold is 1/DR (the property of Choueifaty, Froidure and Reynier 2013); binding limits move
+ * each asset's by an amount that depends on its volatility. Derived here from the KKT
+ * conditions; undefined for the direct form.
+ */
+export function ratioThresholds(f: Formulation, s: QpSolution, n: number): Float64Array | undefined {
+  if (f.form !== 'homogenised') return undefined;
+  const numerator = f.rowsA.findIndex((p) => p.type === 'numerator');
+  if (numerator < 0) return undefined;
+  const sigma = new Float64Array(n);
+  const row = f.qp.A[numerator];
+  row.idx.forEach((j, t) => j < n && (sigma[j] = row.val[t]));
+  const lambda = -s.y[numerator];
+  const yy = 2 * s.objective;
+  if (!(yy > 0)) return undefined;
+  const force = new Float64Array(n);
+  f.qp.A.forEach((r, k) => {
+    if (k === numerator || s.y[k] === 0) return;
+    r.idx.forEach((j, t) => j < n && (force[j] += s.y[k] * r.val[t]));
+  });
+  f.qp.G.forEach((r, k) => {
+    const z = s.z[k];
+    if (!(z > 0)) return;
+    const p = f.rowsG[k];
+    const own = p.type === 'upper' || p.type === 'lower' ? p.variable : -1;
+    r.idx.forEach((j, t) => j < n && j !== own && (force[j] += z * r.val[t]));
+  });
+  const root = Math.sqrt(yy);
+  return Float64Array.from(sigma, (sd, i) => (sd > 0 ? (lambda * sd - force[i]) / (sd * root) : NaN));
+}

@@ -24,6 +24,7 @@ import { explainAssets, explainBinding, type AssetFigures, type ObjectiveScale }
 import {
   directForm,
   homogenisedForm,
+  ratioThresholds,
   sensitivities,
   weightsOf,
   type Formulation,
@@ -354,6 +355,10 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
     expected,
     corrW: C ? multiplyVector(C, w) : undefined,
     ruleWeights,
+    ownThresholds:
+      method === 'max-diversification' && form && q && q.status === 'optimal'
+        ? ratioThresholds(form, q.solution, n)
+        : undefined,
   };
   const phi = q && q.status === 'optimal' ? q.solution.objective : NaN;
   const unpriced: string[] = [];

@@ -51,7 +51,7 @@ describe('maximum diversification (Choueifaty and Coignard 2008; Choueifaty, Fro
     }
   });
 
-  it('an asset kept out by a band, not by its correlation, is explained by the band (no contradictory sentence)', () => {
+  it('an asset kept out by a band is explained by the band and its own threshold, which its correlation meets (no contradictory sentence)', () => {
     const S = equicorrelated(4, 0.15, 0.3);
     const r = solve(
       S,
@@ -60,12 +60,15 @@ describe('maximum diversification (Choueifaty and Coignard 2008; Choueifaty, Fro
     );
     const out = r.explanations!.assets.find((a) => a.asset === 'A004')!;
     expect(out.reason).toBe('excluded');
-    expect(out.correlationWithPortfolio!).toBeLessThan(out.threshold!);
-    expect(out.text).toMatch(/below the threshold it would be held, but the Alternatives band binds and keeps it out$/);
-    expect(out.text).not.toMatch(/adds less diversification/);
+    expect(out.correlationWithPortfolio!).toBeLessThan(1 / r.metrics!.diversificationRatio);
+    expect(out.correlationWithPortfolio!).toBeGreaterThanOrEqual(out.threshold! - 1e-9);
+    expect(out.text).toMatch(
+      /once the binding limits are counted \(1\/DR = \d\.\d\d without them\); the Alternatives band binds;/,
+    );
+    expect(out.text).not.toMatch(/below the threshold it would be held/);
   });
 
-  it('an asset kept out by limits on other assets says so in a whole sentence', () => {
+  it('an asset kept out by limits on other assets is told its own threshold', () => {
     const S = equicorrelated(4, 0.15, 0.3);
     const r = solve(
       S,
@@ -74,10 +77,37 @@ describe('maximum diversification (Choueifaty and Coignard 2008; Choueifaty, Fro
     );
     const out = r.explanations!.assets.find((a) => a.asset === 'A004')!;
     expect(out.reason).toBe('excluded');
-    expect(out.correlationWithPortfolio!).toBeLessThan(out.threshold!);
-    expect(out.text).toMatch(
-      /below the threshold it would be held, but the limits that bind elsewhere in the mandate keep it out$/,
-    );
+    expect(out.correlationWithPortfolio!).toBeLessThan(1 / r.metrics!.diversificationRatio);
+    expect(out.correlationWithPortfolio!).toBeGreaterThanOrEqual(out.threshold! - 1e-9);
+    expect(out.text).toMatch(/^left out: correlation -?\d\.\d\d with the portfolio/);
+    expect(out.text).toMatch(/once the binding limits are counted/);
+  });
+
+  it('with caps and bands binding, each asset meets its own threshold as the optimality conditions require: equal when held freely, at least when left out, at most at a cap (KKT of the homogenised QP, derived in formulate.ts)', () => {
+    let moved = 0;
+    for (const seed of [3, 5, 8, 13, 21]) {
+      const S = randomCovariance(24, seed);
+      const r = solve(
+        S,
+        { method: 'max-diversification' },
+        {
+          weightBounds: { default: [0, 0.09] },
+          groups: [
+            { name: 'First', members: ids(24).slice(0, 8), min: 0.45 },
+            { name: 'Last', members: ids(24).slice(16), max: 0.1 },
+          ],
+        },
+      );
+      expect(r.status).toBe('optimal');
+      for (const a of r.explanations!.assets) {
+        const gap = a.correlationWithPortfolio! - a.threshold!;
+        if (Math.abs(a.threshold! - 1 / r.metrics!.diversificationRatio) > 0.005) moved++;
+        if (a.reason === 'excluded') expect(gap).toBeGreaterThanOrEqual(-1e-8);
+        else if (a.reason === 'at-upper-bound') expect(gap).toBeLessThanOrEqual(1e-8);
+        else expect(Math.abs(gap)).toBeLessThan(1e-8);
+      }
+    }
+    expect(moved).toBeGreaterThan(0); // the limits did move thresholds: the check is not the plain 1/DR one
   });
 
   it('an asset at its cap has correlation at most 1/DR (first-order conditions with an upper bound)', () => {
