@@ -36,7 +36,11 @@ export interface AssetFigures {
   /** Correlation-matrix product C w and w'Cw for maximum decorrelation. */
   corrW?: Float64Array;
   ruleWeights?: Float64Array;
-  /** Maximum diversification: each asset's correlation threshold with the binding limits counted (formulate.ts ratioThresholds). */
+  /**
+   * Each asset's threshold with the binding limits counted: its correlation's for maximum
+   * diversification (formulate.ts ratioThresholds), its beta's for minimum variance and maximum
+   * decorrelation (directThresholds).
+   */
   ownThresholds?: Float64Array;
 }
 
@@ -145,6 +149,22 @@ export function explainAssets(
         if (dec) for (let k = 0; k < n; k++) wcw += w[k] * fig.corrW![k];
         const beta = dec ? fig.corrW![i] / wcw : fig.sigmaW[i] / variance;
         const what = dec ? 'beta to the portfolio on the correlation matrix' : 'beta to the portfolio';
+        const own = fig.ownThresholds?.[i];
+        if (own !== undefined && Number.isFinite(own) && Math.abs(own - 1) > MOVED_THRESHOLD) {
+          // Binding limits move this asset's threshold away from 1 (formulate.ts directThresholds).
+          const b = `${what} ${num(beta)}`;
+          const without = '1 without them';
+          const text =
+            reason === 'at-upper-bound'
+              ? `held at its ${capWord} of ${pct(w[i])}: ${b}, at or below its threshold of ${num(own)} once the binding limits are counted (${without}); it would be held more without the ${capWord}`
+              : reason === 'excluded'
+                ? `left out: ${b}, at or above its threshold of ${num(own)} once the binding limits are counted (${without})${inBand.has(i) ? `; ${inBand.get(i)}` : ''}; under these limits adding it would not lower risk`
+                : reason === 'at-lower-bound'
+                  ? `held at its floor of ${pct(w[i])}: ${b}, at or above its threshold of ${num(own)} once the binding limits are counted (${without}); it would be held less without the floor`
+                  : `held at ${pct(w[i])}: ${b}, equal to its threshold once the binding limits are counted (${without})${tail}`;
+          out.push({ ...base, text, correlationWithPortfolio: rho, threshold: own });
+          break;
+        }
         const text =
           reason === 'at-upper-bound'
             ? `held at its ${capWord} of ${pct(w[i])}: ${what} ${num(beta)}, below 1, so it would be held more without the ${capWord}`

@@ -203,3 +203,29 @@ export function ratioThresholds(f: Formulation, s: QpSolution, n: number): Float
   const root = Math.sqrt(yy);
   return Float64Array.from(sigma, (sd, i) => (sd > 0 ? (lambda * sd - force[i]) / (sd * root) : NaN));
 }
+
+/**
+ * The same for the direct form (minimum variance, maximum decorrelation): stationarity for asset i
+ * reads (P w)_i = -q_i - f_i + (its own bound multipliers), f_i from every active row including
+ * the budget, so its beta (P w)_i / w'P w has the threshold (-q_i - f_i) / w'P w: equal when held
+ * freely, at least when left out, at most at a cap. With only the budget binding it is 1 for
+ * every asset (the first-order condition of minimum variance). Derived here from the KKT
+ * conditions; undefined for the homogenised form.
+ */
+export function directThresholds(f: Formulation, s: QpSolution, n: number): Float64Array | undefined {
+  if (f.form !== 'direct') return undefined;
+  const dim = f.qp.q.length;
+  const x = s.x;
+  let xPx = 0;
+  for (let i = 0; i < dim; i++) {
+    if (x[i] === 0) continue;
+    let v = 0;
+    for (let j = 0; j < dim; j++) v += f.qp.P.data[i * dim + j] * x[j];
+    xPx += x[i] * v;
+  }
+  if (!(xPx > 0)) return undefined;
+  const force = new Float64Array(n);
+  f.qp.A.forEach((r, k) => s.y[k] !== 0 && r.idx.forEach((j, t) => j < n && (force[j] += s.y[k] * r.val[t])));
+  f.qp.G.forEach((r, k) => s.z[k] > 0 && r.idx.forEach((j, t) => j < n && (force[j] += s.z[k] * r.val[t])));
+  return Float64Array.from(force, (fi, i) => (-f.qp.q[i] - fi) / xPx);
+}

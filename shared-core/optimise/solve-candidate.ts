@@ -24,6 +24,7 @@ import { explainAssets, explainBinding, type AssetFigures, type ObjectiveScale }
 import {
   directForm,
   homogenisedForm,
+  directThresholds,
   ratioThresholds,
   sensitivities,
   weightsOf,
@@ -355,10 +356,13 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
     expected,
     corrW: C ? multiplyVector(C, w) : undefined,
     ruleWeights,
-    ownThresholds:
-      method === 'max-diversification' && form && q && q.status === 'optimal'
+    ownThresholds: !(form && q && q.status === 'optimal')
+      ? undefined
+      : method === 'max-diversification'
         ? ratioThresholds(form, q.solution, n)
-        : undefined,
+        : method === 'min-variance' || method === 'max-decorrelation'
+          ? directThresholds(form, q.solution, n)
+          : undefined,
   };
   const phi = q && q.status === 'optimal' ? q.solution.objective : NaN;
   const unpriced: string[] = [];
