@@ -54,7 +54,7 @@ async function bundleCli(entry) {
   const outDir = dirname(entry);
   const dist = join(root, 'dist') + sep;
   const bundled = ['zod'];
-  const placeholder = '__holdfastModuleUrl__';
+  const urlMarker = '__holdfastModuleUrl__';
   const toPosix = (path) => path.split(sep).join('/');
   await build({
     input: entry,
@@ -68,11 +68,11 @@ async function bundleCli(entry) {
         name: 'holdfast-own-module-url',
         transform(code, id) {
           if (!id.startsWith(dist) || !code.includes('import.meta.url')) return null;
-          return code.replaceAll('import.meta.url', `${placeholder}(${JSON.stringify(toPosix(relative(dist, id)))})`);
+          return code.replaceAll('import.meta.url', `${urlMarker}(${JSON.stringify(toPosix(relative(dist, id)))})`);
         },
         renderChunk(code, chunk) {
           const chunkDir = dirname(join(outDir, chunk.fileName));
-          return code.replace(new RegExp(`${placeholder}\\((["'])(.+?)\\1\\)`, 'g'), (_, _quote, path) => {
+          return code.replace(new RegExp(`${urlMarker}\\((["'])(.+?)\\1\\)`, 'g'), (_, _quote, path) => {
             const url = toPosix(relative(chunkDir, join(dist, path)));
             return `new URL(${JSON.stringify(url)}, import.meta.url).href`;
           });

@@ -43,7 +43,7 @@ export interface SecondHalf {
 export const HAND_OFF_FROM = 192;
 
 /** Where a step's pass over an m x m block splits into two halves of equal work (columns shorten). */
-export function passSplit(m: number): number {
+function passSplit(m: number): number {
   return Math.floor(m * (1 - Math.SQRT1_2));
 }
 

@@ -128,7 +128,7 @@ export function createTwoThreadTridiagonal(options: TwoThreadTridiagonalOptions 
 }
 
 /** Waits until control[slot] equals `value`: spins, then sleeps; throws if the helper failed or hung. */
-export function awaitValue(control: Int32Array, slot: number, value: number): void {
+function awaitValue(control: Int32Array, slot: number, value: number): void {
   for (let spin = 0; spin < SPINS; spin++) if (Atomics.load(control, slot) === value) return;
   for (;;) {
     const seen = Atomics.load(control, slot);
