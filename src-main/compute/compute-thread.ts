@@ -1,7 +1,8 @@
-import { parentPort } from 'node:worker_threads';
+import { parentPort, workerData } from 'node:worker_threads';
 import { crossProductRows } from '../../shared-core/linalg/cross-product.js';
 import { fusedColumns } from '../../shared-core/linalg/tridiagonal-form.js';
 import { CLAIMED, DONE, FAILED, TAKEN_BACK, type RowsJob } from './two-thread-cross-product.js';
+import type { SecondThreadData } from './second-thread.js';
 import * as tri from './two-thread-tridiagonal.js';
 
 /**
@@ -17,6 +18,9 @@ parentPort!.on('message', (job: RowsJob | tri.TridiagonalJob) => {
   if (job.kind === 'rows') rows(job);
   else tridiagonal(job);
 });
+// Loaded and listening: the starting thread may now hand over smaller jobs (second-thread.ts).
+const data = workerData as SecondThreadData | undefined;
+if (data?.ready) Atomics.store(new Int32Array(data.ready), 0, 1);
 
 function rows(job: RowsJob): void {
   const flag = new Int32Array(job.flag);

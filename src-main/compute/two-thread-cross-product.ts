@@ -8,8 +8,8 @@ import { createSecondThread, processSecondThread, type SecondThread } from './se
  * thread the rest, with the core's own kernel (shared-core/linalg/cross-product.ts), so the
  * numbers are the single-thread ones bit for bit. It stays synchronous for the pure core that
  * calls it: the main thread waits on a shared flag with Atomics.wait, which Node allows. Below
- * MIN_WORK multiply-adds, or if the worker has not started within STARTUP_MS, the main thread
- * does all of it.
+ * MIN_WORK multiply-adds (MIN_WORK_READY once the thread is up), or if the worker has not started
+ * within STARTUP_MS, the main thread does all of it.
  */
 export interface RowsJob {
   kind: 'rows';
@@ -30,6 +30,12 @@ export const TAKEN_BACK = 4;
 
 /** N(N+1)/2 T multiply-adds below which starting the thread (about 0.1-0.2 s) costs more than it saves (N near 900 at T = 1260). */
 export const MIN_WORK = 5e8;
+/**
+ * The same with the thread already up (a command started it early): a hand-off then costs the
+ * copy of X into shared memory and a wake-up, well under a millisecond at N = 200, T = 1260
+ * (25 million multiply-adds, about 10 ms on one thread).
+ */
+export const MIN_WORK_READY = 2e7;
 const STARTUP_MS = 2000;
 const JOB_MS = 10 * 60 * 1000;
 
@@ -38,6 +44,7 @@ export interface TwoThreadOptions {
   thread?: SecondThread;
   script?: URL;
   minWork?: number;
+  minWorkReady?: number;
 }
 
 /** A two-thread X'X with its own worker; `rowsByWorker` counts the rows the worker computed. */
@@ -47,10 +54,12 @@ export function createTwoThreadCrossProduct(options: TwoThreadOptions = {}): {
 } {
   const thread = options.thread ?? createSecondThread(options.script);
   const minWork = options.minWork ?? MIN_WORK;
+  const minWorkReady = options.minWorkReady ?? MIN_WORK_READY;
   const stats = { rowsByWorker: 0 };
   const crossProduct = (x: Matrix): Matrix => {
     const n = x.cols;
-    const helper = (n * (n + 1) * x.rows) / 2 < minWork ? undefined : thread.worker();
+    const work = (n * (n + 1) * x.rows) / 2;
+    const helper = work >= minWork || (work >= minWorkReady && thread.ready()) ? thread.worker() : undefined;
     if (!helper) return oneThread(x);
     const out = new Float64Array(new SharedArrayBuffer(n * n * 8));
     const byWorker = onTwoThreads(x, out, helper);

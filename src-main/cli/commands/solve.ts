@@ -5,6 +5,7 @@ import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { runScenario, type ScenarioRun } from '../../../shared-core/scenario/run-scenario.js';
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
+import { processSecondThread } from '../../compute/second-thread.js';
 import { twoThreadCrossProduct } from '../../compute/two-thread-cross-product.js';
 import { twoThreadTridiagonal } from '../../compute/two-thread-tridiagonal.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
@@ -141,6 +142,9 @@ export async function runSolveCommand(options: OptionValues, io: CliIO): Promise
     throw new UsageError("'solve' needs --prices FILE.csv, or --store FILE with --household NAME");
   if (options.fx !== undefined && options.store !== undefined)
     throw new UsageError('--fx is for the file form: the store form reads the stored exchange rates');
+  // The helper thread boots while the input is read (two-thread-cross-product.ts uses it from
+  // N = 200 once it is up).
+  processSecondThread.start();
   let inputs: SolveInputs;
   if (options.store !== undefined) {
     // Loaded here so that the file form starts without the store and SQLite.

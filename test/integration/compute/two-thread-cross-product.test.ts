@@ -1,10 +1,16 @@
 import { existsSync } from 'node:fs';
+import { setTimeout as sleep } from 'node:timers/promises';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { estimateCovariance } from '../../../shared-core/estimators/registry.js';
 import { crossProduct } from '../../../shared-core/linalg/cross-product.js';
 import { zeros } from '../../../shared-core/linalg/matrix.js';
-import { createTwoThreadCrossProduct } from '../../../src-main/compute/two-thread-cross-product.js';
+import { createSecondThread } from '../../../src-main/compute/second-thread.js';
+import {
+  createTwoThreadCrossProduct,
+  MIN_WORK,
+  MIN_WORK_READY,
+} from '../../../src-main/compute/two-thread-cross-product.js';
 
 /**
  * The command line's two-thread X'X (a worker thread computes the last rows with the core's
@@ -45,6 +51,28 @@ describe('X’X on two threads (src-main/compute)', () => {
         expect(viaTwo.diagnostics.shrinkage).toBe(viaOne.diagnostics.shrinkage);
       }
       expect(two.stats.rowsByWorker).toBeGreaterThan(0);
+    },
+  );
+
+  it.runIf(existsSync(fileURLToPath(script)))(
+    'a thread started ahead reports ready from shared memory, and then takes jobs above MIN_WORK_READY only',
+    async () => {
+      const thread = createSecondThread(script);
+      expect(thread.ready()).toBe(false);
+      thread.start();
+      // Polled without awaiting its 'online' event, as a synchronous caller would see it.
+      for (let k = 0; k < 400 && !thread.ready(); k++) await sleep(10);
+      expect(thread.ready()).toBe(true);
+      const two = createTwoThreadCrossProduct({ thread });
+      const [t, n] = [1260, 200]; // N(N+1)/2 T = 25.3 million multiply-adds
+      expect((n * (n + 1) * t) / 2).toBeGreaterThan(MIN_WORK_READY);
+      expect((n * (n + 1) * t) / 2).toBeLessThan(MIN_WORK);
+      const x = returns(t, n);
+      expect(Array.from(two.crossProduct(x).data)).toEqual(Array.from(crossProduct(x).data));
+      expect(two.stats.rowsByWorker).toBeGreaterThan(0);
+      const before = two.stats.rowsByWorker;
+      two.crossProduct(returns(100, 40)); // below MIN_WORK_READY: all on the calling thread
+      expect(two.stats.rowsByWorker).toBe(before);
     },
   );
 
