@@ -26,6 +26,13 @@ export interface EstimateContext {
    * is exact up to EXACT_CONDITION_LIMIT assets and a Lanczos bound above.
    */
   tridiagonalise?: (m: Matrix) => TridiagonalForm;
+  /**
+   * Starts the same reduction of `m` without waiting for it (an edge's other thread) and returns
+   * the wait for its form, or undefined where it cannot. With it the estimate's condition number
+   * is computed on first read (see diagnose), so that a run can solve its candidates while the
+   * estimate is being reduced.
+   */
+  tridiagonaliseAhead?: (m: Matrix) => (() => TridiagonalForm) | undefined;
 }
 
 export interface EstimateDiagnostics {

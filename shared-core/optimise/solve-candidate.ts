@@ -61,8 +61,12 @@ export interface CandidateProblem {
   current?: Record<string, number>;
   expectedReturns?: Record<string, number>;
   assetInfo?: Record<string, AssetInfo>;
-  /** From the estimate's diagnostics when known (saves recomputing it). */
-  conditionNumber?: number;
+  /**
+   * From the estimate's diagnostics when known (saves recomputing it). As a function it is read
+   * only once the programme is solved, and before any result is returned: a run whose estimate
+   * is still being reduced on another thread solves meanwhile (run-scenario.ts).
+   */
+  conditionNumber?: number | (() => number);
   /**
    * The tridiagonal form (linalg/tridiagonal-form.ts) of the covariance or of a positive multiple
    * of it (the per-period estimate), shared by the candidates of one estimate.
@@ -113,7 +117,13 @@ function covarianceProblem(p: CandidateProblem): string | null {
   for (let i = 0; i < n; i++)
     if (!(S.data[i * n + i] > 0))
       return `${p.assets[i]} has zero variance over the window, so its risk cannot be estimated`;
-  const cond = p.conditionNumber ?? conditionNumber(S).value;
+  return null;
+}
+
+function conditioningProblem(p: CandidateProblem): string | null {
+  const n = p.assets.length;
+  const given = p.conditionNumber;
+  const cond = typeof given === 'function' ? given() : (given ?? conditionNumber(p.covariance).value);
   if (!(cond <= CONDITION_LIMIT)) {
     const tail =
       p.observations !== undefined && p.observations <= n
@@ -165,7 +175,7 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
   const t0 = nowMs();
   const n = p.assets.length;
   const head = { id: p.id, ...(p.label !== undefined ? { label: p.label } : {}) };
-  const fail = (status: 'error' | 'infeasible', message: string, iterations = 0): CandidateSolve => ({
+  const report = (status: 'error' | 'infeasible', message: string, iterations = 0): CandidateSolve => ({
     result: {
       ...head,
       status,
@@ -177,8 +187,23 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
   });
   const method = p.objective.method;
   const usesCovariance = method !== 'equal-weight' && method !== 'inverse-volatility';
-  const covIssue = covarianceProblem(usesCovariance ? p : { ...p, conditionNumber: 1 });
-  if (covIssue) return fail('error', covIssue);
+  const covIssue = covarianceProblem(p);
+  if (covIssue) return report('error', covIssue);
+  // The conditioning is checked before anything else is reported, now or, for a figure still
+  // being computed elsewhere, once the programme is solved: the answers are the same either way.
+  let conditioned = !usesCovariance;
+  const conditioning = (): CandidateSolve | null => {
+    if (conditioned) return null;
+    conditioned = true;
+    const issue = conditioningProblem(p);
+    return issue ? report('error', issue) : null;
+  };
+  const fail = (status: 'error' | 'infeasible', message: string, iterations = 0): CandidateSolve =>
+    conditioning() ?? report(status, message, iterations);
+  if (typeof p.conditionNumber !== 'function') {
+    const early = conditioning();
+    if (early) return early;
+  }
   const m = buildMandate(p.assets, p.constraints, p.current, p.assetInfo);
   const conflicts = arithmeticConflicts(m);
   if (conflicts.length > 0) return fail('infeasible', conflicts.join('; '));
@@ -329,6 +354,8 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
   const w = weights as Float64Array;
   if (m.longOnly) for (let i = 0; i < n; i++) if (w[i] < 0 && w[i] > -1e-12) w[i] = 0;
 
+  const late = conditioning();
+  if (late) return late;
   const status = q && q.status === 'iteration-limit' ? 'iteration-limit' : 'optimal';
   const metrics = metricsOf(w, p, m);
   const limitMessage =

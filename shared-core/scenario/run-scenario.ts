@@ -29,6 +29,12 @@ export interface RunScenarioOptions {
   /** The same tridiagonal reduction from the edge, faster (two threads: src-main/compute/). */
   tridiagonalise?: (m: Matrix) => TridiagonalForm;
   /**
+   * The same reduction started on another thread, returning the wait for it (see
+   * EstimateContext): the candidates are solved meanwhile, and the wait comes with the first
+   * condition number or effective bets read.
+   */
+  tridiagonaliseAhead?: (m: Matrix) => (() => TridiagonalForm) | undefined;
+  /**
    * The previous run's returns, estimates and active sets, reused where their inputs are
    * unchanged (run-cache.ts); updated by this run. Explicit `warmStarts` take precedence.
    */
@@ -133,18 +139,35 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
   });
 
   // One reduction per estimate serves its exact condition number and the effective bets of every
-  // candidate that shares it (the bets do not change when the covariance is annualised).
+  // candidate that shares it (the bets do not change when the covariance is annualised). One
+  // started ahead on another thread is waited for when first needed.
   const forms = memo.forms;
+  const pending = new Map<Matrix, () => TridiagonalForm>();
   const reduceOnce = (m: Matrix): TridiagonalForm => {
     let form = forms.get(m);
-    if (!form) forms.set(m, (form = (options.tridiagonalise ?? tridiagonalForm)(m)));
+    if (!form) {
+      const wait = pending.get(m);
+      pending.delete(m);
+      forms.set(m, (form = wait ? wait() : (options.tridiagonalise ?? tridiagonalForm)(m)));
+    }
     return form;
+  };
+  const ahead = options.tridiagonaliseAhead;
+  const reduceAhead = (m: Matrix): (() => TridiagonalForm) | undefined => {
+    if (forms.has(m)) return undefined;
+    if (!pending.has(m)) {
+      const wait = ahead?.(m);
+      if (!wait) return undefined;
+      pending.set(m, wait);
+    }
+    return () => reduceOnce(m);
   };
   const context: EstimateContext = {
     frequency: returns.frequency,
     periodsPerYear: scenario.periodsPerYear,
     ...(options.crossProduct ? { crossProduct: options.crossProduct } : {}),
     tridiagonalise: reduceOnce,
+    ...(ahead ? { tridiagonaliseAhead: reduceAhead } : {}),
   };
   const estimateKey = (c: Scenario['candidates'][number]) =>
     `${JSON.stringify(c.estimator)}|${scenario.periodsPerYear ?? ''}`;
@@ -152,38 +175,45 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
   const candidates: CandidateResult[] = [];
   const estimates: Record<string, CandidateEstimate> = {};
   const warmStarts: Record<string, QpWarmStart> = {};
-  for (const c of scenario.candidates) {
-    cancel();
-    const key = estimateKey(c);
-    let entry = cache.get(key);
-    if (!entry) {
-      const estimate = estimateCovariance(returns.returns, c.estimator, context);
-      entry = { estimate, covariance: annualised(estimate) };
-      cache.set(key, entry);
+  try {
+    for (const c of scenario.candidates) {
+      cancel();
+      const key = estimateKey(c);
+      let entry = cache.get(key);
+      if (!entry) {
+        const estimate = estimateCovariance(returns.returns, c.estimator, context);
+        entry = { estimate, covariance: annualised(estimate) };
+        cache.set(key, entry);
+      }
+      estimates[c.id] = { assets, covariance: entry.covariance, estimate: entry.estimate };
+      cancel();
+      const perPeriod = entry.estimate.covariance;
+      const diagnostics = entry.estimate.diagnostics;
+      const solved = solveCandidateDetailed({
+        id: c.id,
+        label: c.label,
+        assets,
+        covariance: entry.covariance,
+        objective: c.objective,
+        constraints: mergedConstraints(scenario.constraints, c.constraints),
+        current: scenario.current,
+        expectedReturns: scenario.expectedReturns,
+        assetInfo: scenario.assetInfo,
+        // Read late when the reduction runs ahead (the getter then waits for it).
+        conditionNumber: ahead ? () => diagnostics.conditionNumber : diagnostics.conditionNumber,
+        spectrum: () => reduceOnce(perPeriod),
+        observations: entry.estimate.diagnostics.observations,
+        estimator: c.estimator.method,
+        warmStart: options.warmStarts ? options.warmStarts[c.id] : memo.warmStarts[c.id],
+        shouldCancel: options.shouldCancel,
+      });
+      cancel();
+      candidates.push(solved.result);
+      if (solved.warmStart) warmStarts[c.id] = solved.warmStart;
     }
-    estimates[c.id] = { assets, covariance: entry.covariance, estimate: entry.estimate };
-    cancel();
-    const perPeriod = entry.estimate.covariance;
-    const solved = solveCandidateDetailed({
-      id: c.id,
-      label: c.label,
-      assets,
-      covariance: entry.covariance,
-      objective: c.objective,
-      constraints: mergedConstraints(scenario.constraints, c.constraints),
-      current: scenario.current,
-      expectedReturns: scenario.expectedReturns,
-      assetInfo: scenario.assetInfo,
-      conditionNumber: entry.estimate.diagnostics.conditionNumber,
-      spectrum: () => reduceOnce(perPeriod),
-      observations: entry.estimate.diagnostics.observations,
-      estimator: c.estimator.method,
-      warmStart: options.warmStarts ? options.warmStarts[c.id] : memo.warmStarts[c.id],
-      shouldCancel: options.shouldCancel,
-    });
-    cancel();
-    candidates.push(solved.result);
-    if (solved.warmStart) warmStarts[c.id] = solved.warmStart;
+  } finally {
+    // No reduction is left running on the other thread when the run returns or stops.
+    for (const m of [...pending.keys()]) reduceOnce(m);
   }
   // Keep only what this scenario used: an editor field typed digit by digit (a half-life, a
   // lambda) would otherwise leave one N x N estimate and its reduction behind per value.

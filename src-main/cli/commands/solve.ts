@@ -7,6 +7,7 @@ import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { processSecondThread } from '../../compute/second-thread.js';
 import { twoThreadCrossProduct } from '../../compute/two-thread-cross-product.js';
+import { tridiagonalAhead } from '../../compute/tridiagonal-ahead.js';
 import { twoThreadTridiagonal } from '../../compute/two-thread-tridiagonal.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
 import { readInputFile, withExchangeRates } from '../files.js';
@@ -57,6 +58,7 @@ export function solveInputs(inputs: SolveInputs, signal?: AbortSignal): Scenario
       shouldCancel: signal ? () => signal.aborted : undefined,
       crossProduct: twoThreadCrossProduct,
       tridiagonalise: twoThreadTridiagonal,
+      tridiagonaliseAhead: tridiagonalAhead,
     });
   } catch (error) {
     if (error instanceof InputError) {

@@ -1,0 +1,59 @@
+import { existsSync } from 'node:fs';
+import { setTimeout as sleep } from 'node:timers/promises';
+import { fileURLToPath } from 'node:url';
+import { describe, expect, it } from 'vitest';
+import { crossProduct } from '../../../shared-core/linalg/cross-product.js';
+import { zeros } from '../../../shared-core/linalg/matrix.js';
+import { tridiagonalForm } from '../../../shared-core/linalg/tridiagonal-form.js';
+import { createSecondThread } from '../../../src-main/compute/second-thread.js';
+import { createTridiagonalAhead } from '../../../src-main/compute/tridiagonal-ahead.js';
+
+/**
+ * The reduction started ahead on the helper thread (holdfast solve solves meanwhile) gives the
+ * calling thread's form bit for bit. The helper runs from the build that `npm test` makes first
+ * (dist/), as it does for `holdfast`.
+ */
+const script = new URL('../../../dist/src-main/compute/compute-thread.js', import.meta.url);
+
+function covariance(t: number, n: number) {
+  let s = 13;
+  const x = zeros(t, n);
+  for (let k = 0; k < x.data.length; k++) {
+    s = (s * 16807) % 2147483647;
+    x.data[k] = (s / 2147483647 - 0.5) * 0.02;
+  }
+  return crossProduct(x);
+}
+
+const sameBits = (a: Float64Array, b: Float64Array) => a.length === b.length && a.every((x, i) => Object.is(x, b[i]));
+
+describe('the tridiagonal reduction started ahead (src-main/compute)', () => {
+  it.runIf(existsSync(fileURLToPath(script)))(
+    'once the thread is up, the helper reduces while the caller goes on, and the form equals the one-thread form exactly',
+    async () => {
+      const thread = createSecondThread(script);
+      const ahead = createTridiagonalAhead({ thread, minSize: 0 });
+      const s = covariance(400, 160);
+      expect(ahead.start(s)).toBeUndefined(); // not started: nothing is handed over
+      thread.start();
+      for (let k = 0; k < 400 && !thread.ready(); k++) await sleep(10);
+      const wait = ahead.start(s)!;
+      expect(wait).toBeTypeOf('function');
+      const b = wait();
+      expect(wait()).toBe(b); // waited for once
+      const a = tridiagonalForm(s);
+      for (const key of ['diagonal', 'offDiagonal', 'halfNorms', 'reflectors'] as const)
+        expect(sameBits(a[key], b[key]), key).toBe(true);
+      expect(ahead.stats.byHelper).toBe(1);
+      // Outside [minSize, maxSize) the caller reduces synchronously (undefined here).
+      const bounded = createTridiagonalAhead({ thread, minSize: 200, maxSize: 300 });
+      expect(bounded.start(s)).toBeUndefined();
+      expect(bounded.start(covariance(400, 300))).toBeUndefined();
+    },
+  );
+
+  it('without the compiled helper script nothing is started', () => {
+    const alone = createTridiagonalAhead({ script: new URL('file:///nonexistent/thread.js'), minSize: 0 });
+    expect(alone.start(covariance(80, 30))).toBeUndefined();
+  });
+});
