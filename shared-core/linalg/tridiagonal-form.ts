@@ -19,6 +19,22 @@ export interface TridiagonalForm {
    */
   reflectors: Float64Array;
   halfNorms: Float64Array;
+  /**
+   * The QL iteration on T, run once ahead where an edge did so on another thread
+   * (symmetric-eigen.ts recordRotations): its eigenvalues and its plane rotations, which carry a
+   * vector into the eigenvector basis in O(N^2) without repeating the iteration.
+   */
+  rotations?: QlRotations;
+}
+
+/** What the QL iteration on T did, in order (symmetric-eigen.ts). */
+export interface QlRotations {
+  /** The eigenvalues, in the iteration's order (not sorted). */
+  values: Float64Array;
+  /** Each QL step's block [l, m] as the pair (l, m). */
+  steps: Int32Array;
+  /** Each rotation's (c, s), step by step, i from m - 1 down to l. */
+  cs: Float64Array;
 }
 
 /**

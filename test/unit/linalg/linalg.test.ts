@@ -10,7 +10,9 @@ import {
 import { fromRows, zeros, type Matrix } from '../../../shared-core/linalg/matrix.js';
 import {
   formEigenvalues,
+  formExposures,
   formExtremes,
+  recordRotations,
   spectralExposures,
   symmetricEigen,
   symmetricEigenvalues,
@@ -313,6 +315,31 @@ describe("tridiagonal form A = Q T Q' (one Householder reduction shared by every
     const identity = zeros(5, 5);
     for (let i = 0; i < 5; i++) identity.data[i * 6] = 1;
     expect(spectralExposures(identity, [0.1, 0.2, 0.3, 0.2, 0.2]).exposures.filter((e) => e > 0)).toHaveLength(1);
+  });
+
+  it('QL run once and recorded gives every later vector the same exposures and eigenvalues bit for bit, by replaying its rotations', () => {
+    for (const [rows, n, seed] of [
+      [80, 40, 31],
+      [15, 40, 32], // rank-deficient: a repeated eigenvalue
+    ] as const) {
+      const form = tridiagonalForm(crossProduct(randomMatrix(rows, n, seed)));
+      const rotations = recordRotations(form, new Float64Array(n), new Int32Array(8 * n), new Float64Array(4 * n * n))!;
+      expect(rotations.steps.length).toBeGreaterThan(0);
+      const recorded = { ...form, rotations };
+      for (const s of [41, 42]) {
+        const v = Array.from({ length: n }, stream(s));
+        const a = formExposures(form, v);
+        const b = formExposures(recorded, v);
+        expect(Array.from(b.exposures).every((x, i) => Object.is(x, a.exposures[i]))).toBe(true);
+        expect(Array.from(b.values).every((x, i) => Object.is(x, a.values[i]))).toBe(true);
+      }
+      expect(Array.from(formEigenvalues(recorded))).toEqual(Array.from(formEigenvalues(form)));
+      // Buffers too small: nothing recorded, and the caller keeps iterating.
+      expect(
+        recordRotations(form, new Float64Array(n), new Int32Array(2), new Float64Array(4 * n * n)),
+      ).toBeUndefined();
+      expect(recordRotations(form, new Float64Array(n), new Int32Array(8 * n), new Float64Array(4))).toBeUndefined();
+    }
   });
 
   it('bisection on Sturm counts finds the extreme eigenvalues that QL finds (Barth, Martin and Wilkinson 1967)', () => {
