@@ -3,6 +3,7 @@ import { crossProductRows } from '../../shared-core/linalg/cross-product.js';
 import { fusedColumns } from '../../shared-core/linalg/tridiagonal-form.js';
 import { CLAIMED, DONE, FAILED, TAKEN_BACK, type RowsJob } from './two-thread-cross-product.js';
 import type { SecondThreadData } from './second-thread.js';
+import { runRotationsJob, type RotationsJob } from './rotations-ahead.js';
 import { runReduceJob, type ReduceJob } from './tridiagonal-ahead.js';
 import * as tri from './two-thread-tridiagonal.js';
 
@@ -15,10 +16,12 @@ import * as tri from './two-thread-tridiagonal.js';
  * - `tridiagonal` (two-thread-tridiagonal.ts): claims the job unless the main thread closed it,
  *   then runs the second column range of every step it is handed until told to stop.
  * - `reduce` (tridiagonal-ahead.ts): a whole reduction while the main thread goes on.
+ * - `rotations` (rotations-ahead.ts): the QL iteration on a reduced matrix, recorded.
  */
-parentPort!.on('message', (job: RowsJob | tri.TridiagonalJob | ReduceJob) => {
+parentPort!.on('message', (job: RowsJob | tri.TridiagonalJob | ReduceJob | RotationsJob) => {
   if (job.kind === 'rows') rows(job);
   else if (job.kind === 'reduce') runReduceJob(job);
+  else if (job.kind === 'rotations') runRotationsJob(job);
   else tridiagonal(job);
 });
 // Loaded and listening: the starting thread may now hand over smaller jobs (second-thread.ts).

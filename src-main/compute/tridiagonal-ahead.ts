@@ -1,53 +1,46 @@
 import type { Matrix } from '../../shared-core/linalg/matrix.js';
-import { recordRotations } from '../../shared-core/linalg/symmetric-eigen.js';
 import { tridiagonalForm, type TridiagonalForm } from '../../shared-core/linalg/tridiagonal-form.js';
-import { MIN_SIZE } from './two-thread-tridiagonal.js';
+import {
+  awaitJob,
+  CLAIMED,
+  DONE,
+  FAILED,
+  FLAG,
+  OPEN,
+  recordedRotations,
+  recordingBuffers,
+  recordInto,
+} from './rotations-ahead.js';
 import { createSecondThread, processSecondThread, type SecondThread } from './second-thread.js';
+import { MIN_SIZE } from './two-thread-tridiagonal.js';
 
 /**
  * The tridiagonal reduction (shared-core/linalg/tridiagonal-form.ts) run on the helper thread
  * while the calling thread goes on: `holdfast solve` solves the candidates' programmes while the
  * estimate is reduced for its condition number and effective bets, which the run needs only at
  * the end. The helper runs the core's own function on a copy of the matrix in shared memory, so
- * the form is the calling thread's bit for bit. Used between MIN_AHEAD and two-thread-tridiagonal's
+ * the form is the calling thread's bit for bit, and then records the QL iteration on it
+ * (rotations-ahead.ts) for the effective bets. Used between MIN_AHEAD and two-thread-tridiagonal's
  * MIN_SIZE, and only once the thread is up: above MIN_SIZE both threads reduce together instead,
- * which is sooner than one reduction in the background (it takes 2.3 s x (N / 1500)^3). The
- * helper also runs the QL iteration on the tridiagonal once and records its rotations
- * (recordRotations), so that each candidate's effective bets replay them on its weights.
+ * which is sooner than one reduction in the background (it takes 2.3 s x (N / 1500)^3).
  */
 export interface ReduceJob {
   kind: 'reduce';
   n: number;
   /** N x N: the matrix in, the form's reflectors out. */
   matrix: SharedArrayBuffer;
-  /** 4 N: the diagonal, the off-diagonal, the half norms and the QL eigenvalues out. */
+  /** 3 N: the diagonal, the off-diagonal and the half norms out. */
   vectors: SharedArrayBuffer;
-  /** The QL steps (l, m) and rotations (c, s) out, up to their capacity. */
+  /** The QL recording out (rotations-ahead.ts). */
+  values: SharedArrayBuffer;
   steps: SharedArrayBuffer;
   cs: SharedArrayBuffer;
-  /**
-   * Int32 slot FLAG: OPEN, CLAIMED, DONE or FAILED (written by the helper), or TAKEN_BACK; slots
-   * STEP_COUNT and CS_COUNT: the recorded lengths (-1 where they did not fit).
-   */
+  /** Int32 slots as rotations-ahead.ts's. */
   flag: SharedArrayBuffer;
 }
 
-const FLAG = 0;
-const STEP_COUNT = 1;
-const CS_COUNT = 2;
-/** Room for about twice what QL took on the N = 500 bench estimate: 1.7 N steps, 0.95 N^2 rotations. */
-const stepCapacity = (n: number) => 8 * n + 16;
-const csCapacity = (n: number) => 4 * n * n + 16;
-
-export const OPEN = 0;
-export const CLAIMED = 1;
-export const DONE = 2;
-export const FAILED = 3;
-export const TAKEN_BACK = 4;
-
 /** Below this size a reduction takes about a millisecond: not worth a hand-off. */
 export const MIN_AHEAD = 150;
-const JOB_MS = 10 * 60 * 1000;
 
 export interface TridiagonalAheadOptions {
   thread?: SecondThread;
@@ -75,15 +68,15 @@ export function createTridiagonalAhead(options: TridiagonalAheadOptions = {}): {
     if (!helper) return undefined;
     const matrix = new Float64Array(new SharedArrayBuffer(n * n * 8));
     matrix.set(m.data.subarray(0, n * n));
-    const vectors = new Float64Array(new SharedArrayBuffer(4 * n * 8));
-    const steps = new Int32Array(new SharedArrayBuffer(stepCapacity(n) * 4));
-    const cs = new Float64Array(new SharedArrayBuffer(csCapacity(n) * 8));
+    const vectors = new Float64Array(new SharedArrayBuffer(3 * n * 8));
+    const { values, steps, cs } = recordingBuffers(n);
     const flag = new Int32Array(new SharedArrayBuffer(3 * 4));
     helper.postMessage({
       kind: 'reduce',
       n,
       matrix: matrix.buffer as SharedArrayBuffer,
       vectors: vectors.buffer as SharedArrayBuffer,
+      values: values.buffer as SharedArrayBuffer,
       steps: steps.buffer as SharedArrayBuffer,
       cs: cs.buffer as SharedArrayBuffer,
       flag: flag.buffer as SharedArrayBuffer,
@@ -91,14 +84,9 @@ export function createTridiagonalAhead(options: TridiagonalAheadOptions = {}): {
     let form: TridiagonalForm | undefined;
     return () => {
       if (form) return form;
-      // Not begun yet (the helper is busy or gone): take it back and reduce here.
-      if (Atomics.compareExchange(flag, FLAG, OPEN, TAKEN_BACK) === OPEN) return (form = tridiagonalForm(m));
-      while (Atomics.load(flag, FLAG) === CLAIMED)
-        if (Atomics.wait(flag, FLAG, CLAIMED, JOB_MS) === 'timed-out')
-          throw new Error('the helper thread did not finish the tridiagonal reduction');
-      if (Atomics.load(flag, FLAG) !== DONE) return (form = tridiagonalForm(m));
+      // Not begun by now (the helper is busy or gone), or failed: reduce here.
+      if (!awaitJob(flag, 'the tridiagonal reduction')) return (form = tridiagonalForm(m));
       stats.byHelper++;
-      const stepCount = Atomics.load(flag, STEP_COUNT);
       form = {
         n,
         reflectors: matrix,
@@ -106,12 +94,8 @@ export function createTridiagonalAhead(options: TridiagonalAheadOptions = {}): {
         offDiagonal: vectors.subarray(n, 2 * n),
         halfNorms: vectors.subarray(2 * n, 3 * n),
       };
-      if (stepCount >= 0)
-        form.rotations = {
-          values: vectors.subarray(3 * n, 4 * n),
-          steps: steps.subarray(0, stepCount),
-          cs: cs.subarray(0, Atomics.load(flag, CS_COUNT)),
-        };
+      const rotations = recordedRotations(values, steps, cs, flag);
+      if (rotations) form.rotations = rotations;
       return form;
     };
   };
@@ -131,14 +115,7 @@ export function runReduceJob(job: ReduceJob): void {
     vectors.set(form.diagonal, 0);
     vectors.set(form.offDiagonal, n);
     vectors.set(form.halfNorms, 2 * n);
-    const recorded = recordRotations(
-      form,
-      vectors.subarray(3 * n),
-      new Int32Array(job.steps),
-      new Float64Array(job.cs),
-    );
-    Atomics.store(flag, STEP_COUNT, recorded ? recorded.steps.length : -1);
-    Atomics.store(flag, CS_COUNT, recorded ? recorded.cs.length : -1);
+    recordInto(form, new Float64Array(job.values), new Int32Array(job.steps), new Float64Array(job.cs), flag);
     Atomics.store(flag, FLAG, DONE);
   } catch {
     Atomics.store(flag, FLAG, FAILED);

@@ -5,6 +5,7 @@ import {
   type SecondHalf,
   type TridiagonalForm,
 } from '../../shared-core/linalg/tridiagonal-form.js';
+import { startRotations } from './rotations-ahead.js';
 import { createSecondThread, processSecondThread, type SecondThread } from './second-thread.js';
 
 /**
@@ -114,7 +115,13 @@ export function createTwoThreadTridiagonal(options: TwoThreadTridiagonalOptions 
       },
     };
     try {
-      return tridiagonalForm(m, second);
+      const form = tridiagonalForm(m, second);
+      if (Atomics.load(control, STATE) !== CLAIMED) return form;
+      // The helper is free again: it runs the QL iteration for the effective bets while the
+      // caller solves; read on first use (undefined if the helper did not get to it).
+      const rotations = startRotations(helper, form);
+      Object.defineProperty(form, 'rotations', { get: rotations, enumerable: true });
+      return form;
     } finally {
       // Release the helper: stop a claimed job, close an unclaimed one so a late claim returns at once.
       if (Atomics.compareExchange(control, STATE, OPEN, CLOSED) === CLAIMED) {

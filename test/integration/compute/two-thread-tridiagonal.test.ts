@@ -45,6 +45,8 @@ describe('the tridiagonal reduction on two threads (src-main/compute)', () => {
         for (const key of ['diagonal', 'offDiagonal', 'halfNorms', 'reflectors'] as const)
           expect(sameBits(a[key], b[key]), key).toBe(true);
         const w = new Float64Array(n).fill(1 / n);
+        // The helper then records the QL iteration (rotations-ahead.ts); the bets replay it exactly.
+        expect(b.rotations).toBeDefined();
         expect(effectiveBets(w, s, b)).toBe(effectiveBets(w, s));
       }
       expect(two.stats.stepsByHelper).toBeGreaterThan(0);

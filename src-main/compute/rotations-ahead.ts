@@ -1,0 +1,129 @@
+import type { Worker } from 'node:worker_threads';
+import { recordRotations } from '../../shared-core/linalg/symmetric-eigen.js';
+import type { QlRotations, TridiagonalForm } from '../../shared-core/linalg/tridiagonal-form.js';
+
+/**
+ * The QL iteration on a reduced matrix's tridiagonal, run once on the helper thread and recorded
+ * (shared-core/linalg/symmetric-eigen.ts recordRotations), while the calling thread solves: each
+ * candidate's effective bets then replay the rotations on its weights in O(N^2) instead of
+ * iterating again. The form itself stays the calling thread's.
+ */
+export interface RotationsJob {
+  kind: 'rotations';
+  n: number;
+  /** 2 N in: the diagonal and the off-diagonal of T. */
+  tridiagonal: SharedArrayBuffer;
+  /** N out: the eigenvalues in QL's order. */
+  values: SharedArrayBuffer;
+  steps: SharedArrayBuffer;
+  cs: SharedArrayBuffer;
+  /** Int32: [FLAG, STEP_COUNT, CS_COUNT], see RecordSlots. */
+  flag: SharedArrayBuffer;
+}
+
+/** Slots of a job's Int32 flag: its state, then the recorded lengths (-1 where they did not fit). */
+export const FLAG = 0;
+export const STEP_COUNT = 1;
+export const CS_COUNT = 2;
+export const OPEN = 0;
+export const CLAIMED = 1;
+export const DONE = 2;
+export const FAILED = 3;
+export const TAKEN_BACK = 4;
+const JOB_MS = 10 * 60 * 1000;
+
+/** Room for about twice what QL took on the N = 500 bench estimate: 1.7 N steps, 0.95 N^2 rotations. */
+export const stepCapacity = (n: number): number => 8 * n + 16;
+export const csCapacity = (n: number): number => 4 * n * n + 16;
+
+/** Shared buffers for a recording of size n. */
+export function recordingBuffers(n: number): { values: Float64Array; steps: Int32Array; cs: Float64Array } {
+  return {
+    values: new Float64Array(new SharedArrayBuffer(n * 8)),
+    steps: new Int32Array(new SharedArrayBuffer(stepCapacity(n) * 4)),
+    cs: new Float64Array(new SharedArrayBuffer(csCapacity(n) * 8)),
+  };
+}
+
+/** The helper's side of any job that records: writes the lengths into the flag's slots. */
+export function recordInto(
+  form: TridiagonalForm,
+  values: Float64Array,
+  steps: Int32Array,
+  cs: Float64Array,
+  flag: Int32Array,
+): void {
+  const recorded = recordRotations(form, values, steps, cs);
+  Atomics.store(flag, STEP_COUNT, recorded ? recorded.steps.length : -1);
+  Atomics.store(flag, CS_COUNT, recorded ? recorded.cs.length : -1);
+}
+
+/** The calling thread's view of a finished recording, or undefined where it did not fit. */
+export function recordedRotations(
+  values: Float64Array,
+  steps: Int32Array,
+  cs: Float64Array,
+  flag: Int32Array,
+): QlRotations | undefined {
+  const stepCount = Atomics.load(flag, STEP_COUNT);
+  if (stepCount < 0) return undefined;
+  return { values, steps: steps.subarray(0, stepCount), cs: cs.subarray(0, Atomics.load(flag, CS_COUNT)) };
+}
+
+/** Waits for a job the helper claimed; false if it was never claimed (now taken back) or failed. */
+export function awaitJob(flag: Int32Array, what: string): boolean {
+  if (Atomics.compareExchange(flag, FLAG, OPEN, TAKEN_BACK) === OPEN) return false;
+  while (Atomics.load(flag, FLAG) === CLAIMED)
+    if (Atomics.wait(flag, FLAG, CLAIMED, JOB_MS) === 'timed-out')
+      throw new Error(`the helper thread did not finish ${what}`);
+  return Atomics.load(flag, FLAG) === DONE;
+}
+
+/**
+ * Hands the QL recording of `form` to the helper and returns the wait for it: the rotations, or
+ * undefined if the helper did not do it (formExposures then iterates itself).
+ */
+export function startRotations(helper: Worker, form: TridiagonalForm): () => QlRotations | undefined {
+  const n = form.n;
+  const tridiagonal = new Float64Array(new SharedArrayBuffer(2 * n * 8));
+  tridiagonal.set(form.diagonal, 0);
+  tridiagonal.set(form.offDiagonal, n);
+  const { values, steps, cs } = recordingBuffers(n);
+  const flag = new Int32Array(new SharedArrayBuffer(3 * 4));
+  helper.postMessage({
+    kind: 'rotations',
+    n,
+    tridiagonal: tridiagonal.buffer as SharedArrayBuffer,
+    values: values.buffer as SharedArrayBuffer,
+    steps: steps.buffer as SharedArrayBuffer,
+    cs: cs.buffer as SharedArrayBuffer,
+    flag: flag.buffer as SharedArrayBuffer,
+  } satisfies RotationsJob);
+  let answer: { rotations: QlRotations | undefined } | undefined;
+  return () =>
+    (answer ??= {
+      rotations: awaitJob(flag, 'the QL iteration') ? recordedRotations(values, steps, cs, flag) : undefined,
+    }).rotations;
+}
+
+/** The helper's side of a `rotations` job. */
+export function runRotationsJob(job: RotationsJob): void {
+  const flag = new Int32Array(job.flag);
+  if (Atomics.compareExchange(flag, FLAG, OPEN, CLAIMED) !== OPEN) return;
+  try {
+    const n = job.n;
+    const t = new Float64Array(job.tridiagonal);
+    const form: TridiagonalForm = {
+      n,
+      diagonal: t.subarray(0, n),
+      offDiagonal: t.subarray(n, 2 * n),
+      reflectors: new Float64Array(0),
+      halfNorms: new Float64Array(0),
+    };
+    recordInto(form, new Float64Array(job.values), new Int32Array(job.steps), new Float64Array(job.cs), flag);
+    Atomics.store(flag, FLAG, DONE);
+  } catch {
+    Atomics.store(flag, FLAG, FAILED);
+  }
+  Atomics.notify(flag, FLAG);
+}
