@@ -91,8 +91,8 @@ export interface CandidateSolve {
 
 const pctText = (v: number): string => `${Number((v * 100).toFixed(2))}%`;
 
+/** Every metric but the effective bets (NaN here), which wait for the spectrum: see solveOnce. */
 function metricsOf(w: Float64Array, p: CandidateProblem, m: LinearMandate): CandidateMetrics {
-  const full = p.detail !== 'weights';
   const S = p.covariance;
   const rc = riskContributions(w, S);
   let turnover = 0;
@@ -102,7 +102,7 @@ function metricsOf(w: Float64Array, p: CandidateProblem, m: LinearMandate): Cand
   return {
     volatility: portfolioVolatility(w, S),
     diversificationRatio: diversificationRatio(w, S),
-    effectiveBets: full ? effectiveBets(w, S, p.spectrum?.()) : NaN,
+    effectiveBets: NaN,
     effectiveHoldings: effectiveHoldings(w),
     riskContributions: Object.fromEntries(p.assets.map((a, i) => [a, rc[i]])),
     turnover: p.current ? turnover : 0,
@@ -354,8 +354,6 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
   const w = weights as Float64Array;
   if (m.longOnly) for (let i = 0; i < n; i++) if (w[i] < 0 && w[i] > -1e-12) w[i] = 0;
 
-  const late = conditioning();
-  if (late) return late;
   const status = q && q.status === 'iteration-limit' ? 'iteration-limit' : 'optimal';
   const metrics = metricsOf(w, p, m);
   const limitMessage =
@@ -370,50 +368,67 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
     metrics,
     solver: { iterations, kktResidual: residual, ms: nowMs() - t0 },
   });
-  if (p.detail === 'weights') return { result: solved(), warmStart };
-  const sens: Sensitivity[] = form && q && q.status === 'optimal' ? sensitivities(form, m, q.solution) : [];
-  const sigmaW = multiplyVector(S, w);
-  const fig: AssetFigures = {
-    weights: w,
-    sigmaW,
-    vols,
-    portfolioVol: metrics.volatility,
-    riskShares: Float64Array.from(p.assets, (a) => metrics.riskContributions[a]),
-    budgets,
-    expected,
-    corrW: C ? multiplyVector(C, w) : undefined,
-    ruleWeights,
-    ownThresholds: !(form && q && q.status === 'optimal')
-      ? undefined
-      : method === 'max-diversification'
-        ? ratioThresholds(form, q.solution, n)
-        : method === 'min-variance' || method === 'max-decorrelation'
-          ? directThresholds(form, q.solution, n)
-          : undefined,
-  };
-  const phi = q && q.status === 'optimal' ? q.solution.objective : NaN;
-  const unpriced: string[] = [];
-  const binding = explainBinding(
-    m,
-    sens,
-    objectiveScale(method, phi, { S, m, w, form, q, budgets, ruleWeights }),
-    unpriced,
-  );
-  if (unpriced.length > 0)
-    flags.push(
-      `${unpriced.join(', ')} ${unpriced.length === 1 ? 'binds' : 'bind'} but cannot be priced: the limits that bind at this solution are degenerate`,
-    );
-  for (const s of sens)
-    if (
-      s.item.type === 'inequality' &&
-      m.inequalities[s.item.index].kind === 'turnover' &&
-      method !== 'equal-weight' &&
-      method !== 'inverse-volatility'
-    )
-      flags.push(`the ${pctText(m.inequalities[s.item.index].limit)} turnover limit binds`);
-  const explanations = { assets: explainAssets(p.objective, m, fig, sens), binding, flags };
+  if (p.detail === 'weights') return conditioning() ?? { result: solved(), warmStart };
+  // The explanations first, the spectrum last: a reduction started ahead on another thread then
+  // has the programme and the explanations' time to finish. A covariance found badly conditioned
+  // only now is reported as it would have been before the solve.
+  let explanations: NonNullable<CandidateResult['explanations']>;
+  try {
+    explanations = explain();
+  } catch (error) {
+    const late = conditioning();
+    if (late) return late;
+    throw error;
+  }
+  const late = conditioning();
+  if (late) return late;
+  metrics.effectiveBets = effectiveBets(w, S, p.spectrum?.());
   const result: CandidateResult = { ...solved(), explanations };
   return { result, warmStart };
+
+  function explain(): NonNullable<CandidateResult['explanations']> {
+    const sens: Sensitivity[] = form && q && q.status === 'optimal' ? sensitivities(form, m, q.solution) : [];
+    const sigmaW = multiplyVector(S, w);
+    const fig: AssetFigures = {
+      weights: w,
+      sigmaW,
+      vols,
+      portfolioVol: metrics.volatility,
+      riskShares: Float64Array.from(p.assets, (a) => metrics.riskContributions[a]),
+      budgets,
+      expected,
+      corrW: C ? multiplyVector(C, w) : undefined,
+      ruleWeights,
+      ownThresholds: !(form && q && q.status === 'optimal')
+        ? undefined
+        : method === 'max-diversification'
+          ? ratioThresholds(form, q.solution, n)
+          : method === 'min-variance' || method === 'max-decorrelation'
+            ? directThresholds(form, q.solution, n)
+            : undefined,
+    };
+    const phi = q && q.status === 'optimal' ? q.solution.objective : NaN;
+    const unpriced: string[] = [];
+    const binding = explainBinding(
+      m,
+      sens,
+      objectiveScale(method, phi, { S, m, w, form, q, budgets, ruleWeights }),
+      unpriced,
+    );
+    if (unpriced.length > 0)
+      flags.push(
+        `${unpriced.join(', ')} ${unpriced.length === 1 ? 'binds' : 'bind'} but cannot be priced: the limits that bind at this solution are degenerate`,
+      );
+    for (const s of sens)
+      if (
+        s.item.type === 'inequality' &&
+        m.inequalities[s.item.index].kind === 'turnover' &&
+        method !== 'equal-weight' &&
+        method !== 'inverse-volatility'
+      )
+        flags.push(`the ${pctText(m.inequalities[s.item.index].limit)} turnover limit binds`);
+    return { assets: explainAssets(p.objective, m, fig, sens), binding, flags };
+  }
 }
 
 /** Two largest gaps closer than this (a share of risk) are treated as tied. */
