@@ -2,31 +2,18 @@ import { existsSync } from 'node:fs';
 import { setTimeout as sleep } from 'node:timers/promises';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { crossProduct } from '../../../shared-core/linalg/cross-product.js';
-import { zeros } from '../../../shared-core/linalg/matrix.js';
 import { formExposures } from '../../../shared-core/linalg/symmetric-eigen.js';
 import { tridiagonalForm } from '../../../shared-core/linalg/tridiagonal-form.js';
 import { createSecondThread } from '../../../src-main/compute/second-thread.js';
 import { createTridiagonalAhead } from '../../../src-main/compute/tridiagonal-ahead.js';
+import { computeThreadScript, sameBits, seededCovariance } from './seeded.js';
 
 /**
  * The reduction started ahead on the helper thread (holdfast solve solves meanwhile) gives the
- * calling thread's form bit for bit. The helper runs from the build that `npm test` makes first
- * (dist/), as it does for `holdfast`.
+ * calling thread's form bit for bit.
  */
-const script = new URL('../../../dist/src-main/compute/compute-thread.js', import.meta.url);
-
-function covariance(t: number, n: number) {
-  let s = 13;
-  const x = zeros(t, n);
-  for (let k = 0; k < x.data.length; k++) {
-    s = (s * 16807) % 2147483647;
-    x.data[k] = (s / 2147483647 - 0.5) * 0.02;
-  }
-  return crossProduct(x);
-}
-
-const sameBits = (a: Float64Array, b: Float64Array) => a.length === b.length && a.every((x, i) => Object.is(x, b[i]));
+const script = computeThreadScript;
+const covariance = (t: number, n: number) => seededCovariance(t, n, 13);
 
 describe('the tridiagonal reduction started ahead (src-main/compute)', () => {
   it.runIf(existsSync(fileURLToPath(script)))(

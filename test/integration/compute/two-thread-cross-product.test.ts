@@ -4,30 +4,21 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { estimateCovariance } from '../../../shared-core/estimators/registry.js';
 import { crossProduct } from '../../../shared-core/linalg/cross-product.js';
-import { zeros } from '../../../shared-core/linalg/matrix.js';
 import { createSecondThread } from '../../../src-main/compute/second-thread.js';
 import {
   createTwoThreadCrossProduct,
   MIN_WORK,
   MIN_WORK_READY,
 } from '../../../src-main/compute/two-thread-cross-product.js';
+import { computeThreadScript, seededReturns } from './seeded.js';
 
 /**
  * The command line's two-thread X'X (a worker thread computes the last rows with the core's
  * kernel) gives the single-thread numbers bit for bit. The worker runs from the build that
  * `npm test` makes first (dist/), as it does for `holdfast`.
  */
-const script = new URL('../../../dist/src-main/compute/compute-thread.js', import.meta.url);
-
-function returns(t: number, n: number) {
-  let s = 7;
-  const x = zeros(t, n);
-  for (let k = 0; k < x.data.length; k++) {
-    s = (s * 16807) % 2147483647;
-    x.data[k] = (s / 2147483647 - 0.5) * 0.02;
-  }
-  return x;
-}
+const script = computeThreadScript;
+const returns = (t: number, n: number) => seededReturns(t, n, 7);
 
 describe('X’X on two threads (src-main/compute)', () => {
   it.runIf(existsSync(fileURLToPath(script)))(

@@ -3,30 +3,18 @@ import { once } from 'node:events';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { effectiveBets } from '../../../shared-core/analytics/risk.js';
-import { crossProduct } from '../../../shared-core/linalg/cross-product.js';
-import { zeros } from '../../../shared-core/linalg/matrix.js';
 import { HAND_OFF_FROM, tridiagonalForm } from '../../../shared-core/linalg/tridiagonal-form.js';
 import { createSecondThread } from '../../../src-main/compute/second-thread.js';
 import { createTwoThreadTridiagonal } from '../../../src-main/compute/two-thread-tridiagonal.js';
+import { computeThreadScript, sameBits, seededCovariance } from './seeded.js';
 
 /**
  * The command line's two-thread tridiagonal reduction (the helper thread runs the second column
  * range of every step with the core's kernel) gives the single-thread numbers bit for bit. The
  * helper runs from the build that `npm test` makes first (dist/), as it does for `holdfast`.
  */
-const script = new URL('../../../dist/src-main/compute/compute-thread.js', import.meta.url);
-
-function covariance(t: number, n: number) {
-  let s = 11;
-  const x = zeros(t, n);
-  for (let k = 0; k < x.data.length; k++) {
-    s = (s * 16807) % 2147483647;
-    x.data[k] = (s / 2147483647 - 0.5) * 0.02;
-  }
-  return crossProduct(x);
-}
-
-const sameBits = (a: Float64Array, b: Float64Array) => a.length === b.length && a.every((x, i) => Object.is(x, b[i]));
+const script = computeThreadScript;
+const covariance = (t: number, n: number) => seededCovariance(t, n, 11);
 
 describe('the tridiagonal reduction on two threads (src-main/compute)', () => {
   it.runIf(existsSync(fileURLToPath(script)))(
