@@ -138,7 +138,14 @@ export function homogenisedForm(m: LinearMandate, P: Matrix, numerator?: ArrayLi
 export function weightsOf(f: Formulation, x: Float64Array, n: number): Float64Array {
   if (f.form === 'direct') return x.slice(0, n);
   const k = x[f.kappa];
-  return Float64Array.from(x.subarray(0, n), (v) => v / k);
+  const w = new Float64Array(n);
+  for (let i = 0; i < n; i++) w[i] = x[i] / k;
+  return w;
+}
+
+/** out_j += m row_j on the asset entries (j < n) of the row. */
+function addOnAssets(out: Float64Array, row: SparseRow, m: number, n: number): void {
+  for (let t = 0; t < row.idx.length; t++) if (row.idx[t] < n) out[row.idx[t]] += m * row.val[t];
 }
 
 /** A mandate limit and d(QP objective)/d(limit) at the solution, from the multipliers. */
@@ -151,14 +158,15 @@ export interface Sensitivity {
 export function sensitivities(f: Formulation, m: LinearMandate, s: QpSolution): Sensitivity[] {
   const out: Sensitivity[] = [];
   const k = f.form === 'homogenised' ? s.x[f.kappa] : 1;
-  f.rowsG.forEach((p, r) => {
+  for (let r = 0; r < f.rowsG.length; r++) {
     const z = s.z[r];
-    if (!(z > 0)) return;
+    if (!(z > 0)) continue;
+    const p = f.rowsG[r];
     if (p.type === 'inequality')
       out.push({ item: p, multiplier: z, dObjective: -z * k * m.inequalities[p.index].sign });
     else if (p.type === 'upper') out.push({ item: p, multiplier: z, dObjective: -z * k });
     else if (p.type === 'lower') out.push({ item: p, multiplier: z, dObjective: z * k });
-  });
+  }
   for (let i = 0; i < m.variables; i++) {
     if (s.zu[i] > 0) out.push({ item: { type: 'upper', variable: i }, multiplier: s.zu[i], dObjective: -s.zu[i] * k });
     if (s.zl[i] > 0) out.push({ item: { type: 'lower', variable: i }, multiplier: s.zl[i], dObjective: s.zl[i] * k });
@@ -184,24 +192,27 @@ export function ratioThresholds(f: Formulation, s: QpSolution, n: number): Float
   if (numerator < 0) return undefined;
   const sigma = new Float64Array(n);
   const row = f.qp.A[numerator];
-  row.idx.forEach((j, t) => j < n && (sigma[j] = row.val[t]));
+  for (let t = 0; t < row.idx.length; t++) if (row.idx[t] < n) sigma[row.idx[t]] = row.val[t];
   const lambda = -s.y[numerator];
   const yy = 2 * s.objective;
   if (!(yy > 0)) return undefined;
   const force = new Float64Array(n);
-  f.qp.A.forEach((r, k) => {
-    if (k === numerator || s.y[k] === 0) return;
-    r.idx.forEach((j, t) => j < n && (force[j] += s.y[k] * r.val[t]));
-  });
-  f.qp.G.forEach((r, k) => {
+  for (let k = 0; k < f.qp.A.length; k++) if (k !== numerator && s.y[k] !== 0) addOnAssets(force, f.qp.A[k], s.y[k], n);
+  for (let k = 0; k < f.qp.G.length; k++) {
     const z = s.z[k];
-    if (!(z > 0)) return;
+    if (!(z > 0)) continue;
     const p = f.rowsG[k];
     const own = p.type === 'upper' || p.type === 'lower' ? p.variable : -1;
-    r.idx.forEach((j, t) => j < n && j !== own && (force[j] += z * r.val[t]));
-  });
+    const r = f.qp.G[k];
+    for (let t = 0; t < r.idx.length; t++) {
+      const j = r.idx[t];
+      if (j < n && j !== own) force[j] += z * r.val[t];
+    }
+  }
   const root = Math.sqrt(yy);
-  return Float64Array.from(sigma, (sd, i) => (sd > 0 ? (lambda * sd - force[i]) / (sd * root) : NaN));
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) out[i] = sigma[i] > 0 ? (lambda * sigma[i] - force[i]) / (sigma[i] * root) : NaN;
+  return out;
 }
 
 /**
@@ -225,7 +236,9 @@ export function directThresholds(f: Formulation, s: QpSolution, n: number): Floa
   }
   if (!(xPx > 0)) return undefined;
   const force = new Float64Array(n);
-  f.qp.A.forEach((r, k) => s.y[k] !== 0 && r.idx.forEach((j, t) => j < n && (force[j] += s.y[k] * r.val[t])));
-  f.qp.G.forEach((r, k) => s.z[k] > 0 && r.idx.forEach((j, t) => j < n && (force[j] += s.z[k] * r.val[t])));
-  return Float64Array.from(force, (fi, i) => (-f.qp.q[i] - fi) / xPx);
+  for (let k = 0; k < f.qp.A.length; k++) if (s.y[k] !== 0) addOnAssets(force, f.qp.A[k], s.y[k], n);
+  for (let k = 0; k < f.qp.G.length; k++) if (s.z[k] > 0) addOnAssets(force, f.qp.G[k], s.z[k], n);
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) out[i] = (-f.qp.q[i] - force[i]) / xPx;
+  return out;
 }

@@ -33,6 +33,7 @@ import {
 } from './formulate.js';
 import { arithmeticConflicts, describeConflict } from './infeasibility.js';
 import { buildMandate, mandateViolation, type LinearMandate } from './mandate.js';
+import { addDot } from './qp/kernels.js';
 import { phaseOne } from './qp/phase-one.js';
 import { solveQp } from './qp/solve-qp.js';
 import type { QpResult, QpWarmStart } from './qp/types.js';
@@ -142,9 +143,16 @@ function conditioningProblem(p: CandidateProblem): string | null {
 function screeningScore(S: Matrix, vols: Float64Array, correlation: boolean): Float64Array | undefined {
   const n = vols.length;
   if (n < SCREEN_FROM) return undefined;
-  const w = Float64Array.from(vols, (v) => 1 / v);
-  const sw = multiplyVector(S, w);
-  return Float64Array.from(sw, (v, i) => (correlation ? v / vols[i] : v));
+  const w = new Float64Array(n);
+  for (let i = 0; i < n; i++) w[i] = 1 / vols[i];
+  // Sigma w, every w_i non-zero: linalg multiplyVector's dense sums, in the solver's own dot
+  // product, which the interior point's residuals then find optimised (qp/kernels.ts).
+  const score = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const v = addDot(0, S.data, i * n, w, n);
+    score[i] = correlation ? v / vols[i] : v;
+  }
+  return score;
 }
 
 function screenPlan(m: LinearMandate, score: Float64Array) {

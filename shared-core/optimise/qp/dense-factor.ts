@@ -2,8 +2,69 @@
  * Dense factorisations on row-major Float64Arrays, the two kernels of the QP solver:
  * Cholesky for the interior-point normal equations, LU with partial pivoting for the
  * (indefinite) polishing KKT system. Plain loops over contiguous rows: the inner loop of both is
- * a dot product or axpy on adjacent memory.
+ * a dot product on adjacent memory.
+ *
+ * Each inner loop is a small function of its own (the dot products shared with the rest of the
+ * solver, kernels.ts). A command-line run solves once in a fresh process, so most of the
+ * factorisation work happens before V8 has optimised anything; a small function called thousands
+ * of times is optimised after its first few calls with complete type feedback, where one long
+ * function is compiled on the fly part-way through its loop, at length, and often thrown away
+ * again when it reaches code it had not run yet (measured on Node 20: the N = 500 bench's first
+ * solve). The sums are the same, in the same order, as in one function.
  */
+import { maxAbs, subtractDot } from './kernels.js';
+
+/** a[rj + j] - sum_k a[rj + k]^2 over k < j, with two partial sums (even and odd k). */
+function pivotSquare(a: Float64Array, rj: number, j: number): number {
+  let d0 = a[rj + j];
+  let d1 = 0;
+  let k = 0;
+  for (; k + 1 < j; k += 2) {
+    d0 -= a[rj + k] * a[rj + k];
+    d1 -= a[rj + k + 1] * a[rj + k + 1];
+  }
+  if (k < j) d0 -= a[rj + k] * a[rj + k];
+  return d0 + d1;
+}
+
+/** Column j of L in rows ri and ri + n (two rows share every load of row rj). */
+function twoRowsOfColumn(a: Float64Array, ri: number, rk: number, rj: number, j: number, inv: number): void {
+  let s0 = a[ri + j];
+  let s1 = 0;
+  let t0 = a[rk + j];
+  let t1 = 0;
+  let m = 0;
+  for (; m + 1 < j; m += 2) {
+    const x0 = a[rj + m];
+    const x1 = a[rj + m + 1];
+    s0 -= a[ri + m] * x0;
+    s1 -= a[ri + m + 1] * x1;
+    t0 -= a[rk + m] * x0;
+    t1 -= a[rk + m + 1] * x1;
+  }
+  if (m < j) {
+    const x0 = a[rj + m];
+    s0 -= a[ri + m] * x0;
+    t0 -= a[rk + m] * x0;
+  }
+  a[ri + j] = (s0 + s1) * inv;
+  a[rk + j] = (t0 + t1) * inv;
+}
+
+/** Column j of L in the last row ri alone. */
+function oneRowOfColumn(a: Float64Array, ri: number, rj: number, j: number, inv: number): void {
+  let s = a[ri + j];
+  for (let m = 0; m < j; m++) s -= a[ri + m] * a[rj + m];
+  a[ri + j] = s * inv;
+}
+
+/** Column j of L below the diagonal, two rows at a time; inv = 1 / L[j][j]. */
+function columnBelow(a: Float64Array, n: number, j: number, inv: number): void {
+  const rj = j * n;
+  let i = j + 1;
+  for (; i + 1 < n; i += 2) twoRowsOfColumn(a, i * n, i * n + n, rj, j, inv);
+  if (i < n) oneRowOfColumn(a, i * n, rj, j, inv);
+}
 
 /**
  * In-place Cholesky A = L L' of an n x n symmetric matrix (lower triangle used). False when not
@@ -13,67 +74,36 @@
 export function choleskyInPlace(a: Float64Array, n: number): boolean {
   for (let j = 0; j < n; j++) {
     const rj = j * n;
-    let d0 = a[rj + j];
-    let d1 = 0;
-    let k = 0;
-    for (; k + 1 < j; k += 2) {
-      d0 -= a[rj + k] * a[rj + k];
-      d1 -= a[rj + k + 1] * a[rj + k + 1];
-    }
-    if (k < j) d0 -= a[rj + k] * a[rj + k];
-    const d = d0 + d1;
+    const d = pivotSquare(a, rj, j);
     if (!(d > 0) || !Number.isFinite(d)) return false;
     const ljj = Math.sqrt(d);
     a[rj + j] = ljj;
-    const inv = 1 / ljj;
-    let i = j + 1;
-    for (; i + 1 < n; i += 2) {
-      const ri = i * n;
-      const rk = ri + n;
-      let s0 = a[ri + j];
-      let s1 = 0;
-      let t0 = a[rk + j];
-      let t1 = 0;
-      let m = 0;
-      for (; m + 1 < j; m += 2) {
-        const x0 = a[rj + m];
-        const x1 = a[rj + m + 1];
-        s0 -= a[ri + m] * x0;
-        s1 -= a[ri + m + 1] * x1;
-        t0 -= a[rk + m] * x0;
-        t1 -= a[rk + m + 1] * x1;
-      }
-      if (m < j) {
-        const x0 = a[rj + m];
-        s0 -= a[ri + m] * x0;
-        t0 -= a[rk + m] * x0;
-      }
-      a[ri + j] = (s0 + s1) * inv;
-      a[rk + j] = (t0 + t1) * inv;
-    }
-    if (i < n) {
-      const ri = i * n;
-      let s = a[ri + j];
-      for (let m = 0; m < j; m++) s -= a[ri + m] * a[rj + m];
-      a[ri + j] = s * inv;
-    }
+    columnBelow(a, n, j, 1 / ljj);
   }
   return true;
 }
 
+/** b[i] - sum_k l[k n + i] b[k] over k in (i, n): column i of L below the diagonal. */
+function subtractColumnDot(l: Float64Array, n: number, i: number, b: Float64Array): number {
+  let s = b[i];
+  for (let k = i + 1; k < n; k++) s -= l[k * n + i] * b[k];
+  return s;
+}
+
+/** b_i = (b_i - sum_{k<i} L_ik b_k) / L_ii for i = 0 .. n-1: L y = b. */
+function forwardSubstitute(l: Float64Array, n: number, b: Float64Array): void {
+  for (let i = 0; i < n; i++) b[i] = subtractDot(b[i], l, i * n, b, 0, i) / l[i * n + i];
+}
+
+/** b_i = (b_i - sum_{k>i} L_ki b_k) / L_ii for i = n-1 .. 0: L' x = y. */
+function backSubstituteTransposed(l: Float64Array, n: number, b: Float64Array): void {
+  for (let i = n - 1; i >= 0; i--) b[i] = subtractColumnDot(l, n, i, b) / l[i * n + i];
+}
+
 /** Solves L L' x = b in place (b overwritten by x) with the factor from choleskyInPlace. */
 export function choleskySolveInPlace(l: Float64Array, n: number, b: Float64Array): void {
-  for (let i = 0; i < n; i++) {
-    const ri = i * n;
-    let s = b[i];
-    for (let k = 0; k < i; k++) s -= l[ri + k] * b[k];
-    b[i] = s / l[ri + i];
-  }
-  for (let i = n - 1; i >= 0; i--) {
-    let s = b[i];
-    for (let k = i + 1; k < n; k++) s -= l[k * n + i] * b[k];
-    b[i] = s / l[i * n + i];
-  }
+  forwardSubstitute(l, n, b);
+  backSubstituteTransposed(l, n, b);
 }
 
 export interface LuFactor {
@@ -82,65 +112,109 @@ export interface LuFactor {
   n: number;
 }
 
-/** LU with partial pivoting; null when a pivot vanishes (singular to working precision). */
-export function luFactor(a: Float64Array, n: number): LuFactor | null {
-  const lu = Float64Array.from(a);
+function swapRows(lu: Float64Array, rk: number, rp: number, n: number): void {
+  for (let j = 0; j < n; j++) {
+    const t = lu[rk + j];
+    lu[rk + j] = lu[rp + j];
+    lu[rp + j] = t;
+  }
+}
+
+/**
+ * LU with partial pivoting of `lu` itself (overwritten); null when a pivot vanishes.
+ *
+ * Crout's order (the left-looking form in Golub and Van Loan's Matrix Computations; recalled from
+ * memory): step k finishes column k of L and row k of U, each entry one dot product of a row of L
+ * with a column of U, its terms subtracted in increasing order. Those are the subtractions of
+ * eliminating row by row, in the same order, so the factor is the same; the one difference, that
+ * a zero multiplier's terms are subtracted rather than skipped, can only change the sign of a zero.
+ * U is also kept by columns (`ut`) so that every dot product runs over adjacent memory, and they
+ * all go through the one kernel the triangular solves use (kernels.ts), which the interior
+ * point's Cholesky solves have made fast by the time polishing factors.
+ */
+export function luFactorInPlace(lu: Float64Array, n: number): LuFactor | null {
   const perm = new Int32Array(n);
   for (let i = 0; i < n; i++) perm[i] = i;
-  let scale = 0;
-  for (let k = 0; k < lu.length; k++) scale = Math.max(scale, Math.abs(lu[k]));
-  const tiny = scale * 1e-300 + 1e-300;
+  const tiny = maxAbs(lu) * 1e-300 + 1e-300;
+  const ut = new Float64Array(n * n); // ut[j n + m] = U[m][j] for m <= j
   for (let k = 0; k < n; k++) {
-    let p = k;
-    let best = Math.abs(lu[k * n + k]);
-    for (let i = k + 1; i < n; i++) {
-      const v = Math.abs(lu[i * n + k]);
-      if (v > best) {
-        best = v;
-        p = i;
-      }
-    }
-    if (!(best > tiny)) return null;
+    const rk = k * n;
+    const p = columnOfL(lu, ut, n, k);
+    if (!(Math.abs(lu[p * n + k]) > tiny)) return null;
     if (p !== k) {
-      const rk = k * n;
-      const rp = p * n;
-      for (let j = 0; j < n; j++) {
-        const t = lu[rk + j];
-        lu[rk + j] = lu[rp + j];
-        lu[rp + j] = t;
-      }
+      swapRows(lu, rk, p * n, n);
       const t = perm[k];
       perm[k] = perm[p];
       perm[p] = t;
     }
-    const rk = k * n;
-    const inv = 1 / lu[rk + k];
-    for (let i = k + 1; i < n; i++) {
-      const ri = i * n;
-      const f = lu[ri + k] * inv;
-      if (f === 0) continue;
-      lu[ri + k] = f;
-      for (let j = k + 1; j < n; j++) lu[ri + j] -= f * lu[rk + j];
-    }
+    rowOfU(lu, ut, n, k);
+    scaleBelow(lu, n, k, 1 / lu[rk + k]);
   }
   return { lu, perm, n };
 }
 
-export function luSolve(f: LuFactor, b: ArrayLike<number>): Float64Array {
-  const { lu, perm, n } = f;
-  const x = new Float64Array(n);
-  for (let i = 0; i < n; i++) x[i] = b[perm[i]];
-  for (let i = 0; i < n; i++) {
-    const ri = i * n;
-    let s = x[i];
-    for (let k = 0; k < i; k++) s -= lu[ri + k] * x[k];
-    x[i] = s;
+/** Column k of L (rows k..) less (row of L) . (column k of U); the row of the first of its largest entries. */
+function columnOfL(lu: Float64Array, ut: Float64Array, n: number, k: number): number {
+  let p = k;
+  let best = 0;
+  for (let i = k; i < n; i++) {
+    const v = subtractDot(lu[i * n + k], lu, i * n, ut, k * n, k);
+    lu[i * n + k] = v;
+    if (i === k || Math.abs(v) > best) {
+      best = Math.abs(v);
+      p = i;
+    }
   }
-  for (let i = n - 1; i >= 0; i--) {
-    const ri = i * n;
-    let s = x[i];
-    for (let k = i + 1; k < n; k++) s -= lu[ri + k] * x[k];
-    x[i] = s / lu[ri + i];
+  return p;
+}
+
+/** Row k of U after the diagonal, kept by columns in ut as well. */
+function rowOfU(lu: Float64Array, ut: Float64Array, n: number, k: number): void {
+  const rk = k * n;
+  ut[rk + k] = lu[rk + k];
+  for (let j = k + 1; j < n; j++) {
+    const v = subtractDot(lu[rk + j], lu, rk, ut, j * n, k);
+    lu[rk + j] = v;
+    ut[j * n + k] = v;
   }
+}
+
+/** Column k of L below the diagonal divided by the pivot (times inv = 1 / pivot); zeros left as they are. */
+function scaleBelow(lu: Float64Array, n: number, k: number, inv: number): void {
+  for (let i = k + 1; i < n; i++) {
+    const f = lu[i * n + k] * inv;
+    if (f !== 0) lu[i * n + k] = f;
+  }
+}
+
+/** LU with partial pivoting of a copy of `a`; null when a pivot vanishes (singular to working precision). */
+export function luFactor(a: Float64Array, n: number): LuFactor | null {
+  return luFactorInPlace(Float64Array.from(a), n);
+}
+
+/** x_i = b_perm(i) */
+function permuted(x: Float64Array, b: ArrayLike<number>, perm: Int32Array): void {
+  for (let i = 0; i < perm.length; i++) x[i] = b[perm[i]];
+}
+
+/** x_i -= sum_{k<i} L_ik x_k for i = 0 .. n-1 (L unit lower, below the diagonal of lu). */
+function unitForwardSubstitute(lu: Float64Array, n: number, x: Float64Array): void {
+  for (let i = 0; i < n; i++) x[i] = subtractDot(x[i], lu, i * n, x, 0, i);
+}
+
+/** x_i = (x_i - sum_{k>i} U_ik x_k) / U_ii for i = n-1 .. 0. */
+function backSubstitute(lu: Float64Array, n: number, x: Float64Array): void {
+  for (let i = n - 1; i >= 0; i--) x[i] = subtractDot(x[i], lu, i * n + i + 1, x, i + 1, n - i - 1) / lu[i * n + i];
+}
+
+/** x = A^-1 b into `x` (length n, not `b` itself), with the factor from luFactor. */
+export function luSolveInto(f: LuFactor, b: ArrayLike<number>, x: Float64Array): Float64Array {
+  permuted(x, b, f.perm);
+  unitForwardSubstitute(f.lu, f.n, x);
+  backSubstitute(f.lu, f.n, x);
   return x;
+}
+
+export function luSolve(f: LuFactor, b: ArrayLike<number>): Float64Array {
+  return luSolveInto(f, b, new Float64Array(f.n));
 }

@@ -6,9 +6,26 @@
  * both the predictor and the corrector; equality rows go through the small Schur complement
  * A H^-1 A'. It stops at a modest residual and leaves the last digits to polishing (polish.ts),
  * which solves the identified active set exactly.
+ *
+ * A finite bound is carried as one more inequality row with a single entry (-x <= -lb, x <= ub),
+ * after the rows of G, so every step is one pass over all the inequalities; the sums it makes are
+ * those of the separate bound terms, in the same order. Every loop is a small kernel
+ * (kernels.ts and below) over buffers allocated once per solve, and an iteration only calls them:
+ * a command-line run solves once in a fresh process, where V8 optimises a small loop called many
+ * times within its first few calls, and one long function with many loops late and at length.
  */
+import { allFinite } from '../../linalg/matrix.js';
 import { choleskyInPlace, choleskySolveInPlace } from './dense-factor.js';
-import { addRow, rowDot } from './kkt.js';
+import {
+  addDot,
+  addRowsTimes,
+  addRowTimes,
+  maxAbs,
+  packedRows,
+  rowsTimes,
+  rowTimes,
+  type PackedRows,
+} from './kernels.js';
 import { QP_TOLERANCES, type QpProblem, type QpSolution } from './types.js';
 
 export interface InteriorPointOutcome {
@@ -30,27 +47,297 @@ export interface InteriorPointOptions {
   shouldCancel?: () => boolean;
 }
 
-const norm = (v: Float64Array): number => {
-  let m = 0;
-  for (let i = 0; i < v.length; i++) m = Math.max(m, Math.abs(v[i]));
-  return m;
-};
+/** out = q + P x (P n x n, row-major), each entry summed from q_i in increasing column. */
+function denseTimesPlus(out: Float64Array, P: Float64Array, n: number, x: Float64Array, q: Float64Array): void {
+  for (let i = 0; i < n; i++) out[i] = addDot(q[i], P, i * n, x, n);
+}
 
-export function interiorPoint(p: QpProblem, options: InteriorPointOptions): InteriorPointOutcome {
+/** acc + sum_k a_k b_k, added in increasing k. */
+function complementarity(s: Float64Array, z: Float64Array, rc: Float64Array): number {
+  let acc = 0;
+  for (let k = 0; k < s.length; k++) {
+    rc[k] = s[k] * z[k];
+    acc += rc[k];
+  }
+  return acc;
+}
+
+/** v += alpha dv */
+function stepBy(v: Float64Array, dv: Float64Array, alpha: number): void {
+  for (let k = 0; k < v.length; k++) v[k] += alpha * dv[k];
+}
+
+/** acc + sum_k (s_k + alpha ds_k)(z_k + alpha dz_k): the complementarity after a step. */
+function addSteppedProducts(
+  acc: number,
+  s: Float64Array,
+  ds: Float64Array,
+  z: Float64Array,
+  dz: Float64Array,
+  alpha: number,
+): number {
+  for (let k = 0; k < s.length; k++) acc += (s[k] + alpha * ds[k]) * (z[k] + alpha * dz[k]);
+  return acc;
+}
+
+/** out_k = s_k z_k + ds_k dz_k - sigma mu (the corrector's: centring plus the second-order term). */
+function corrected(
+  out: Float64Array,
+  s: Float64Array,
+  z: Float64Array,
+  ds: Float64Array,
+  dz: Float64Array,
+  sigma: number,
+  mu: number,
+): void {
+  for (let k = 0; k < s.length; k++) out[k] = s[k] * z[k] + ds[k] * dz[k] - sigma * mu;
+}
+
+/** out_r = row_r . x - b_r (A x - b), each dot product from 0 over the row's entries in order. */
+function rowsLess(m: PackedRows, x: Float64Array, b: Float64Array, out: Float64Array): void {
+  for (let r = 0; r < out.length; r++) out[r] = rowTimes(m, r, x) - b[r];
+}
+
+/** out_r = row_r . x + c_r */
+function rowsPlus(m: PackedRows, x: Float64Array, c: Float64Array, out: Float64Array): void {
+  for (let r = 0; r < out.length; r++) out[r] = rowTimes(m, r, x) + c[r];
+}
+
+/** out_r = row_r . x + s_r - h_r: the inequality rows' residuals. */
+function rowResiduals(m: PackedRows, x: Float64Array, s: Float64Array, h: Float64Array, out: Float64Array): void {
+  for (let r = 0; r < out.length; r++) out[r] = rowTimes(m, r, x) + s[r] - h[r];
+}
+
+/** H += sum_r (z_r / s_r) row_r row_r' (H n x n, row-major), row by row. */
+function addWeightedOuters(m: PackedRows, z: Float64Array, s: Float64Array, H: Float64Array, n: number): void {
+  const { start, col, val } = m;
+  for (let r = 0; r + 1 < start.length; r++) {
+    const w = z[r] / s[r];
+    const end = start[r + 1];
+    for (let a = start[r]; a < end; a++) {
+      const off = col[a] * n;
+      const wa = w * val[a];
+      for (let c = start[r]; c < end; c++) H[off + col[c]] += wa * val[c];
+    }
+  }
+}
+
+/**
+ * f = -rd + sum_r f_r row_r with f_r = -(z_r r_r - rc_r) / s_r, rows in order, f_r = 0 skipped:
+ * the Newton right-hand side with the inequality rows eliminated.
+ */
+function newtonRhs(
+  m: PackedRows,
+  rd: Float64Array,
+  z: Float64Array,
+  ri: Float64Array,
+  rc: Float64Array,
+  s: Float64Array,
+  f: Float64Array,
+): void {
+  for (let i = 0; i < f.length; i++) f[i] = -rd[i];
+  for (let r = 0; r < s.length; r++) {
+    const fr = -(z[r] * ri[r] - rc[r]) / s[r];
+    if (fr !== 0) addRowTimes(m, r, fr, f);
+  }
+}
+
+/** Each inequality row's slack step ds_r = -ri_r - row_r . dx and multiplier step dz_r = (-rc_r - z_r ds_r) / s_r. */
+function slackSteps(
+  m: PackedRows,
+  dx: Float64Array,
+  ri: Float64Array,
+  rc: Float64Array,
+  z: Float64Array,
+  s: Float64Array,
+  d: Direction,
+): void {
+  const { ds, dz } = d;
+  for (let r = 0; r < s.length; r++) {
+    ds[r] = -ri[r] - rowTimes(m, r, dx);
+    dz[r] = (-rc[r] - z[r] * ds[r]) / s[r];
+  }
+}
+
+function maxAbsDiagonal(H: Float64Array, n: number): number {
+  let m = 0;
+  for (let i = 0; i < n; i++) m = Math.max(m, Math.abs(H[i * n + i]));
+  return m;
+}
+
+/** x'(P x)/2 + q'x from rd's P x + q (the multiplier terms do not matter at the scale it serves). */
+function primalObjective(x: Float64Array, rd: Float64Array, q: Float64Array): number {
+  let pObj = 0;
+  for (let i = 0; i < x.length; i++) pObj += x[i] * (0.5 * (rd[i] - q[i]) + q[i]);
+  return pObj;
+}
+
+/** Largest step in (0, cap] that keeps v + a dv >= 0. */
+function maxStep(v: Float64Array, dv: Float64Array, cap: number): number {
+  let a = cap;
+  for (let k = 0; k < v.length; k++) if (dv[k] < 0) a = Math.min(a, -v[k] / dv[k]);
+  return a;
+}
+
+/** One Newton direction: dx, dy, and the slacks' and multipliers' of every inequality row. */
+interface Direction {
+  dx: Float64Array;
+  dy: Float64Array;
+  ds: Float64Array;
+  dz: Float64Array;
+}
+
+const newDirection = (n: number, me: number, m: number): Direction => ({
+  dx: new Float64Array(n),
+  dy: new Float64Array(me),
+  ds: new Float64Array(m),
+  dz: new Float64Array(m),
+});
+
+/** The problem, the iterate and the buffers of one solve. */
+interface State {
+  n: number;
+  me: number;
+  p: QpProblem;
+  A: PackedRows;
+  /** The inequality rows: G's, then one per finite lower bound, then one per finite upper bound. */
+  R: PackedRows;
+  /** Their right-hand sides (h, -lb, ub). */
+  hR: Float64Array;
+  x: Float64Array;
+  y: Float64Array;
+  s: Float64Array;
+  z: Float64Array;
+  rd: Float64Array;
+  rp: Float64Array;
+  /** Residuals of the inequality rows, R x + s - hR. */
+  ri: Float64Array;
+  /** The normal matrix and its Cholesky factor. */
+  H: Float64Array;
+  Hf: Float64Array;
+  /** H^-1 a_r for each equality row r, the Schur complement A H^-1 A' and its factor. */
+  M: Float64Array[];
+  Sm: Float64Array;
+  Sf: Float64Array;
+  /** Right-hand side of a Newton solve. */
+  f: Float64Array;
+}
+
+/** rd = P x + q + A'y + R'z, rp = A x - b, ri = R x + s - hR. */
+function residuals(st: State): void {
+  const { n, x, rd } = st;
+  denseTimesPlus(rd, st.p.P.data, n, x, st.p.q);
+  addRowsTimes(st.A, st.y, rd);
+  addRowsTimes(st.R, st.z, rd);
+  rowsLess(st.A, x, st.p.b, st.rp);
+  rowResiduals(st.R, x, st.s, st.hR, st.ri);
+}
+
+/** H = P + R' (Z/S) R; the largest |diagonal entry|. */
+function normalMatrix(st: State): number {
+  const { n, H } = st;
+  H.set(st.p.P.data.subarray(0, n * n));
+  addWeightedOuters(st.R, st.z, st.s, H, n);
+  return maxAbsDiagonal(H, n);
+}
+
+/** Cholesky of H into Hf; a singular H (a direction free of curvature and constraints) gets a small ridge. */
+function factorNormal(st: State, maxDiag: number): boolean {
+  const { n, H, Hf } = st;
+  Hf.set(H);
+  let factored = choleskyInPlace(Hf, n);
+  for (let attempt = 0, reg = 1e-14 * (maxDiag || 1); !factored && attempt < 6; attempt++, reg *= 100) {
+    Hf.set(H);
+    for (let i = 0; i < n; i++) Hf[i * n + i] += reg;
+    factored = choleskyInPlace(Hf, n);
+  }
+  return factored;
+}
+
+/** Schur complement of the equality rows, S = A H^-1 A', factored into Sf. */
+function factorSchur(st: State): boolean {
+  const { n, me, A, M, Sm, Sf } = st;
+  for (let r = 0; r < me; r++) {
+    const col = M[r];
+    col.fill(0);
+    addRowTimes(A, r, 1, col);
+    choleskySolveInPlace(st.Hf, n, col);
+  }
+  for (let a = 0; a < me; a++) for (let c = 0; c < me; c++) Sm[a * me + c] = rowTimes(A, a, M[c]);
+  let sMax = 0;
+  for (let a = 0; a < me; a++) sMax = Math.max(sMax, Sm[a * me + a]);
+  // Dependent equality rows make S singular: a small ridge picks one of the equal solutions.
+  Sf.set(Sm);
+  let sFactored = me === 0 || choleskyInPlace(Sf, me);
+  for (let attempt = 0, reg = 1e-14 * (sMax || 1); !sFactored && attempt < 8; attempt++, reg *= 100) {
+    Sf.set(Sm);
+    for (let a = 0; a < me; a++) Sf[a * me + a] += reg;
+    sFactored = choleskyInPlace(Sf, me);
+  }
+  return sFactored;
+}
+
+/** dx, dy of the reduced Newton system for right-hand side st.f. */
+function solveNewton(st: State, dx: Float64Array, dy: Float64Array): void {
+  const { n, me, M } = st;
+  dx.set(st.f);
+  choleskySolveInPlace(st.Hf, n, dx);
+  rowsPlus(st.A, dx, st.rp, dy);
+  if (me > 0) choleskySolveInPlace(st.Sf, me, dy);
+  for (let r = 0; r < me; r++) stepBy(dx, M[r], -dy[r]); // dx - dy_r M_r, as dx + (-dy_r) M_r
+}
+
+/** The Newton direction for complementarity targets rc (one per inequality row), into d. */
+function direction(st: State, rc: Float64Array, d: Direction): void {
+  newtonRhs(st.R, st.rd, st.z, st.ri, rc, st.s, st.f);
+  solveNewton(st, d.dx, d.dy);
+  slackSteps(st.R, d.dx, st.ri, rc, st.z, st.s, d);
+}
+
+/** Largest step in (0, 1] that keeps every slack and multiplier non-negative. */
+const stepOf = (st: State, d: Direction): number => maxStep(st.z, d.dz, maxStep(st.s, d.ds, 1));
+
+function advance(st: State, d: Direction, alpha: number): void {
+  stepBy(st.x, d.dx, alpha);
+  stepBy(st.y, d.dy, alpha);
+  stepBy(st.s, d.ds, alpha);
+  stepBy(st.z, d.dz, alpha);
+}
+
+/** G's rows, then -x_i <= -lb_i for each finite lower bound, then x_i <= ub_i for each finite upper one. */
+function inequalityRows(p: QpProblem, L: readonly number[], U: readonly number[]): { R: PackedRows; hR: Float64Array } {
+  const G = packedRows(p.G);
+  const mi = p.G.length;
+  const m = mi + L.length + U.length;
+  const e = G.col.length;
+  const start = new Int32Array(m + 1);
+  const col = new Int32Array(e + L.length + U.length);
+  const val = new Float64Array(e + L.length + U.length);
+  const hR = new Float64Array(m);
+  start.set(G.start);
+  col.set(G.col);
+  val.set(G.val);
+  hR.set(p.h);
+  for (let k = 0; k < L.length; k++) {
+    col[e + k] = L[k];
+    val[e + k] = -1;
+    start[mi + k + 1] = e + k + 1;
+    hR[mi + k] = -p.lb[L[k]];
+  }
+  for (let k = 0, o = e + L.length; k < U.length; k++, o++) {
+    col[o] = U[k];
+    val[o] = 1;
+    start[mi + L.length + k + 1] = o + 1;
+    hR[mi + L.length + k] = p.ub[U[k]];
+  }
+  return { R: { start, col, val }, hR };
+}
+
+function startingState(p: QpProblem, L: readonly number[], U: readonly number[]): State {
   const n = p.q.length;
   const me = p.A.length;
-  const mi = p.G.length;
-  const L: number[] = [];
-  const U: number[] = [];
-  for (let i = 0; i < n; i++) {
-    if (Number.isFinite(p.lb[i])) L.push(i);
-    if (Number.isFinite(p.ub[i])) U.push(i);
-  }
-  const nl = L.length;
-  const nu = U.length;
-  const mTotal = mi + nl + nu;
-  const maxIt = options.maxIterations ?? QP_TOLERANCES.maxIterations;
-
+  const { R, hR } = inequalityRows(p, L, U);
+  const m = hR.length;
   // Starting point: inside the bounds, unit slacks and multipliers (an infeasible start).
   const x = new Float64Array(n);
   for (let i = 0; i < n; i++) {
@@ -60,28 +347,54 @@ export function interiorPoint(p: QpProblem, options: InteriorPointOptions): Inte
     else if (Number.isFinite(lo)) x[i] = lo + 1;
     else if (Number.isFinite(hi)) x[i] = hi - 1;
   }
-  const y = new Float64Array(me);
-  const s = new Float64Array(mi);
-  const z = new Float64Array(mi).fill(1);
-  for (let r = 0; r < mi; r++) s[r] = Math.max(p.h[r] - rowDot(p.G[r], x), 1);
-  const sl = new Float64Array(nl);
-  const zl = new Float64Array(nl).fill(1);
-  const su = new Float64Array(nu);
-  const zu = new Float64Array(nu).fill(1);
-  for (let k = 0; k < nl; k++) sl[k] = Math.max(x[L[k]] - p.lb[L[k]], 1);
-  for (let k = 0; k < nu; k++) su[k] = Math.max(p.ub[U[k]] - x[U[k]], 1);
+  const s = new Float64Array(m);
+  rowsTimes(R, x, s);
+  for (let r = 0; r < m; r++) s[r] = Math.max(hR[r] - s[r], 1);
+  return {
+    n,
+    me,
+    p,
+    A: packedRows(p.A),
+    R,
+    hR,
+    x,
+    y: new Float64Array(me),
+    s,
+    z: new Float64Array(m).fill(1),
+    rd: new Float64Array(n),
+    rp: new Float64Array(me),
+    ri: new Float64Array(m),
+    H: new Float64Array(n * n),
+    Hf: new Float64Array(n * n),
+    M: Array.from({ length: me }, () => new Float64Array(n)),
+    Sm: new Float64Array(me * me),
+    Sf: new Float64Array(me * me),
+    f: new Float64Array(n),
+  };
+}
 
-  const qScale = 1 + norm(p.q);
-  let bScale = 1 + norm(p.b) + norm(p.h);
+export function interiorPoint(p: QpProblem, options: InteriorPointOptions): InteriorPointOutcome {
+  const n = p.q.length;
+  const mi = p.G.length;
+  const L: number[] = [];
+  const U: number[] = [];
+  for (let i = 0; i < n; i++) {
+    if (Number.isFinite(p.lb[i])) L.push(i);
+    if (Number.isFinite(p.ub[i])) U.push(i);
+  }
+  const st = startingState(p, L, U);
+  const { x, y, s, z, rd, rp, ri } = st;
+  const mTotal = s.length;
+  const maxIt = options.maxIterations ?? QP_TOLERANCES.maxIterations;
+
+  const qScale = 1 + maxAbs(p.q);
+  let bScale = 1 + maxAbs(p.b) + maxAbs(p.h);
   for (const i of L) bScale = Math.max(bScale, 1 + Math.abs(p.lb[i]));
   for (const i of U) bScale = Math.max(bScale, 1 + Math.abs(p.ub[i]));
 
-  const H = new Float64Array(n * n);
-  const rd = new Float64Array(n);
-  const rp = new Float64Array(me);
-  const ri = new Float64Array(mi);
-  const rl = new Float64Array(nl);
-  const ru = new Float64Array(nu);
+  const rc = new Float64Array(mTotal);
+  const aff = newDirection(n, st.me, mTotal);
+  const cor = newDirection(n, st.me, mTotal);
   let it = 0;
   let residual = Infinity;
   let bestPrimal = Infinity;
@@ -90,30 +403,13 @@ export function interiorPoint(p: QpProblem, options: InteriorPointOptions): Inte
 
   for (; it < maxIt; it++) {
     if (options.shouldCancel?.()) break;
-    // Residuals.
-    for (let i = 0; i < n; i++) {
-      const off = i * n;
-      let v = p.q[i];
-      for (let j = 0; j < n; j++) v += p.P.data[off + j] * x[j];
-      rd[i] = v;
-    }
-    for (let r = 0; r < me; r++) addRow(rd, p.A[r], y[r]);
-    for (let r = 0; r < mi; r++) addRow(rd, p.G[r], z[r]);
-    for (let k = 0; k < nl; k++) rd[L[k]] -= zl[k];
-    for (let k = 0; k < nu; k++) rd[U[k]] += zu[k];
-    for (let r = 0; r < me; r++) rp[r] = rowDot(p.A[r], x) - p.b[r];
-    for (let r = 0; r < mi; r++) ri[r] = rowDot(p.G[r], x) + s[r] - p.h[r];
-    for (let k = 0; k < nl; k++) rl[k] = sl[k] - x[L[k]] + p.lb[L[k]];
-    for (let k = 0; k < nu; k++) ru[k] = x[U[k]] + su[k] - p.ub[U[k]];
-    let gap = 0;
-    for (let r = 0; r < mi; r++) gap += s[r] * z[r];
-    for (let k = 0; k < nl; k++) gap += sl[k] * zl[k];
-    for (let k = 0; k < nu; k++) gap += su[k] * zu[k];
+    residuals(st);
+    // rc = s z is also the predictor's complementarity target (s and z do not change before it).
+    const gap = complementarity(s, z, rc);
     const mu = mTotal > 0 ? gap / mTotal : 0;
-    let pObj = 0;
-    for (let i = 0; i < n; i++) pObj += x[i] * (0.5 * (rd[i] - p.q[i]) + p.q[i]);
-    const primalRes = Math.max(norm(rp), norm(ri), norm(rl), norm(ru)) / bScale;
-    const dualRes = norm(rd) / qScale;
+    const pObj = primalObjective(x, rd, p.q);
+    const primalRes = Math.max(maxAbs(rp), maxAbs(ri)) / bScale;
+    const dualRes = maxAbs(rd) / qScale;
     residual = Math.max(primalRes, dualRes, gap / (1 + Math.abs(pObj)));
     if (residual <= options.tolerance) {
       status = 'converged';
@@ -129,158 +425,27 @@ export function interiorPoint(p: QpProblem, options: InteriorPointOptions): Inte
       }
     } else if (primalRes < bestPrimal) bestPrimal = primalRes;
 
-    // Normal matrix H = P + G' (Z/S) G + diag(zl/sl + zu/su).
-    H.set(p.P.data.subarray(0, n * n));
-    for (let r = 0; r < mi; r++) {
-      const w = z[r] / s[r];
-      const { idx, val } = p.G[r];
-      for (let a = 0; a < idx.length; a++) {
-        const off = idx[a] * n;
-        const wa = w * val[a];
-        for (let c = 0; c < idx.length; c++) H[off + idx[c]] += wa * val[c];
-      }
-    }
-    for (let k = 0; k < nl; k++) H[L[k] * n + L[k]] += zl[k] / sl[k];
-    for (let k = 0; k < nu; k++) H[U[k] * n + U[k]] += zu[k] / su[k];
-    let maxDiag = 0;
-    for (let i = 0; i < n; i++) maxDiag = Math.max(maxDiag, Math.abs(H[i * n + i]));
-    if (!Number.isFinite(maxDiag)) {
+    const maxDiag = normalMatrix(st);
+    if (!Number.isFinite(maxDiag) || !factorNormal(st, maxDiag) || !factorSchur(st)) {
       status = 'breakdown';
       break;
     }
-    // A singular H (a direction free of curvature and constraints) gets a small ridge.
-    const Hf = new Float64Array(H);
-    let factored = choleskyInPlace(Hf, n);
-    for (let attempt = 0, reg = 1e-14 * (maxDiag || 1); !factored && attempt < 6; attempt++, reg *= 100) {
-      Hf.set(H);
-      for (let i = 0; i < n; i++) Hf[i * n + i] += reg;
-      factored = choleskyInPlace(Hf, n);
-    }
-    if (!factored) {
-      status = 'breakdown';
-      break;
-    }
-
-    // Schur complement of the equality rows: S = A H^-1 A'.
-    const M: Float64Array[] = [];
-    for (let r = 0; r < me; r++) {
-      const col = new Float64Array(n);
-      addRow(col, p.A[r], 1);
-      choleskySolveInPlace(Hf, n, col);
-      M.push(col);
-    }
-    const Sm = new Float64Array(me * me);
-    for (let a = 0; a < me; a++) for (let c = 0; c < me; c++) Sm[a * me + c] = rowDot(p.A[a], M[c]);
-    let sMax = 0;
-    for (let a = 0; a < me; a++) sMax = Math.max(sMax, Sm[a * me + a]);
-    // Dependent equality rows make S singular: a small ridge picks one of the equal solutions.
-    const Sf = new Float64Array(Sm);
-    let sFactored = me === 0 || choleskyInPlace(Sf, me);
-    for (let attempt = 0, reg = 1e-14 * (sMax || 1); !sFactored && attempt < 8; attempt++, reg *= 100) {
-      Sf.set(Sm);
-      for (let a = 0; a < me; a++) Sf[a * me + a] += reg;
-      sFactored = choleskyInPlace(Sf, me);
-    }
-    if (!sFactored) {
-      status = 'breakdown';
-      break;
-    }
-
-    const solveNewton = (f: Float64Array): { dx: Float64Array; dy: Float64Array } => {
-      const t = Float64Array.from(f);
-      choleskySolveInPlace(Hf, n, t);
-      const dy = new Float64Array(me);
-      for (let r = 0; r < me; r++) dy[r] = rowDot(p.A[r], t) + rp[r];
-      if (me > 0) choleskySolveInPlace(Sf, me, dy);
-      for (let r = 0; r < me; r++) {
-        const col = M[r];
-        const d = dy[r];
-        for (let i = 0; i < n; i++) t[i] -= col[i] * d;
-      }
-      return { dx: t, dy };
-    };
-
-    const direction = (rc: Float64Array, rcl: Float64Array, rcu: Float64Array) => {
-      const f = new Float64Array(n);
-      for (let i = 0; i < n; i++) f[i] = -rd[i];
-      for (let r = 0; r < mi; r++) addRow(f, p.G[r], -(z[r] * ri[r] - rc[r]) / s[r]);
-      for (let k = 0; k < nl; k++) f[L[k]] += (zl[k] * rl[k] - rcl[k]) / sl[k];
-      for (let k = 0; k < nu; k++) f[U[k]] -= (zu[k] * ru[k] - rcu[k]) / su[k];
-      const { dx, dy } = solveNewton(f);
-      const ds = new Float64Array(mi);
-      const dz = new Float64Array(mi);
-      for (let r = 0; r < mi; r++) {
-        ds[r] = -ri[r] - rowDot(p.G[r], dx);
-        dz[r] = (-rc[r] - z[r] * ds[r]) / s[r];
-      }
-      const dsl = new Float64Array(nl);
-      const dzl = new Float64Array(nl);
-      for (let k = 0; k < nl; k++) {
-        dsl[k] = -rl[k] + dx[L[k]];
-        dzl[k] = (-rcl[k] - zl[k] * dsl[k]) / sl[k];
-      }
-      const dsu = new Float64Array(nu);
-      const dzu = new Float64Array(nu);
-      for (let k = 0; k < nu; k++) {
-        dsu[k] = -ru[k] - dx[U[k]];
-        dzu[k] = (-rcu[k] - zu[k] * dsu[k]) / su[k];
-      }
-      return { dx, dy, ds, dz, dsl, dzl, dsu, dzu };
-    };
-    const maxStep = (v: Float64Array, dv: Float64Array, cap: number): number => {
-      let a = cap;
-      for (let k = 0; k < v.length; k++) if (dv[k] < 0) a = Math.min(a, -v[k] / dv[k]);
-      return a;
-    };
-    const stepOf = (d: ReturnType<typeof direction>): number => {
-      let a = 1;
-      a = maxStep(s, d.ds, a);
-      a = maxStep(z, d.dz, a);
-      a = maxStep(sl, d.dsl, a);
-      a = maxStep(zl, d.dzl, a);
-      a = maxStep(su, d.dsu, a);
-      a = maxStep(zu, d.dzu, a);
-      return a;
-    };
 
     // Predictor (affine scaling).
-    const rc = new Float64Array(mi);
-    const rcl = new Float64Array(nl);
-    const rcu = new Float64Array(nu);
-    for (let r = 0; r < mi; r++) rc[r] = s[r] * z[r];
-    for (let k = 0; k < nl; k++) rcl[k] = sl[k] * zl[k];
-    for (let k = 0; k < nu; k++) rcu[k] = su[k] * zu[k];
-    const aff = direction(rc, rcl, rcu);
+    direction(st, rc, aff);
     let d = aff;
     if (mTotal > 0) {
-      const aAff = stepOf(aff);
-      let gapAff = 0;
-      for (let r = 0; r < mi; r++) gapAff += (s[r] + aAff * aff.ds[r]) * (z[r] + aAff * aff.dz[r]);
-      for (let k = 0; k < nl; k++) gapAff += (sl[k] + aAff * aff.dsl[k]) * (zl[k] + aAff * aff.dzl[k]);
-      for (let k = 0; k < nu; k++) gapAff += (su[k] + aAff * aff.dsu[k]) * (zu[k] + aAff * aff.dzu[k]);
+      const aAff = stepOf(st, aff);
+      const gapAff = addSteppedProducts(0, s, aff.ds, z, aff.dz, aAff);
       const sigma = Math.pow(gapAff / mTotal / mu, 3);
       // Corrector: centring plus the second-order term of the predictor.
-      for (let r = 0; r < mi; r++) rc[r] = s[r] * z[r] + aff.ds[r] * aff.dz[r] - sigma * mu;
-      for (let k = 0; k < nl; k++) rcl[k] = sl[k] * zl[k] + aff.dsl[k] * aff.dzl[k] - sigma * mu;
-      for (let k = 0; k < nu; k++) rcu[k] = su[k] * zu[k] + aff.dsu[k] * aff.dzu[k] - sigma * mu;
-      d = direction(rc, rcl, rcu);
+      corrected(rc, s, z, aff.ds, aff.dz, sigma, mu);
+      direction(st, rc, cor);
+      d = cor;
     }
-    const alpha = mTotal > 0 ? Math.min(1, QP_TOLERANCES.stepToBoundary * stepOf(d)) : 1;
-    for (let i = 0; i < n; i++) x[i] += alpha * d.dx[i];
-    for (let r = 0; r < me; r++) y[r] += alpha * d.dy[r];
-    for (let r = 0; r < mi; r++) {
-      s[r] += alpha * d.ds[r];
-      z[r] += alpha * d.dz[r];
-    }
-    for (let k = 0; k < nl; k++) {
-      sl[k] += alpha * d.dsl[k];
-      zl[k] += alpha * d.dzl[k];
-    }
-    for (let k = 0; k < nu; k++) {
-      su[k] += alpha * d.dsu[k];
-      zu[k] += alpha * d.dzu[k];
-    }
-    if (!x.every(Number.isFinite)) {
+    const alpha = mTotal > 0 ? Math.min(1, QP_TOLERANCES.stepToBoundary * stepOf(st, d)) : 1;
+    advance(st, d, alpha);
+    if (!allFinite(x)) {
       status = 'breakdown';
       break;
     }
@@ -290,25 +455,20 @@ export function interiorPoint(p: QpProblem, options: InteriorPointOptions): Inte
   const zuFull = new Float64Array(n);
   const slackL = new Float64Array(n).fill(Infinity);
   const slackU = new Float64Array(n).fill(Infinity);
-  for (let k = 0; k < nl; k++) {
-    zlFull[L[k]] = zl[k];
-    slackL[L[k]] = sl[k];
+  for (let k = 0; k < L.length; k++) {
+    zlFull[L[k]] = z[mi + k];
+    slackL[L[k]] = s[mi + k];
   }
-  for (let k = 0; k < nu; k++) {
-    zuFull[U[k]] = zu[k];
-    slackU[U[k]] = su[k];
+  for (let k = 0; k < U.length; k++) {
+    zuFull[U[k]] = z[mi + L.length + k];
+    slackU[U[k]] = s[mi + L.length + k];
   }
   let obj = 0;
-  for (let i = 0; i < n; i++) {
-    const off = i * n;
-    let v = 0;
-    for (let j = 0; j < n; j++) v += p.P.data[off + j] * x[j];
-    obj += x[i] * (0.5 * v + p.q[i]);
-  }
+  for (let i = 0; i < n; i++) obj += x[i] * (0.5 * addDot(0, p.P.data, i * n, x, n) + p.q[i]);
   return {
     status,
-    solution: { x, y, z, zl: zlFull, zu: zuFull, objective: obj },
-    slackG: s,
+    solution: { x, y, z: z.slice(0, mi), zl: zlFull, zu: zuFull, objective: obj },
+    slackG: s.slice(0, mi),
     slackL,
     slackU,
     iterations: it,

@@ -2,7 +2,7 @@
  * Residuals of the Karush-Kuhn-Tucker conditions of a QP (see types.ts), relative to the size
  * of the terms they balance, so one number says how exact a point and its multipliers are.
  */
-import { multiplyVector } from '../../linalg/matrix.js';
+import { addRowsTimes, maxAbs, packedRows, rowsTimes, timesVector } from './kernels.js';
 import type { QpProblem, QpSolution, SparseRow } from './types.js';
 
 export function rowDot(row: SparseRow, x: ArrayLike<number>): number {
@@ -17,16 +17,10 @@ export function addRow(out: Float64Array, row: SparseRow, factor: number): void 
   for (let k = 0; k < row.idx.length; k++) out[row.idx[k]] += factor * row.val[k];
 }
 
-/** P x with P n x n (linalg's multiplyVector, which skips the zero entries of x). */
-export function symmetricTimes(P: { data: Float64Array; cols: number }, x: ArrayLike<number>, n: number): Float64Array {
-  return multiplyVector({ rows: n, cols: n, data: P.data }, x);
+/** P x with P n x n (kernels.ts timesVector: only the non-zero entries of a sparse x are visited). */
+export function symmetricTimes(P: { data: Float64Array }, x: Float64Array, n: number): Float64Array {
+  return timesVector(P.data, n, x);
 }
-
-const infNorm = (v: ArrayLike<number>): number => {
-  let m = 0;
-  for (let i = 0; i < v.length; i++) m = Math.max(m, Math.abs(v[i]));
-  return m;
-};
 
 export interface KktParts {
   dual: number;
@@ -35,39 +29,43 @@ export interface KktParts {
   dualSign: number;
 }
 
-/** Each part relative to the magnitude of its terms (the usual scaled stopping test of QP solvers). */
-export function kktParts(p: QpProblem, s: Omit<QpSolution, 'objective'>): KktParts {
+/**
+ * Each part relative to the magnitude of its terms (the usual scaled stopping test of QP solvers).
+ * `Px` is P x when the caller has it already (polishing does).
+ */
+export function kktParts(
+  p: QpProblem,
+  s: Omit<QpSolution, 'objective'>,
+  Px = symmetricTimes(p.P, s.x, p.q.length),
+): KktParts {
   const n = p.q.length;
-  const Px = symmetricTimes(p.P, s.x, n);
+  const A = packedRows(p.A);
+  const G = packedRows(p.G);
   const Aty = new Float64Array(n);
-  p.A.forEach((r, i) => addRow(Aty, r, s.y[i]));
+  addRowsTimes(A, s.y, Aty);
   const Gtz = new Float64Array(n);
-  p.G.forEach((r, i) => addRow(Gtz, r, s.z[i]));
+  addRowsTimes(G, s.z, Gtz);
   const rd = new Float64Array(n);
   for (let i = 0; i < n; i++) rd[i] = Px[i] + p.q[i] + Aty[i] + Gtz[i] - s.zl[i] + s.zu[i];
-  const dualScale = Math.max(
-    1e-300,
-    infNorm(Px),
-    infNorm(p.q),
-    infNorm(Aty),
-    infNorm(Gtz),
-    infNorm(s.zl),
-    infNorm(s.zu),
-  );
+  const dualScale = Math.max(1e-300, maxAbs(Px), maxAbs(p.q), maxAbs(Aty), maxAbs(Gtz), maxAbs(s.zl), maxAbs(s.zu));
 
   let primal = 0;
   let primalScale = 1;
   let comp = 0;
-  p.A.forEach((r, i) => {
-    primal = Math.max(primal, Math.abs(rowDot(r, s.x) - p.b[i]));
+  const Ax = new Float64Array(p.A.length);
+  rowsTimes(A, s.x, Ax);
+  const Gx = new Float64Array(p.G.length);
+  rowsTimes(G, s.x, Gx);
+  for (let i = 0; i < p.A.length; i++) {
+    primal = Math.max(primal, Math.abs(Ax[i] - p.b[i]));
     primalScale = Math.max(primalScale, Math.abs(p.b[i]));
-  });
-  p.G.forEach((r, i) => {
-    const slack = p.h[i] - rowDot(r, s.x);
+  }
+  for (let i = 0; i < p.G.length; i++) {
+    const slack = p.h[i] - Gx[i];
     primal = Math.max(primal, -slack);
     primalScale = Math.max(primalScale, Math.abs(p.h[i]));
     comp = Math.max(comp, Math.abs(s.z[i] * slack));
-  });
+  }
   let sign = 0;
   for (let i = 0; i < n; i++) {
     if (Number.isFinite(p.lb[i])) {
@@ -88,22 +86,14 @@ export function kktParts(p: QpProblem, s: Omit<QpSolution, 'objective'>): KktPar
     qx += p.q[i] * s.x[i];
   }
   return {
-    dual: infNorm(rd) / dualScale,
+    dual: maxAbs(rd) / dualScale,
     primal: primal / primalScale,
-    complementarity: comp / Math.max(1e-300, Math.abs(xPx) + Math.abs(qx), dualScale * Math.max(1, infNorm(s.x))),
+    complementarity: comp / Math.max(1e-300, Math.abs(xPx) + Math.abs(qx), dualScale * Math.max(1, maxAbs(s.x))),
     dualSign: sign / dualScale,
   };
 }
 
-export function kktResidual(p: QpProblem, s: Omit<QpSolution, 'objective'>): number {
-  const k = kktParts(p, s);
+export function kktResidual(p: QpProblem, s: Omit<QpSolution, 'objective'>, Px?: Float64Array): number {
+  const k = kktParts(p, s, Px);
   return Math.max(k.dual, k.primal, k.complementarity, k.dualSign);
-}
-
-export function objectiveValue(p: QpProblem, x: ArrayLike<number>): number {
-  const n = p.q.length;
-  const Px = symmetricTimes(p.P, x, n);
-  let v = 0;
-  for (let i = 0; i < n; i++) v += x[i] * (0.5 * Px[i] + p.q[i]);
-  return v;
 }

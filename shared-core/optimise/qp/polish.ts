@@ -6,8 +6,10 @@
  * by iterative refinement, the device OSQP's polishing uses (Stellato et al. 2020, Math.
  * Programming Computation 12).
  */
-import { luFactor, luSolve } from './dense-factor.js';
-import { addRow, kktResidual, objectiveValue, rowDot, symmetricTimes } from './kkt.js';
+import { allFinite } from '../../linalg/matrix.js';
+import { luFactorInPlace, luSolve, luSolveInto } from './dense-factor.js';
+import { addRowsTimes, gatherInto, maxAbs, packedRows, rowsTimes, subtractDot } from './kernels.js';
+import { kktResidual, symmetricTimes } from './kkt.js';
 import { QP_TOLERANCES, type QpProblem, type QpSolution, type QpWarmStart } from './types.js';
 
 export interface Polished {
@@ -16,38 +18,51 @@ export interface Polished {
   active: QpWarmStart;
 }
 
+/** r = rhs - K sol; the largest |entry| of r. */
+function refinementResidual(
+  K: Float64Array,
+  sol: Float64Array,
+  rhs: Float64Array,
+  r: Float64Array,
+  dim: number,
+): number {
+  for (let a = 0; a < dim; a++) r[a] = subtractDot(rhs[a], K, a * dim, sol, 0, dim);
+  return maxAbs(r);
+}
+
 export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next: QpWarmStart } | null {
   const n = p.q.length;
   const me = p.A.length;
+  const mi = p.G.length;
   const fixed = new Int8Array(n); // 0 free, -1 at lower, +1 at upper
   for (const i of guess.atLower) if (Number.isFinite(p.lb[i])) fixed[i] = -1;
   for (const i of guess.atUpper) if (Number.isFinite(p.ub[i])) fixed[i] = 1;
-  const free: number[] = [];
+  let k = 0;
+  for (let i = 0; i < n; i++) if (fixed[i] === 0) k++;
+  const free = new Int32Array(k);
   const pos = new Int32Array(n).fill(-1);
   const x = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
+  for (let i = 0, a = 0; i < n; i++) {
     if (fixed[i] === 0) {
-      pos[i] = free.length;
-      free.push(i);
+      pos[i] = a;
+      free[a++] = i;
     } else x[i] = fixed[i] < 0 ? p.lb[i] : p.ub[i];
   }
-  const act = [...new Set(guess.activeRows)].filter((r) => r >= 0 && r < p.G.length).sort((a, b) => a - b);
-  const k = free.length;
+  const act = [...new Set(guess.activeRows)].filter((r) => r >= 0 && r < mi).sort((a, b) => a - b);
   const m = me + act.length;
   const dim = k + m;
   const K = new Float64Array(dim * dim);
   const rhs = new Float64Array(dim);
-  const Px = symmetricTimes(p.P, x, n); // contribution of the fixed variables
+  const Pd = p.P.data;
+  const Pfixed = symmetricTimes(p.P, x, n); // contribution of the fixed variables
   for (let a = 0; a < k; a++) {
     const ia = free[a];
-    const off = ia * n;
-    for (let c = 0; c < k; c++) K[a * dim + c] = p.P.data[off + free[c]];
-    rhs[a] = -p.q[ia] - Px[ia];
+    gatherInto(K, a * dim, Pd, ia * n, free);
+    rhs[a] = -p.q[ia] - Pfixed[ia];
   }
-  const rows = [...p.A, ...act.map((r) => p.G[r])];
-  const rowRhs = [...p.b, ...act.map((r) => p.h[r])];
-  rows.forEach((row, j) => {
-    let v = rowRhs[j];
+  for (let j = 0; j < m; j++) {
+    const row = j < me ? p.A[j] : p.G[act[j - me]];
+    let v = j < me ? p.b[j] : p.h[act[j - me]];
     for (let t = 0; t < row.idx.length; t++) {
       const i = row.idx[t];
       if (pos[i] >= 0) {
@@ -56,41 +71,35 @@ export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next:
       } else v -= row.val[t] * x[i];
     }
     rhs[k + j] = v;
-  });
-  let scale = 0;
-  for (let t = 0; t < K.length; t++) scale = Math.max(scale, Math.abs(K[t]));
-  const delta = QP_TOLERANCES.polishRegularisation * (scale || 1);
+  }
+  const delta = QP_TOLERANCES.polishRegularisation * (maxAbs(K) || 1);
   const Kr = Float64Array.from(K);
   for (let a = 0; a < dim; a++) Kr[a * dim + a] += a < k ? delta : -delta;
-  const f = luFactor(Kr, dim);
+  const f = luFactorInPlace(Kr, dim);
   if (!f) return null;
   const sol = luSolve(f, rhs);
+  const r = new Float64Array(dim);
+  const d = new Float64Array(dim);
   for (let step = 0; step < QP_TOLERANCES.refinementSteps; step++) {
-    const r = new Float64Array(dim);
-    let rmax = 0;
-    for (let a = 0; a < dim; a++) {
-      let v = rhs[a];
-      const off = a * dim;
-      for (let c = 0; c < dim; c++) v -= K[off + c] * sol[c];
-      r[a] = v;
-      rmax = Math.max(rmax, Math.abs(v));
-    }
+    const rmax = refinementResidual(K, sol, rhs, r, dim);
     if (rmax === 0) break;
-    const d = luSolve(f, r);
+    luSolveInto(f, r, d);
     for (let a = 0; a < dim; a++) sol[a] += d[a];
   }
-  if (!sol.every(Number.isFinite)) return null;
+  if (!allFinite(sol)) return null;
   for (let a = 0; a < k; a++) x[free[a]] = sol[a];
   const y = new Float64Array(me);
   for (let j = 0; j < me; j++) y[j] = sol[k + j];
-  const z = new Float64Array(p.G.length);
-  act.forEach((r, j) => (z[r] = sol[k + me + j]));
+  const z = new Float64Array(mi);
+  for (let j = 0; j < act.length; j++) z[act[j]] = sol[k + me + j];
 
-  // Bound multipliers from the stationarity condition of the fixed variables.
-  const g = symmetricTimes(p.P, x, n);
-  for (let i = 0; i < n; i++) g[i] += p.q[i];
-  p.A.forEach((row, j) => addRow(g, row, y[j]));
-  p.G.forEach((row, j) => addRow(g, row, z[j]));
+  // Bound multipliers from the stationarity condition of the fixed variables. P x serves the
+  // objective and the KKT residual below as well.
+  const Px = symmetricTimes(p.P, x, n);
+  const g = new Float64Array(n);
+  for (let i = 0; i < n; i++) g[i] = Px[i] + p.q[i];
+  addRowsTimes(packedRows(p.A), y, g);
+  addRowsTimes(packedRows(p.G), z, g);
   const zl = new Float64Array(n);
   const zu = new Float64Array(n);
   for (let i = 0; i < n; i++) {
@@ -101,48 +110,57 @@ export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next:
   // guess (add the violated constraints, drop those with a wrong-signed multiplier).
   let dualScale = 1e-300;
   for (let i = 0; i < n; i++) dualScale = Math.max(dualScale, Math.abs(p.q[i]), Math.abs(g[i] - p.q[i]));
-  for (const v of z) dualScale = Math.max(dualScale, Math.abs(v));
+  for (let j = 0; j < mi; j++) dualScale = Math.max(dualScale, Math.abs(z[j]));
   const tol = QP_TOLERANCES.polishFeasibility;
-  const next = { rows: new Set(act), lower: new Set<number>(), upper: new Set<number>() };
+  const rowIn = new Uint8Array(mi);
+  for (const j of act) rowIn[j] = 1;
+  const lowerIn = new Uint8Array(n);
+  const upperIn = new Uint8Array(n);
   for (let i = 0; i < n; i++) {
-    if (fixed[i] < 0) next.lower.add(i);
-    else if (fixed[i] > 0) next.upper.add(i);
+    if (fixed[i] < 0) lowerIn[i] = 1;
+    else if (fixed[i] > 0) upperIn[i] = 1;
   }
+  const Gx = new Float64Array(mi);
+  rowsTimes(packedRows(p.G), x, Gx);
   let changed = false;
-  for (let r = 0; r < p.G.length; r++) {
-    if (z[r] < -tol * dualScale) {
-      next.rows.delete(r);
+  for (let j = 0; j < mi; j++) {
+    if (z[j] < -tol * dualScale) {
+      rowIn[j] = 0;
       changed = true;
-    } else if (z[r] < 0) z[r] = 0;
-    if (!next.rows.has(r) && rowDot(p.G[r], x) - p.h[r] > tol * (1 + Math.abs(p.h[r]))) {
-      next.rows.add(r);
+    } else if (z[j] < 0) z[j] = 0;
+    if (!rowIn[j] && Gx[j] - p.h[j] > tol * (1 + Math.abs(p.h[j]))) {
+      rowIn[j] = 1;
       changed = true;
     }
   }
   for (let i = 0; i < n; i++) {
     if (zl[i] < -tol * dualScale) {
-      next.lower.delete(i);
+      lowerIn[i] = 0;
       changed = true;
     } else if (zl[i] < 0) zl[i] = 0;
     if (zu[i] < -tol * dualScale) {
-      next.upper.delete(i);
+      upperIn[i] = 0;
       changed = true;
     } else if (zu[i] < 0) zu[i] = 0;
     if (fixed[i] === 0 && x[i] < p.lb[i] - tol * (1 + Math.abs(p.lb[i]))) {
-      next.lower.add(i);
+      lowerIn[i] = 1;
       changed = true;
     }
     if (fixed[i] === 0 && x[i] > p.ub[i] + tol * (1 + Math.abs(p.ub[i]))) {
-      next.upper.add(i);
+      upperIn[i] = 1;
       changed = true;
     }
   }
-  if (changed)
-    return {
-      next: { activeRows: [...next.rows], atLower: [...next.lower], atUpper: [...next.upper] },
-    };
-  const solution: QpSolution = { x, y, z, zl, zu, objective: objectiveValue(p, x) };
-  const residual = kktResidual(p, solution);
+  const members = (flags: Uint8Array): number[] => {
+    const out: number[] = [];
+    for (let i = 0; i < flags.length; i++) if (flags[i]) out.push(i);
+    return out;
+  };
+  if (changed) return { next: { activeRows: members(rowIn), atLower: members(lowerIn), atUpper: members(upperIn) } };
+  let objective = 0;
+  for (let i = 0; i < n; i++) objective += x[i] * (0.5 * Px[i] + p.q[i]);
+  const solution: QpSolution = { x, y, z, zl, zu, objective };
+  const residual = kktResidual(p, solution, Px);
   const atLower: number[] = [];
   const atUpper: number[] = [];
   for (let i = 0; i < n; i++) {
