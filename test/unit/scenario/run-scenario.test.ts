@@ -173,7 +173,8 @@ describe('runScenario with the reduction started ahead (holdfast solve’s other
     const plain = runScenario(scenario('ledoit-wolf', 30), table);
     const ahead = runScenario(scenario('ledoit-wolf', 30), table, { tridiagonaliseAhead: deferring(log) });
     expect(log).toEqual(['started', 'waited']); // one estimate, two candidates
-    const strip = (r: typeof plain) => r.candidates.map(({ solver: { ms: _ms, ...solver }, ...c }) => ({ ...c, solver }));
+    const strip = (r: typeof plain) =>
+      r.candidates.map(({ solver: { ms: _ms, ...solver }, ...c }) => ({ ...c, solver }));
     expect(strip(ahead)).toEqual(strip(plain));
     const d = ahead.estimates['min-variance'].estimate.diagnostics;
     expect(d.conditionNumber).toBe(plain.estimates['min-variance'].estimate.diagnostics.conditionNumber);
