@@ -83,6 +83,17 @@ export function explainAssets(
   const dr = wsig / fig.portfolioVol;
   const variance = fig.portfolioVol * fig.portfolioVol;
   const inBand = assetsInBindingRows(m, binding);
+  // Portfolio-wide figures, the same for every asset: computed once, with the sums the per-asset
+  // text used to make for each asset.
+  const portfolioFigures = {
+    withoutDr: `1/DR = ${num(1 / dr)} without them`,
+    wcw: 0,
+    muP: 0,
+  };
+  if (objective.method === 'max-decorrelation' && fig.corrW)
+    for (let k = 0; k < n; k++) portfolioFigures.wcw += w[k] * fig.corrW[k];
+  if (objective.method === 'max-sharpe')
+    for (let k = 0; k < n; k++) portfolioFigures.muP += w[k] * (fig.expected ? fig.expected[k] : 0);
   const out: AssetExplanation[] = [];
   for (let i = 0; i < n; i++) {
     const asset = m.assets[i];
@@ -113,7 +124,7 @@ export function explainAssets(
         if (own !== undefined && Number.isFinite(own) && Math.abs(own - t) > MOVED_THRESHOLD) {
           // Binding limits move this asset's threshold away from 1/DR (formulate.ts ratioThresholds):
           // say its own, which its correlation meets exactly as the optimality conditions require.
-          const without = `1/DR = ${num(t)} without them`;
+          const without = portfolioFigures.withoutDr;
           const c = `correlation ${num(rho)} with the portfolio`;
           const text =
             reason === 'at-upper-bound'
@@ -145,8 +156,7 @@ export function explainAssets(
       case 'min-variance':
       case 'max-decorrelation': {
         const dec = objective.method === 'max-decorrelation' && fig.corrW;
-        let wcw = 0;
-        if (dec) for (let k = 0; k < n; k++) wcw += w[k] * fig.corrW![k];
+        const wcw = portfolioFigures.wcw;
         const beta = dec ? fig.corrW![i] / wcw : fig.sigmaW[i] / variance;
         const what = dec ? 'beta to the portfolio on the correlation matrix' : 'beta to the portfolio';
         const own = fig.ownThresholds?.[i];
@@ -192,8 +202,7 @@ export function explainAssets(
       }
       case 'max-sharpe': {
         const mu = fig.expected ? fig.expected[i] : 0;
-        let muP = 0;
-        for (let k = 0; k < n; k++) muP += w[k] * (fig.expected ? fig.expected[k] : 0);
+        const muP = portfolioFigures.muP;
         const need = (fig.sigmaW[i] / variance) * muP;
         const c = `expected return ${pct(mu, 2)} against ${pct(need, 2)} asked by its beta to the portfolio`;
         const text =

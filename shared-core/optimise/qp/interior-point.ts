@@ -108,18 +108,19 @@ function rowResiduals(m: PackedRows, x: Float64Array, s: Float64Array, h: Float6
   for (let r = 0; r < out.length; r++) out[r] = rowTimes(m, r, x) + s[r] - h[r];
 }
 
-/** H += sum_r (z_r / s_r) row_r row_r' (H n x n, row-major), row by row. */
-function addWeightedOuters(m: PackedRows, z: Float64Array, s: Float64Array, H: Float64Array, n: number): void {
+/** H += w row_r row_r' (H n x n, row-major). */
+function addOuter(m: PackedRows, r: number, w: number, H: Float64Array, n: number): void {
   const { start, col, val } = m;
-  for (let r = 0; r + 1 < start.length; r++) {
-    const w = z[r] / s[r];
-    const end = start[r + 1];
-    for (let a = start[r]; a < end; a++) {
-      const off = col[a] * n;
-      const wa = w * val[a];
-      for (let c = start[r]; c < end; c++) H[off + col[c]] += wa * val[c];
-    }
+  for (let a = start[r]; a < start[r + 1]; a++) {
+    const off = col[a] * n;
+    const wa = w * val[a];
+    for (let c = start[r]; c < start[r + 1]; c++) H[off + col[c]] += wa * val[c];
   }
+}
+
+/** H += sum_r (z_r / s_r) row_r row_r', row by row. */
+function addWeightedOuters(m: PackedRows, z: Float64Array, s: Float64Array, H: Float64Array, n: number): void {
+  for (let r = 0; r < s.length; r++) addOuter(m, r, z[r] / s[r], H, n);
 }
 
 /**
