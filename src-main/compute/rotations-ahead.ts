@@ -13,11 +13,16 @@ export interface RotationsJob {
   n: number;
   /** 2 N in: the diagonal and the off-diagonal of T. */
   tridiagonal: SharedArrayBuffer;
+  recording: Recording;
+}
+
+/** Where a recording goes, and its own flag. */
+export interface Recording {
   /** N out: the eigenvalues in QL's order. */
   values: SharedArrayBuffer;
   steps: SharedArrayBuffer;
   cs: SharedArrayBuffer;
-  /** Int32: [FLAG, STEP_COUNT, CS_COUNT], see RecordSlots. */
+  /** Int32: [FLAG, STEP_COUNT, CS_COUNT]. */
   flag: SharedArrayBuffer;
 }
 
@@ -41,37 +46,54 @@ export const stepCapacity = (n: number): number => 8 * n + 16;
 export const csCapacity = (n: number): number => 3 * n * n + 16;
 
 /** Shared buffers for a recording of size n. */
-export function recordingBuffers(n: number): { values: Float64Array; steps: Int32Array; cs: Float64Array } {
+export function newRecording(n: number): Recording {
   return {
-    values: new Float64Array(new SharedArrayBuffer(n * 8)),
-    steps: new Int32Array(new SharedArrayBuffer(stepCapacity(n) * 4)),
-    cs: new Float64Array(new SharedArrayBuffer(csCapacity(n) * 8)),
+    values: new SharedArrayBuffer(n * 8),
+    steps: new SharedArrayBuffer(stepCapacity(n) * 4),
+    cs: new SharedArrayBuffer(csCapacity(n) * 8),
+    flag: new SharedArrayBuffer(3 * 4),
   };
 }
 
-/** The helper's side of any job that records: writes the lengths into the flag's slots. */
-export function recordInto(
-  form: TridiagonalForm,
-  values: Float64Array,
-  steps: Int32Array,
-  cs: Float64Array,
-  flag: Int32Array,
-): void {
-  const recorded = recordRotations(form, values, steps, cs);
-  Atomics.store(flag, STEP_COUNT, recorded ? recorded.steps.length : -1);
-  Atomics.store(flag, CS_COUNT, recorded ? recorded.cs.length : -1);
+/** The helper's side: claims the recording (unless taken back), records QL on `form`, says so. */
+export function record(form: TridiagonalForm, r: Recording): void {
+  const flag = new Int32Array(r.flag);
+  if (Atomics.compareExchange(flag, FLAG, OPEN, CLAIMED) !== OPEN) return;
+  try {
+    const recorded = recordRotations(form, new Float64Array(r.values), new Int32Array(r.steps), new Float64Array(r.cs));
+    Atomics.store(flag, STEP_COUNT, recorded ? recorded.steps.length : -1);
+    Atomics.store(flag, CS_COUNT, recorded ? recorded.cs.length : -1);
+    Atomics.store(flag, FLAG, DONE);
+  } catch {
+    Atomics.store(flag, FLAG, FAILED);
+  }
+  Atomics.notify(flag, FLAG);
 }
 
-/** The calling thread's view of a finished recording, or undefined where it did not fit. */
-export function recordedRotations(
-  values: Float64Array,
-  steps: Int32Array,
-  cs: Float64Array,
-  flag: Int32Array,
-): QlRotations | undefined {
-  const stepCount = Atomics.load(flag, STEP_COUNT);
-  if (stepCount < 0) return undefined;
-  return { values, steps: steps.subarray(0, stepCount), cs: cs.subarray(0, Atomics.load(flag, CS_COUNT)) };
+/**
+ * The calling thread's side: the wait for a recording, giving the rotations, or undefined if
+ * the helper did not do it (formExposures then iterates itself). Waited for once.
+ */
+export function recordedRotations(r: Recording): () => QlRotations | undefined {
+  let answer: { rotations: QlRotations | undefined } | undefined;
+  const read = (): QlRotations | undefined => {
+    const flag = new Int32Array(r.flag);
+    if (!awaitJob(flag, 'the QL iteration')) return undefined;
+    const stepCount = Atomics.load(flag, STEP_COUNT);
+    if (stepCount < 0) return undefined;
+    return {
+      values: new Float64Array(r.values),
+      steps: new Int32Array(r.steps, 0, stepCount),
+      cs: new Float64Array(r.cs, 0, Atomics.load(flag, CS_COUNT)),
+    };
+  };
+  return () => (answer ??= { rotations: read() }).rotations;
+}
+
+/** Gives `form` the recording as a `rotations` read on first use. */
+export function attachRotations(form: TridiagonalForm, r: Recording): TridiagonalForm {
+  Object.defineProperty(form, 'rotations', { get: recordedRotations(r), enumerable: true });
+  return form;
 }
 
 /** Waits for a job the helper claimed; false if it was never claimed (now taken back) or failed. */
@@ -83,51 +105,32 @@ export function awaitJob(flag: Int32Array, what: string): boolean {
   return Atomics.load(flag, FLAG) === DONE;
 }
 
-/**
- * Hands the QL recording of `form` to the helper and returns the wait for it: the rotations, or
- * undefined if the helper did not do it (formExposures then iterates itself).
- */
-export function startRotations(helper: Worker, form: TridiagonalForm): () => QlRotations | undefined {
+/** Hands the QL recording of `form` to the helper; the form reads it as `rotations` on first use. */
+export function startRotations(helper: Worker, form: TridiagonalForm): void {
   const n = form.n;
   const tridiagonal = new Float64Array(new SharedArrayBuffer(2 * n * 8));
   tridiagonal.set(form.diagonal, 0);
   tridiagonal.set(form.offDiagonal, n);
-  const { values, steps, cs } = recordingBuffers(n);
-  const flag = new Int32Array(new SharedArrayBuffer(3 * 4));
+  const recording = newRecording(n);
   helper.postMessage({
     kind: 'rotations',
     n,
     tridiagonal: tridiagonal.buffer as SharedArrayBuffer,
-    values: values.buffer as SharedArrayBuffer,
-    steps: steps.buffer as SharedArrayBuffer,
-    cs: cs.buffer as SharedArrayBuffer,
-    flag: flag.buffer as SharedArrayBuffer,
+    recording,
   } satisfies RotationsJob);
-  let answer: { rotations: QlRotations | undefined } | undefined;
-  return () =>
-    (answer ??= {
-      rotations: awaitJob(flag, 'the QL iteration') ? recordedRotations(values, steps, cs, flag) : undefined,
-    }).rotations;
+  attachRotations(form, recording);
 }
 
 /** The helper's side of a `rotations` job. */
 export function runRotationsJob(job: RotationsJob): void {
-  const flag = new Int32Array(job.flag);
-  if (Atomics.compareExchange(flag, FLAG, OPEN, CLAIMED) !== OPEN) return;
-  try {
-    const n = job.n;
-    const t = new Float64Array(job.tridiagonal);
-    const form: TridiagonalForm = {
-      n,
-      diagonal: t.subarray(0, n),
-      offDiagonal: t.subarray(n, 2 * n),
-      reflectors: new Float64Array(0),
-      halfNorms: new Float64Array(0),
-    };
-    recordInto(form, new Float64Array(job.values), new Int32Array(job.steps), new Float64Array(job.cs), flag);
-    Atomics.store(flag, FLAG, DONE);
-  } catch {
-    Atomics.store(flag, FLAG, FAILED);
-  }
-  Atomics.notify(flag, FLAG);
+  const n = job.n;
+  const t = new Float64Array(job.tridiagonal);
+  const form: TridiagonalForm = {
+    n,
+    diagonal: t.subarray(0, n),
+    offDiagonal: t.subarray(n, 2 * n),
+    reflectors: new Float64Array(0),
+    halfNorms: new Float64Array(0),
+  };
+  record(form, job.recording);
 }

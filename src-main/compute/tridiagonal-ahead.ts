@@ -1,15 +1,16 @@
 import type { Matrix } from '../../shared-core/linalg/matrix.js';
 import { tridiagonalForm, type TridiagonalForm } from '../../shared-core/linalg/tridiagonal-form.js';
 import {
+  attachRotations,
   awaitJob,
   CLAIMED,
   DONE,
   FAILED,
   FLAG,
+  newRecording,
   OPEN,
-  recordedRotations,
-  recordingBuffers,
-  recordInto,
+  record,
+  type Recording,
 } from './rotations-ahead.js';
 import { createSecondThread, processSecondThread, type SecondThread } from './second-thread.js';
 import { MIN_SIZE } from './two-thread-tridiagonal.js';
@@ -31,12 +32,10 @@ export interface ReduceJob {
   matrix: SharedArrayBuffer;
   /** 3 N: the diagonal, the off-diagonal and the half norms out. */
   vectors: SharedArrayBuffer;
-  /** The QL recording out (rotations-ahead.ts). */
-  values: SharedArrayBuffer;
-  steps: SharedArrayBuffer;
-  cs: SharedArrayBuffer;
-  /** Int32 slots as rotations-ahead.ts's. */
+  /** Int32 slot FLAG: the reduction's state, as rotations-ahead.ts's. */
   flag: SharedArrayBuffer;
+  /** The QL recording out, done after the form is handed back (rotations-ahead.ts). */
+  recording: Recording;
 }
 
 /** Below this size a reduction takes about a millisecond: not worth a hand-off. */
@@ -69,17 +68,15 @@ export function createTridiagonalAhead(options: TridiagonalAheadOptions = {}): {
     const matrix = new Float64Array(new SharedArrayBuffer(n * n * 8));
     matrix.set(m.data.subarray(0, n * n));
     const vectors = new Float64Array(new SharedArrayBuffer(3 * n * 8));
-    const { values, steps, cs } = recordingBuffers(n);
-    const flag = new Int32Array(new SharedArrayBuffer(3 * 4));
+    const recording = newRecording(n);
+    const flag = new Int32Array(new SharedArrayBuffer(4));
     helper.postMessage({
       kind: 'reduce',
       n,
       matrix: matrix.buffer as SharedArrayBuffer,
       vectors: vectors.buffer as SharedArrayBuffer,
-      values: values.buffer as SharedArrayBuffer,
-      steps: steps.buffer as SharedArrayBuffer,
-      cs: cs.buffer as SharedArrayBuffer,
       flag: flag.buffer as SharedArrayBuffer,
+      recording,
     } satisfies ReduceJob);
     let form: TridiagonalForm | undefined;
     return () => {
@@ -87,22 +84,23 @@ export function createTridiagonalAhead(options: TridiagonalAheadOptions = {}): {
       // Not begun by now (the helper is busy or gone), or failed: reduce here.
       if (!awaitJob(flag, 'the tridiagonal reduction')) return (form = tridiagonalForm(m));
       stats.byHelper++;
-      form = {
-        n,
-        reflectors: matrix,
-        diagonal: vectors.subarray(0, n),
-        offDiagonal: vectors.subarray(n, 2 * n),
-        halfNorms: vectors.subarray(2 * n, 3 * n),
-      };
-      const rotations = recordedRotations(values, steps, cs, flag);
-      if (rotations) form.rotations = rotations;
-      return form;
+      // The helper goes on to record QL; the effective bets wait for it, the condition number not.
+      return (form = attachRotations(
+        {
+          n,
+          reflectors: matrix,
+          diagonal: vectors.subarray(0, n),
+          offDiagonal: vectors.subarray(n, 2 * n),
+          halfNorms: vectors.subarray(2 * n, 3 * n),
+        },
+        recording,
+      ));
     };
   };
   return { start, stats };
 }
 
-/** The helper's side: reduce, record the QL rotations, write the form back, say so. */
+/** The helper's side: reduce, write the form back, say so; then record the QL rotations. */
 export function runReduceJob(job: ReduceJob): void {
   const flag = new Int32Array(job.flag);
   if (Atomics.compareExchange(flag, FLAG, OPEN, CLAIMED) !== OPEN) return;
@@ -115,12 +113,13 @@ export function runReduceJob(job: ReduceJob): void {
     vectors.set(form.diagonal, 0);
     vectors.set(form.offDiagonal, n);
     vectors.set(form.halfNorms, 2 * n);
-    recordInto(form, new Float64Array(job.values), new Int32Array(job.steps), new Float64Array(job.cs), flag);
     Atomics.store(flag, FLAG, DONE);
+    Atomics.notify(flag, FLAG);
+    record(form, job.recording);
   } catch {
     Atomics.store(flag, FLAG, FAILED);
+    Atomics.notify(flag, FLAG);
   }
-  Atomics.notify(flag, FLAG);
 }
 
 /** The command line's, on the process's one helper thread. */

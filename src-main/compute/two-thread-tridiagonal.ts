@@ -119,8 +119,7 @@ export function createTwoThreadTridiagonal(options: TwoThreadTridiagonalOptions 
       if (Atomics.load(control, STATE) !== CLAIMED) return form;
       // The helper is free again: it runs the QL iteration for the effective bets while the
       // caller solves; read on first use (undefined if the helper did not get to it).
-      const rotations = startRotations(helper, form);
-      Object.defineProperty(form, 'rotations', { get: rotations, enumerable: true });
+      startRotations(helper, form);
       return form;
     } finally {
       // Release the helper: stop a claimed job, close an unclaimed one so a late claim returns at once.
