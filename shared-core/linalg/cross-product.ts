@@ -50,6 +50,54 @@ export function crossProductRows(x: Matrix, out: Float64Array, rowStart: number,
   }
 }
 
+/** Length of the packed columns of a T x N matrix (packColumns). */
+export function packedLength(x: Matrix): number {
+  return Math.ceil(x.cols / COLS) * COLS * x.rows;
+}
+
+/** Every column of X packed as the kernel reads them, into `into` (which may be shared memory). */
+export function packColumns(
+  x: Matrix,
+  into: Float64Array<ArrayBufferLike> = new Float64Array(packedLength(x)),
+): Float64Array<ArrayBufferLike> {
+  packPanels(x, 0, x.cols, COLS, into);
+  return into;
+}
+
+/**
+ * Row panels (4 rows each) of the lower triangle of X'X, from X packed by packColumns, for as
+ * long as `claim` hands out a panel index (it returns -1 when none is left). Each entry is summed
+ * in the same order as by crossProductRows, so the matrix is the same bit for bit however the
+ * panels are shared out: an edge with two threads gives both the same claim, counting down from
+ * the most expensive panel, and they finish together whatever their speeds. Returns the number
+ * of panels computed.
+ */
+export function crossProductPanels(
+  t: number,
+  n: number,
+  packed: Float64Array,
+  out: Float64Array,
+  claim: () => number,
+): number {
+  let done = 0;
+  for (let I = claim(); I >= 0; I = claim()) {
+    const i0 = I * ROWS;
+    const iLast = Math.min(i0 + ROWS, n) - 1;
+    for (let i = i0; i <= iLast; i++) out.fill(0, i * n, i * n + i + 1);
+    const pa = I * t * ROWS;
+    const colPanels = Math.floor(iLast / COLS) + 1;
+    for (let k0 = 0; k0 < t; k0 += PERIODS_PER_PASS) {
+      const k1 = Math.min(t, k0 + PERIODS_PER_PASS);
+      for (let J = 0; J < colPanels; J++) block(packed, pa, packed, J * t * COLS, k0, k1, out, n, i0, J * COLS, iLast);
+    }
+    done++;
+  }
+  return done;
+}
+
+/** Number of row panels of an N x N cross product. */
+export const rowPanels = (n: number): number => Math.ceil(n / ROWS);
+
 /** Copies the lower triangle onto the upper one. */
 export function mirrorLower(c: Float64Array, n: number): void {
   for (let i = 0; i < n; i++) for (let j = 0; j < i; j++) c[j * n + i] = c[i * n + j];
@@ -164,11 +212,15 @@ function add(
 }
 
 /** Columns [c0, c1) of X as panels of `width` columns, each stored period by period; zero padded. */
-function packPanels(x: Matrix, c0: number, c1: number, width: number): Float64Array {
+function packPanels(
+  x: Matrix,
+  c0: number,
+  c1: number,
+  width: number,
+  p: Float64Array<ArrayBufferLike> = new Float64Array(Math.ceil((c1 - c0) / width) * width * x.rows),
+): Float64Array<ArrayBufferLike> {
   const t = x.rows;
   const n = x.cols;
-  const panels = Math.ceil((c1 - c0) / width);
-  const p = new Float64Array(panels * width * t);
   const d = x.data;
   // Row by row, so X is read in memory order.
   for (let k = 0; k < t; k++) {

@@ -1,7 +1,6 @@
 import { parentPort, workerData } from 'node:worker_threads';
-import { crossProductRows } from '../../shared-core/linalg/cross-product.js';
 import { fusedColumns } from '../../shared-core/linalg/tridiagonal-form.js';
-import { CLAIMED, DONE, FAILED, TAKEN_BACK, type RowsJob } from './two-thread-cross-product.js';
+import { runPanelsJob, type PanelsJob } from './two-thread-cross-product.js';
 import type { SecondThreadData } from './second-thread.js';
 import { runRotationsJob, type RotationsJob } from './rotations-ahead.js';
 import { runReduceJob, type ReduceJob } from './tridiagonal-ahead.js';
@@ -11,15 +10,15 @@ import * as tri from './two-thread-tridiagonal.js';
  * The helper thread of src-main/compute: it runs its share of a two-thread kernel with the core's
  * own code on shared memory and says so through the job's flags, which the waiting main thread
  * reads.
- * - `rows` (two-thread-cross-product.ts): claims the job unless the main thread took it back,
- *   computes its rows of X'X.
+ * - `panels` (two-thread-cross-product.ts): claims the job unless the main thread closed it,
+ *   computes row panels of X'X from the shared claim until none is left.
  * - `tridiagonal` (two-thread-tridiagonal.ts): claims the job unless the main thread closed it,
  *   then runs the second column range of every step it is handed until told to stop.
  * - `reduce` (tridiagonal-ahead.ts): a whole reduction while the main thread goes on.
  * - `rotations` (rotations-ahead.ts): the QL iteration on a reduced matrix, recorded.
  */
-parentPort!.on('message', (job: RowsJob | tri.TridiagonalJob | ReduceJob | RotationsJob) => {
-  if (job.kind === 'rows') rows(job);
+parentPort!.on('message', (job: PanelsJob | tri.TridiagonalJob | ReduceJob | RotationsJob) => {
+  if (job.kind === 'panels') runPanelsJob(job);
   else if (job.kind === 'reduce') runReduceJob(job);
   else if (job.kind === 'rotations') runRotationsJob(job);
   else tridiagonal(job);
@@ -27,19 +26,6 @@ parentPort!.on('message', (job: RowsJob | tri.TridiagonalJob | ReduceJob | Rotat
 // Loaded and listening: the starting thread may now hand over smaller jobs (second-thread.ts).
 const data = workerData as SecondThreadData | undefined;
 if (data?.ready) Atomics.store(new Int32Array(data.ready), 0, 1);
-
-function rows(job: RowsJob): void {
-  const flag = new Int32Array(job.flag);
-  if (Atomics.compareExchange(flag, 0, 0, CLAIMED) === TAKEN_BACK) return;
-  try {
-    const x = { rows: job.rows, cols: job.cols, data: new Float64Array(job.x) };
-    crossProductRows(x, new Float64Array(job.out), job.rowStart, job.rowEnd);
-    Atomics.store(flag, 0, DONE);
-  } catch {
-    Atomics.store(flag, 0, FAILED);
-  }
-  Atomics.notify(flag, 0);
-}
 
 function tridiagonal(job: tri.TridiagonalJob): void {
   const control = new Int32Array(job.control);

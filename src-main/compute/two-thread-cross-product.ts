@@ -1,28 +1,40 @@
 import type { Worker } from 'node:worker_threads';
-import { crossProduct as oneThread, crossProductRows, mirrorLower } from '../../shared-core/linalg/cross-product.js';
+import {
+  crossProduct as oneThread,
+  crossProductPanels,
+  mirrorLower,
+  packColumns,
+  packedLength,
+  rowPanels,
+} from '../../shared-core/linalg/cross-product.js';
 import type { Matrix } from '../../shared-core/linalg/matrix.js';
 import { createSecondThread, processSecondThread, type SecondThread } from './second-thread.js';
 
 /**
- * X'X on both cores: the main thread computes the first rows of the lower triangle, a worker
- * thread the rest, with the core's own kernel (shared-core/linalg/cross-product.ts), so the
- * numbers are the single-thread ones bit for bit. It stays synchronous for the pure core that
- * calls it: the main thread waits on a shared flag with Atomics.wait, which Node allows. Below
- * MIN_WORK multiply-adds (MIN_WORK_READY once the thread is up), or if the worker has not started
- * within STARTUP_MS, the main thread does all of it.
+ * X'X on both cores with the core's own kernel (shared-core/linalg/cross-product.ts), so the
+ * numbers are the single-thread ones bit for bit. The main thread packs X once into shared
+ * memory; then both threads take row panels of the lower triangle from one shared counter, the
+ * most expensive first, so they finish together whatever the helper's start-up, its first-call
+ * compilation or the other load on the machine. It stays synchronous for the pure core that calls
+ * it: the main thread waits on a shared flag with Atomics.wait, which Node allows. Below MIN_WORK
+ * multiply-adds (MIN_WORK_READY once the thread is up) the main thread does all of it.
  */
-export interface RowsJob {
-  kind: 'rows';
-  x: SharedArrayBuffer;
+export interface PanelsJob {
+  kind: 'panels';
+  /** X packed by packColumns. */
+  packed: SharedArrayBuffer;
   out: SharedArrayBuffer;
-  flag: SharedArrayBuffer;
+  /** Int32 slots: FLAG (the job's state), NEXT (panels handed out), BY_HELPER (panels it computed). */
+  control: SharedArrayBuffer;
   rows: number;
   cols: number;
-  rowStart: number;
-  rowEnd: number;
 }
 
-/** Job flag states. */
+export const FLAG = 0;
+export const NEXT = 1;
+export const BY_HELPER = 2;
+/** Job states. */
+export const OPEN = 0;
 export const CLAIMED = 1;
 export const DONE = 2;
 export const FAILED = 3;
@@ -32,11 +44,10 @@ export const TAKEN_BACK = 4;
 export const MIN_WORK = 5e8;
 /**
  * The same with the thread already up (a command started it early): a hand-off then costs the
- * copy of X into shared memory and a wake-up, well under a millisecond at N = 200, T = 1260
- * (25 million multiply-adds, about 10 ms on one thread).
+ * packing into shared memory (which one thread does anyway) and a wake-up, well under a
+ * millisecond at N = 200, T = 1260 (25 million multiply-adds, about 10 ms on one thread).
  */
 export const MIN_WORK_READY = 2e7;
-const STARTUP_MS = 2000;
 const JOB_MS = 10 * 60 * 1000;
 
 export interface TwoThreadOptions {
@@ -62,8 +73,8 @@ export function createTwoThreadCrossProduct(options: TwoThreadOptions = {}): {
     const helper = work >= minWork || (work >= minWorkReady && thread.ready()) ? thread.worker() : undefined;
     if (!helper) return oneThread(x);
     const out = new Float64Array(new SharedArrayBuffer(n * n * 8));
-    const byWorker = onTwoThreads(x, out, helper);
-    stats.rowsByWorker += byWorker;
+    const byHelper = onTwoThreads(x, out, helper);
+    stats.rowsByWorker += Math.min(n, byHelper * 4);
     return { rows: n, cols: n, data: out };
   };
   return { crossProduct, stats };
@@ -72,41 +83,61 @@ export function createTwoThreadCrossProduct(options: TwoThreadOptions = {}): {
 /** The command line's, on the process's one helper thread. */
 export const twoThreadCrossProduct = createTwoThreadCrossProduct({ thread: processSecondThread }).crossProduct;
 
-/** Fills `out` with X'X, the worker taking the last rows; returns how many rows it computed. */
+/** The claim both threads share: row panels from the last (the longest) down to 0, then -1. */
+export function panelClaim(control: Int32Array, panels: number): () => number {
+  return () => {
+    const k = Atomics.add(control, NEXT, 1);
+    return k < panels ? panels - 1 - k : -1;
+  };
+}
+
+/** Fills `out` with X'X; returns how many row panels the helper computed. */
 function onTwoThreads(x: Matrix, out: Float64Array, helper: Worker): number {
   const t = x.rows;
   const n = x.cols;
-  const shared = new SharedArrayBuffer(x.data.byteLength);
-  new Float64Array(shared).set(x.data);
-  const xs = { rows: t, cols: n, data: new Float64Array(shared) };
-  // Rows [0, split) hold half of the triangle's work when split = N / sqrt(2), on a panel boundary.
-  const split = Math.round(n / Math.SQRT2 / 4) * 4;
-  const flag = new Int32Array(new SharedArrayBuffer(4));
+  const packed = packColumns(x, new Float64Array(new SharedArrayBuffer(packedLength(x) * 8)));
+  const control = new Int32Array(new SharedArrayBuffer(3 * 4));
   helper.postMessage({
-    kind: 'rows',
-    x: shared,
+    kind: 'panels',
+    packed: packed.buffer as SharedArrayBuffer,
     out: out.buffer as SharedArrayBuffer,
-    flag: flag.buffer as SharedArrayBuffer,
+    control: control.buffer as SharedArrayBuffer,
     rows: t,
     cols: n,
-    rowStart: split,
-    rowEnd: n,
-  } satisfies RowsJob);
-  crossProductRows(xs, out, 0, split);
-  let byWorker = n - split;
-  // Give the worker its start-up time to claim the job; if it has not, take it back.
-  if (Atomics.wait(flag, 0, 0, STARTUP_MS) === 'timed-out' && Atomics.compareExchange(flag, 0, 0, TAKEN_BACK) === 0) {
-    crossProductRows(xs, out, split, n);
-    byWorker = 0;
-  } else {
-    while (Atomics.load(flag, 0) === CLAIMED)
-      if (Atomics.wait(flag, 0, CLAIMED, JOB_MS) === 'timed-out')
+  } satisfies PanelsJob);
+  crossProductPanels(t, n, packed, out, panelClaim(control, rowPanels(n)));
+  // Every panel is handed out: close the job if the helper never began, else wait for its last.
+  if (Atomics.compareExchange(control, FLAG, OPEN, TAKEN_BACK) !== OPEN) {
+    while (Atomics.load(control, FLAG) === CLAIMED)
+      if (Atomics.wait(control, FLAG, CLAIMED, JOB_MS) === 'timed-out')
         throw new Error('the second thread of the cross product did not finish');
-    if (Atomics.load(flag, 0) === FAILED) {
-      crossProductRows(xs, out, split, n);
-      byWorker = 0;
+    if (Atomics.load(control, FLAG) === FAILED) {
+      // Which of its panels it finished is unknown: all of it again, here.
+      out.set(oneThread(x).data);
+      return 0;
     }
   }
   mirrorLower(out, n);
-  return byWorker;
+  return Atomics.load(control, BY_HELPER);
+}
+
+/** The helper's side: claims the job unless it was closed, computes panels until none is left. */
+export function runPanelsJob(job: PanelsJob): void {
+  const control = new Int32Array(job.control);
+  if (Atomics.compareExchange(control, FLAG, OPEN, CLAIMED) !== OPEN) return;
+  try {
+    const panels = rowPanels(job.cols);
+    const done = crossProductPanels(
+      job.rows,
+      job.cols,
+      new Float64Array(job.packed),
+      new Float64Array(job.out),
+      panelClaim(control, panels),
+    );
+    Atomics.store(control, BY_HELPER, done);
+    Atomics.store(control, FLAG, DONE);
+  } catch {
+    Atomics.store(control, FLAG, FAILED);
+  }
+  Atomics.notify(control, FLAG);
 }

@@ -4,8 +4,11 @@ import { conditionNumber, lanczosRitzValues } from '../../../shared-core/linalg/
 import {
   crossProduct,
   crossProductNaive,
+  crossProductPanels,
   crossProductRows,
   mirrorLower,
+  packColumns,
+  rowPanels,
 } from '../../../shared-core/linalg/cross-product.js';
 import { fromRows, zeros, type Matrix } from '../../../shared-core/linalg/matrix.js';
 import {
@@ -57,6 +60,34 @@ describe("cross product X'X (the O(N^2 T) step of every estimator)", () => {
       expect(relativeError(crossProduct(x).data, crossProductNaive(x).data)).toBeLessThan(1e-14);
     },
   );
+
+  it('row panels handed out in any order and to any number of takers give the same bits (what two threads share)', () => {
+    for (const [t, n] of [
+      [1100, 23], // more periods than one pass, N not a multiple of 4
+      [30, 8],
+    ]) {
+      const x = randomMatrix(t, n, t + n);
+      const packed = packColumns(x);
+      const panels = rowPanels(n);
+      // Two takers alternating over the panels, the longest first, as the edge's threads do.
+      const order = Array.from({ length: panels }, (_, k) => panels - 1 - k);
+      const outs = [new Float64Array(n * n), new Float64Array(n * n)];
+      let next = 0;
+      const counts = [0, 0];
+      while (next < order.length)
+        for (const who of [0, 1]) {
+          let given = false;
+          counts[who] += crossProductPanels(t, n, packed, outs[who], () =>
+            !given && next < order.length ? ((given = true), order[next++]) : -1,
+          );
+        }
+      expect(counts[0] + counts[1]).toBe(panels);
+      const out = new Float64Array(n * n);
+      for (let i = 0; i < n; i++) for (let j = 0; j <= i; j++) out[i * n + j] = outs[0][i * n + j] + outs[1][i * n + j]; // one of the two is 0
+      mirrorLower(out, n);
+      expect(Array.from(out).every((v, k) => Object.is(v, crossProduct(x).data[k]))).toBe(true);
+    }
+  });
 
   it('row ranges computed separately assemble the same matrix (the split an edge may hand to workers)', () => {
     const x = randomMatrix(20, 23, 5);
