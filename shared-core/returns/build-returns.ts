@@ -90,6 +90,10 @@ interface SamplePoint {
  * it is at most `maxFillDays` calendar days old (weekly, monthly). A return spanning a hole
  * longer than that is dropped rather than faked, with a warning. Prices are converted to the base
  * currency before returns are taken.
+ *
+ * The N x T prices are read in one pass down each column (`scanColumn`) and the returns written
+ * in one more over blocks of columns (`readLevels`, `blockReturns`): small functions called once
+ * per column or block, so that V8 optimises them early with complete type feedback.
  */
 export function buildReturns(table: PriceTable, options: BuildReturnsOptions): ReturnsResult {
   const maxFill = options.maxFillDays ?? DEFAULT_MAX_FILL_DAYS;
@@ -101,12 +105,7 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
 
   const ids = [...(options.assets ?? table.assets)];
   if (ids.length === 0) throw new InputError('no assets selected', { path: 'assets' });
-  const cols = ids.map((id, k) => {
-    const c = table.assets.indexOf(id);
-    if (c === -1) throw new InputError(`no price history for asset '${id}'`, { path: `assets[${k}]` });
-    if (ids.indexOf(id) !== k) throw new InputError(`asset '${id}' is selected twice`, { path: `assets[${k}]` });
-    return c;
-  });
+  const cols = selectedColumns(table.assets, ids);
   const n = ids.length;
 
   if (options.from !== undefined && options.to !== undefined && options.from > options.to)
@@ -118,31 +117,42 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
   const days = new Int32Array(dates.length);
   for (let r = lo; r < hi; r++) days[r] = dayNumber(dates[r]);
 
-  // Priced rows of each asset inside the window:
-  const priced = cols.map((c, a) => {
-    const rows: number[] = [];
-    for (let r = lo; r < hi; r++) if (Number.isFinite(table.closes[c][r])) rows.push(r);
-    if (rows.length === 0)
+  // One pass down each selected column inside the window: its first and last priced rows, how
+  // many prices it has, how many of its gaps are short for the asked frequency, and per row how
+  // many selected assets are priced there.
+  const firsts = new Int32Array(n);
+  const lasts = new Int32Array(n);
+  const counts = new Int32Array(n);
+  const shortGaps = new Int32Array(n);
+  const pricedOn = new Int32Array(dates.length);
+  const shortGap = SHORT_GAP[options.frequency];
+  for (let a = 0; a < n; a++) {
+    counts[a] = scanColumn(table.closes[cols[a]], lo, hi, days, shortGap, pricedOn, firsts, lasts, shortGaps, a);
+    if (counts[a] === 0)
       throw fail(
         `${ids[a]} has no price in the window${windowText(options.from, options.to)}`,
         ids[a],
         options.from !== undefined ? undefined : dates[lo],
       );
-    return rows;
-  });
+  }
 
-  // Assets priced less often than asked force a coarser frequency or stop here.
+  // Assets priced less often than asked force a coarser frequency or stop here. The median gap
+  // exceeds the frequency's limit exactly when fewer than half of the gaps (rank + 1 of them) are
+  // within it; only such an asset has its median gap worked out (pricingFrequency).
   let frequency = options.frequency;
   const coarsened: string[] = [];
-  priced.forEach((rows, a) => {
-    const pricedDays = new Int32Array(rows.length); // a plain loop: a mapping callback costs 10x here
+  for (let a = 0; a < n; a++) {
+    const m = counts[a];
+    if (m < 3 || shortGaps[a] > (m - 1) >> 1) continue;
+    const rows = pricedRows(table.closes[cols[a]], lo, hi);
+    const pricedDays = new Int32Array(rows.length);
     for (let i = 0; i < rows.length; i++) pricedDays[i] = days[rows[i]];
     const native = pricingFrequency(pricedDays);
-    if (!isCoarser(native.frequency, options.frequency)) return;
+    if (!isCoarser(native.frequency, options.frequency)) continue;
     if (options.onCoarserPricing === 'coarsen') {
       frequency = coarser(frequency, native.frequency);
       coarsened.push(ids[a]);
-      return;
+      continue;
     }
     throw fail(
       `${ids[a]} is priced ${native.frequency} (median ${native.medianGap} days between prices), so it cannot enter a ` +
@@ -150,32 +160,38 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
       ids[a],
       dates[rows[1]],
     );
-  });
+  }
   if (coarsened.length > 0) warnings.push(`estimating ${frequency}: ${coarsened.join(', ')} priced ${frequency}`);
 
   // The common window: from the latest first price to the earliest last price.
-  const firsts = priced.map((rows) => rows[0]);
-  const lasts = priced.map((rows) => rows[rows.length - 1]);
-  const commonLo = Math.max(...firsts);
-  const commonHi = Math.min(...lasts);
-  const earliest = Math.min(...firsts);
-  const latest = Math.max(...lasts);
+  let commonLo = firsts[0];
+  let commonHi = lasts[0];
+  let earliest = firsts[0];
+  let latest = lasts[0];
+  for (let a = 1; a < n; a++) {
+    commonLo = Math.max(commonLo, firsts[a]);
+    commonHi = Math.min(commonHi, lasts[a]);
+    earliest = Math.min(earliest, firsts[a]);
+    latest = Math.max(latest, lasts[a]);
+  }
   const startLabel = options.from ?? dates[earliest];
   const endLabel = options.to ?? dates[latest];
   // Name the assets whose late start or early end shortens the common window (a gap of a few
   // days after a requested start date is a holiday, not a late start).
   const startDay = options.from !== undefined ? dayNumber(options.from) : days[earliest];
   const endDay = options.to !== undefined ? dayNumber(options.to) : days[latest];
-  firsts.forEach((r, a) => {
+  for (let a = 0; a < n; a++) {
+    const r = firsts[a];
     if (r === commonLo && (r > earliest || days[r] - startDay > maxFill))
       warnings.push(
         `${ids[a]} starts on ${dates[r]}, after the window start ${startLabel}: the common window starts there`,
       );
-  });
-  lasts.forEach((r, a) => {
+  }
+  for (let a = 0; a < n; a++) {
+    const r = lasts[a];
     if (r === commonHi && (r < latest || endDay - days[r] > maxFill))
       warnings.push(`${ids[a]} ends on ${dates[r]}, before the window end ${endLabel}: the common window ends there`);
-  });
+  }
   if (commonLo > commonHi) {
     const starter = firsts.indexOf(commonLo);
     const ender = lasts.indexOf(commonHi);
@@ -188,30 +204,27 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
 
   const columns = cols.map((c) => table.closes[c]);
   const has = (a: number, r: number) => Number.isFinite(columns[a][r]);
+  // Candidate dates: some selected asset has a price there.
   const candidates: number[] = [];
-  for (let r = commonLo; r <= commonHi; r++) {
-    let any = false;
-    for (let a = 0; a < n && !any; a++) any = has(a, r);
-    if (any) candidates.push(r);
-  }
+  for (let r = commonLo; r <= commonHi; r++) if (pricedOn[r] > 0) candidates.push(r);
 
   const points: SamplePoint[] = [];
   const missingAt = new Int32Array(n); // sample points lost because this asset had no (recent) price
   const filled = new Int32Array(n);
   if (frequency === 'daily') {
-    // Asset by asset, down each price column (contiguous), rather than across the columns per date.
-    const complete = new Uint8Array(candidates.length).fill(1);
-    for (let a = 0; a < n; a++) {
-      const column = columns[a];
-      for (let slot = 0; slot < candidates.length; slot++)
-        if (!Number.isFinite(column[candidates[slot]])) {
-          complete[slot] = 0;
-          missingAt[a]++;
-        }
+    // A date is a sample point when every selected asset has a price there.
+    let incomplete = false;
+    for (let slot = 0; slot < candidates.length; slot++) {
+      const r = candidates[slot];
+      if (pricedOn[r] === n) points.push({ row: r, period: days[r], slot });
+      else incomplete = true;
     }
-    candidates.forEach((r, slot) => {
-      if (complete[slot]) points.push({ row: r, period: days[r], slot });
-    });
+    if (incomplete)
+      for (let a = 0; a < n; a++) {
+        const column = columns[a];
+        for (let slot = 0; slot < candidates.length; slot++)
+          if (!Number.isFinite(column[candidates[slot]])) missingAt[a]++;
+      }
   } else {
     const periodOf = (r: number) => (frequency === 'weekly' ? weekIndex(days[r]) : monthIndex(dates[r]));
     const stale: string[] = [];
@@ -288,9 +301,13 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
     }
   }
 
-  const levels = convertedLevels(table, cols, ids, points, pairs, options, maxFill, fail, warnings);
-
   const t = pairs.length;
+  const returns = zeros(t, n);
+  const out = returns.data;
+  const lowest = new Float64Array(n);
+  const highest = new Float64Array(n);
+  convertedReturns(table, cols, ids, points, pairs, options, maxFill, fail, warnings, out, lowest, highest);
+
   if (t < minObservations) {
     const starter = firsts.indexOf(commonLo);
     throw fail(
@@ -300,25 +317,9 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
       dates[commonLo],
     );
   }
-  const returns = zeros(t, n);
-  const out = returns.data;
-  for (let s = 0; s < t; s++) {
-    const k = pairs[s];
-    for (let a = 0; a < n; a++) {
-      const p0 = levels[(k - 1) * n + a];
-      const p1 = levels[k * n + a];
-      out[s * n + a] = options.method === 'log' ? Math.log(p1 / p0) : p1 / p0 - 1;
-    }
-  }
   for (let a = 0; a < n; a++) {
-    let min = Infinity;
-    let max = -Infinity;
-    for (let s = 0; s < t; s++) {
-      const v = out[s * n + a];
-      if (v < min) min = v;
-      if (v > max) max = v;
-    }
-    if (t >= 2 && min === max) {
+    const min = lowest[a];
+    if (t >= 2 && min === highest[a]) {
       const from = dates[points[pairs[0] - 1].row];
       throw fail(
         min === 0
@@ -350,26 +351,25 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
 
   // Dates dropped: priced dates (daily) or priced periods (weekly, monthly) in the window unused.
   const used = new Set<number>();
-  const usedRow = new Uint8Array(dates.length);
   for (const k of pairs) {
     used.add(points[k - 1].row);
     used.add(points[k].row);
-    usedRow[points[k - 1].row] = usedRow[points[k].row] = 1;
   }
+  // Daily: every used date is a sample point, where every asset is priced, so an asset's unused
+  // priced dates are its priced dates less the used ones.
+  const periodOf = (r: number) => (frequency === 'weekly' ? weekIndex(days[r]) : monthIndex(dates[r]));
+  const usedPeriods = frequency === 'daily' ? undefined : new Set([...used].map(periodOf));
   const coverage: AssetCoverage[] = ids.map((asset, a) => {
-    const rows = priced[a];
     let dropped = 0;
-    if (frequency === 'daily') for (let i = 0; i < rows.length; i++) dropped += 1 - usedRow[rows[i]];
+    if (usedPeriods === undefined) dropped = counts[a] - used.size;
     else {
-      const periodOf = (r: number) => (frequency === 'weekly' ? weekIndex(days[r]) : monthIndex(dates[r]));
-      const usedPeriods = new Set([...used].map(periodOf));
-      const pricedPeriods = new Set(rows.map(periodOf));
+      const pricedPeriods = new Set(pricedRows(columns[a], lo, hi).map(periodOf));
       for (const p of pricedPeriods) dropped += usedPeriods.has(p) ? 0 : 1;
     }
     return {
       asset,
-      firstDate: dates[rows[0]],
-      lastDate: dates[rows[rows.length - 1]],
+      firstDate: dates[firsts[a]],
+      lastDate: dates[lasts[a]],
       observations: t,
       datesDropped: dropped,
       pricesFilled: filled[a],
@@ -388,12 +388,73 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
   };
 }
 
+/** The longest gap (calendar days) of a series priced as often as asked: pricingFrequency's limits. */
+const SHORT_GAP: Record<Frequency, number> = { daily: 5, weekly: 10, monthly: 0x7fffffff };
+
+/** The table column of each selected id; an unknown or repeated id is an error naming its place. */
+function selectedColumns(tableAssets: readonly string[], ids: readonly string[]): number[] {
+  const column = new Map<string, number>();
+  for (let c = tableAssets.length - 1; c >= 0; c--) column.set(tableAssets[c], c); // the first of repeats
+  const seen = new Set<string>();
+  return ids.map((id, k) => {
+    const c = column.get(id);
+    if (c === undefined) throw new InputError(`no price history for asset '${id}'`, { path: `assets[${k}]` });
+    if (seen.has(id)) throw new InputError(`asset '${id}' is selected twice`, { path: `assets[${k}]` });
+    seen.add(id);
+    return c;
+  });
+}
+
 /**
- * Price levels at the sample points (row-major points x assets), in the base currency where an
- * asset is priced in another one. An FX rate may be carried forward over at most maxFill days;
- * a rate missing on a needed date is an error naming the asset, the currency and the date.
+ * One price column inside the window [lo, hi): writes its first and last priced rows and the
+ * number of gaps between its prices of at most `shortGap` days, counts it in `pricedOn` for each
+ * priced row, and returns how many prices it has.
  */
-function convertedLevels(
+function scanColumn(
+  column: Float64Array,
+  lo: number,
+  hi: number,
+  days: Int32Array,
+  shortGap: number,
+  pricedOn: Int32Array,
+  firsts: Int32Array,
+  lasts: Int32Array,
+  shortGaps: Int32Array,
+  a: number,
+): number {
+  let count = 0;
+  let short = 0;
+  let first = -1;
+  let last = -1;
+  for (let r = lo; r < hi; r++) {
+    if (!Number.isFinite(column[r])) continue;
+    if (last === -1) first = r;
+    else if (days[r] - days[last] <= shortGap) short++;
+    last = r;
+    count++;
+    pricedOn[r]++;
+  }
+  firsts[a] = first;
+  lasts[a] = last;
+  shortGaps[a] = short;
+  return count;
+}
+
+/** The priced rows of a column inside the window [lo, hi). */
+function pricedRows(column: Float64Array, lo: number, hi: number): number[] {
+  const rows: number[] = [];
+  for (let r = lo; r < hi; r++) if (Number.isFinite(column[r])) rows.push(r);
+  return rows;
+}
+
+/**
+ * The returns (T x N, row-major, into `out`) between the sample points of each pair, from price
+ * levels in the base currency where an asset is priced in another one, with each asset's least
+ * and greatest return. An FX rate may be carried forward over at most maxFill days; a rate
+ * missing on a needed date is an error naming the asset, the currency and the date (the first
+ * such asset, then its first such date).
+ */
+function convertedReturns(
   table: PriceTable,
   cols: readonly number[],
   ids: readonly string[],
@@ -403,11 +464,15 @@ function convertedLevels(
   maxFill: number,
   fail: (message: string, asset?: string, date?: string) => InputError,
   warnings: string[],
-): Float64Array {
+  out: Float64Array,
+  lowest: Float64Array,
+  highest: Float64Array,
+): void {
   const n = cols.length;
-  const levels = new Float64Array(points.length * n);
-  const needed = new Uint8Array(points.length);
+  const p = points.length;
+  const needed = new Uint8Array(p);
   for (const k of pairs) needed[k - 1] = needed[k] = 1;
+  const pairIndex = Int32Array.from(pairs);
   const base = options.baseCurrency;
   const currencies = cols.map((c) => table.currencies?.[c]);
   if (base === undefined) {
@@ -415,39 +480,97 @@ function convertedLevels(
     if (distinct.size > 1)
       warnings.push(`assets are priced in ${[...distinct].join(', ')} and no base currency is set: no conversion`);
   }
-  for (let a = 0; a < n; a++) {
-    const closes = table.closes[cols[a]];
-    const currency = currencies[a];
-    const convert = base !== undefined && currency !== undefined && currency !== base;
-    let rates: Float64Array | undefined;
-    let fxDays: Int32Array | undefined;
-    if (convert) {
+  // The row whose price stands for each sample point: on daily data the point's own row, the
+  // same for every asset; weekly and monthly points carry one per asset.
+  const pointRows = new Int32Array(p);
+  for (let k = 0; k < p; k++) pointRows[k] = points[k].row;
+  const perAsset = p > 0 && points[0].priceRows !== undefined;
+  const ownRows = new Int32Array(p);
+  const levels = new Float64Array(BLOCK * p);
+  let fxDays: Int32Array | undefined;
+  const log = options.method === 'log';
+  lowest.fill(Infinity);
+  highest.fill(-Infinity);
+  for (let a0 = 0; a0 < n; a0 += BLOCK) {
+    const width = Math.min(BLOCK, n - a0);
+    for (let j = 0; j < width; j++) {
+      const a = a0 + j;
+      let rows = pointRows;
+      if (perAsset) {
+        for (let k = 0; k < p; k++) ownRows[k] = points[k].priceRows![a];
+        rows = ownRows;
+      }
+      const at = j * p;
+      readLevels(table.closes[cols[a]], rows, needed, levels, at);
+      const currency = currencies[a];
+      if (base === undefined || currency === undefined || currency === base) continue;
       const f = options.fx?.assets.indexOf(currency) ?? -1;
       if (f === -1 || !options.fx)
         throw fail(`${ids[a]} is priced in ${currency} but there is no ${currency} rate series in ${base}`, ids[a]);
-      rates = options.fx.closes[f];
-      fxDays = Int32Array.from(options.fx.dates, dayNumber);
-    }
-    for (let k = 0; k < points.length; k++) {
-      if (!needed[k]) continue;
-      const point = points[k];
-      const r = point.priceRows ? point.priceRows[a] : point.row;
-      let value = closes[r];
-      if (rates && fxDays) {
-        const date = table.dates[r];
-        const rate = rateOn(fxDays, rates, dayNumber(date), maxFill);
+      fxDays ??= Int32Array.from(options.fx.dates, dayNumber);
+      for (let k = 0; k < p; k++) {
+        if (!needed[k]) continue;
+        const date = table.dates[rows[k]];
+        const rate = rateOn(fxDays, options.fx.closes[f], dayNumber(date), maxFill);
         if (rate === undefined)
           throw fail(
             `no ${currency} rate in ${base} for ${ids[a]} on ${date} (none within ${maxFill} days before)`,
             ids[a],
             date,
           );
-        value *= rate;
+        levels[at + k] *= rate;
       }
-      levels[k * n + a] = value;
+    }
+    blockReturns(levels, p, width, pairIndex, log, out, n, a0, lowest, highest);
+  }
+}
+
+/** Assets whose returns are taken together: a block writes whole cache lines of each output row. */
+const BLOCK = 8;
+
+/** The price at each needed sample point, from the row that stands for it, into `levels` from `at`. */
+function readLevels(
+  closes: Float64Array,
+  rows: Int32Array,
+  needed: Uint8Array,
+  levels: Float64Array,
+  at: number,
+): void {
+  for (let k = 0; k < rows.length; k++) if (needed[k]) levels[at + k] = closes[rows[k]];
+}
+
+/**
+ * Columns a0 .. a0 + width - 1 of `out`, whose levels are `levels[j * p + k]` (point k of the
+ * block's asset j): row s takes the return between sample points pairs[s] - 1 and pairs[s]; each
+ * column's least and greatest return update `lowest` and `highest`. Row by row, so that the N x T
+ * output is written in adjacent pieces rather than one column (one cache line per row) at a time.
+ * Nothing runs before the loop: V8 compiles this during its first call, and code that ran only
+ * before the function had its type feedback would be compiled blind and deoptimise.
+ */
+function blockReturns(
+  levels: Float64Array,
+  p: number,
+  width: number,
+  pairs: Int32Array,
+  log: boolean,
+  out: Float64Array,
+  n: number,
+  a0: number,
+  lowest: Float64Array,
+  highest: Float64Array,
+): void {
+  for (let s = 0; s < pairs.length; s++) {
+    const k = pairs[s];
+    const row = s * n + a0;
+    for (let j = 0; j < width; j++) {
+      const at = j * p + k;
+      const ratio = levels[at] / levels[at - 1];
+      const v = log ? Math.log(ratio) : ratio - 1;
+      out[row + j] = v;
+      if (v < lowest[a0 + j]) lowest[a0 + j] = v;
+      if (v > highest[a0 + j]) highest[a0 + j] = v;
     }
   }
-  return levels;
 }
 
 function endOfMonth(date: string): string {
