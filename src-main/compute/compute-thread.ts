@@ -5,6 +5,7 @@ import type { SecondThreadData } from './second-thread.js';
 import { runRotationsJob, type RotationsJob } from './rotations-ahead.js';
 import { runReduceJob, type ReduceJob } from './tridiagonal-ahead.js';
 import * as tri from './two-thread-tridiagonal.js';
+import { warmUpKernels } from './warm-up.js';
 
 /**
  * The helper thread of src-main/compute: it runs its share of a two-thread kernel with the core's
@@ -26,6 +27,8 @@ parentPort!.on('message', (job: PanelsJob | tri.TridiagonalJob | ReduceJob | Rot
 // Loaded and listening: the starting thread may now hand over smaller jobs (second-thread.ts).
 const data = workerData as SecondThreadData | undefined;
 if (data?.ready) Atomics.store(new Int32Array(data.ready), 0, 1);
+// Before any message is read: the first job arrives after the input is read, tens of ms later.
+warmUpKernels();
 
 function tridiagonal(job: tri.TridiagonalJob): void {
   const control = new Int32Array(job.control);
