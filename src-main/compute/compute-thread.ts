@@ -24,11 +24,11 @@ parentPort!.on('message', (job: PanelsJob | tri.TridiagonalJob | ReduceJob | Rot
   else if (job.kind === 'rotations') runRotationsJob(job);
   else tridiagonal(job);
 });
-// Loaded and listening: the starting thread may now hand over smaller jobs (second-thread.ts).
+// Compiled before any message is read, then ready: the starting thread may now hand over smaller
+// jobs (second-thread.ts), which the thread takes at once.
+warmUpKernels();
 const data = workerData as SecondThreadData | undefined;
 if (data?.ready) Atomics.store(new Int32Array(data.ready), 0, 1);
-// Before any message is read: the first job arrives after the input is read, tens of ms later.
-warmUpKernels();
 
 function tridiagonal(job: tri.TridiagonalJob): void {
   const control = new Int32Array(job.control);

@@ -55,10 +55,14 @@ export function newRecording(n: number): Recording {
   };
 }
 
-/** The helper's side: claims the recording (unless taken back), records QL on `form`, says so. */
-export function record(form: TridiagonalForm, r: Recording): void {
+/** The helper's side: claims the recording unless it was taken back. */
+export function claimRecording(r: Recording): boolean {
+  return Atomics.compareExchange(new Int32Array(r.flag), FLAG, OPEN, CLAIMED) === OPEN;
+}
+
+/** The helper's side of a claimed recording: records QL on `form`, says so. */
+export function recordClaimed(form: TridiagonalForm, r: Recording): void {
   const flag = new Int32Array(r.flag);
-  if (Atomics.compareExchange(flag, FLAG, OPEN, CLAIMED) !== OPEN) return;
   try {
     const recorded = recordRotations(form, new Float64Array(r.values), new Int32Array(r.steps), new Float64Array(r.cs));
     Atomics.store(flag, STEP_COUNT, recorded ? recorded.steps.length : -1);
@@ -132,5 +136,5 @@ export function runRotationsJob(job: RotationsJob): void {
     reflectors: new Float64Array(0),
     halfNorms: new Float64Array(0),
   };
-  record(form, job.recording);
+  if (claimRecording(job.recording)) recordClaimed(form, job.recording);
 }

@@ -9,7 +9,8 @@ import {
   FLAG,
   newRecording,
   OPEN,
-  record,
+  claimRecording,
+  recordClaimed,
   type Recording,
 } from './rotations-ahead.js';
 import { createSecondThread, processSecondThread, type SecondThread } from './second-thread.js';
@@ -113,9 +114,11 @@ export function runReduceJob(job: ReduceJob): void {
     vectors.set(form.diagonal, 0);
     vectors.set(form.offDiagonal, n);
     vectors.set(form.halfNorms, 2 * n);
+    // Claimed before the form is handed back, so the caller's first read of it waits for it.
+    const recording = claimRecording(job.recording);
     Atomics.store(flag, FLAG, DONE);
     Atomics.notify(flag, FLAG);
-    record(form, job.recording);
+    if (recording) recordClaimed(form, job.recording);
   } catch {
     Atomics.store(flag, FLAG, FAILED);
     Atomics.notify(flag, FLAG);

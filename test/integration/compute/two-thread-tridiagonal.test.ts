@@ -1,5 +1,5 @@
 import { existsSync } from 'node:fs';
-import { once } from 'node:events';
+import { setTimeout as sleep } from 'node:timers/promises';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { effectiveBets } from '../../../shared-core/analytics/risk.js';
@@ -21,7 +21,8 @@ describe('the tridiagonal reduction on two threads (src-main/compute)', () => {
     'the helper runs its half of the steps and the form equals the one-thread form exactly, rank-deficient or not',
     async () => {
       const thread = createSecondThread(script);
-      await once(thread.worker()!, 'online');
+      thread.start();
+      for (let k = 0; k < 400 && !thread.ready(); k++) await sleep(10); // loaded and compiled
       const two = createTwoThreadTridiagonal({ thread, minSize: 0 });
       for (const [t, n] of [
         [600, HAND_OFF_FROM + 241],
@@ -33,7 +34,9 @@ describe('the tridiagonal reduction on two threads (src-main/compute)', () => {
         for (const key of ['diagonal', 'offDiagonal', 'halfNorms', 'reflectors'] as const)
           expect(sameBits(a[key], b[key]), key).toBe(true);
         const w = new Float64Array(n).fill(1 / n);
-        // The helper then records the QL iteration (rotations-ahead.ts); the bets replay it exactly.
+        // The helper then records the QL iteration (rotations-ahead.ts) while the caller goes on (a
+        // sleep here; a recording not begun when first read is taken back); the bets replay it exactly.
+        await sleep(300);
         expect(b.rotations).toBeDefined();
         expect(effectiveBets(w, s, b)).toBe(effectiveBets(w, s));
       }
