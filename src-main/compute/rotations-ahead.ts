@@ -1,6 +1,7 @@
 import type { Worker } from 'node:worker_threads';
 import { recordRotations } from '../../shared-core/linalg/symmetric-eigen.js';
 import type { QlRotations, TridiagonalForm } from '../../shared-core/linalg/tridiagonal-form.js';
+import { awaitJob, claimJob, DONE, endJob, FAILED } from './job-flag.js';
 
 /**
  * The QL iteration on a reduced matrix's tridiagonal, run once on the helper thread and recorded
@@ -26,16 +27,9 @@ export interface Recording {
   flag: SharedArrayBuffer;
 }
 
-/** Slots of a job's Int32 flag: its state, then the recorded lengths (-1 where they did not fit). */
-export const FLAG = 0;
-export const STEP_COUNT = 1;
-export const CS_COUNT = 2;
-export const OPEN = 0;
-export const CLAIMED = 1;
-export const DONE = 2;
-export const FAILED = 3;
-export const TAKEN_BACK = 4;
-const JOB_MS = 10 * 60 * 1000;
+/** Slots of a recording's Int32 flag after the job state (job-flag.ts): the recorded lengths (-1 where they did not fit). */
+const STEP_COUNT = 1;
+const CS_COUNT = 2;
 
 /**
  * Room for well over what QL took on the bench estimates: 1.7 N steps and 0.95 N^2 rotations at
@@ -57,7 +51,7 @@ export function newRecording(n: number): Recording {
 
 /** The helper's side: claims the recording unless it was taken back. */
 export function claimRecording(r: Recording): boolean {
-  return Atomics.compareExchange(new Int32Array(r.flag), FLAG, OPEN, CLAIMED) === OPEN;
+  return claimJob(new Int32Array(r.flag));
 }
 
 /** The helper's side of a claimed recording: records QL on `form`, says so. */
@@ -67,11 +61,10 @@ export function recordClaimed(form: TridiagonalForm, r: Recording): void {
     const recorded = recordRotations(form, new Float64Array(r.values), new Int32Array(r.steps), new Float64Array(r.cs));
     Atomics.store(flag, STEP_COUNT, recorded ? recorded.steps.length : -1);
     Atomics.store(flag, CS_COUNT, recorded ? recorded.cs.length : -1);
-    Atomics.store(flag, FLAG, DONE);
+    endJob(flag, DONE);
   } catch {
-    Atomics.store(flag, FLAG, FAILED);
+    endJob(flag, FAILED);
   }
-  Atomics.notify(flag, FLAG);
 }
 
 /**
@@ -98,15 +91,6 @@ export function recordedRotations(r: Recording): () => QlRotations | undefined {
 export function attachRotations(form: TridiagonalForm, r: Recording): TridiagonalForm {
   Object.defineProperty(form, 'rotations', { get: recordedRotations(r), enumerable: true });
   return form;
-}
-
-/** Waits for a job the helper claimed; false if it was never claimed (now taken back) or failed. */
-export function awaitJob(flag: Int32Array, what: string): boolean {
-  if (Atomics.compareExchange(flag, FLAG, OPEN, TAKEN_BACK) === OPEN) return false;
-  while (Atomics.load(flag, FLAG) === CLAIMED)
-    if (Atomics.wait(flag, FLAG, CLAIMED, JOB_MS) === 'timed-out')
-      throw new Error(`the helper thread did not finish ${what}`);
-  return Atomics.load(flag, FLAG) === DONE;
 }
 
 /** Hands the QL recording of `form` to the helper; the form reads it as `rotations` on first use. */

@@ -1,18 +1,7 @@
 import type { Matrix } from '../../shared-core/linalg/matrix.js';
 import { tridiagonalForm, type TridiagonalForm } from '../../shared-core/linalg/tridiagonal-form.js';
-import {
-  attachRotations,
-  awaitJob,
-  CLAIMED,
-  DONE,
-  FAILED,
-  FLAG,
-  newRecording,
-  OPEN,
-  claimRecording,
-  recordClaimed,
-  type Recording,
-} from './rotations-ahead.js';
+import { awaitJob, claimJob, DONE, endJob, FAILED } from './job-flag.js';
+import { attachRotations, claimRecording, newRecording, recordClaimed, type Recording } from './rotations-ahead.js';
 import { createSecondThread, processSecondThread, type SecondThread } from './second-thread.js';
 import { MIN_SIZE } from './two-thread-tridiagonal.js';
 
@@ -33,7 +22,7 @@ export interface ReduceJob {
   matrix: SharedArrayBuffer;
   /** 3 N: the diagonal, the off-diagonal and the half norms out. */
   vectors: SharedArrayBuffer;
-  /** Int32 slot FLAG: the reduction's state, as rotations-ahead.ts's. */
+  /** Int32: the reduction's state (job-flag.ts). */
   flag: SharedArrayBuffer;
   /** The QL recording out, done after the form is handed back (rotations-ahead.ts). */
   recording: Recording;
@@ -104,7 +93,7 @@ export function createTridiagonalAhead(options: TridiagonalAheadOptions = {}): {
 /** The helper's side: reduce, write the form back, say so; then record the QL rotations. */
 export function runReduceJob(job: ReduceJob): void {
   const flag = new Int32Array(job.flag);
-  if (Atomics.compareExchange(flag, FLAG, OPEN, CLAIMED) !== OPEN) return;
+  if (!claimJob(flag)) return;
   try {
     const n = job.n;
     const matrix = new Float64Array(job.matrix);
@@ -116,12 +105,10 @@ export function runReduceJob(job: ReduceJob): void {
     vectors.set(form.halfNorms, 2 * n);
     // Claimed before the form is handed back, so the caller's first read of it waits for it.
     const recording = claimRecording(job.recording);
-    Atomics.store(flag, FLAG, DONE);
-    Atomics.notify(flag, FLAG);
+    endJob(flag, DONE);
     if (recording) recordClaimed(form, job.recording);
   } catch {
-    Atomics.store(flag, FLAG, FAILED);
-    Atomics.notify(flag, FLAG);
+    endJob(flag, FAILED);
   }
 }
 

@@ -8,6 +8,7 @@ import {
   rowPanels,
 } from '../../shared-core/linalg/cross-product.js';
 import type { Matrix } from '../../shared-core/linalg/matrix.js';
+import { awaitJob, claimJob, DONE, endJob, FAILED, FLAG, OPEN, TAKEN_BACK } from './job-flag.js';
 import { createSecondThread, processSecondThread, type SecondThread } from './second-thread.js';
 
 /**
@@ -30,15 +31,9 @@ export interface PanelsJob {
   cols: number;
 }
 
-export const FLAG = 0;
-export const NEXT = 1;
-export const BY_HELPER = 2;
-/** Job states. */
-export const OPEN = 0;
-export const CLAIMED = 1;
-export const DONE = 2;
-export const FAILED = 3;
-export const TAKEN_BACK = 4;
+/** Slots after the job state (job-flag.ts). */
+const NEXT = 1;
+const BY_HELPER = 2;
 
 /** N(N+1)/2 T multiply-adds below which starting the thread (about 0.1-0.2 s) costs more than it saves (N near 900 at T = 1260). */
 export const MIN_WORK = 5e8;
@@ -48,7 +43,6 @@ export const MIN_WORK = 5e8;
  * millisecond at N = 200, T = 1260 (25 million multiply-adds, about 10 ms on one thread).
  */
 export const MIN_WORK_READY = 2e7;
-const JOB_MS = 10 * 60 * 1000;
 
 export interface TwoThreadOptions {
   /** The helper thread; by default a new one from `script` (compute-thread.js beside this module). */
@@ -107,15 +101,11 @@ function onTwoThreads(x: Matrix, out: Float64Array, helper: Worker): number {
   } satisfies PanelsJob);
   crossProductPanels(t, n, packed, out, panelClaim(control, rowPanels(n)));
   // Every panel is handed out: close the job if the helper never began, else wait for its last.
-  if (Atomics.compareExchange(control, FLAG, OPEN, TAKEN_BACK) !== OPEN) {
-    while (Atomics.load(control, FLAG) === CLAIMED)
-      if (Atomics.wait(control, FLAG, CLAIMED, JOB_MS) === 'timed-out')
-        throw new Error('the second thread of the cross product did not finish');
-    if (Atomics.load(control, FLAG) === FAILED) {
-      // Which of its panels it finished is unknown: all of it again, here.
-      out.set(oneThread(x).data);
-      return 0;
-    }
+  const began = Atomics.compareExchange(control, FLAG, OPEN, TAKEN_BACK) !== OPEN;
+  if (began && !awaitJob(control, 'its rows of the cross product')) {
+    // It failed, and which of its panels it finished is unknown: all of it again, here.
+    out.set(oneThread(x).data);
+    return 0;
   }
   mirrorLower(out, n);
   return Atomics.load(control, BY_HELPER);
@@ -124,7 +114,7 @@ function onTwoThreads(x: Matrix, out: Float64Array, helper: Worker): number {
 /** The helper's side: claims the job unless it was closed, computes panels until none is left. */
 export function runPanelsJob(job: PanelsJob): void {
   const control = new Int32Array(job.control);
-  if (Atomics.compareExchange(control, FLAG, OPEN, CLAIMED) !== OPEN) return;
+  if (!claimJob(control)) return;
   try {
     const panels = rowPanels(job.cols);
     const done = crossProductPanels(
@@ -135,9 +125,8 @@ export function runPanelsJob(job: PanelsJob): void {
       panelClaim(control, panels),
     );
     Atomics.store(control, BY_HELPER, done);
-    Atomics.store(control, FLAG, DONE);
+    endJob(control, DONE);
   } catch {
-    Atomics.store(control, FLAG, FAILED);
+    endJob(control, FAILED);
   }
-  Atomics.notify(control, FLAG);
 }
