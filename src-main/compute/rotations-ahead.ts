@@ -36,8 +36,8 @@ const CS_COUNT = 2;
  * N = 500, 1.5 N and 0.64 N^2 at N = 1500 (two numbers, c and s, per rotation). A recording that
  * does not fit is dropped and the caller iterates itself.
  */
-export const stepCapacity = (n: number): number => 8 * n + 16;
-export const csCapacity = (n: number): number => 3 * n * n + 16;
+const stepCapacity = (n: number): number => 8 * n + 16;
+const csCapacity = (n: number): number => 3 * n * n + 16;
 
 /** Shared buffers for a recording of size n. */
 export function newRecording(n: number): Recording {
@@ -71,7 +71,7 @@ export function recordClaimed(form: TridiagonalForm, r: Recording): void {
  * The calling thread's side: the wait for a recording, giving the rotations, or undefined if
  * the helper did not do it (formExposures then iterates itself). Waited for once.
  */
-export function recordedRotations(r: Recording): () => QlRotations | undefined {
+function recordedRotations(r: Recording): () => QlRotations | undefined {
   let answer: { rotations: QlRotations | undefined } | undefined;
   const read = (): QlRotations | undefined => {
     const flag = new Int32Array(r.flag);

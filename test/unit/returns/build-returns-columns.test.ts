@@ -3,23 +3,12 @@ import { InputError } from '../../../shared-core/errors.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { buildReturns, type BuildReturnsOptions } from '../../../shared-core/returns/build-returns.js';
 import { dayNumber, isCoarser, pricingFrequency } from '../../../shared-core/returns/calendar.js';
+import { weekdays } from '../../support/calendar.js';
 
 // Park-Miller generator (Park and Miller 1988), seeded so a failure can be replayed.
 function lcg(seed: number) {
   let s = seed;
   return () => (s = (s * 16807) % 2147483647) / 2147483647;
-}
-
-/** Weekdays from `start` (a Monday), `count` of them. */
-function weekdays(start: string, count: number): string[] {
-  const out: string[] = [];
-  const d = new Date(`${start}T00:00:00Z`);
-  while (out.length < count) {
-    const w = d.getUTCDay();
-    if (w !== 0 && w !== 6) out.push(d.toISOString().slice(0, 10));
-    d.setUTCDate(d.getUTCDate() + 1);
-  }
-  return out;
 }
 
 /**

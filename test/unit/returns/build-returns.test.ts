@@ -5,18 +5,7 @@ import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/p
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { buildReturns, type BuildReturnsOptions } from '../../../shared-core/returns/build-returns.js';
 import { pricingFrequency } from '../../../shared-core/returns/calendar.js';
-
-/** Weekdays from `start` (a Monday), `count` of them. */
-function weekdays(start: string, count: number): string[] {
-  const out: string[] = [];
-  const d = new Date(`${start}T00:00:00Z`);
-  while (out.length < count) {
-    const w = d.getUTCDay();
-    if (w !== 0 && w !== 6) out.push(d.toISOString().slice(0, 10));
-    d.setUTCDate(d.getUTCDate() + 1);
-  }
-  return out;
-}
+import { weekdays } from '../../support/calendar.js';
 
 /** A table whose asset k has price 100 * exp(g_k * i + a small wiggle) on weekday i; NaN where `holes` says. */
 function table(dates: string[], assets: string[], holes: Record<string, number[]> = {}): PriceTable {

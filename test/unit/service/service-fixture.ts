@@ -9,6 +9,9 @@ import type { ResponseOf } from '../../../shared-core/contract/define.js';
 import { createService, type Service } from '../../../src-main/service/index.js';
 import type { ServiceOptions } from '../../../src-main/service/options.js';
 import { openStore, type Store } from '../../../src-main/store/store.js';
+import { weekdays } from '../../support/calendar.js';
+
+export { weekdays };
 
 /**
  * A service over a fresh store in a temporary directory, called the way both transports call
@@ -60,18 +63,6 @@ export function useService(options: (dir: string) => ServiceOptions = () => ({})
 export function fixedClock(start = Date.UTC(2026, 0, 5, 9, 0, 0)): () => Date {
   let t = start;
   return () => new Date((t += 1000));
-}
-
-/** Weekdays from `from` for `count` days, as ISO dates (an invented trading calendar). */
-export function weekdays(from: string, count: number): string[] {
-  const out: string[] = [];
-  const d = new Date(`${from}T00:00:00Z`);
-  while (out.length < count) {
-    const w = d.getUTCDay();
-    if (w !== 0 && w !== 6) out.push(d.toISOString().slice(0, 10));
-    d.setUTCDate(d.getUTCDate() + 1);
-  }
-  return out;
 }
 
 /** Writes invented prices for assets straight into the store (one import batch). */

@@ -1,17 +1,8 @@
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { seededRng } from '../../../shared-core/stability/rng.js';
+import { weekdays } from '../../support/calendar.js';
 
-/** Weekday dates from `from`, `count` of them (invented calendar for tests). */
-export function weekdays(from: string, count: number): string[] {
-  const out: string[] = [];
-  const d = new Date(`${from}T00:00:00Z`);
-  while (out.length < count) {
-    const day = d.getUTCDay();
-    if (day !== 0 && day !== 6) out.push(d.toISOString().slice(0, 10));
-    d.setUTCDate(d.getUTCDate() + 1);
-  }
-  return out;
-}
+export { weekdays };
 
 /** Standard normal by Box-Muller from the seeded generator. */
 export function normals(seed: number): () => number {
