@@ -1,7 +1,7 @@
 import * as echarts from 'echarts';
 import type { EChartsOption } from 'echarts';
 import { FONT_REGULAR } from './fonts.js';
-import { ACCENT, DIVERGING, FAINT, INK, MUTED, RULE } from './palette.js';
+import { ACCENT, DIVERGING, RULE_SOFT, INK, INK_SOFT, RULE } from '../../shared-core/present/palette.js';
 
 /**
  * The memo's charts as SVG strings, drawn by ECharts' server-side SVG renderer (no browser, no
@@ -23,8 +23,8 @@ export function renderChartSvg(option: EChartsOption, width: number, height: num
   }
 }
 
-const axisLabel = { color: MUTED, fontFamily: FONT_REGULAR, fontSize: 8 };
-const splitLine = { lineStyle: { color: FAINT, width: 0.6 } };
+const axisLabel = { color: INK_SOFT, fontFamily: FONT_REGULAR, fontSize: 8 };
+const splitLine = { lineStyle: { color: RULE_SOFT, width: 0.6 } };
 const percentLabel = { ...axisLabel, formatter: (v: number) => `${Math.round(v * 10) / 10}%` };
 
 export interface BarRow {

@@ -1,5 +1,5 @@
 import type { BacktestRun } from '../../shared-core/walkforward/run-backtest.js';
-import { formatPct } from './format.js';
+import { formatPct } from '../../shared-core/present/format.js';
 import type { MemoStability, MemoStress, MemoWalkForward } from './memo-input.js';
 
 /**

@@ -1,6 +1,6 @@
 import { InputError } from '../../shared-core/errors.js';
 import type { CandidateResult } from '../../shared-core/optimise/result.js';
-import { decimalsForLot } from './format.js';
+import { decimalsForLot } from '../../shared-core/present/format.js';
 import type { MemoInput } from './memo-input.js';
 import { planTrades, type TradePlan } from './trades.js';
 

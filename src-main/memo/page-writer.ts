@@ -5,7 +5,7 @@
 import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
 import { FONT_BOLD, FONT_REGULAR, memoFonts } from './fonts.js';
-import { ACCENT, FAINT, INK, MUTED, RULE } from './palette.js';
+import { ACCENT, RULE_SOFT, INK, INK_SOFT, RULE } from '../../shared-core/present/palette.js';
 
 /**
  * A small flow-layout writer over pdfkit for the memo: A4 portrait, generous margins, one
@@ -147,7 +147,7 @@ export class PageWriter {
     this.doc
       .font(options.bold ? FONT_BOLD : FONT_REGULAR)
       .fontSize(size)
-      .fillColor(options.muted ? MUTED : INK);
+      .fillColor(options.muted ? INK_SOFT : INK);
     const height = this.doc.heightOfString(text, { width: CONTENT_WIDTH, lineGap: 2.2 });
     // Short paragraphs stay whole; long ones may flow over a page break.
     if (height < 80) this.keep(height);
@@ -168,7 +168,7 @@ export class PageWriter {
       this.keep(h + 3);
       const y = this.doc.y;
       this.doc.fillColor(ACCENT).text('\u2013', MARGIN.left, y, { width: indent, lineBreak: false });
-      this.doc.fillColor(options.muted ? MUTED : INK);
+      this.doc.fillColor(options.muted ? INK_SOFT : INK);
       if (item.lead) {
         this.doc.font(FONT_BOLD).text(`${item.lead} `, MARGIN.left + indent, y, { ...opts, continued: true });
         this.doc.font(FONT_REGULAR).text(item.text, opts);
@@ -189,7 +189,7 @@ export class PageWriter {
       );
       this.keep(h + 4);
       const y = this.doc.y;
-      this.doc.fillColor(MUTED).text(label, MARGIN.left, y, { width: labelWidth - 8 });
+      this.doc.fillColor(INK_SOFT).text(label, MARGIN.left, y, { width: labelWidth - 8 });
       this.doc.fillColor(INK).text(value, MARGIN.left + labelWidth, y, {
         width: CONTENT_WIDTH - labelWidth,
         features: [...TNUM],
@@ -238,7 +238,7 @@ export class PageWriter {
       drawRow(
         columns.map((c) => c.header),
         FONT_BOLD,
-        MUTED,
+        INK_SOFT,
         y,
         h,
         headerSize,
@@ -264,9 +264,9 @@ export class PageWriter {
       }
       const y = this.doc.y;
       if (row.total) this.rule(y, INK, 0.6);
-      drawRow(row.cells, font, row.muted ? MUTED : INK, y, h);
+      drawRow(row.cells, font, row.muted ? INK_SOFT : INK, y, h);
       this.doc.y = y + h;
-      if (!row.total && r < rows.length - 1 && !rows[r + 1].total) this.rule(this.doc.y, FAINT, 0.5);
+      if (!row.total && r < rows.length - 1 && !rows[r + 1].total) this.rule(this.doc.y, RULE_SOFT, 0.5);
     });
     this.rule(this.doc.y, RULE, 0.7);
     this.doc.fillColor(INK).font(FONT_REGULAR).fontSize(SIZE.body);
@@ -307,7 +307,7 @@ export class PageWriter {
     this.doc
       .font(FONT_REGULAR)
       .fontSize(SIZE.small)
-      .fillColor(MUTED)
+      .fillColor(INK_SOFT)
       .text(caption, MARGIN.left, this.doc.y, { width: CONTENT_WIDTH, lineGap: 1.5 });
     this.doc.fillColor(INK).fontSize(SIZE.body);
     this.space(10);
@@ -323,7 +323,7 @@ export class PageWriter {
       this.doc.page.margins.bottom = 0;
       const y = PAGE.height - MARGIN.bottom + 30;
       this.rule(y - 6, RULE, 0.5);
-      this.doc.font(FONT_REGULAR).fontSize(7).fillColor(MUTED);
+      this.doc.font(FONT_REGULAR).fontSize(7).fillColor(INK_SOFT);
       // One line: whatever does not fit ends in an ellipsis.
       let text = left(i + 1, range.count);
       const room = CONTENT_WIDTH - 90;

@@ -2,7 +2,7 @@ import type { EstimatorSpec } from '../../shared-core/scenario/estimator-spec.js
 import type { ObjectiveSpec } from '../../shared-core/scenario/objective-spec.js';
 import { mergedConstraints } from '../../shared-core/scenario/run-scenario.js';
 import type { Constraints, Scenario } from '../../shared-core/scenario/schema.js';
-import { formatPct, listInWords } from './format.js';
+import { formatPct, listInWords } from '../../shared-core/present/format.js';
 
 /** The scenario's settings in the sentences the memo prints (method and data, candidates). */
 

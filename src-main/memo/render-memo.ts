@@ -20,11 +20,11 @@ import {
   formatTrade,
   listInWords,
   ordinal,
-} from './format.js';
+} from '../../shared-core/present/format.js';
 import { memoHash } from './memo-hash.js';
 import type { MemoInput } from './memo-input.js';
 import { buildView, type MemoView } from './memo-view.js';
-import { AMBER, candidateColour, INK, MUTED, RULE } from './palette.js';
+import { AMBER, candidateColour, INK, INK_SOFT, RULE } from '../../shared-core/present/palette.js';
 import { CONTENT_WIDTH, MARGIN, PageWriter, SIZE, type BulletItem, type Column, type TableRow } from './page-writer.js';
 import { FONT_BOLD, FONT_REGULAR } from './fonts.js';
 import {
@@ -100,7 +100,7 @@ function cover(w: PageWriter, v: MemoView): void {
   const { input } = v;
   const doc = w.doc;
   doc.y = 150;
-  doc.font(FONT_REGULAR).fontSize(10).fillColor(MUTED).text('ALLOCATION MEMO', MARGIN.left, doc.y, {
+  doc.font(FONT_REGULAR).fontSize(10).fillColor(INK_SOFT).text('ALLOCATION MEMO', MARGIN.left, doc.y, {
     characterSpacing: 1.6,
   });
   w.space(10);
@@ -762,11 +762,11 @@ function cautions(w: PageWriter, v: MemoView, title: string): void {
     w.doc.font(FONT_BOLD).fontSize(SIZE.body).fillColor(INK).text(heading, x, top, { width: colW });
     let y = top + 22;
     for (const line of lines) {
-      w.rule(y + 16, MUTED, 0.5, x, x + colW);
+      w.rule(y + 16, INK_SOFT, 0.5, x, x + colW);
       w.doc
         .font(FONT_REGULAR)
         .fontSize(SIZE.small)
-        .fillColor(MUTED)
+        .fillColor(INK_SOFT)
         .text(line, x, y + 19, { width: colW });
       y += 38;
     }

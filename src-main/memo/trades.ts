@@ -1,4 +1,4 @@
-import { roundHalfAway } from './format.js';
+import { roundHalfAway } from '../../shared-core/present/format.js';
 
 /**
  * The trades that take the household from its holdings to the target weights, in the base

@@ -1,7 +1,7 @@
 import { memo, useMemo } from 'react';
 import { formatPercent, formatRatio } from '../scenario/format.js';
 import { ChartFigure } from './EChart.js';
-import { FONT, INK, RULE } from './palette.js';
+import { FONT, INK, RULE } from '../../shared-core/present/palette.js';
 
 export interface ScatterPoint {
   id: string;

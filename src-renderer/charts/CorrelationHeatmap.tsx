@@ -1,7 +1,7 @@
 import { memo, useMemo } from 'react';
 import { formatRatio } from '../scenario/format.js';
 import { ChartFigure } from './EChart.js';
-import { DIVERGING, FONT, INK } from './palette.js';
+import { DIVERGING, FONT, INK } from '../../shared-core/present/palette.js';
 
 /** The most and least correlated pairs, in words. */
 export function correlationFinding(assets: readonly string[], correlation: readonly number[]): string {

@@ -2,15 +2,15 @@ import { memo, useMemo } from 'react';
 import type { EstimateView } from '../worker/comparison.js';
 import { formatPercent, formatRatio, formatSignedPercent } from '../scenario/format.js';
 import { ChartFigure } from './EChart.js';
-import { FONT, INK, INK_SOFT, RULE } from './palette.js';
+import { ESTIMATE_COLOURS, FONT, INK, INK_SOFT, RULE } from '../../shared-core/present/palette.js';
 
 /** Greys and marks for estimates (candidate colours belong to candidates, not estimators). */
 const ESTIMATE_STYLES = [
-  { colour: '#1F2328', symbol: 'circle' },
-  { colour: '#6E747C', symbol: 'triangle' },
-  { colour: '#A39C8F', symbol: 'rect' },
-  { colour: '#3F6E73', symbol: 'diamond' },
-  { colour: '#8C6B3E', symbol: 'pin' },
+  { colour: ESTIMATE_COLOURS[0], symbol: 'circle' },
+  { colour: ESTIMATE_COLOURS[1], symbol: 'triangle' },
+  { colour: ESTIMATE_COLOURS[2], symbol: 'rect' },
+  { colour: ESTIMATE_COLOURS[3], symbol: 'diamond' },
+  { colour: ESTIMATE_COLOURS[4], symbol: 'pin' },
 ];
 
 export function differenceFinding(estimates: readonly EstimateView[]): string {

@@ -1,7 +1,7 @@
 import { memo, useMemo } from 'react';
 import { formatPercent } from '../scenario/format.js';
 import { ChartFigure } from './EChart.js';
-import { FONT, INK, INK_SOFT, RULE } from './palette.js';
+import { FONT, INK, INK_SOFT, RULE } from '../../shared-core/present/palette.js';
 
 export interface WeightRow {
   asset: string;

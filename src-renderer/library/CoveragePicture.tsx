@@ -2,6 +2,18 @@ import { useId } from 'react';
 import type { Coverage } from '../../shared-core/contract/service-api.js';
 import { formatDate } from '../scenario/format.js';
 import { commonSpan, coverageFinding, dayNumber, isSparse, runsOf, yearTicks } from './coverage-layout.js';
+import {
+  ACCENT,
+  ACCENT_WASH,
+  AMBER,
+  AMBER_WASH,
+  INK,
+  INK_SOFT,
+  PAPER_DEEP,
+  RULE,
+  RULE_SOFT,
+  SHEET,
+} from '../../shared-core/present/palette.js';
 
 const WIDTH = 1000;
 const LABEL = 150;
@@ -57,8 +69,8 @@ export function CoveragePicture({
       >
         <defs>
           <pattern id={`${id}-hatch`} width="6" height="6" patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
-            <rect width="6" height="6" fill="#fbf0dc" />
-            <line x1="0" y1="0" x2="0" y2="6" stroke="#a35f00" strokeWidth="2.2" />
+            <rect width="6" height="6" fill={AMBER_WASH} />
+            <line x1="0" y1="0" x2="0" y2="6" stroke={AMBER} strokeWidth="2.2" />
           </pattern>
         </defs>
         {span ? (
@@ -67,13 +79,13 @@ export function CoveragePicture({
             y={TOP - 4}
             width={Math.max(1, x(span.to) - x(span.from))}
             height={coverage.assets.length * ROW + 4}
-            fill="#e3eeee"
+            fill={ACCENT_WASH}
           />
         ) : null}
         {yearTicks(coverage.firstDate, coverage.lastDate).map((t) => (
           <g key={t}>
-            <line x1={x(t)} x2={x(t)} y1={TOP - 6} y2={height - 4} stroke="#d9d3c7" strokeWidth="1" />
-            <text x={x(t)} y={TOP - 10} fontSize="11" textAnchor="middle" fill="#4a5058">
+            <line x1={x(t)} x2={x(t)} y1={TOP - 6} y2={height - 4} stroke={RULE} strokeWidth="1" />
+            <text x={x(t)} y={TOP - 10} fontSize="11" textAnchor="middle" fill={INK_SOFT}>
               {t.slice(0, 4)}
             </text>
           </g>
@@ -88,19 +100,26 @@ export function CoveragePicture({
               style={onSelect ? { cursor: 'pointer' } : undefined}
             >
               <title>{`${a.asset}: ${a.observations} prices${a.firstDate ? `, ${a.firstDate} to ${a.lastDate}` : ''}${a.gaps.length ? `, ${a.gaps.length} gap(s)` : ''}`}</title>
-              {isSelected ? <rect x={0} y={y} width={WIDTH} height={ROW} fill="#f2eee6" /> : null}
+              {isSelected ? <rect x={0} y={y} width={WIDTH} height={ROW} fill={PAPER_DEEP} /> : null}
               <text
                 x={LABEL - 8}
                 y={y + ROW / 2 + 4}
                 fontSize="12"
                 textAnchor="end"
-                fill="#1f2328"
+                fill={INK}
                 fontWeight={isSelected ? 700 : 400}
                 fontFamily="DejaVu Sans Mono, monospace"
               >
                 {a.asset}
               </text>
-              <line x1={LABEL} x2={WIDTH - RIGHT} y1={y + ROW / 2} y2={y + ROW / 2} stroke="#e8e3d9" strokeWidth="1" />
+              <line
+                x1={LABEL}
+                x2={WIDTH - RIGHT}
+                y1={y + ROW / 2}
+                y2={y + ROW / 2}
+                stroke={RULE_SOFT}
+                strokeWidth="1"
+              />
               {runsOf(a).map((r, i) =>
                 r.kind === 'prices' ? (
                   <rect
@@ -109,8 +128,8 @@ export function CoveragePicture({
                     y={y + 5}
                     width={Math.max(1.5, x(r.to) - x(r.from))}
                     height={ROW - 10}
-                    fill={isSparse(a) ? '#ffffff' : '#1d5c63'}
-                    stroke="#1d5c63"
+                    fill={isSparse(a) ? SHEET : ACCENT}
+                    stroke={ACCENT}
                     strokeWidth={isSparse(a) ? 1.5 : 0}
                   />
                 ) : (
@@ -121,13 +140,13 @@ export function CoveragePicture({
                     width={Math.max(3, x(r.to) - x(r.from))}
                     height={ROW - 6}
                     fill={`url(#${id}-hatch)`}
-                    stroke="#a35f00"
+                    stroke={AMBER}
                     strokeWidth="1"
                   />
                 ),
               )}
               {isSparse(a) && a.lastDate ? (
-                <text x={x(a.lastDate) - 4} y={y + ROW / 2 + 3.5} fontSize="9.5" textAnchor="end" fill="#1d5c63">
+                <text x={x(a.lastDate) - 4} y={y + ROW / 2 + 3.5} fontSize="9.5" textAnchor="end" fill={ACCENT}>
                   monthly
                 </text>
               ) : null}
@@ -138,25 +157,25 @@ export function CoveragePicture({
       <div className="faint" style={{ display: 'flex', gap: '1.4rem', marginTop: '0.3rem' }} aria-hidden="true">
         <span>
           <svg width="22" height="10">
-            <rect width="22" height="10" fill="#1d5c63" />
+            <rect width="22" height="10" fill={ACCENT} />
           </svg>{' '}
           daily prices
         </span>
         <span>
           <svg width="22" height="10">
-            <rect x="0.75" y="0.75" width="20.5" height="8.5" fill="#fff" stroke="#1d5c63" strokeWidth="1.5" />
+            <rect x="0.75" y="0.75" width="20.5" height="8.5" fill={SHEET} stroke={ACCENT} strokeWidth="1.5" />
           </svg>{' '}
           monthly prices
         </span>
         <span>
           <svg width="22" height="10">
-            <rect width="22" height="10" fill={`url(#${id}-hatch)`} stroke="#a35f00" />
+            <rect width="22" height="10" fill={`url(#${id}-hatch)`} stroke={AMBER} />
           </svg>{' '}
           gap
         </span>
         <span>
           <svg width="22" height="10">
-            <rect width="22" height="10" fill="#e3eeee" />
+            <rect width="22" height="10" fill={ACCENT_WASH} />
           </svg>{' '}
           every asset priced
         </span>

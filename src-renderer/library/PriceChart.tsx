@@ -4,6 +4,7 @@ import { formatDate, formatSignedPercent } from '../scenario/format.js';
 import { EChart } from '../charts/EChart.js';
 import type { EChartsOption } from '../charts/echarts-setup.js';
 import './price-chart-setup.js';
+import { ACCENT, INK, INK_FAINT, INK_SOFT, RULE, RULE_SOFT, SHEET } from '../../shared-core/present/palette.js';
 
 /** Last close of each calendar month: the table behind the chart. */
 export function monthEndCloses(series: PriceSeries): { date: string; close: number }[] {
@@ -29,17 +30,17 @@ export function PriceChart({ series }: { series: PriceSeries }) {
   const option = useMemo<EChartsOption>(
     () => ({
       animation: false,
-      textStyle: { fontFamily: 'DejaVu Sans, sans-serif', color: '#1f2328' },
+      textStyle: { fontFamily: 'DejaVu Sans, sans-serif', color: INK },
       grid: { left: 64, right: 24, top: 16, bottom: 64 },
       tooltip: { trigger: 'axis', valueFormatter: (v: unknown) => closeText(Number(v)) },
       xAxis: {
         type: 'time',
-        axisLine: { lineStyle: { color: '#4a5058' } },
-        axisLabel: { color: '#4a5058' },
+        axisLine: { lineStyle: { color: INK_SOFT } },
+        axisLabel: { color: INK_SOFT },
         splitLine: { show: false },
       },
       yAxis: {
-        axisLabel: { color: '#4a5058' },
+        axisLabel: { color: INK_SOFT },
         type: logScale ? 'log' : 'value',
         scale: true,
         // A log axis would otherwise run from decade to decade and flatten the line.
@@ -48,15 +49,15 @@ export function PriceChart({ series }: { series: PriceSeries }) {
               min: (v: { min: number }) => Number((v.min * 0.92).toPrecision(2)),
               max: (v: { max: number }) => Number((v.max * 1.08).toPrecision(2)),
               axisLabel: {
-                color: '#4a5058',
+                color: INK_SOFT,
                 showMinLabel: false,
                 formatter: (value: number) => value.toLocaleString(),
               },
             }
           : {}),
         name: series.currency ?? 'price',
-        nameTextStyle: { color: '#4a5058', align: 'right' },
-        splitLine: { lineStyle: { color: '#ebe6dc' } },
+        nameTextStyle: { color: INK_SOFT, align: 'right' },
+        splitLine: { lineStyle: { color: RULE_SOFT } },
       },
       dataZoom: [
         { type: 'inside' },
@@ -64,14 +65,14 @@ export function PriceChart({ series }: { series: PriceSeries }) {
           type: 'slider',
           height: 20,
           bottom: 12,
-          borderColor: '#d9d3c7',
+          borderColor: RULE,
           fillerColor: 'rgba(29, 92, 99, 0.12)',
-          handleStyle: { color: '#ffffff', borderColor: '#1d5c63' },
-          moveHandleStyle: { color: '#1d5c63', opacity: 0.35 },
-          selectedDataBackground: { lineStyle: { color: '#1d5c63' }, areaStyle: { color: 'rgba(29, 92, 99, 0.18)' } },
-          emphasis: { handleStyle: { borderColor: '#1d5c63' }, moveHandleStyle: { color: '#1d5c63', opacity: 0.6 } },
-          textStyle: { color: '#4a5058' },
-          dataBackground: { lineStyle: { color: '#6e747c' }, areaStyle: { color: '#e8e3d9' } },
+          handleStyle: { color: SHEET, borderColor: ACCENT },
+          moveHandleStyle: { color: ACCENT, opacity: 0.35 },
+          selectedDataBackground: { lineStyle: { color: ACCENT }, areaStyle: { color: 'rgba(29, 92, 99, 0.18)' } },
+          emphasis: { handleStyle: { borderColor: ACCENT }, moveHandleStyle: { color: ACCENT, opacity: 0.6 } },
+          textStyle: { color: INK_SOFT },
+          dataBackground: { lineStyle: { color: INK_FAINT }, areaStyle: { color: RULE_SOFT } },
           labelFormatter: (value: number) => new Date(value).toISOString().slice(0, 10),
         },
       ],
@@ -81,8 +82,8 @@ export function PriceChart({ series }: { series: PriceSeries }) {
           name: series.asset,
           showSymbol: false,
           sampling: 'lttb',
-          lineStyle: { width: 1.4, color: '#1d5c63' },
-          itemStyle: { color: '#1d5c63' },
+          lineStyle: { width: 1.4, color: ACCENT },
+          itemStyle: { color: ACCENT },
           data: series.dates.map((d, i) => [d, series.closes[i]]),
         },
       ],

@@ -1,67 +1,54 @@
 /**
  * How figures read on screen (design notes): weights and volatilities as percentages with one
  * decimal, ratios with two, currency with thousands separators and its ISO 4217 code, dates in
- * the user's locale. Every screen figure goes through one of these, so they never disagree.
+ * the user's locale. The digits come from the memo's formatter (shared-core/present/format.ts);
+ * this module only adds the locale's notation and reads a missing figure as a dash.
  */
+
+import {
+  DASH,
+  formatDay,
+  formatInstant,
+  formatMoney,
+  formatPct,
+  formatRatio2,
+  formatSignedPct,
+  notationFor,
+} from '../../shared-core/present/format.js';
 
 /** `undefined` means the browser's own locale. */
 export type Locale = string | undefined;
 
-const cache = new Map<string, Intl.NumberFormat>();
-
-function numberFormat(locale: Locale, options: Intl.NumberFormatOptions): Intl.NumberFormat {
-  const key = `${locale ?? ''}|${JSON.stringify(options)}`;
-  let format = cache.get(key);
-  if (!format) {
-    format = new Intl.NumberFormat(locale, options);
-    cache.set(key, format);
-  }
-  return format;
-}
-
-const DASH = '\u2013';
+type Figure = number | null | undefined;
 
 /** 0.1234 -> "12.3%". Not-a-number reads as an en dash, never "NaN%". */
-export function formatPercent(value: number | null | undefined, locale?: Locale, digits = 1): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return DASH;
-  // Avoid "-0.0%" for tiny negative solver noise.
-  const rounded = Math.abs(value) < 0.5 * 10 ** -(digits + 2) ? 0 : value;
-  return numberFormat(locale, {
-    style: 'percent',
-    minimumFractionDigits: digits,
-    maximumFractionDigits: digits,
-  }).format(rounded);
+export function formatPercent(value: Figure, locale?: Locale, digits = 1): string {
+  return value === null || value === undefined ? DASH : formatPct(value, notationFor(locale), digits);
 }
 
 /** Signed percentage points for differences: 0.021 -> "+2.1%". */
-export function formatSignedPercent(value: number | null | undefined, locale?: Locale, digits = 1): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return DASH;
-  const text = formatPercent(Math.abs(value), locale, digits);
-  if (text === formatPercent(0, locale, digits)) return text;
-  return `${value < 0 ? '\u2212' : '+'}${text}`;
+export function formatSignedPercent(value: Figure, locale?: Locale, digits = 1): string {
+  return value === null || value === undefined ? DASH : formatSignedPct(value, notationFor(locale), digits);
 }
 
 /** Diversification ratio, effective bets and holdings: two decimals. */
-export function formatRatio(value: number | null | undefined, locale?: Locale): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return DASH;
-  return numberFormat(locale, { minimumFractionDigits: 2, maximumFractionDigits: 2 }).format(value);
+export function formatRatio(value: Figure, locale?: Locale): string {
+  return value === null || value === undefined ? DASH : formatRatio2(value, notationFor(locale));
 }
 
-/** 1234567.4, "EUR" -> "EUR 1,234,567" (whole units: trade lists are read, not booked). */
-export function formatCurrency(amount: number | null | undefined, currency: string, locale?: Locale): string {
-  if (amount === null || amount === undefined || !Number.isFinite(amount)) return DASH;
-  // Half away from zero, as a person rounds money (Math.round sends -0.5 up).
-  const whole = Math.sign(amount) * Math.round(Math.abs(amount));
-  const digits = numberFormat(locale, { maximumFractionDigits: 0, useGrouping: true }).format(Math.abs(whole));
-  return `${whole < 0 ? '\u2212' : ''}${currency} ${digits}`;
+/** 1234567.4, "EUR" -> "1,234,567 EUR", as the memo prints it (whole units: trade lists are read, not booked). */
+export function formatCurrency(amount: Figure, currency: string, locale?: Locale): string {
+  return amount === null || amount === undefined ? DASH : formatMoney(amount, currency, 0, notationFor(locale));
 }
 
 /** "2024-03-31" -> the locale's medium date, read in UTC so the day never shifts. */
 export function formatDate(iso: string, locale?: Locale): string {
-  const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(iso);
-  if (!match) return iso;
-  const date = new Date(Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3])));
-  return new Intl.DateTimeFormat(locale, { dateStyle: 'medium', timeZone: 'UTC' }).format(date);
+  return formatDay(iso, locale);
+}
+
+/** "2026-12-05T11:44:18Z" -> the locale's medium date and short time. */
+export function formatDateTime(iso: string, locale?: Locale): string {
+  return formatInstant(iso, locale);
 }
 
 /** Milliseconds for the busy line: "84 ms", "1.2 s". */

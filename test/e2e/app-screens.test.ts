@@ -173,9 +173,9 @@ describeInBrowser('households and price library in Chromium', () => {
     const table = page.getByRole('table').filter({ hasText: 'Market values as of' });
     await table.waitFor();
     const firstRow = table.locator('tbody tr', { hasText: first });
-    expect(await firstRow.locator('td').nth(2).innerText()).toBe('EUR 1,250,000');
+    expect(await firstRow.locator('td').nth(2).innerText()).toBe('1,250,000 EUR');
     expect(await firstRow.locator('td').nth(4).innerText()).toBe('62.5%');
-    expect(await table.locator('tfoot td').first().innerText()).toBe('EUR 2,000,000');
+    expect(await table.locator('tfoot td').first().innerText()).toBe('2,000,000 EUR');
   });
 
   it('signs the work with the initials from settings and starts a scenario at revision 1', async () => {
@@ -215,7 +215,7 @@ describeInBrowser('households and price library in Chromium', () => {
     await page.getByRole('table').filter({ hasText: 'Market values as of' }).waitFor();
     await page.getByRole('link', { name: 'Households', exact: true }).first().click();
     const row = page.locator('table.grid tbody tr', { hasText: 'Invented Aalto-Berg household' });
-    expect(await row.locator('td').nth(2).innerText()).toBe('EUR 2,000,000');
+    expect(await row.locator('td').nth(2).innerText()).toBe('2,000,000 EUR');
     await app.screenshot('app-households');
     expect(app.consoleErrors).toEqual([]);
     expect(app.foreignRequests).toEqual([]);
@@ -247,7 +247,7 @@ describeInBrowser('the demonstration store on the household screens in Chromium'
     // Valued at the stored USD/EUR series (the demo's FX file), so not the dollar figure again.
     const inEur = await usdRow.locator('td').nth(3).innerText();
     expect(inEur).toMatch(/^EUR [\d,]+$/);
-    expect(inEur).not.toBe(`EUR ${usd.amount.toLocaleString('en-US')}`);
+    expect(inEur).not.toBe(`${usd.amount.toLocaleString('en-US')} EUR`);
     expect(await page.getByText(/^Exchange rates: USD to EUR /).count()).toBe(1);
     expect(await table.locator('tbody tr').count()).toBe(demo.holdings.length);
     await page.getByRole('article').first().waitFor();

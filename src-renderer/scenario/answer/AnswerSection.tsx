@@ -4,7 +4,7 @@ import type { Scenario } from '../../../shared-core/scenario/schema.js';
 import { CandidateScatter, type ScatterPoint } from '../../charts/CandidateScatter.js';
 import { CorrelationHeatmap } from '../../charts/CorrelationHeatmap.js';
 import { EstimateDifferenceChart } from '../../charts/EstimateDifferenceChart.js';
-import { candidateColour, candidateSymbol } from '../../charts/palette.js';
+import { candidateColour, candidateSymbol } from '../../../shared-core/present/palette.js';
 import { RiskContributionChart, sortByTarget, WeightsChart } from '../../charts/WeightsChart.js';
 import { sameNumberRecord, sameNumbers, sameRows, sameStrings, useStable } from '../../charts/use-stable.js';
 import type { Comparison, EstimateView } from '../../worker/comparison.js';

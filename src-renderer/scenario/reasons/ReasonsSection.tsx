@@ -1,6 +1,6 @@
 import { memo, type ReactNode } from 'react';
 import type { CandidateResult } from '../../../shared-core/optimise/result.js';
-import { candidateColour } from '../../charts/palette.js';
+import { candidateColour } from '../../../shared-core/present/palette.js';
 import { formatPercent } from '../format.js';
 
 /**

@@ -1,7 +1,7 @@
 import { memo, useMemo } from 'react';
 import type { BacktestRun, CandidateBacktest } from '../../../shared-core/walkforward/run-backtest.js';
 import { ChartFigure } from '../../charts/EChart.js';
-import { candidateColour, candidateSymbol, FONT, INK, INK_SOFT, RULE } from '../../charts/palette.js';
+import { candidateColour, candidateSymbol, FONT, INK, INK_SOFT, RULE } from '../../../shared-core/present/palette.js';
 import { formatDate, formatPercent, formatRatio, formatSignedPercent } from '../format.js';
 import { drawdowns, thinIndices } from './series.js';
 

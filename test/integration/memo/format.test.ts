@@ -8,7 +8,7 @@ import {
   formatTrade,
   formatWeightChange,
   MINUS,
-} from '../../../src-main/memo/format.js';
+} from '../../../shared-core/present/format.js';
 
 describe('memo number formatting', () => {
   it("rounds weights exactly as the app's screens do (Intl.NumberFormat percent, ICU half-expand) for 20,000 seeded weights and every tie", () => {

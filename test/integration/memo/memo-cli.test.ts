@@ -13,7 +13,7 @@ import type { CliIO } from '../../../src-main/cli/command.js';
 import { runCli } from '../../../src-main/cli/run-cli.js';
 import { createDemoStore } from '../../../src-main/demo/create-demo-store.js';
 import { writeDemoFiles } from '../../../src-main/demo/write-demo-files.js';
-import { formatPct, formatPercent1, formatRatio2 } from '../../../src-main/memo/format.js';
+import { formatPct, formatPercent1, formatRatio2 } from '../../../shared-core/present/format.js';
 import { CAUTIONS, SECTION_TITLES } from '../../../src-main/memo/render-memo.js';
 import { sha256Hex } from '../../../src-main/store/canonical-json.js';
 import { openStore } from '../../../src-main/store/store.js';

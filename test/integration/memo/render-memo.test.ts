@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { InputError } from '../../../shared-core/errors.js';
-import { formatPercent1, MINUS } from '../../../src-main/memo/format.js';
+import { formatPercent1, MINUS } from '../../../shared-core/present/format.js';
 import { memoHash } from '../../../src-main/memo/memo-hash.js';
 import type { MemoInput } from '../../../src-main/memo/memo-input.js';
 import { CAUTIONS, renderMemo, SECTION_TITLES } from '../../../src-main/memo/render-memo.js';

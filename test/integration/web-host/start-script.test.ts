@@ -1,11 +1,11 @@
 import { spawn } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { chmodSync, existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 // @ts-expect-error: a plain .mjs script without type declarations
-import { electronRuntime, userDataDir } from '../../../scripts/start.mjs';
+import { appBrowser, appWindowArgs, electronRuntime, userDataDir } from '../../../scripts/start.mjs';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '../../..');
 
@@ -40,6 +40,63 @@ describe('npm start (scripts/start.mjs)', () => {
     expect(userDataDir({ HOLDFAST_USER_DATA: '/tmp/h' }, 'linux', '/home/a')).toBe('/tmp/h');
   });
 
+  it("picks the app window's browser: $HOLDFAST_BROWSER, else an installed Chromium or Chrome, and needs a display on Linux", () => {
+    const only =
+      (...paths: string[]) =>
+      (p: string) =>
+        paths.includes(p);
+    expect(appBrowser({ DISPLAY: ':0' }, 'linux', only('/usr/bin/google-chrome'))).toEqual({
+      found: true,
+      path: '/usr/bin/google-chrome',
+    });
+    expect(appBrowser({ DISPLAY: ':0' }, 'linux', only('/usr/bin/chromium', '/usr/bin/google-chrome')).path).toBe(
+      '/usr/bin/chromium',
+    );
+    expect(appBrowser({}, 'linux', only('/usr/bin/chromium')).reason).toMatch(/no display/);
+    expect(appBrowser({ DISPLAY: ':0' }, 'linux', only()).reason).toMatch(/no Chromium or Chrome/);
+    expect(appBrowser({ HOLDFAST_BROWSER: 'none', DISPLAY: ':0' }, 'linux', only('/usr/bin/chromium')).found).toBe(
+      false,
+    );
+    expect(appBrowser({ HOLDFAST_BROWSER: '/opt/b', DISPLAY: ':0' }, 'linux', only('/opt/b')).path).toBe('/opt/b');
+    expect(appBrowser({}, 'darwin', only('/Applications/Chromium.app/Contents/MacOS/Chromium')).found).toBe(true);
+    expect(appWindowArgs('http://127.0.0.1:1/#token=x', '/p')).toEqual([
+      '--app=http://127.0.0.1:1/#token=x',
+      '--user-data-dir=/p',
+      '--no-first-run',
+      '--no-default-browser-check',
+    ]);
+  });
+
+  it('without Electron but with a browser and a display: opens the address in an app window', async () => {
+    const userData = mkdtempSync(join(tmpdir(), 'holdfast-userdata-'));
+    const record = join(userData, 'browser-args.txt');
+    const fake = join(userData, 'fake-browser.sh');
+    writeFileSync(fake, `#!/bin/sh\nprintf '%s\\n' "$@" > '${record}'\n`);
+    chmodSync(fake, 0o755);
+    const child = spawn(process.execPath, [join(root, 'scripts', 'start.mjs'), '--no-build'], {
+      cwd: root,
+      env: {
+        ...process.env,
+        DISPLAY: ':99',
+        HOLDFAST_BROWSER: fake,
+        HOLDFAST_USER_DATA: userData,
+        ELECTRON_OVERRIDE_DIST_PATH: mkdtempSync(join(tmpdir(), 'holdfast-no-electron-')),
+      },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    let out = '';
+    child.stdout.on('data', (c) => (out += c));
+    const exited = new Promise<number | null>((r) => child.on('exit', (code) => r(code)));
+    for (let i = 0; i < 600 && !existsSync(record); i++) await new Promise((r) => setTimeout(r, 50));
+    await new Promise((r) => setTimeout(r, 100));
+    child.kill('SIGINT');
+    expect(await exited).toBe(0);
+    const address = /Open (http:\/\/127\.0\.0\.1:\d+\/#token=\S+)/.exec(out)?.[1];
+    expect(address, out).toBeDefined();
+    expect(out).toContain(`Opened an app window in ${fake}`);
+    expect(readFileSync(record, 'utf8').split('\n')).toContain(`--app=${address}`);
+  });
+
   it('without Electron: says so in one line, serves the demo store on loopback, prints the address, stops on Ctrl-C', async () => {
     if (!existsSync(join(root, 'dist', 'src-main', 'cli', 'run-cli.js')))
       throw new Error('dist/ is not built: run npm run build (npm test does) before this test');
@@ -48,6 +105,7 @@ describe('npm start (scripts/start.mjs)', () => {
       cwd: root,
       env: {
         ...process.env,
+        HOLDFAST_BROWSER: 'none',
         HOLDFAST_USER_DATA: userData,
         ELECTRON_OVERRIDE_DIST_PATH: mkdtempSync(join(tmpdir(), 'holdfast-no-electron-')),
       },

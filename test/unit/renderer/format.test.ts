@@ -8,6 +8,7 @@ import {
   parsePercentInput,
   percentInputText,
 } from '../../../src-renderer/scenario/format.js';
+import { formatPct } from '../../../shared-core/present/format.js';
 
 // The rules are the design notes' (weights and volatilities: per cent, one decimal; ratios: two
 // decimals; currency: thousands separators and the ISO 4217 code; dates in the user's locale).
@@ -31,9 +32,28 @@ describe('screen formatting', () => {
   });
 
   it('groups currency thousands and names the ISO 4217 code', () => {
-    expect(formatCurrency(1234567.4, 'EUR', 'en-GB')).toBe('EUR 1,234,567');
-    expect(formatCurrency(-98765.5, 'CHF', 'en-GB')).toBe('\u2212CHF 98,766');
-    expect(formatCurrency(1234567, 'EUR', 'de-DE')).toBe('EUR 1.234.567');
+    expect(formatCurrency(1234567.4, 'EUR', 'en-GB')).toBe('1,234,567 EUR');
+    expect(formatCurrency(-98765.5, 'CHF', 'en-GB')).toBe('\u221298,766 CHF');
+    expect(formatCurrency(1234567, 'EUR', 'de-DE')).toBe('1.234.567 EUR');
+  });
+
+  it('prints the digits the memo prints (one formatter): half away from zero on the shortest decimal form', () => {
+    // 0.1235 is 12.35% exactly as written, so it rounds up, as ICU does; (0.1235 * 100).toFixed(1) gives 12.3.
+    expect(formatPercent(0.1235, 'en-GB')).toBe(formatPct(0.1235));
+    expect(formatPercent(0.1235, 'en-GB')).toBe('12.4%');
+    for (const w of [0.0005, 0.12345, 0.9995, 0.333333, 0.125, 0.0349999])
+      expect(formatPercent(w, 'en-GB')).toBe(
+        new Intl.NumberFormat('en-GB', { style: 'percent', minimumFractionDigits: 1, maximumFractionDigits: 1 }).format(
+          w,
+        ),
+      );
+  });
+
+  it("writes the locale's separators and per cent sign, the same digits", () => {
+    expect(formatPercent(0.1234, 'de-DE')).toBe('12,3\u00a0%');
+    expect(formatPercent(0.1234, 'fr-FR')).toBe(
+      new Intl.NumberFormat('fr-FR', { style: 'percent', minimumFractionDigits: 1 }).format(0.1234),
+    );
   });
 
   it('reads ISO dates in UTC so the day does not shift with the time zone', () => {
