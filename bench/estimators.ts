@@ -8,9 +8,6 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { tridiagonalForm } from '../shared-core/linalg/tridiagonal-form.js';
-import { formEigenvalues } from '../shared-core/linalg/symmetric-eigen.js';
-import { twoThreadCrossProduct } from '../src-main/compute/two-thread-cross-product.js';
-import { twoThreadTridiagonal } from '../src-main/compute/two-thread-tridiagonal.js';
 import { zeros, type Matrix } from '../shared-core/linalg/matrix.js';
 import { timeMedian, type BenchFigure, type BenchSuite } from './harness.js';
 
@@ -38,7 +35,7 @@ const gflops = (madds: number, ms: number) => ((2 * madds) / (ms * 1e6)).toFixed
 /**
  * `ledoit-wolf` at N = 1500 assets, T = 1260 daily returns (target 1.0 s in-process, estimators
  * issue), and the cross product X'X that dominates it: the register-blocked kernel beside the
- * textbook loop, ml-matrix 6.15.1's general product and the same kernel on two threads.
+ * textbook loop and ml-matrix 6.15.1's general product.
  */
 export const estimatorsSuite: BenchSuite = {
   name: 'estimators',
@@ -87,37 +84,6 @@ export const estimatorsSuite: BenchSuite = {
       notes: `ml-matrix ${gflops(N * N * T, mlMs)} GFLOP/s on its ${((N * N * T) / 1e9).toFixed(3)} G multiply-adds`,
     });
 
-    // The edge's two-thread X'X, as holdfast estimate and holdfast solve run it.
-    twoThreadCrossProduct(x); // starts the worker thread once, outside the timing
-    const threaded = await timeMedian(() => twoThreadCrossProduct(x), 5);
-    const check = twoThreadCrossProduct(x).data;
-    const single = crossProduct(x).data;
-    let diff = 0;
-    for (let k = 0; k < check.length; k++) diff = Math.max(diff, Math.abs(check[k] - single[k]));
-    figures.push({
-      label: `X'X kernel on two threads (src-main/compute, the command line's) N=${N} T=${T}`,
-      medianMs: threaded,
-      peerMs: kernel,
-      peerLabel: 'one thread',
-      notes: `${gflops(crossMadds, threaded)} GFLOP/s; max difference from one thread ${diff.toExponential(1)}; the 2 cores are shared with every other process`,
-    });
-    const lwTwo = await timeMedian(
-      () =>
-        estimateCovariance(
-          returns,
-          { method: 'ledoit-wolf' },
-          { frequency: 'daily', crossProduct: twoThreadCrossProduct },
-        ),
-      5,
-    );
-    figures.push({
-      label: `ledoit-wolf scaled-identity N=${N} T=${T} with the two-thread X'X (as holdfast estimate runs it)`,
-      medianMs: lwTwo,
-      targetMs: 1000,
-      peerMs: lw,
-      peerLabel: 'one thread',
-      notes: `${gflops(lwMadds, lwTwo)} GFLOP/s`,
-    });
     figures.push(...(await reductionFigures(estimate.covariance)));
     return figures;
   },
@@ -137,19 +103,13 @@ print(json.dumps({"ms": sorted(times)[len(times) // 2], "largest": float(v[-1])}
 
 /**
  * The tridiagonal reduction behind the effective number of bets and the exact condition number
- * (linalg/tridiagonal-form.ts), on the shrunk N x N estimate: one thread, two threads (as
- * holdfast solve runs it) and numpy's eigvalsh on the same matrix, which also finds every
- * eigenvalue from one reduction.
+ * (linalg/tridiagonal-form.ts), on the shrunk N x N estimate, beside numpy's eigvalsh on the same
+ * matrix, which also finds every eigenvalue from one reduction.
  */
 async function reductionFigures(covariance: Matrix): Promise<BenchFigure[]> {
   const n = covariance.rows;
   const flops = (4 / 3) * n * n * n;
   const one = await timeMedian(() => tridiagonalForm(covariance), 3);
-  twoThreadTridiagonal(covariance); // starts the helper thread outside the timing
-  const two = await timeMedian(() => twoThreadTridiagonal(covariance), 3);
-  const viaTwo = formEigenvalues(twoThreadTridiagonal(covariance));
-  const viaOne = formEigenvalues(tridiagonalForm(covariance));
-  const same = viaTwo.every((v, k) => Object.is(v, viaOne[k]));
   const dir = mkdtempSync(join(tmpdir(), 'holdfast-bench-eig-'));
   const file = join(dir, 'a.f64');
   writeFileSync(file, Buffer.from(covariance.data.buffer, covariance.data.byteOffset, covariance.data.byteLength));
@@ -160,17 +120,10 @@ async function reductionFigures(covariance: Matrix): Promise<BenchFigure[]> {
   const rate = (ms: number) => (flops / (ms * 1e6)).toFixed(2);
   return [
     {
-      label: `tridiagonal reduction (effective bets, exact condition number) N=${n}, one thread`,
+      label: `tridiagonal reduction (effective bets, exact condition number) N=${n}`,
       medianMs: one,
       ...(peerMs !== undefined ? { peerMs, peerLabel: 'numpy eigvalsh (LAPACK, Debian BLAS)' } : {}),
       notes: `${rate(one)} GFLOP/s on 4/3 N^3 flops${peerMs === undefined ? '; python3 with numpy is absent: no peer' : ''}`,
-    },
-    {
-      label: `tridiagonal reduction N=${n} on two threads (src-main/compute, as holdfast solve runs it)`,
-      medianMs: two,
-      peerMs: one,
-      peerLabel: 'one thread',
-      notes: `${rate(two)} GFLOP/s; eigenvalues bit-identical to one thread: ${same ? 'yes' : 'NO'}; the 2 cores are shared with every other process`,
     },
   ];
 }

@@ -44,10 +44,9 @@ if (!cliOnly) {
  * starts `holdfast solve` about 0.1 s sooner. Each command's module stays a chunk of its own,
  * imported when the command runs. Packages other than zod stay outside (better-sqlite3 loads its
  * native binding, pdfkit its font data, both from their own folders). The rest of dist/ is left as
- * tsc wrote it: the helper thread (src-main/compute/compute-thread.js), the main process and
- * `npm start` use it. Every `import.meta.url` keeps meaning the URL of the module's own emitted
- * file, so paths found from it (package.json, the fonts, the renderer, the thread script) resolve
- * as before.
+ * tsc wrote it: the main process and `npm start` use it. Every `import.meta.url` keeps meaning the
+ * URL of the module's own emitted file, so paths found from it (package.json, the fonts, the
+ * renderer) resolve as before.
  */
 async function bundleCli(entry) {
   const { build } = await import('rolldown');

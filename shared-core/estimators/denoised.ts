@@ -21,7 +21,7 @@ export const denoisedCovariance: Estimator<Extract<EstimatorSpec, { method: 'den
   checkReturns(returns, 2, 'denoised');
   const t = returns.rows;
   const n = returns.cols;
-  const s = scatter(centred(returns), t - 1, context.crossProduct);
+  const s = scatter(centred(returns), t - 1);
   const sd = checkVariances(s, 'denoised').map(Math.sqrt);
   for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) s.data[i * n + j] /= sd[i] * sd[j];
   const { values, vectors } = symmetricEigen(s);

@@ -1,4 +1,4 @@
-import { conditionNumber, type ConditionNumber } from '../linalg/condition.js';
+import { conditionNumber } from '../linalg/condition.js';
 import type { Matrix } from '../linalg/matrix.js';
 import type { EstimateContext, EstimateDiagnostics } from './types.js';
 
@@ -20,23 +20,9 @@ export function diagnose(
   extra: Partial<EstimateDiagnostics> & Record<string, unknown> = {},
   options: DiagnoseOptions = {},
 ): EstimateDiagnostics {
-  const reduce = options.context?.tridiagonalise;
-  const pending =
-    options.singular || 'conditionNumber' in extra ? undefined : options.context?.tridiagonaliseAhead?.(covariance);
-  if (pending) {
-    // The reduction runs elsewhere: the figure is computed when it is first read, once, and reads
-    // as an ordinary enumerable property (JSON and copies see the number).
-    let condition: ConditionNumber | undefined;
-    const get = () => (condition ??= conditionNumber(covariance, options.knownSmallest, pending()));
-    const diagnostics = { observations, effectiveObservations } as EstimateDiagnostics;
-    Object.defineProperties(diagnostics, {
-      conditionNumber: { get: () => get().value, enumerable: true },
-      conditionNumberMethod: { get: () => get().method, enumerable: true },
-    });
-    return Object.assign(diagnostics, { shrinkage, ...extra });
-  }
   // A run that reduces the estimate anyway (for the effective bets) gets the exact figure at any
   // size; otherwise conditionNumber chooses by size (exact up to EXACT_CONDITION_LIMIT, Lanczos above).
+  const reduce = options.context?.tridiagonalise;
   const form = !options.singular && reduce ? reduce(covariance) : undefined;
   const condition = options.singular ? undefined : conditionNumber(covariance, options.knownSmallest, form);
   return {

@@ -22,7 +22,7 @@ export const ledoitWolfCovariance: Estimator<Extract<EstimatorSpec, { method: 'l
   const target: ShrinkageTarget = spec.target ?? 'scaled-identity';
   const x = centred(returns);
   const t = x.rows;
-  const s = scatter(x, t, context.crossProduct);
+  const s = scatter(x, t);
   const shrinkage =
     target === 'scaled-identity'
       ? shrinkTowardsScaledIdentity(x, s)

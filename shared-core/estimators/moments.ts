@@ -1,7 +1,6 @@
 import { InputError } from '../errors.js';
 import { crossProduct } from '../linalg/cross-product.js';
 import { zeros, type Matrix } from '../linalg/matrix.js';
-import type { CrossProduct } from './types.js';
 
 /** Checks the T x N return matrix every estimator receives: finite values, enough rows. */
 export function checkReturns(returns: Matrix, minRows: number, method: string): void {
@@ -36,8 +35,8 @@ export function centred(x: Matrix): Matrix {
 }
 
 /** X'X / divisor of already centred data: the sample covariance with the divisor given (T or T - 1). */
-export function scatter(centredX: Matrix, divisor: number, product: CrossProduct = crossProduct): Matrix {
-  const s = product(centredX);
+export function scatter(centredX: Matrix, divisor: number): Matrix {
+  const s = crossProduct(centredX);
   const inv = 1 / divisor;
   for (let k = 0; k < s.data.length; k++) s.data[k] *= inv;
   return s;

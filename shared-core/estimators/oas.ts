@@ -14,7 +14,7 @@ export const oasCovariance: Estimator<Extract<EstimatorSpec, { method: 'oas' }>>
   checkReturns(returns, 2, 'oas');
   const t = returns.rows;
   const n = returns.cols;
-  const s = scatter(centred(returns), t, context.crossProduct);
+  const s = scatter(centred(returns), t);
   const mu = trace(s) / n;
   const alpha = sumOfSquares(s) / (n * n);
   const num = alpha + mu * mu;

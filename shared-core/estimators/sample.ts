@@ -8,7 +8,7 @@ import type { Estimator } from './types.js';
 export const sampleCovariance: Estimator<Extract<EstimatorSpec, { method: 'sample' }>> = (returns, _spec, context) => {
   checkReturns(returns, 2, 'sample');
   const t = returns.rows;
-  const covariance = scatter(centred(returns), t - 1, context.crossProduct);
+  const covariance = scatter(centred(returns), t - 1);
   return {
     method: 'sample',
     covariance,

@@ -7,32 +7,17 @@ export type Frequency = 'daily' | 'weekly' | 'monthly';
 /** Periods per year by frequency (common practice: 252 trading days, 52 weeks, 12 months). */
 export const PERIODS_PER_YEAR: Record<Frequency, number> = { daily: 252, weekly: 52, monthly: 12 };
 
-/** X'X of a T x N matrix, N x N (linalg/cross-product.ts has the one the core uses). */
-export type CrossProduct = (x: Matrix) => Matrix;
-
 export interface EstimateContext {
   frequency: Frequency;
   /** Overrides PERIODS_PER_YEAR[frequency]. */
   periodsPerYear?: number;
   /**
-   * An edge may hand in the same X'X computed faster, on several threads
-   * (src-main/compute/two-thread-cross-product.ts); the core itself never starts a thread.
-   */
-  crossProduct?: CrossProduct;
-  /**
-   * The tridiagonal reduction to use (linalg/tridiagonal-form.ts): an edge's faster one, or a
-   * run's memoised one, so that the exact condition number (at any size) and the effective bets
-   * of the candidates come from one reduction of the estimate. Without it the condition number
-   * is exact up to EXACT_CONDITION_LIMIT assets and a Lanczos bound above.
+   * The tridiagonal reduction to use (linalg/tridiagonal-form.ts): a run's memoised one, so that
+   * the exact condition number (at any size) and the effective bets of the candidates come from
+   * one reduction of the estimate. Without it the condition number is exact up to
+   * EXACT_CONDITION_LIMIT assets and a Lanczos bound above.
    */
   tridiagonalise?: (m: Matrix) => TridiagonalForm;
-  /**
-   * Starts the same reduction of `m` without waiting for it (an edge's other thread) and returns
-   * the wait for its form, or undefined where it cannot. With it the estimate's condition number
-   * is computed on first read (see diagnose), so that a run can solve its candidates while the
-   * estimate is being reduced.
-   */
-  tridiagonaliseAhead?: (m: Matrix) => (() => TridiagonalForm) | undefined;
 }
 
 export interface EstimateDiagnostics {

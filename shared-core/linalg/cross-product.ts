@@ -11,95 +11,32 @@ import { zeros, type Matrix } from './matrix.js';
  * computed (N(N+1)/2 T multiply-adds) and then mirrored.
  */
 export function crossProduct(x: Matrix): Matrix {
+  const t = x.rows;
   const n = x.cols;
   const out = zeros(n, n);
-  crossProductRows(x, out.data, 0, n);
+  // X packed once: its column panels serve as the row panels too (both are PANEL wide).
+  const packed = packPanels(x, PANEL);
+  const panels = Math.ceil(n / PANEL);
+  for (let k0 = 0; k0 < t; k0 += PERIODS_PER_PASS) {
+    const k1 = Math.min(t, k0 + PERIODS_PER_PASS);
+    for (let I = 0; I < panels; I++) {
+      const i0 = I * PANEL;
+      const iLast = Math.min(i0 + PANEL, n) - 1;
+      const colPanels = Math.floor(iLast / PANEL) + 1;
+      for (let J = 0; J < colPanels; J++)
+        block(packed, I * t * PANEL, J * t * PANEL, k0, k1, out.data, n, i0, J * PANEL, iLast);
+    }
+  }
   mirrorLower(out.data, n);
   return out;
 }
 
-/** Row and column panel widths of the kernel, and the periods per pass (the panels of one pass stay in cache). */
-const ROWS = 4;
-const COLS = 4;
+/** Rows and columns per panel of the kernel (4 x 4 blocks), and the periods per pass (the panels of one pass stay in cache). */
+const PANEL = 4;
 const PERIODS_PER_PASS = 512;
 
-/**
- * Rows [rowStart, rowEnd) of the lower triangle of X'X, written into `out` (N x N row-major,
- * entries (i, j) with j <= i). Pure and independent per row range, so an edge that owns
- * threads can hand disjoint ranges to workers sharing `out`.
- */
-export function crossProductRows(x: Matrix, out: Float64Array, rowStart: number, rowEnd: number): void {
-  const t = x.rows;
-  const n = x.cols;
-  if (rowEnd <= rowStart) return;
-  for (let i = rowStart; i < rowEnd; i++) out.fill(0, i * n, i * n + i + 1);
-  // The row panels are column panels too when the range starts on a panel boundary: pack once.
-  const b = packPanels(x, 0, rowEnd, COLS);
-  const shared = ROWS === COLS && rowStart % COLS === 0;
-  const a = shared ? b.subarray((rowStart / COLS) * t * COLS) : packPanels(x, rowStart, rowEnd, ROWS);
-  const rowPanels = Math.ceil((rowEnd - rowStart) / ROWS);
-  for (let k0 = 0; k0 < t; k0 += PERIODS_PER_PASS) {
-    const k1 = Math.min(t, k0 + PERIODS_PER_PASS);
-    for (let I = 0; I < rowPanels; I++) {
-      const i0 = rowStart + I * ROWS;
-      const iLast = Math.min(i0 + ROWS, rowEnd) - 1;
-      const pa = I * t * ROWS;
-      const colPanels = Math.floor(iLast / COLS) + 1;
-      for (let J = 0; J < colPanels; J++) block(a, pa, b, J * t * COLS, k0, k1, out, n, i0, J * COLS, iLast);
-    }
-  }
-}
-
-/** Length of the packed columns of a T x N matrix (packColumns). */
-export function packedLength(x: Matrix): number {
-  return Math.ceil(x.cols / COLS) * COLS * x.rows;
-}
-
-/** Every column of X packed as the kernel reads them, into `into` (which may be shared memory). */
-export function packColumns(
-  x: Matrix,
-  into: Float64Array<ArrayBufferLike> = new Float64Array(packedLength(x)),
-): Float64Array<ArrayBufferLike> {
-  packPanels(x, 0, x.cols, COLS, into);
-  return into;
-}
-
-/**
- * Row panels (4 rows each) of the lower triangle of X'X, from X packed by packColumns, for as
- * long as `claim` hands out a panel index (it returns -1 when none is left). Each entry is summed
- * in the same order as by crossProductRows, so the matrix is the same bit for bit however the
- * panels are shared out: an edge with two threads gives both the same claim, counting down from
- * the most expensive panel, and they finish together whatever their speeds. Returns the number
- * of panels computed.
- */
-export function crossProductPanels(
-  t: number,
-  n: number,
-  packed: Float64Array,
-  out: Float64Array,
-  claim: () => number,
-): number {
-  let done = 0;
-  for (let I = claim(); I >= 0; I = claim()) {
-    const i0 = I * ROWS;
-    const iLast = Math.min(i0 + ROWS, n) - 1;
-    for (let i = i0; i <= iLast; i++) out.fill(0, i * n, i * n + i + 1);
-    const pa = I * t * ROWS;
-    const colPanels = Math.floor(iLast / COLS) + 1;
-    for (let k0 = 0; k0 < t; k0 += PERIODS_PER_PASS) {
-      const k1 = Math.min(t, k0 + PERIODS_PER_PASS);
-      for (let J = 0; J < colPanels; J++) block(packed, pa, packed, J * t * COLS, k0, k1, out, n, i0, J * COLS, iLast);
-    }
-    done++;
-  }
-  return done;
-}
-
-/** Number of row panels of an N x N cross product. */
-export const rowPanels = (n: number): number => Math.ceil(n / ROWS);
-
 /** Copies the lower triangle onto the upper one. */
-export function mirrorLower(c: Float64Array, n: number): void {
+function mirrorLower(c: Float64Array, n: number): void {
   for (let i = 0; i < n; i++) for (let j = 0; j < i; j++) c[j * n + i] = c[i * n + j];
 }
 
@@ -129,9 +66,8 @@ export function crossProductNaive(x: Matrix): Matrix {
  * which made a first call in a fresh process (every command-line run) up to 1.5x slower.
  */
 function block(
-  a: Float64Array,
+  p: Float64Array,
   pa: number,
-  b: Float64Array,
   pb: number,
   k0: number,
   k1: number,
@@ -158,16 +94,16 @@ function block(
     c32 = 0,
     c33 = 0;
   for (let k = k0; k < k1; k++) {
-    const p = pa + k * ROWS;
-    const q = pb + k * COLS;
-    const a0 = a[p];
-    const a1 = a[p + 1];
-    const a2 = a[p + 2];
-    const a3 = a[p + 3];
-    const b0 = b[q];
-    const b1 = b[q + 1];
-    const b2 = b[q + 2];
-    const b3 = b[q + 3];
+    const a = pa + k * PANEL;
+    const b = pb + k * PANEL;
+    const a0 = p[a];
+    const a1 = p[a + 1];
+    const a2 = p[a + 2];
+    const a3 = p[a + 3];
+    const b0 = p[b];
+    const b1 = p[b + 1];
+    const b2 = p[b + 2];
+    const b3 = p[b + 3];
     c00 += a0 * b0;
     c01 += a0 * b1;
     c02 += a0 * b2;
@@ -211,24 +147,16 @@ function add(
   if (j0 + 3 <= i) out[o + 3] += v3;
 }
 
-/** Columns [c0, c1) of X as panels of `width` columns, each stored period by period; zero padded. */
-function packPanels(
-  x: Matrix,
-  c0: number,
-  c1: number,
-  width: number,
-  p: Float64Array<ArrayBufferLike> = new Float64Array(Math.ceil((c1 - c0) / width) * width * x.rows),
-): Float64Array<ArrayBufferLike> {
+/** Every column of X as panels of `width` columns, each stored period by period; zero padded. */
+function packPanels(x: Matrix, width: number): Float64Array {
   const t = x.rows;
   const n = x.cols;
   const d = x.data;
+  const p = new Float64Array(Math.ceil(n / width) * width * t);
   // Row by row, so X is read in memory order.
   for (let k = 0; k < t; k++) {
     const row = k * n;
-    for (let col = c0; col < c1; col++) {
-      const P = ((col - c0) / width) | 0;
-      p[P * width * t + k * width + ((col - c0) % width)] = d[row + col];
-    }
+    for (let col = 0; col < n; col++) p[((col / width) | 0) * width * t + k * width + (col % width)] = d[row + col];
   }
   return p;
 }

@@ -1,11 +1,5 @@
 import type { Matrix } from './matrix.js';
-import {
-  householderVector,
-  intoTridiagonalBasis,
-  tridiagonalForm,
-  type QlRotations,
-  type TridiagonalForm,
-} from './tridiagonal-form.js';
+import { householderVector, intoTridiagonalBasis, tridiagonalForm, type TridiagonalForm } from './tridiagonal-form.js';
 
 export interface SymmetricEigen {
   /** Eigenvalues in ascending order. */
@@ -62,7 +56,6 @@ export function symmetricEigenvalues(m: Matrix): Float64Array {
 
 /** Every eigenvalue of a reduced matrix, ascending, in O(N^2). */
 export function formEigenvalues(form: TridiagonalForm): Float64Array {
-  if (form.rotations) return Float64Array.from(form.rotations.values).sort();
   const d = Float64Array.from(form.diagonal);
   const e = Float64Array.from(form.offDiagonal);
   diagonalise(d, e, undefined, form.n);
@@ -151,14 +144,8 @@ export function spectralExposures(m: Matrix, v: ArrayLike<number>): SpectralExpo
 export function formExposures(form: TridiagonalForm, v: ArrayLike<number>): SpectralExposures {
   const n = form.n;
   const y = intoTridiagonalBasis(form, v);
-  let d: Float64Array;
-  if (form.rotations) {
-    d = Float64Array.from(form.rotations.values);
-    replayRotations(form.rotations, y);
-  } else {
-    d = Float64Array.from(form.diagonal);
-    diagonalise(d, e0(form), undefined, n, y);
-  }
+  const d = Float64Array.from(form.diagonal);
+  diagonalise(d, Float64Array.from(form.offDiagonal), undefined, n, y);
   const exposures = Float64Array.from(y, (x) => x * x);
   const order = ascending(d);
   let size = 0;
@@ -174,52 +161,6 @@ export function formExposures(form: TridiagonalForm, v: ArrayLike<number>): Spec
     a = b;
   }
   return { values: d, exposures };
-}
-
-/**
- * Runs the QL iteration on the form's T once and records it into the given buffers (which may be
- * shared memory): every later formExposures of the form then replays the rotations on its vector,
- * the same arithmetic in the same order, instead of iterating again. Returns undefined when the
- * buffers are too small (the caller then leaves the form as it was).
- */
-export function recordRotations(
-  form: TridiagonalForm,
-  values: Float64Array,
-  steps: Int32Array,
-  cs: Float64Array,
-): QlRotations | undefined {
-  const n = form.n;
-  if (values.length < n) return undefined;
-  const d = values.subarray(0, n);
-  d.set(form.diagonal);
-  const log: RotationLog = { steps, cs, stepCount: 0, csCount: 0, overflow: false };
-  diagonalise(d, e0(form), undefined, n, undefined, log);
-  if (log.overflow) return undefined;
-  return { values: d, steps: steps.subarray(0, log.stepCount), cs: cs.subarray(0, log.csCount) };
-}
-
-/** Applies recorded QL rotations to y (coordinates in the tridiagonal basis), in place. */
-function replayRotations(r: QlRotations, y: Float64Array): void {
-  const { steps, cs } = r;
-  let k = 0;
-  for (let t = 0; t < steps.length; t += 2) k = replayStep(y, cs, k, steps[t], steps[t + 1]);
-}
-
-function replayStep(y: Float64Array, cs: Float64Array, k: number, l: number, m: number): number {
-  for (let i = m - 1; i >= l; i--) {
-    const c = cs[k];
-    const s = cs[k + 1];
-    k += 2;
-    const hk = y[i + 1];
-    y[i + 1] = s * y[i] + c * hk;
-    y[i] = c * y[i] - s * hk;
-  }
-  return k;
-}
-
-/** A copy of the form's off-diagonal for the QL iteration to work on. */
-function e0(form: TridiagonalForm): Float64Array {
-  return Float64Array.from(form.offDiagonal);
 }
 
 /** Eigenvalues of the symmetric tridiagonal matrix with diagonal `diag` and off-diagonal `off` (length n-1). */
@@ -339,21 +280,12 @@ function tridiagonalise(w: Float64Array, n: number, d: Float64Array, e: Float64A
  * `tracked` (a vector's coordinates in the tridiagonal basis, which end as its coordinates in
  * the eigenvector basis) when given.
  */
-interface RotationLog {
-  steps: Int32Array;
-  cs: Float64Array;
-  stepCount: number;
-  csCount: number;
-  overflow: boolean;
-}
-
 function diagonalise(
   d: Float64Array,
   e: Float64Array,
   w: Float64Array | undefined,
   n: number,
   tracked?: Float64Array,
-  log?: RotationLog,
 ): void {
   for (let i = 1; i < n; i++) e[i - 1] = e[i];
   if (n > 0) e[n - 1] = 0;
@@ -388,14 +320,6 @@ function diagonalise(
         const el1 = e[l + 1];
         let s = 0;
         let s2 = 0;
-        if (log && !log.overflow) {
-          if (log.stepCount + 2 > log.steps.length || log.csCount + 2 * (m - l) > log.cs.length) log.overflow = true;
-          else {
-            log.steps[log.stepCount++] = l;
-            log.steps[log.stepCount++] = m;
-          }
-        }
-        const recording = log !== undefined && !log.overflow;
         for (let i = m - 1; i >= l; i--) {
           c3 = c2;
           c2 = c;
@@ -408,10 +332,6 @@ function diagonalise(
           c = p / r;
           p = c * d[i] - s * g;
           d[i + 1] = h + s * (c * g + s * d[i]);
-          if (recording) {
-            log.cs[log.csCount++] = c;
-            log.cs[log.csCount++] = s;
-          }
           if (tracked) {
             const hk = tracked[i + 1];
             tracked[i + 1] = s * tracked[i] + c * hk;

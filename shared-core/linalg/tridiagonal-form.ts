@@ -19,44 +19,7 @@ export interface TridiagonalForm {
    */
   reflectors: Float64Array;
   halfNorms: Float64Array;
-  /**
-   * The QL iteration on T, run once ahead where an edge did so on another thread
-   * (symmetric-eigen.ts recordRotations): its eigenvalues and its plane rotations, which carry a
-   * vector into the eigenvector basis in O(N^2) without repeating the iteration.
-   */
-  rotations?: QlRotations;
 }
-
-/** What the QL iteration on T did, in order (symmetric-eigen.ts). */
-export interface QlRotations {
-  /** The eigenvalues, in the iteration's order (not sorted). */
-  values: Float64Array;
-  /** Each QL step's block [l, m] as the pair (l, m). */
-  steps: Int32Array;
-  /** Each rotation's (c, s), step by step, i from m - 1 down to l. */
-  cs: Float64Array;
-}
-
-/**
- * Runs columns [split, m) of a step's pass (see fusedColumns) into `second` while the caller runs
- * columns [0, split) into its own accumulator; the edge may do it on another thread
- * (src-main/compute/). The core itself never starts a thread.
- */
-export interface SecondHalf {
-  /** The working matrix the reduction must use, so that another thread can see it. */
-  allocate(length: number): {
-    w: Float64Array;
-    u: Float64Array;
-    q: Float64Array;
-    v: Float64Array;
-    second: Float64Array;
-  };
-  start(m: number, split: number): void;
-  finish(): void;
-}
-
-/** Below this block size a step's second half stays on the calling thread (a hand-off costs more). */
-export const HAND_OFF_FROM = 192;
 
 /** Where a step's pass over an m x m block splits into two halves of equal work (columns shorten). */
 function passSplit(m: number): number {
@@ -67,29 +30,22 @@ function passSplit(m: number): number {
  * Householder tridiagonalisation (the reduction of tred2, EISPACK, Smith et al. 1976) organised as
  * one pass over the trailing block per step: the rank-two update of step i and the matrix-vector
  * product that step i - 1 needs share each load of an entry, because the next reflector comes
- * from row i - 1, which is updated first. Each pass is split at passSplit(m) into two column
- * ranges with their own accumulators, summed in a fixed order, so that the result is the same bit
- * for bit whether an edge runs the second range on another thread or not. Only the upper triangle
- * of `m` is read.
+ * from row i - 1, which is updated first. Each pass sums its two column ranges [0, passSplit(m))
+ * and [passSplit(m), m) into accumulators of their own, added in a fixed order: that order is the
+ * one every published figure (the command line's outputs, the fixtures) was computed in, so a
+ * change to it would move their last digits. Only the upper triangle of `m` is read.
  */
-export function tridiagonalForm(m: Matrix, second?: SecondHalf): TridiagonalForm {
+export function tridiagonalForm(m: Matrix): TridiagonalForm {
   const n = m.rows;
   if (m.cols !== n) throw new RangeError(`expected a square matrix, got ${m.rows} x ${m.cols}`);
-  const space = second
-    ? second.allocate(n)
-    : {
-        w: new Float64Array(n * n),
-        u: new Float64Array(n),
-        q: new Float64Array(n),
-        v: new Float64Array(n),
-        second: new Float64Array(n),
-      };
   // A[k][j] (k >= j) lives in w[j * n + k]: column j of the lower triangle is contiguous. It is
   // row j of the upper triangle of the symmetric input, so each column is one contiguous copy.
-  const w = space.w;
+  const w = new Float64Array(n * n);
   for (let j = 0; j < n; j++) w.set(m.data.subarray(j * n + j, j * n + n), j * n + j);
-  const { u, q, v } = space;
-  const p2 = space.second;
+  const u = new Float64Array(n);
+  const q = new Float64Array(n);
+  const v = new Float64Array(n);
+  const p2 = new Float64Array(n); // A v over the second column range of a pass
   const d = new Float64Array(n);
   const e = new Float64Array(n);
   const halfNorms = new Float64Array(n);
@@ -144,14 +100,8 @@ export function tridiagonalForm(m: Matrix, second?: SecondHalf): TridiagonalForm
     const split = passSplit(last);
     p.fill(0, 0, last);
     p2.fill(0, 0, last);
-    if (second && last >= HAND_OFF_FROM) {
-      second.start(last, split);
-      fusedColumns(w, n, last, 0, split, u, q, v, p);
-      second.finish();
-    } else {
-      fusedColumns(w, n, last, 0, split, u, q, v, p);
-      fusedColumns(w, n, last, split, last, u, q, v, p2);
-    }
+    fusedColumns(w, n, last, 0, split, u, q, v, p);
+    fusedColumns(w, n, last, split, last, u, q, v, p2);
     for (let k = split; k < last; k++) p[k] += p2[k];
     ready = true;
   }
@@ -206,7 +156,7 @@ function blockTimes(w: Float64Array, n: number, m: number, u: Float64Array, out:
  * time, so that each load of u, q, v and p serves two entries of A: about 1.6x faster in V8 than
  * the two passes of tred2 at N = 1500 on this project's machines.
  */
-export function fusedColumns(
+function fusedColumns(
   w: Float64Array,
   n: number,
   m: number,

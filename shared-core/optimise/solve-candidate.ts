@@ -62,12 +62,8 @@ export interface CandidateProblem {
   current?: Record<string, number>;
   expectedReturns?: Record<string, number>;
   assetInfo?: Record<string, AssetInfo>;
-  /**
-   * From the estimate's diagnostics when known (saves recomputing it). As a function it is read
-   * only once the programme is solved, and before any result is returned: a run whose estimate
-   * is still being reduced on another thread solves meanwhile (run-scenario.ts).
-   */
-  conditionNumber?: number | (() => number);
+  /** From the estimate's diagnostics when known (saves recomputing it). */
+  conditionNumber?: number;
   /**
    * The tridiagonal form (linalg/tridiagonal-form.ts) of the covariance or of a positive multiple
    * of it (the per-period estimate), shared by the candidates of one estimate.
@@ -123,8 +119,7 @@ function covarianceProblem(p: CandidateProblem): string | null {
 
 function conditioningProblem(p: CandidateProblem): string | null {
   const n = p.assets.length;
-  const given = p.conditionNumber;
-  const cond = typeof given === 'function' ? given() : (given ?? conditionNumber(p.covariance).value);
+  const cond = p.conditionNumber ?? conditionNumber(p.covariance).value;
   if (!(cond <= CONDITION_LIMIT)) {
     const tail =
       p.observations !== undefined && p.observations <= n
@@ -183,7 +178,7 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
   const t0 = nowMs();
   const n = p.assets.length;
   const head = { id: p.id, ...(p.label !== undefined ? { label: p.label } : {}) };
-  const report = (status: 'error' | 'infeasible', message: string, iterations = 0): CandidateSolve => ({
+  const fail = (status: 'error' | 'infeasible', message: string, iterations = 0): CandidateSolve => ({
     result: {
       ...head,
       status,
@@ -195,23 +190,8 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
   });
   const method = p.objective.method;
   const usesCovariance = method !== 'equal-weight' && method !== 'inverse-volatility';
-  const covIssue = covarianceProblem(p);
-  if (covIssue) return report('error', covIssue);
-  // The conditioning is checked before anything else is reported, now or, for a figure still
-  // being computed elsewhere, once the programme is solved: the answers are the same either way.
-  let conditioned = !usesCovariance;
-  const conditioning = (): CandidateSolve | null => {
-    if (conditioned) return null;
-    conditioned = true;
-    const issue = conditioningProblem(p);
-    return issue ? report('error', issue) : null;
-  };
-  const fail = (status: 'error' | 'infeasible', message: string, iterations = 0): CandidateSolve =>
-    conditioning() ?? report(status, message, iterations);
-  if (typeof p.conditionNumber !== 'function') {
-    const early = conditioning();
-    if (early) return early;
-  }
+  const covIssue = covarianceProblem(p) ?? (usesCovariance ? conditioningProblem(p) : null);
+  if (covIssue) return fail('error', covIssue);
   const m = buildMandate(p.assets, p.constraints, p.current, p.assetInfo);
   const conflicts = arithmeticConflicts(m);
   if (conflicts.length > 0) return fail('infeasible', conflicts.join('; '));
@@ -376,20 +356,8 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
     metrics,
     solver: { iterations, kktResidual: residual, ms: nowMs() - t0 },
   });
-  if (p.detail === 'weights') return conditioning() ?? { result: solved(), warmStart };
-  // The explanations first, the spectrum last: a reduction started ahead on another thread then
-  // has the programme and the explanations' time to finish. A covariance found badly conditioned
-  // only now is reported as it would have been before the solve.
-  let explanations: NonNullable<CandidateResult['explanations']>;
-  try {
-    explanations = explain();
-  } catch (error) {
-    const late = conditioning();
-    if (late) return late;
-    throw error;
-  }
-  const late = conditioning();
-  if (late) return late;
+  if (p.detail === 'weights') return { result: solved(), warmStart };
+  const explanations = explain();
   metrics.effectiveBets = effectiveBets(w, S, p.spectrum?.());
   const result: CandidateResult = { ...solved(), explanations };
   return { result, warmStart };

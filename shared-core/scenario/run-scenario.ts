@@ -4,7 +4,7 @@
  */
 import { InputError } from '../errors.js';
 import { annualised, estimateCovariance } from '../estimators/registry.js';
-import type { CovarianceEstimate, CrossProduct, EstimateContext } from '../estimators/types.js';
+import type { CovarianceEstimate, EstimateContext } from '../estimators/types.js';
 import type { Matrix } from '../linalg/matrix.js';
 import { tridiagonalForm, type TridiagonalForm } from '../linalg/tridiagonal-form.js';
 import type { QpWarmStart } from '../optimise/qp/types.js';
@@ -24,16 +24,6 @@ export interface RunScenarioOptions {
   /** Maps an asset and date to a place in the price file, for error messages. */
   locate?: BuildReturnsOptions['locate'];
   fx?: PriceTable;
-  /** A faster X'X from the edge (several threads); see EstimateContext. */
-  crossProduct?: CrossProduct;
-  /** The same tridiagonal reduction from the edge, faster (two threads: src-main/compute/). */
-  tridiagonalise?: (m: Matrix) => TridiagonalForm;
-  /**
-   * The same reduction started on another thread, returning the wait for it (see
-   * EstimateContext): the candidates are solved meanwhile, and the wait comes with the first
-   * condition number or effective bets read.
-   */
-  tridiagonaliseAhead?: (m: Matrix) => (() => TridiagonalForm) | undefined;
   /**
    * The previous run's returns, estimates and active sets, reused where their inputs are
    * unchanged (run-cache.ts); updated by this run. Explicit `warmStarts` take precedence.
@@ -139,35 +129,17 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
   });
 
   // One reduction per estimate serves its exact condition number and the effective bets of every
-  // candidate that shares it (the bets do not change when the covariance is annualised). One
-  // started ahead on another thread is waited for when first needed.
+  // candidate that shares it (the bets do not change when the covariance is annualised).
   const forms = memo.forms;
-  const pending = new Map<Matrix, () => TridiagonalForm>();
   const reduceOnce = (m: Matrix): TridiagonalForm => {
     let form = forms.get(m);
-    if (!form) {
-      const wait = pending.get(m);
-      pending.delete(m);
-      forms.set(m, (form = wait ? wait() : (options.tridiagonalise ?? tridiagonalForm)(m)));
-    }
+    if (!form) forms.set(m, (form = tridiagonalForm(m)));
     return form;
-  };
-  const ahead = options.tridiagonaliseAhead;
-  const reduceAhead = (m: Matrix): (() => TridiagonalForm) | undefined => {
-    if (forms.has(m)) return undefined;
-    if (!pending.has(m)) {
-      const wait = ahead?.(m);
-      if (!wait) return undefined;
-      pending.set(m, wait);
-    }
-    return () => reduceOnce(m);
   };
   const context: EstimateContext = {
     frequency: returns.frequency,
     periodsPerYear: scenario.periodsPerYear,
-    ...(options.crossProduct ? { crossProduct: options.crossProduct } : {}),
     tridiagonalise: reduceOnce,
-    ...(ahead ? { tridiagonaliseAhead: reduceAhead } : {}),
   };
   const estimateKey = (c: Scenario['candidates'][number]) =>
     `${JSON.stringify(c.estimator)}|${scenario.periodsPerYear ?? ''}`;
@@ -175,45 +147,39 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
   const candidates: CandidateResult[] = [];
   const estimates: Record<string, CandidateEstimate> = {};
   const warmStarts: Record<string, QpWarmStart> = {};
-  try {
-    for (const c of scenario.candidates) {
-      cancel();
-      const key = estimateKey(c);
-      let entry = cache.get(key);
-      if (!entry) {
-        const estimate = estimateCovariance(returns.returns, c.estimator, context);
-        entry = { estimate, covariance: annualised(estimate) };
-        cache.set(key, entry);
-      }
-      estimates[c.id] = { assets, covariance: entry.covariance, estimate: entry.estimate };
-      cancel();
-      const perPeriod = entry.estimate.covariance;
-      const diagnostics = entry.estimate.diagnostics;
-      const solved = solveCandidateDetailed({
-        id: c.id,
-        label: c.label,
-        assets,
-        covariance: entry.covariance,
-        objective: c.objective,
-        constraints: mergedConstraints(scenario.constraints, c.constraints),
-        current: scenario.current,
-        expectedReturns: scenario.expectedReturns,
-        assetInfo: scenario.assetInfo,
-        // Read late when the reduction runs ahead (the getter then waits for it).
-        conditionNumber: ahead ? () => diagnostics.conditionNumber : diagnostics.conditionNumber,
-        spectrum: () => reduceOnce(perPeriod),
-        observations: entry.estimate.diagnostics.observations,
-        estimator: c.estimator.method,
-        warmStart: options.warmStarts ? options.warmStarts[c.id] : memo.warmStarts[c.id],
-        shouldCancel: options.shouldCancel,
-      });
-      cancel();
-      candidates.push(solved.result);
-      if (solved.warmStart) warmStarts[c.id] = solved.warmStart;
+  for (const c of scenario.candidates) {
+    cancel();
+    const key = estimateKey(c);
+    let entry = cache.get(key);
+    if (!entry) {
+      const estimate = estimateCovariance(returns.returns, c.estimator, context);
+      entry = { estimate, covariance: annualised(estimate) };
+      cache.set(key, entry);
     }
-  } finally {
-    // No reduction is left running on the other thread when the run returns or stops.
-    for (const m of [...pending.keys()]) reduceOnce(m);
+    estimates[c.id] = { assets, covariance: entry.covariance, estimate: entry.estimate };
+    cancel();
+    const perPeriod = entry.estimate.covariance;
+    const diagnostics = entry.estimate.diagnostics;
+    const solved = solveCandidateDetailed({
+      id: c.id,
+      label: c.label,
+      assets,
+      covariance: entry.covariance,
+      objective: c.objective,
+      constraints: mergedConstraints(scenario.constraints, c.constraints),
+      current: scenario.current,
+      expectedReturns: scenario.expectedReturns,
+      assetInfo: scenario.assetInfo,
+      conditionNumber: diagnostics.conditionNumber,
+      spectrum: () => reduceOnce(perPeriod),
+      observations: entry.estimate.diagnostics.observations,
+      estimator: c.estimator.method,
+      warmStart: options.warmStarts ? options.warmStarts[c.id] : memo.warmStarts[c.id],
+      shouldCancel: options.shouldCancel,
+    });
+    cancel();
+    candidates.push(solved.result);
+    if (solved.warmStart) warmStarts[c.id] = solved.warmStart;
   }
   // Keep only what this scenario used: an editor field typed digit by digit (a half-life, a
   // lambda) would otherwise leave one N x N estimate and its reduction behind per value.

@@ -7,8 +7,6 @@ import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/p
 import { buildReturns, type ReturnMethod, type ReturnsResult } from '../../../shared-core/returns/build-returns.js';
 import { estimatorSpecSchema, type EstimatorSpec } from '../../../shared-core/scenario/estimator-spec.js';
 import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
-import { processSecondThread } from '../../compute/second-thread.js';
-import { twoThreadCrossProduct } from '../../compute/two-thread-cross-product.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
 import { readInputFile } from '../files.js';
 
@@ -36,7 +34,6 @@ export async function runEstimate(options: OptionValues, io: CliIO): Promise<num
   const desmoothed = options.desmooth === undefined ? undefined : String(options.desmooth).split(',');
   if (desmoothed?.some((id) => id === '')) throw new UsageError(`--desmooth needs asset ids separated by commas`);
 
-  processSecondThread.start(); // boots while the prices are read (two-thread-cross-product.ts)
   const file = readInputFile(io.cwd, String(options.prices));
   const inFile = (error: unknown) => (error instanceof InputError ? error.inFile(file.path) : error);
   let table;
@@ -60,11 +57,7 @@ export async function runEstimate(options: OptionValues, io: CliIO): Promise<num
       locate,
       desmooth: desmoothed,
     });
-    estimate = estimateCovariance(returns.returns, spec, {
-      frequency: returns.frequency,
-      periodsPerYear,
-      crossProduct: twoThreadCrossProduct,
-    });
+    estimate = estimateCovariance(returns.returns, spec, { frequency: returns.frequency, periodsPerYear });
   } catch (error) {
     if (error instanceof InputError && error.location.line === undefined)
       throw new InputError(error.message, { ...pointAtAsset(error.location, table.assets, locate), file: file.path });

@@ -5,10 +5,6 @@ import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { runScenario, type ScenarioRun } from '../../../shared-core/scenario/run-scenario.js';
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
-import { processSecondThread } from '../../compute/second-thread.js';
-import { twoThreadCrossProduct } from '../../compute/two-thread-cross-product.js';
-import { tridiagonalAhead } from '../../compute/tridiagonal-ahead.js';
-import { twoThreadTridiagonal } from '../../compute/two-thread-tridiagonal.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
 import { readInputFile, withExchangeRates } from '../files.js';
 
@@ -56,9 +52,6 @@ export function solveInputs(inputs: SolveInputs, signal?: AbortSignal): Scenario
       locate: inputs.fromStore ? undefined : wideCsvLocator(inputs.prices),
       ...(inputs.fx ? { fx: inputs.fx } : {}),
       shouldCancel: signal ? () => signal.aborted : undefined,
-      crossProduct: twoThreadCrossProduct,
-      tridiagonalise: twoThreadTridiagonal,
-      tridiagonaliseAhead: tridiagonalAhead,
     });
   } catch (error) {
     if (error instanceof InputError) {
@@ -144,9 +137,6 @@ export async function runSolveCommand(options: OptionValues, io: CliIO): Promise
     throw new UsageError("'solve' needs --prices FILE.csv, or --store FILE with --household NAME");
   if (options.fx !== undefined && options.store !== undefined)
     throw new UsageError('--fx is for the file form: the store form reads the stored exchange rates');
-  // The helper thread boots while the input is read (two-thread-cross-product.ts uses it from
-  // N = 200 once it is up).
-  processSecondThread.start();
   let inputs: SolveInputs;
   if (options.store !== undefined) {
     // Loaded here so that the file form starts without the store and SQLite.

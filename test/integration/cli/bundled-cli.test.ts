@@ -1,7 +1,7 @@
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, readdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
+import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCliInProcess } from '../../support/run-cli-in-process.js';
@@ -9,7 +9,7 @@ import { runCliInProcess } from '../../support/run-cli-in-process.js';
 /**
  * `npm run build` bundles the command line (scripts/build.mjs): dist/src-main/cli/main.js and its
  * chunks. The bundle must answer as the sources do, and every path it finds from a module's own
- * URL (package.json, the memo fonts, the renderer, the helper thread's script) must point at a
+ * URL (package.json, the memo fonts, the renderer) must point at a
  * file that exists in dist/. Runs after a build, as `npm test` does.
  */
 const cliDir = fileURLToPath(new URL('../../../dist/src-main/cli/', import.meta.url));
@@ -73,7 +73,7 @@ describe.runIf(built)('the bundled command line (dist/src-main/cli/main.js)', ()
     expect(readFileSync(join(dir, 'bundled.pdf')).equals(readFileSync(join(dir, 'sources.pdf')))).toBe(true);
   });
 
-  it("points every module's own URL at its emitted file, the helper thread's script among them", () => {
+  it("points every module's own URL at its emitted file", () => {
     const files = [bin, ...readdirSync(join(cliDir, 'chunks')).map((f) => join(cliDir, 'chunks', f))];
     const targets: string[] = [];
     for (const file of files) {
@@ -87,8 +87,6 @@ describe.runIf(built)('the bundled command line (dist/src-main/cli/main.js)', ()
         targets.push(target);
       }
     }
-    const thread = join(dirname(cliDir), 'compute', 'second-thread.js');
-    expect(targets).toContain(thread);
-    expect(existsSync(join(dirname(thread), 'compute-thread.js'))).toBe(true);
+    expect(targets.length).toBeGreaterThan(0);
   });
 });

@@ -1,33 +1,17 @@
 import { describe, expect, it } from 'vitest';
 import { cholesky, inverseQuadraticForm } from '../../../shared-core/linalg/cholesky.js';
 import { conditionNumber, lanczosRitzValues } from '../../../shared-core/linalg/condition.js';
-import {
-  crossProduct,
-  crossProductNaive,
-  crossProductPanels,
-  crossProductRows,
-  mirrorLower,
-  packColumns,
-  rowPanels,
-} from '../../../shared-core/linalg/cross-product.js';
+import { crossProduct, crossProductNaive } from '../../../shared-core/linalg/cross-product.js';
 import { fromRows, zeros, type Matrix } from '../../../shared-core/linalg/matrix.js';
 import {
   formEigenvalues,
-  formExposures,
   formExtremes,
-  recordRotations,
   spectralExposures,
   symmetricEigen,
   symmetricEigenvalues,
   tridiagonalEigenvalues,
 } from '../../../shared-core/linalg/symmetric-eigen.js';
-import {
-  HAND_OFF_FROM,
-  fusedColumns,
-  intoTridiagonalBasis,
-  tridiagonalForm,
-  type SecondHalf,
-} from '../../../shared-core/linalg/tridiagonal-form.js';
+import { intoTridiagonalBasis, tridiagonalForm } from '../../../shared-core/linalg/tridiagonal-form.js';
 import { loadFixture, matrix, relativeError } from '../estimators/fixtures.js';
 
 /** A seeded linear congruential stream in (-0.5, 0.5) (Park and Miller 1988 multiplier). */
@@ -60,47 +44,6 @@ describe("cross product X'X (the O(N^2 T) step of every estimator)", () => {
       expect(relativeError(crossProduct(x).data, crossProductNaive(x).data)).toBeLessThan(1e-14);
     },
   );
-
-  it('row panels handed out in any order and to any number of takers give the same bits (what two threads share)', () => {
-    for (const [t, n] of [
-      [1100, 23], // more periods than one pass, N not a multiple of 4
-      [30, 8],
-    ]) {
-      const x = randomMatrix(t, n, t + n);
-      const packed = packColumns(x);
-      const panels = rowPanels(n);
-      // Two takers alternating over the panels, the longest first, as the edge's threads do.
-      const order = Array.from({ length: panels }, (_, k) => panels - 1 - k);
-      const outs = [new Float64Array(n * n), new Float64Array(n * n)];
-      let next = 0;
-      const counts = [0, 0];
-      while (next < order.length)
-        for (const who of [0, 1]) {
-          let given = false;
-          counts[who] += crossProductPanels(t, n, packed, outs[who], () =>
-            !given && next < order.length ? ((given = true), order[next++]) : -1,
-          );
-        }
-      expect(counts[0] + counts[1]).toBe(panels);
-      const out = new Float64Array(n * n);
-      for (let i = 0; i < n; i++) for (let j = 0; j <= i; j++) out[i * n + j] = outs[0][i * n + j] + outs[1][i * n + j]; // one of the two is 0
-      mirrorLower(out, n);
-      expect(Array.from(out).every((v, k) => Object.is(v, crossProduct(x).data[k]))).toBe(true);
-    }
-  });
-
-  it('row ranges computed separately assemble the same matrix (the split an edge may hand to workers)', () => {
-    const x = randomMatrix(20, 23, 5);
-    const out = new Float64Array(23 * 23);
-    for (const [a, b] of [
-      [0, 4],
-      [4, 15],
-      [15, 23],
-    ])
-      crossProductRows(x, out, a, b);
-    mirrorLower(out, 23);
-    expect(relativeError(out, crossProduct(x).data)).toBeLessThan(1e-15);
-  });
 });
 
 describe('symmetric eigen-decomposition (tred2/tql2)', () => {
@@ -291,39 +234,6 @@ describe("tridiagonal form A = Q T Q' (one Householder reduction shared by every
     expect(similarityError(diagonal)).toBe(0);
   });
 
-  it('the second half of every pass run elsewhere gives the same bits (what lets an edge use a second thread)', () => {
-    const n = HAND_OFF_FROM + 57;
-    const a = crossProduct(randomMatrix(n + 20, n, 10));
-    const alone = tridiagonalForm(a);
-    let space: ReturnType<SecondHalf['allocate']> | undefined;
-    let step: [number, number] = [0, 0];
-    let handed = 0;
-    const second: SecondHalf = {
-      allocate(length) {
-        space = {
-          w: new Float64Array(length * length),
-          u: new Float64Array(length),
-          q: new Float64Array(length),
-          v: new Float64Array(length),
-          second: new Float64Array(length),
-        };
-        return space;
-      },
-      start(m, split) {
-        step = [m, split];
-        handed++;
-      },
-      finish() {
-        const s = space!;
-        fusedColumns(s.w, n, step[0], step[1], step[0], s.u, s.q, s.v, s.second);
-      },
-    };
-    const split = tridiagonalForm(a, second);
-    expect(handed).toBe(n - HAND_OFF_FROM - 1);
-    for (const key of ['diagonal', 'offDiagonal', 'halfNorms'] as const)
-      expect(Array.from(split[key]).every((x, i) => Object.is(x, alone[key][i]))).toBe(true);
-  });
-
   it("a repeated eigenvalue takes the whole exposure of its eigenspace, which does not depend on the basis numpy's eigh happens to pick", () => {
     const n = 30;
     const a = crossProduct(randomMatrix(12, n, 11)); // the zero eigenvalue repeats 18 times
@@ -346,31 +256,6 @@ describe("tridiagonal form A = Q T Q' (one Householder reduction shared by every
     const identity = zeros(5, 5);
     for (let i = 0; i < 5; i++) identity.data[i * 6] = 1;
     expect(spectralExposures(identity, [0.1, 0.2, 0.3, 0.2, 0.2]).exposures.filter((e) => e > 0)).toHaveLength(1);
-  });
-
-  it('QL run once and recorded gives every later vector the same exposures and eigenvalues bit for bit, by replaying its rotations', () => {
-    for (const [rows, n, seed] of [
-      [80, 40, 31],
-      [15, 40, 32], // rank-deficient: a repeated eigenvalue
-    ] as const) {
-      const form = tridiagonalForm(crossProduct(randomMatrix(rows, n, seed)));
-      const rotations = recordRotations(form, new Float64Array(n), new Int32Array(8 * n), new Float64Array(4 * n * n))!;
-      expect(rotations.steps.length).toBeGreaterThan(0);
-      const recorded = { ...form, rotations };
-      for (const s of [41, 42]) {
-        const v = Array.from({ length: n }, stream(s));
-        const a = formExposures(form, v);
-        const b = formExposures(recorded, v);
-        expect(Array.from(b.exposures).every((x, i) => Object.is(x, a.exposures[i]))).toBe(true);
-        expect(Array.from(b.values).every((x, i) => Object.is(x, a.values[i]))).toBe(true);
-      }
-      expect(Array.from(formEigenvalues(recorded))).toEqual(Array.from(formEigenvalues(form)));
-      // Buffers too small: nothing recorded, and the caller keeps iterating.
-      expect(
-        recordRotations(form, new Float64Array(n), new Int32Array(2), new Float64Array(4 * n * n)),
-      ).toBeUndefined();
-      expect(recordRotations(form, new Float64Array(n), new Int32Array(8 * n), new Float64Array(4))).toBeUndefined();
-    }
   });
 
   it('bisection on Sturm counts finds the extreme eigenvalues that QL finds (Barth, Martin and Wilkinson 1967)', () => {

@@ -1,8 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { conditionNumber } from '../../../shared-core/linalg/condition.js';
 import { effectiveBets } from '../../../shared-core/analytics/risk.js';
-import { tridiagonalForm } from '../../../shared-core/linalg/tridiagonal-form.js';
-import type { Matrix } from '../../../shared-core/linalg/matrix.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { createRunCache } from '../../../shared-core/scenario/run-cache.js';
 import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
@@ -45,14 +43,9 @@ describe('runScenario: one tridiagonal reduction per estimate', () => {
   if (!parsed.ok) throw new Error(parsed.errors[0].message);
 
   it('serves the exact condition number and every candidate’s effective bets, with the figures of the stand-alone functions', () => {
-    const reduced: Matrix[] = [];
-    const run = runScenario(parsed.scenario, prices(12, 300), {
-      tridiagonalise: (m) => {
-        reduced.push(m);
-        return tridiagonalForm(m);
-      },
-    });
-    expect(reduced).toHaveLength(2); // two estimators, six candidates
+    const cache = createRunCache();
+    const run = runScenario(parsed.scenario, prices(12, 300), { cache });
+    expect(cache.forms.size).toBe(2); // two estimators, six candidates
     for (const c of run.candidates) {
       expect(c.status).toBe('optimal');
       const { covariance, assets, estimate } = run.estimates[c.id];
@@ -138,67 +131,5 @@ describe('runScenario with a run cache (the editor’s live recompute)', () => {
     expect(cache.estimates.size).toBe(2);
     expect(cache.forms.size).toBe(2);
     expect([...cache.estimates.keys()].some((k) => k.includes('"halfLife":30'))).toBe(true);
-  });
-});
-
-describe('runScenario with the reduction started ahead (holdfast solve’s other thread)', () => {
-  const scenario = (estimator: string, n: number) => {
-    const parsed = parseScenario({
-      format: 'holdfast-scenario@1',
-      name: 'Ahead',
-      baseCurrency: 'EUR',
-      returns: { frequency: 'daily', method: 'log' },
-      constraints: { longOnly: true, weightBounds: { default: [0, 3 / n] } },
-      candidates: ['max-diversification', 'min-variance'].map((o) => ({
-        id: o,
-        estimator: { method: estimator },
-        objective: { method: o },
-      })),
-    });
-    if (!parsed.ok) throw new Error(parsed.errors[0].message);
-    return parsed.scenario;
-  };
-  /** An edge that defers the reduction to the wait and records the order of events. */
-  const deferring = (log: string[]) => (m: Matrix) => {
-    log.push('started');
-    return () => {
-      log.push('waited');
-      return tridiagonalForm(m);
-    };
-  };
-
-  it('gives every figure of a plain run, waits once per estimate, and shows the condition number as a plain property', () => {
-    const table = prices(30, 400);
-    const log: string[] = [];
-    const plain = runScenario(scenario('ledoit-wolf', 30), table);
-    const ahead = runScenario(scenario('ledoit-wolf', 30), table, { tridiagonaliseAhead: deferring(log) });
-    expect(log).toEqual(['started', 'waited']); // one estimate, two candidates
-    const strip = (r: typeof plain) =>
-      r.candidates.map(({ solver: { ms: _ms, ...solver }, ...c }) => ({ ...c, solver }));
-    expect(strip(ahead)).toEqual(strip(plain));
-    const d = ahead.estimates['min-variance'].estimate.diagnostics;
-    expect(d.conditionNumber).toBe(plain.estimates['min-variance'].estimate.diagnostics.conditionNumber);
-    expect(JSON.parse(JSON.stringify(d))).toEqual(
-      JSON.parse(JSON.stringify(plain.estimates['min-variance'].estimate.diagnostics)),
-    );
-  });
-
-  it('reports a badly conditioned covariance exactly as a plain run does', () => {
-    const table = prices(6, 200);
-    // A duplicated asset: the sample covariance is singular although T > N.
-    const twin: PriceTable = {
-      ...table,
-      assets: [...table.assets, 'A1 twin'],
-      closes: [...table.closes, table.closes[0]],
-    };
-    const plain = runScenario(scenario('sample', 7), twin);
-    const log: string[] = [];
-    const ahead = runScenario(scenario('sample', 7), twin, { tridiagonaliseAhead: deferring(log) });
-    expect(plain.candidates[0].status).toBe('error');
-    expect(plain.candidates[0].message).toMatch(/singular or badly conditioned/);
-    expect(ahead.candidates.map((c) => [c.status, c.message])).toEqual(
-      plain.candidates.map((c) => [c.status, c.message]),
-    );
-    expect(log).toEqual(['started', 'waited']);
   });
 });
