@@ -111,7 +111,7 @@ export function explainAssets(
           : inBand.has(i)
             ? 'group-limit'
             : 'held';
-    const base = { asset, weight: w[i], reason };
+    const base = { asset, weight: w[i], reason, ...(inBand.has(i) ? { limitBinding: inBand.get(i) } : {}) };
     const tail = reason === 'group-limit' ? `, away from it because ${inBand.get(i)}` : '';
     // Left out although its own figure says it would be held: some other limit keeps it out.
     const keptOut = inBand.has(i)
@@ -136,7 +136,7 @@ export function explainAssets(
                 : reason === 'at-lower-bound'
                   ? `held at its floor of ${pct(w[i])}: ${c}, at or above its threshold of ${num(own)} once the binding limits are counted (${without}); it would be held less without the floor`
                   : `held at ${pct(w[i])}: ${c}, equal to its threshold once the binding limits are counted (${without})${tail}`;
-          out.push({ ...base, text, correlationWithPortfolio: rho, threshold: own });
+          out.push({ ...base, text, correlationWithPortfolio: rho, measure: rho, threshold: own });
           break;
         }
         const c = `correlation ${num(rho)} with the portfolio, threshold 1/DR = ${num(t)}`;
@@ -150,7 +150,7 @@ export function explainAssets(
               : reason === 'at-lower-bound'
                 ? `held at its floor of ${pct(w[i])}: ${c}; above the threshold, it would be held less without the floor`
                 : `held at ${pct(w[i])}: ${c}${tail}`;
-        out.push({ ...base, text, correlationWithPortfolio: rho, threshold: t });
+        out.push({ ...base, text, correlationWithPortfolio: rho, measure: rho, threshold: t });
         break;
       }
       case 'min-variance':
@@ -172,7 +172,7 @@ export function explainAssets(
                 : reason === 'at-lower-bound'
                   ? `held at its floor of ${pct(w[i])}: ${b}, at or above its threshold of ${num(own)} once the binding limits are counted (${without}); it would be held less without the floor`
                   : `held at ${pct(w[i])}: ${b}, equal to its threshold once the binding limits are counted (${without})${tail}`;
-          out.push({ ...base, text, correlationWithPortfolio: rho, threshold: own });
+          out.push({ ...base, text, correlationWithPortfolio: rho, measure: beta, threshold: own });
           break;
         }
         const text =
@@ -185,7 +185,7 @@ export function explainAssets(
               : reason === 'at-lower-bound'
                 ? `held at its floor of ${pct(w[i])}: ${what} ${num(beta)}, above 1`
                 : `held at ${pct(w[i])}: ${what} ${num(beta)}; at the minimum every freely held asset has beta 1${tail}`;
-        out.push({ ...base, text, correlationWithPortfolio: rho, threshold: 1 });
+        out.push({ ...base, text, correlationWithPortfolio: rho, measure: beta, threshold: 1 });
         break;
       }
       case 'equal-risk-contribution': {
@@ -197,7 +197,7 @@ export function explainAssets(
               ? tail
               : ` (at its ${reason === 'at-upper-bound' ? capWord : 'floor'})`
         }`;
-        out.push({ ...base, text, correlationWithPortfolio: rho });
+        out.push({ ...base, text, correlationWithPortfolio: rho, measure: fig.riskShares[i], threshold: b });
         break;
       }
       case 'max-sharpe': {
@@ -213,7 +213,7 @@ export function explainAssets(
                 ? `left out: ${c}; it does not pay for the risk it adds`
                 : `left out: ${c}; it would pay for its risk${keptOut}`
               : `held at ${pct(w[i])}: ${c}${tail}`;
-        out.push({ ...base, text, correlationWithPortfolio: rho, threshold: need });
+        out.push({ ...base, text, correlationWithPortfolio: rho, measure: mu, threshold: need });
         break;
       }
       default: {

@@ -32,7 +32,16 @@ export interface AssetExplanation {
   /** A sentence an advisor can repeat, with the figures in it. */
   text: string;
   correlationWithPortfolio?: number;
+  /**
+   * The figure the optimality condition compares with `threshold`: the correlation with the
+   * portfolio (maximum diversification), the beta to it (minimum variance, maximum
+   * decorrelation), the share of risk (equal risk contribution, threshold = its budget), the
+   * expected return (maximum Sharpe ratio, threshold = what its beta asks).
+   */
+  measure?: number;
   threshold?: number;
+  /** A binding band or portfolio-wide limit this asset sits in, in words: "the Equity band binds". */
+  limitBinding?: string;
 }
 
 /** A binding constraint and its shadow price in the objective's own units. */

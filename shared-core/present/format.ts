@@ -217,3 +217,8 @@ export function listInWords(items: readonly string[]): string {
   if (items.length <= 1) return items.join('');
   return `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`;
 }
+
+/** A count with its noun, singular for exactly one: "1 asset", "25 assets", "0 trades". */
+export function countOf(n: number, singular: string, plural = `${singular}s`): string {
+  return `${formatAmount(n)} ${n === 1 ? singular : plural}`;
+}

@@ -47,6 +47,11 @@ export interface TableOptions {
   fontSize?: number;
 }
 
+interface PendingHeading {
+  text: string;
+  level: 1 | 2;
+}
+
 export interface PdfInfo {
   title: string;
   author: string;
@@ -60,6 +65,8 @@ export class PageWriter {
   readonly doc: PDFKit.PDFDocument;
   private readonly chunks: Buffer[] = [];
   private readonly finished: Promise<void>;
+  /** Headings not yet drawn: they are placed by the next block's `keep`, on that block's page. */
+  private readonly pending: PendingHeading[] = [];
 
   constructor(info: PdfInfo) {
     this.doc = new PDFDocument({
@@ -107,50 +114,75 @@ export class PageWriter {
     this.doc.y = MARGIN.top;
   }
 
-  /** Starts a new page unless `height` points fit below the cursor. */
+  /**
+   * Starts a new page unless `height` points fit below the cursor. Headings waiting to be drawn
+   * (keep-with-next) count towards the height and are drawn first, so a heading always lands on
+   * the page of what follows it. Every block calls this before it draws.
+   */
   keep(height: number): void {
-    if (this.doc.y + height > this.bottom) this.newPage();
+    const pending = this.pending.splice(0);
+    const headings = pending.reduce((s, h) => s + this.headingHeight(h), 0);
+    if (this.doc.y + headings + height > this.bottom && this.doc.y > MARGIN.top + 1) this.newPage();
+    for (const h of pending) this.drawHeading(h);
   }
 
   space(points: number): void {
     this.doc.y += points;
   }
 
-  /** A numbered section heading with a thin accent rule; keeps `following` points with it. */
-  heading(text: string, following = 90): void {
-    this.keep(40 + following);
-    const y = this.doc.y;
-    this.doc.font(FONT_BOLD).fontSize(SIZE.h1).fillColor(INK).text(text, MARGIN.left, y, { width: CONTENT_WIDTH });
-    const ruleY = this.doc.y + 3;
-    this.doc
-      .moveTo(MARGIN.left, ruleY)
-      .lineTo(MARGIN.left + CONTENT_WIDTH, ruleY)
-      .lineWidth(0.8)
-      .strokeColor(ACCENT)
-      .stroke();
-    this.doc.y = ruleY + 10;
-    this.doc.font(FONT_REGULAR).fontSize(SIZE.body);
+  /** A section heading with a thin accent rule, drawn with the block that follows it (keep-with-next). */
+  heading(text: string): void {
+    this.pending.push({ text, level: 1 });
   }
 
-  subheading(text: string, following = 50): void {
-    this.keep(22 + following);
-    this.space(4);
-    this.doc.font(FONT_BOLD).fontSize(SIZE.h2).fillColor(INK).text(text, MARGIN.left, this.doc.y, {
-      width: CONTENT_WIDTH,
-    });
-    this.space(3);
+  /** A subheading, kept with the block that follows it as `heading` is. */
+  subheading(text: string): void {
+    this.pending.push({ text, level: 2 });
+  }
+
+  /** Starts the next heading on a fresh page (the appendix), unless the cursor is at a page's top. */
+  pageBreak(): void {
+    if (this.doc.y > MARGIN.top + 1 || this.pending.length > 0) {
+      const pending = this.pending.splice(0);
+      if (this.doc.y > MARGIN.top + 1) this.newPage();
+      this.pending.push(...pending);
+    }
+  }
+
+  private headingHeight(h: PendingHeading): number {
+    const size = h.level === 1 ? SIZE.h1 : SIZE.h2;
+    this.doc.font(FONT_BOLD).fontSize(size);
+    const text = this.doc.heightOfString(h.text, { width: CONTENT_WIDTH });
+    return h.level === 1 ? text + 13 : text + 7;
+  }
+
+  private drawHeading(h: PendingHeading): void {
+    if (h.level === 1) {
+      const y = this.doc.y;
+      this.doc.font(FONT_BOLD).fontSize(SIZE.h1).fillColor(INK).text(h.text, MARGIN.left, y, { width: CONTENT_WIDTH });
+      const ruleY = this.doc.y + 3;
+      this.rule(ruleY, ACCENT, 0.8);
+      this.doc.y = ruleY + 10;
+    } else {
+      this.space(4);
+      this.doc.font(FONT_BOLD).fontSize(SIZE.h2).fillColor(INK).text(h.text, MARGIN.left, this.doc.y, {
+        width: CONTENT_WIDTH,
+      });
+      this.space(3);
+    }
     this.doc.font(FONT_REGULAR).fontSize(SIZE.body);
   }
 
   paragraph(text: string, options: { muted?: boolean; size?: number; bold?: boolean; after?: number } = {}): void {
     const size = options.size ?? SIZE.body;
+    this.doc.font(options.bold ? FONT_BOLD : FONT_REGULAR).fontSize(size);
+    const height = this.doc.heightOfString(text, { width: CONTENT_WIDTH, lineGap: 2.2 });
+    // Short paragraphs stay whole; long ones may flow over a page break after their first lines.
+    this.keep(height < 80 ? height : 3 * (size + 2.2));
     this.doc
       .font(options.bold ? FONT_BOLD : FONT_REGULAR)
       .fontSize(size)
       .fillColor(options.muted ? INK_SOFT : INK);
-    const height = this.doc.heightOfString(text, { width: CONTENT_WIDTH, lineGap: 2.2 });
-    // Short paragraphs stay whole; long ones may flow over a page break.
-    if (height < 80) this.keep(height);
     this.doc.text(text, MARGIN.left, this.doc.y, { width: CONTENT_WIDTH, lineGap: 2.2, features: [...TNUM] });
     this.space(options.after ?? 6);
     this.doc.fillColor(INK).font(FONT_REGULAR).fontSize(SIZE.body);
@@ -313,6 +345,38 @@ export class PageWriter {
     this.space(10);
   }
 
+  /**
+   * A colour key: a swatch and a label per item, flowing onto further lines so that every label
+   * stays inside the page's width.
+   */
+  legend(items: readonly { label: string; colour: string; ink?: string }[]): void {
+    const size = SIZE.small;
+    const lineH = 13;
+    this.doc.font(FONT_REGULAR).fontSize(size);
+    const widths = items.map((it) => 10 + Math.min(this.doc.widthOfString(it.label), CONTENT_WIDTH - 10) + 12);
+    let lines = 1;
+    widths.reduce((x, w) => (x + w > CONTENT_WIDTH && x > 0 ? (lines++, w) : x + w), 0);
+    this.keep(lines * lineH + 4);
+    let x = 0;
+    let y = this.doc.y;
+    items.forEach((it, i) => {
+      if (x + widths[i] > CONTENT_WIDTH && x > 0) {
+        x = 0;
+        y += lineH;
+      }
+      this.doc.rect(MARGIN.left + x, y + 2, 7, 7).fill(it.colour);
+      this.doc
+        .font(FONT_REGULAR)
+        .fontSize(size)
+        .fillColor(it.ink ?? INK)
+        .text(it.label, MARGIN.left + x + 10, y, { lineBreak: false, width: CONTENT_WIDTH - x - 10, ellipsis: true });
+      x += widths[i];
+    });
+    this.doc.fillColor(INK).fontSize(SIZE.body);
+    this.doc.x = MARGIN.left;
+    this.doc.y = y + lineH + 4;
+  }
+
   /** Draws the running footer on every page, once the page count is known. */
   footers(left: (page: number, pages: number) => string, right: (page: number, pages: number) => string): void {
     const range = this.doc.bufferedPageRange();
@@ -343,6 +407,7 @@ export class PageWriter {
   }
 
   async finish(): Promise<Buffer> {
+    if (this.pending.length > 0) throw new Error(`heading '${this.pending[0].text}' has nothing after it`);
     this.doc.end();
     await this.finished;
     return Buffer.concat(this.chunks);

@@ -10,6 +10,7 @@ import {
   renderChartSvg,
 } from './charts.js';
 import {
+  countOf,
   formatAmount,
   formatWeightChange,
   formatFixed,
@@ -25,7 +26,7 @@ import { memoHash } from './memo-hash.js';
 import type { MemoInput } from './memo-input.js';
 import { buildView, type MemoView } from './memo-view.js';
 import { AMBER, candidateColour, INK, INK_SOFT, RULE } from '../../shared-core/present/palette.js';
-import { CONTENT_WIDTH, MARGIN, PageWriter, SIZE, type BulletItem, type Column, type TableRow } from './page-writer.js';
+import { CONTENT_WIDTH, MARGIN, PageWriter, SIZE, type Column, type TableRow } from './page-writer.js';
 import { FONT_BOLD, FONT_REGULAR } from './fonts.js';
 import {
   constraintSentences,
@@ -34,6 +35,7 @@ import {
   estimatorWords,
   objectiveWords,
 } from './plain-words.js';
+import { reasonsTable } from './reasons-table.js';
 
 /** The cautions every memo carries, word for word (the brief's rule; tests look for them). */
 export const CAUTIONS = [
@@ -42,17 +44,41 @@ export const CAUTIONS = [
   'This memo is not a recommendation until it has been reviewed by a licensed adviser under the local rules that apply.',
 ] as const;
 
-/** Section titles, in order; tests check each is present. */
+/**
+ * Section titles. The body, numbered 1 to 3, is what a client reads: the recommendation with its
+ * figures and the total of the trades, the trades, the risk. The appendix, lettered from A,
+ * carries the evidence: the reasons, the stability bands and the walk-forward test when the
+ * revision has them, the candidates, the method and data, the cautions and sign-off.
+ */
 export const SECTION_TITLES = {
-  summary: 'Summary',
-  allocation: 'Allocation and trades',
+  recommendation: 'The recommendation',
+  trades: 'The trades',
   risk: 'Where the risk comes from',
   reasons: 'Why each position is held or left out',
+  stability: 'How stable the weights are',
   candidates: 'Candidates considered',
-  walkForward: 'Walk-forward and stress',
+  walkForward: 'Walk-forward test',
   method: 'Method and data',
-  cautions: 'Assumptions, limitations and cautions',
+  cautions: 'Cautions and sign-off',
 } as const;
+
+/** The headings the memo prints for `input`, in order, with their numbers and letters. */
+export function memoHeadings(input: MemoInput): string[] {
+  const t = SECTION_TITLES;
+  const body = [t.recommendation, t.trades, t.risk].map((title, i) => `${i + 1}  ${title}`);
+  const appendix = [
+    t.reasons,
+    ...(input.stability ? [t.stability] : []),
+    t.candidates,
+    ...(input.walkForward ? [t.walkForward] : []),
+    t.method,
+    t.cautions,
+  ].map((title, i) => `${String.fromCharCode(65 + i)}  ${title}`);
+  return [...body, ...appendix];
+}
+
+/** Height of a bar chart with one bar per asset. */
+const barsHeight = (n: number) => Math.max(90, 18 + n * 12);
 
 /**
  * Writes the allocation memo. A pure function of `input` (and the embedded font): the PDF's
@@ -70,19 +96,20 @@ export async function renderMemo(input: MemoInput): Promise<Buffer> {
     keywords: `scenario ${input.scenario.hash}; memo ${hash}`,
     date,
   });
-  let n = 0;
-  const next = (title: string) => `${++n}  ${title}`;
+  const headings = memoHeadings(input);
+  const next = () => headings.shift()!;
 
-  cover(w, view);
-  w.newPage();
-  summary(w, view, next(SECTION_TITLES.summary));
-  allocation(w, view, next(SECTION_TITLES.allocation));
-  risk(w, view, next(SECTION_TITLES.risk));
-  reasons(w, view, next(SECTION_TITLES.reasons));
-  candidates(w, view, next(SECTION_TITLES.candidates));
-  if (input.walkForward || input.stress) walkForward(w, view, next(SECTION_TITLES.walkForward));
-  method(w, view, next(SECTION_TITLES.method), hash);
-  cautions(w, view, next(SECTION_TITLES.cautions));
+  masthead(w, view);
+  recommendation(w, view, next());
+  trades(w, view, next());
+  risk(w, view, next());
+  w.pageBreak();
+  reasons(w, view, next());
+  if (input.stability) stability(w, view, next());
+  candidates(w, view, next());
+  if (input.walkForward) walkForward(w, view, next());
+  method(w, view, next(), hash);
+  cautions(w, view, next());
 
   // Hashes first, so a long household or scenario name is what gets shortened, never the audit trail.
   const short = (h: string) => h.slice(0, 12);
@@ -96,70 +123,52 @@ export async function renderMemo(input: MemoInput): Promise<Buffer> {
 
 // ---------------------------------------------------------------------------------------------
 
-function cover(w: PageWriter, v: MemoView): void {
+/** The top of page 1: who the memo is for, which scenario and revision, when and by whom. */
+function masthead(w: PageWriter, v: MemoView): void {
   const { input } = v;
   const doc = w.doc;
-  doc.y = 150;
-  doc.font(FONT_REGULAR).fontSize(10).fillColor(INK_SOFT).text('ALLOCATION MEMO', MARGIN.left, doc.y, {
-    characterSpacing: 1.6,
+  doc.font(FONT_REGULAR).fontSize(8.5).fillColor(INK_SOFT).text('ALLOCATION MEMO', MARGIN.left, doc.y, {
+    characterSpacing: 1.4,
   });
-  w.space(10);
+  w.space(4);
   doc.font(FONT_BOLD).fontSize(SIZE.title).fillColor(INK).text(input.household.name, MARGIN.left, doc.y, {
     width: CONTENT_WIDTH,
   });
-  w.space(4);
+  w.space(2);
   doc
     .font(FONT_REGULAR)
-    .fontSize(13)
+    .fontSize(11.5)
     .fillColor(INK)
-    .text(`${input.scenario.name}, revision ${input.scenario.revision}`, { width: CONTENT_WIDTH });
-  w.space(26);
-  w.rule(doc.y, RULE, 0.6);
-  w.space(12);
-  w.facts([
-    ['Date', input.createdOn],
-    ['Prepared by', input.preparedBy],
-    ['Scenario', input.scenario.name],
-    ['Revision', `${input.scenario.revision} (hash ${input.scenario.hash.slice(0, 16)})`],
-    ['Base currency', input.household.baseCurrency],
-    ['Recommended', v.candidateLabel(v.recommended)],
-    ...(v.trades
-      ? [
-          [
-            'Holdings',
-            `${formatMoney(v.trades.total, input.household.baseCurrency, v.trades.decimals)}${input.household.holdings?.asOf ? ` as of ${input.household.holdings.asOf}` : ''}`,
-          ] as const,
-        ]
-      : []),
-  ]);
+    .text(`${input.scenario.name}, revision ${input.scenario.revision}`, MARGIN.left, doc.y, { width: CONTENT_WIDTH });
+  w.space(3);
+  doc
+    .font(FONT_REGULAR)
+    .fontSize(SIZE.small)
+    .fillColor(INK_SOFT)
+    .text(
+      [
+        input.createdOn,
+        `prepared by ${input.preparedBy}`,
+        `base currency ${input.household.baseCurrency}`,
+        `revision hash ${input.scenario.hash.slice(0, 16)}`,
+      ].join('  \u00b7  '),
+      MARGIN.left,
+      doc.y,
+      { width: CONTENT_WIDTH },
+    );
   w.space(8);
   w.rule(doc.y, RULE, 0.6);
-  doc.y = 640;
-  w.paragraph('For discussion with the household and for review by a licensed adviser. ' + CAUTIONS.join(' ') + '', {
-    muted: true,
-    size: SIZE.small,
-  });
-}
-
-function metricRow(label: string, current: string | null, target: string, currentAvailable: boolean): TableRow {
-  return { cells: currentAvailable ? [label, current ?? '\u2013', target] : [label, target] };
-}
-
-function largest(weights: Record<string, number>, v: MemoView, k = 3): string {
-  return Object.entries(weights)
-    .filter(([, x]) => Math.abs(x) >= 0.0005)
-    .sort(([a, x], [b, y]) => y - x || (a < b ? -1 : 1))
-    .slice(0, k)
-    .map(([a, x]) => `${v.name(a)} ${formatPct(x)}`)
-    .join(', ');
+  w.space(14);
+  doc.fillColor(INK).font(FONT_REGULAR).fontSize(SIZE.body);
 }
 
 function rank(values: number[], value: number, descending: boolean): number {
   return values.filter((x) => (descending ? x > value + 1e-12 : x < value - 1e-12)).length + 1;
 }
 
-function summary(w: PageWriter, v: MemoView, title: string): void {
-  const { input, recommended: rc } = v;
+/** Page 1: the recommendation, its figures against the current holdings, the trades in total. */
+function recommendation(w: PageWriter, v: MemoView, title: string): void {
+  const { input, recommended: rc, trades: plan } = v;
   const m = rc.metrics!;
   const spec = input.scenario.document.candidates.find((c) => c.id === rc.id);
   w.heading(title);
@@ -171,7 +180,7 @@ function summary(w: PageWriter, v: MemoView, title: string): void {
   const sentences = [
     `The recommended allocation is ${v.candidateLabel(rc)}${how}.`,
     solved.length > 1
-      ? `Of the ${solved.length} candidates solved, its diversification ratio of ${formatRatio2(m.diversificationRatio)} ranks ${ordinal(rank(drs, m.diversificationRatio, true))} highest and its volatility of ${formatPct(m.volatility)} a year ranks ${ordinal(rank(vols, m.volatility, false))} lowest.`
+      ? `Of the ${countOf(solved.length, 'candidate')} solved, its diversification ratio of ${formatRatio2(m.diversificationRatio)} ranks ${ordinal(rank(drs, m.diversificationRatio, true))} highest and its volatility of ${formatPct(m.volatility)} a year ranks ${ordinal(rank(vols, m.volatility, false))} lowest.`
       : `It is the only candidate solved; its diversification ratio is ${formatRatio2(m.diversificationRatio)} and its volatility ${formatPct(m.volatility)} a year.`,
   ];
   const cm = input.currentMetrics;
@@ -180,92 +189,112 @@ function summary(w: PageWriter, v: MemoView, title: string): void {
       `Against the current holdings, volatility moves from ${formatPct(cm.volatility)} to ${formatPct(m.volatility)} and the diversification ratio from ${formatRatio2(cm.diversificationRatio)} to ${formatRatio2(m.diversificationRatio)}, for a turnover of ${formatPct(m.turnover)} of the portfolio.`,
     );
   w.paragraph(sentences.join(' '));
-  w.space(4);
+  w.space(2);
   const has = cm !== null;
-  const cols: Column[] = has
-    ? [
-        { header: 'Figure', width: 2.2 },
-        { header: 'Current holdings', width: 2.4, align: 'right' },
-        { header: `Recommended: ${v.candidateLabel(rc)}`, width: 2.4, align: 'right' },
-      ]
-    : [
-        { header: 'Figure', width: 2.2 },
-        { header: `Recommended: ${v.candidateLabel(rc)}`, width: 2.4, align: 'right' },
-      ];
+  const cols: Column[] = [
+    { header: 'Figure', width: 2.4 },
+    ...(has ? [{ header: 'Current holdings', width: 1.6, align: 'right' as const }] : []),
+    { header: `Recommended: ${v.candidateLabel(rc)}`, width: 2.2, align: 'right' },
+  ];
+  const row = (label: string, current: string | null, target: string): TableRow => ({
+    cells: has ? [label, current ?? '\u2013', target] : [label, target],
+  });
   w.table(cols, [
-    metricRow('Volatility, annualised', cm ? formatPct(cm.volatility) : null, formatPct(m.volatility), has),
-    metricRow(
+    row('Volatility, annualised', cm ? formatPct(cm.volatility) : null, formatPct(m.volatility)),
+    row(
       'Diversification ratio',
       cm ? formatRatio2(cm.diversificationRatio) : null,
       formatRatio2(m.diversificationRatio),
-      has,
     ),
-    metricRow(
-      'Effective number of bets',
-      cm ? formatRatio2(cm.effectiveBets) : null,
-      formatRatio2(m.effectiveBets),
-      has,
-    ),
-    metricRow(
+    row('Effective number of bets', cm ? formatRatio2(cm.effectiveBets) : null, formatRatio2(m.effectiveBets)),
+    row(
       'Effective number of holdings',
       cm ? formatRatio2(cm.effectiveHoldings) : null,
       formatRatio2(m.effectiveHoldings),
-      has,
     ),
-    metricRow('Turnover from current', cm ? '\u2013' : null, formatPct(m.turnover), has),
-    metricRow('Largest positions', v.current ? largest(v.current, v) : null, largest(rc.weights, v), has),
+    row('Turnover from current', cm ? '\u2013' : null, formatPct(m.turnover)),
   ]);
   w.paragraph(
     `Volatility and the diversification ratio are measured with the recommended candidate's estimate (${input.run.estimate.method}) over ${input.run.returns.from} to ${input.run.returns.to}, annualised. Effective number of bets after Meucci (2009); effective number of holdings is 1 / sum of squared weights.`,
     { muted: true, size: SIZE.small },
   );
+
+  w.subheading('The trades in total');
+  const ccy = input.household.baseCurrency;
+  if (plan) {
+    const buys = plan.rows.filter((r) => r.trade > 0);
+    const sells = plan.rows.filter((r) => r.trade < 0);
+    const full = sells.filter((r) => r.after === 0).length;
+    w.facts([
+      [
+        'Holdings valued at',
+        `${formatMoney(plan.total, ccy, plan.decimals)}${input.household.holdings?.asOf ? ` on ${input.household.holdings.asOf}` : ''}`,
+      ],
+      ['Buys', `${formatMoney(plan.buys, ccy, plan.decimals)} in ${countOf(buys.length, 'trade')}`],
+      [
+        'Sales',
+        `${formatMoney(plan.sells, ccy, plan.decimals)} in ${countOf(sells.length, 'trade')}${full > 0 ? `, ${countOf(full, 'position')} sold in full` : ''}`,
+      ],
+      ['Cash left from rounding', formatMoney(plan.residual, ccy, plan.decimals)],
+      ['Turnover', `${formatPct(m.turnover)} of the portfolio (sum of the absolute weight changes)`],
+    ]);
+  } else if (v.current) {
+    w.paragraph(
+      `No holding amounts were given, so the trades are weight changes only, for a turnover of ${formatPct(m.turnover)} of the portfolio.`,
+    );
+  } else {
+    w.paragraph('The scenario gives no current holdings: the memo shows the target weights only.');
+  }
+  w.space(4);
+  w.paragraph(`For discussion with the household and for review by a licensed adviser. ${CAUTIONS.join(' ')}`, {
+    muted: true,
+    size: SIZE.small,
+  });
 }
 
-function allocation(w: PageWriter, v: MemoView, title: string): void {
-  const { input, recommended: rc, trades, current } = v;
+/** The trades, asset by asset, and the weights before and after. */
+function trades(w: PageWriter, v: MemoView, title: string): void {
+  const { input, recommended: rc, trades: plan, current } = v;
   const ccy = input.household.baseCurrency;
   const info = input.scenario.document.assetInfo ?? {};
-  w.heading(title, 140);
-  const intro: string[] = [];
-  if (trades) {
-    intro.push(
-      `Holdings valued at ${formatMoney(trades.total, ccy, trades.decimals)}${input.household.holdings?.asOf ? ` on ${input.household.holdings.asOf}` : ''}. Trades are rounded to lots of ${formatMoney(trades.lot, ccy, trades.decimals)}; a position sold in full is sold to the last unit. Buys total ${formatMoney(trades.buys, ccy, trades.decimals)} and sales ${formatMoney(trades.sells, ccy, trades.decimals)}.`,
+  w.heading(title);
+  if (plan) {
+    w.paragraph(
+      `Each trade takes a position to its target weight, rounded to a lot of ${formatMoney(plan.lot, ccy, plan.decimals)}; a position sold in full is sold to the last unit. Amounts are market values in ${ccy}, by target weight.`,
     );
   } else if (current) {
-    intro.push('No holding amounts were given, so changes are shown as weights only, without trade amounts.');
+    w.paragraph('No holding amounts were given, so changes are shown as weights only, without trade amounts.');
   } else {
-    intro.push('The scenario gives no current holdings: the table shows the target weights only.');
+    w.paragraph('The scenario gives no current holdings: the table shows the target weights only.');
   }
-  w.paragraph(intro.join(' '));
-  const hasTrades = trades !== null;
   const cols: Column[] = [
-    { header: 'Asset', width: 3.1 },
-    { header: 'Class', width: 1.6 },
-    { header: 'Ccy', width: 0.7 },
+    { header: 'Asset', width: 3.3 },
+    { header: 'Class', width: 1.5 },
+    { header: 'Ccy', width: 0.6 },
     ...(current
       ? [
-          { header: 'Current %', width: 1.15, align: 'right' as const },
-          { header: 'Target %', width: 1.15, align: 'right' as const },
-          { header: 'Change pp', width: 1.15, align: 'right' as const },
+          { header: 'Current %', width: 1.05, align: 'right' as const },
+          { header: 'Target %', width: 1.05, align: 'right' as const },
+          { header: 'Change pp', width: 1.05, align: 'right' as const },
         ]
-      : [{ header: 'Target %', width: 1.15, align: 'right' as const }]),
-    ...(hasTrades ? [{ header: `Trade ${ccy}`, width: 1.7, align: 'right' as const }] : []),
+      : [{ header: 'Target %', width: 1.05, align: 'right' as const }]),
+    ...(plan ? [{ header: `Trade ${ccy}`, width: 1.5, align: 'right' as const }] : []),
   ];
-  const tradeOf = new Map(trades?.rows.map((r) => [r.asset, r]) ?? []);
+  const tradeOf = new Map(plan?.rows.map((r) => [r.asset, r]) ?? []);
   const rows: TableRow[] = v.shown.map((a) => {
     const target = rc.weights[a] ?? 0;
     const cells = [v.name(a), (info[a]?.assetClass ?? '\u2013').replace(/-/g, ' '), info[a]?.currency ?? ccy];
     if (current)
       cells.push(formatPercent1(current[a] ?? 0), formatPercent1(target), formatWeightChange(current[a] ?? 0, target));
     else cells.push(formatPercent1(target));
-    if (trades) cells.push(formatTrade(tradeOf.get(a)!.trade, trades.decimals));
+    if (plan) cells.push(formatTrade(tradeOf.get(a)!.trade, plan.decimals));
     return { cells };
   });
   const sumTarget = Object.values(rc.weights).reduce((s, x) => s + x, 0);
-  if (trades) {
+  if (plan) {
     const blanks = current ? ['', '', ''] : [''];
     rows.push({
-      cells: [`Cash left from rounding to lots`, '', '', ...blanks, formatTrade(trades.residual, trades.decimals)],
+      cells: [`Cash left from rounding to lots`, '', '', ...blanks, formatTrade(plan.residual, plan.decimals)],
       muted: true,
     });
   }
@@ -274,9 +303,9 @@ function allocation(w: PageWriter, v: MemoView, title: string): void {
     const sumCurrent = Object.values(current).reduce((s, x) => s + x, 0);
     totalCells.push(formatPercent1(sumCurrent), formatPercent1(sumTarget), formatWeightChange(sumCurrent, sumTarget));
   } else totalCells.push(formatPercent1(sumTarget));
-  if (trades) {
-    const net = trades.rows.reduce((s, r) => s + r.trade, 0) + trades.residual;
-    totalCells.push(formatTrade(net, trades.decimals));
+  if (plan) {
+    const net = plan.rows.reduce((s, r) => s + r.trade, 0) + plan.residual;
+    totalCells.push(formatTrade(net, plan.decimals));
   }
   rows.push({ cells: totalCells, total: true });
   w.table(cols, rows);
@@ -287,14 +316,7 @@ function allocation(w: PageWriter, v: MemoView, title: string): void {
   w.paragraph(notes.join(' '), { muted: true, size: SIZE.small });
 
   const order = v.shown;
-  const svg = renderChartSvg(
-    pairedBarsOption(
-      order.map((a) => ({ label: v.name(a), current: current ? (current[a] ?? 0) : null, target: rc.weights[a] ?? 0 })),
-      candidateColour(v.recommendedIndex),
-    ),
-    CONTENT_WIDTH,
-    Math.max(110, 22 + order.length * 17),
-  );
+  const height = barsHeight(order.length);
   let finding = 'Target weights of the recommended allocation';
   if (current) {
     const deltas = order.map((a) => [a, (rc.weights[a] ?? 0) - (current[a] ?? 0)] as const);
@@ -304,29 +326,36 @@ function allocation(w: PageWriter, v: MemoView, title: string): void {
       finding = `The largest increase is ${v.name(up[0])} (${formatWeightChange(current[up[0]] ?? 0, rc.weights[up[0]] ?? 0)} pp), the largest reduction ${v.name(down[0])} (${formatWeightChange(current[down[0]] ?? 0, rc.weights[down[0]] ?? 0)} pp)`;
   }
   w.chart(
-    svg,
-    Math.max(110, 22 + order.length * 17),
+    renderChartSvg(
+      pairedBarsOption(
+        order.map((a) => ({
+          label: v.name(a),
+          current: current ? (current[a] ?? 0) : null,
+          target: rc.weights[a] ?? 0,
+        })),
+        candidateColour(v.recommendedIndex),
+      ),
+      CONTENT_WIDTH,
+      height,
+    ),
+    height,
     finding,
     `Weights in % of the portfolio. Solid bars: target; outlined bars: current holdings. Sorted by target weight.`,
   );
 }
 
-function correlationRows(input: MemoInput): number[][] {
-  const c = correlationMatrix(input.run.estimate.covariance);
-  return Array.from({ length: c.rows }, (_, i) => Array.from(c.data.subarray(i * c.cols, (i + 1) * c.cols)));
-}
-
+/** Where the risk comes from: contributions, correlations and, when the revision has them, stresses. */
 function risk(w: PageWriter, v: MemoView, title: string): void {
   const { input, recommended: rc } = v;
   const m = rc.metrics!;
   const cm = input.currentMetrics;
-  w.heading(title, 200);
+  w.heading(title);
   const order = v.shown;
   const top = [...order].sort((a, b) => (m.riskContributions[b] ?? 0) - (m.riskContributions[a] ?? 0))[0];
   const finding = top
     ? `${v.name(top)} carries the most risk: ${formatPct(m.riskContributions[top] ?? 0)} of the total for ${formatPct(rc.weights[top] ?? 0)} of the weight`
     : 'Risk contributions';
-  const height = Math.max(110, 22 + order.length * 17);
+  const height = barsHeight(order.length);
   w.chart(
     renderChartSvg(
       pairedBarsOption(
@@ -375,6 +404,46 @@ function risk(w: PageWriter, v: MemoView, title: string): void {
     `Correlations of the estimate the recommended allocation used (${input.run.estimate.method}). Blue negative, white zero, red positive; assets ordered by average-linkage clustering on sqrt((1 \u2212 rho) / 2) so that correlated groups sit together.`,
     width,
   );
+
+  const st = input.stress;
+  if (st) {
+    w.subheading('Stress tests');
+    w.paragraph(`Portfolio return of each candidate's weights under each stress${st.method ? `: ${st.method}` : ''}.`);
+    // One column per candidate, as everywhere in the memo; one row per stress.
+    const ids = st.rows.map((r) => r.candidateId);
+    w.table(
+      [
+        { header: 'Stress', width: 2.4 },
+        ...ids.map((id) => ({
+          header: `${labelOf(v, id)}${id === v.recommended.id ? ' (recommended)' : ''}`,
+          width: 1.2,
+          align: 'right' as const,
+        })),
+      ],
+      st.shocks.map((s, k) => ({
+        cells: [`${s.name}\n${s.description}`, ...st.rows.map((r) => formatPct(r.impacts[k]))],
+      })),
+    );
+  }
+}
+
+function labelOf(v: MemoView, id: string): string {
+  const c = v.input.run.candidates.find((x) => x.id === id);
+  return c ? v.candidateLabel(c) : id;
+}
+
+function colourOf(v: MemoView, id: string): string {
+  return candidateColour(
+    Math.max(
+      0,
+      v.input.run.candidates.findIndex((x) => x.id === id),
+    ),
+  );
+}
+
+function correlationRows(input: MemoInput): number[][] {
+  const c = correlationMatrix(input.run.estimate.covariance);
+  return Array.from({ length: c.rows }, (_, i) => Array.from(c.data.subarray(i * c.cols, (i + 1) * c.cols)));
 }
 
 /** Asset ids in the solver's sentences become the names the memo prints. */
@@ -398,36 +467,48 @@ function sentence(text: string): string {
   return /[.!?]$/.test(capital) ? capital : `${capital}.`;
 }
 
-function byWeight<T extends { weight: number; asset: string }>(items: readonly T[]): T[] {
-  return [...items].sort((a, b) => b.weight - a.weight || (a.asset < b.asset ? -1 : 1));
-}
-
-/** The solver's sentence for one asset, led by the asset's name unless it already names it. */
-function explained(v: MemoView, a: { asset: string; text: string }): BulletItem {
-  const text = withNames(v, a.text);
-  const name = v.name(a.asset);
-  if (text.includes(name)) return { text: sentence(text) };
-  const t = sentence(text);
-  return { lead: name, text: `\u2014 ${t[0].toLowerCase()}${t.slice(1)}` };
-}
-
+/** Appendix: the solver's reasons for the recommended allocation as a table, one row per asset. */
 function reasons(w: PageWriter, v: MemoView, title: string): void {
-  const { input, recommended: rc } = v;
+  const { input, recommended: rc, current } = v;
+  const spec = input.scenario.document.candidates.find((c) => c.id === rc.id);
+  const table = reasonsTable(rc, spec?.objective);
   w.heading(title);
   const ex = rc.explanations;
-  if (!ex || ex.assets.length === 0) {
+  if (!table) {
     w.paragraph('The solver gave no per-asset explanation for this candidate.', { muted: true });
   } else {
-    const held = ex.assets.filter((a) => Math.abs(a.weight) >= 0.0005);
-    const out = ex.assets.filter((a) => Math.abs(a.weight) < 0.0005);
-    if (held.length) {
-      w.subheading('Held');
-      w.bullets(byWeight(held).map((a) => explained(v, a)));
-    }
-    if (out.length) {
-      w.subheading('Left out');
-      w.bullets(out.map((a) => explained(v, a)));
-    }
+    w.paragraph(
+      `${table.rule ? `${table.rule} ` : ''}Figures of the recommended allocation, ${v.candidateLabel(rc)}, from the solver\u2019s optimality conditions; share of risk as in section 3.`,
+    );
+    const riskColumn = spec?.objective.method !== 'equal-risk-contribution';
+    const cols: Column[] = [
+      { header: 'Asset', width: 3.4 },
+      ...(current ? [{ header: 'Current %', width: 0.8, align: 'right' as const }] : []),
+      { header: 'Target %', width: 0.8, align: 'right' },
+      ...(riskColumn ? [{ header: 'Share of risk %', width: 0.85, align: 'right' as const }] : []),
+      { header: 'Position', width: 2.2 },
+      ...(table.measureHeader
+        ? [
+            { header: table.measureHeader, width: 1.05, align: 'right' as const },
+            { header: table.thresholdHeader ?? 'Threshold', width: 0.85, align: 'right' as const },
+          ]
+        : []),
+    ];
+    const risks = rc.metrics!.riskContributions;
+    w.table(
+      cols,
+      table.rows.map((r) => ({
+        cells: [
+          v.name(r.asset),
+          ...(current ? [formatPercent1(current[r.asset] ?? 0)] : []),
+          formatPercent1(r.weight),
+          ...(riskColumn ? [formatPercent1(risks[r.asset] ?? 0)] : []),
+          r.position,
+          ...(table.measureHeader ? [r.measure, r.threshold] : []),
+        ],
+      })),
+      { fontSize: SIZE.small },
+    );
   }
   w.subheading('What the binding limits cost');
   if (!ex || ex.binding.length === 0) w.paragraph('No limit was binding at the solution.');
@@ -436,13 +517,13 @@ function reasons(w: PageWriter, v: MemoView, title: string): void {
     w.subheading('Solver notes');
     w.bullets(ex.flags.map((f) => sentence(withNames(v, f))));
   }
+}
 
-  w.subheading('How stable the weights are', 150);
-  const st = input.stability;
-  if (!st) {
-    w.paragraph('No stability analysis was run for this scenario revision, so no bands are shown.', { muted: true });
-    return;
-  }
+/** Appendix, when the revision has a stability analysis: the weight bands across resamples. */
+function stability(w: PageWriter, v: MemoView, title: string): void {
+  const { input, recommended: rc } = v;
+  const st = input.stability!;
+  w.heading(title);
   const bands = new Map(st.bands.map((b) => [b.asset, b]));
   const order = v.shown.filter((a) => bands.has(a));
   const widest = [...st.bands].sort((a, b) => b.high - b.low - (a.high - a.low))[0];
@@ -460,7 +541,7 @@ function reasons(w: PageWriter, v: MemoView, title: string): void {
       `Within two percentage points in every resample: ${listInWords(narrow.map((b) => v.name(b.asset)))}.`,
     );
   w.paragraph(sentences.join(' '));
-  const height = Math.max(110, 22 + order.length * 17);
+  const height = barsHeight(order.length);
   w.chart(
     renderChartSvg(
       bandsOption(
@@ -476,7 +557,7 @@ function reasons(w: PageWriter, v: MemoView, title: string): void {
     ),
     height,
     `Weight bands of the recommended allocation (${q})`,
-    'Weights in % of the portfolio. Shaded bar: band across resamples; dark tick: the target weight. Same order as the allocation table.',
+    'Weights in % of the portfolio. Shaded bar: band across resamples; dark tick: the target weight. Same order as the trades table.',
   );
 }
 
@@ -490,40 +571,43 @@ function candidateFigures(c: CandidateResult): { vol: string; dr: string; bets: 
   };
 }
 
-/** The allocation table's assets, then any other asset some solved candidate holds. */
+/** Assets some solved candidate holds: the trades table's order, then the others. */
 function candidateRows(v: MemoView): string[] {
-  const shown = new Set(v.shown);
-  const others = v.unused.filter((a) =>
-    v.input.run.candidates.some((c) => c.status === 'optimal' && Math.abs(c.weights[a] ?? 0) >= 0.0005),
-  );
-  return [...shown, ...others];
+  const held = (a: string) =>
+    v.input.run.candidates.some((c) => c.status === 'optimal' && Math.abs(c.weights[a] ?? 0) >= 0.0005);
+  return [...v.shown, ...v.unused].filter(held);
 }
+
+/** At most this many candidate columns in one table; more are split into even groups. */
+const CANDIDATES_PER_TABLE = 7;
 
 function candidates(w: PageWriter, v: MemoView, title: string): void {
   const { input } = v;
   const all = input.run.candidates;
-  w.heading(title, 160);
+  w.heading(title);
   const infeasible = all.filter((c) => c.status !== 'optimal');
   const lead = [
-    `${all.length} candidate${all.length === 1 ? ' was' : 's were'} solved on the same data, one column each below; the recommended one is marked.`,
+    `${countOf(all.length, 'candidate')} ${all.length === 1 ? 'was' : 'were'} solved on the same data, one column each; the recommended one is marked. Assets no candidate holds are left out.`,
   ];
   if (infeasible.length)
     lead.push(
       `Not solved: ${listInWords(infeasible.map((c) => `${v.candidateLabel(c)} (${c.status}${c.message ? `: ${c.message}` : ''})`))}.`,
     );
   w.paragraph(lead.join(' '));
-  const perTable = 5;
-  for (let start = 0; start < all.length; start += perTable) {
-    const chunk = all.slice(start, start + perTable);
+  const groups = Math.ceil(all.length / CANDIDATES_PER_TABLE);
+  const per = Math.ceil(all.length / Math.max(1, groups));
+  const specOf = (c: CandidateResult) => input.scenario.document.candidates.find((s) => s.id === c.id);
+  const assets = candidateRows(v);
+  for (let start = 0; start < all.length; start += per) {
+    const chunk = all.slice(start, start + per);
     const cols: Column[] = [
-      { header: 'Figure', width: 3.0 },
+      { header: 'Figure', width: 2.4 },
       ...chunk.map((c) => ({
         header: `${v.candidateLabel(c)}${c.id === v.recommended.id ? ' (recommended)' : ''}`,
-        width: 1.5,
+        width: 1.15,
         align: 'right' as const,
       })),
     ];
-    const specOf = (c: CandidateResult) => input.scenario.document.candidates.find((s) => s.id === c.id);
     const figs = chunk.map(candidateFigures);
     const rows: TableRow[] = [
       { cells: ['Objective', ...chunk.map((c) => (specOf(c) ? objectiveWords(specOf(c)!.objective) : '\u2013'))] },
@@ -534,31 +618,14 @@ function candidates(w: PageWriter, v: MemoView, title: string): void {
       { cells: ['Effective number of bets', ...figs.map((f) => f.bets)] },
       { cells: ['Turnover from current', ...figs.map((f) => f.turnover)] },
       { cells: ['Weights, %', ...chunk.map(() => '')], muted: true },
-      ...candidateRows(v).map((a) => ({
+      ...assets.map((a) => ({
         cells: [
           v.name(a),
           ...chunk.map((c) => (c.status === 'optimal' ? formatPercent1(c.weights[a] ?? 0) : '\u2013')),
         ],
       })),
     ];
-    w.table(cols, rows);
-    // A colour key under the table: the swatch each candidate has on the charts.
-    w.keep(14);
-    let x = MARGIN.left;
-    const y = w.doc.y;
-    chunk.forEach((c, i) => {
-      const colour = candidateColour(start + i);
-      w.doc.rect(x, y + 2, 7, 7).fill(colour);
-      const label = v.candidateLabel(c) + (c.status !== 'optimal' ? ` (${c.status})` : '');
-      w.doc
-        .font(FONT_REGULAR)
-        .fontSize(SIZE.small)
-        .fillColor(c.status !== 'optimal' ? AMBER : INK);
-      w.doc.text(label, x + 10, y, { lineBreak: false });
-      x += 16 + w.doc.widthOfString(label);
-    });
-    w.doc.fillColor(INK);
-    w.doc.y = y + 16;
+    w.table(cols, rows, { fontSize: chunk.length > 4 ? 7.5 : SIZE.table });
   }
   const points = all
     .map((c, i) => ({ c, i }))
@@ -574,8 +641,8 @@ function candidates(w: PageWriter, v: MemoView, title: string): void {
     const best = [...points].sort((a, b) => b.diversificationRatio - a.diversificationRatio)[0];
     const calm = [...points].sort((a, b) => a.volatility - b.volatility)[0];
     w.chart(
-      renderChartSvg(candidatesScatterOption(points), CONTENT_WIDTH, 210),
-      210,
+      renderChartSvg(candidatesScatterOption(points), CONTENT_WIDTH, 170),
+      170,
       best.label === calm.label
         ? `${best.label} has both the highest diversification ratio and the lowest volatility`
         : `${best.label} diversifies most (${formatRatio2(best.diversificationRatio)}); ${calm.label} has the lowest volatility (${formatPct(calm.volatility)})`,
@@ -584,79 +651,48 @@ function candidates(w: PageWriter, v: MemoView, title: string): void {
   }
 }
 
+/** Appendix, when the revision has one: the walk-forward test of every candidate. */
 function walkForward(w: PageWriter, v: MemoView, title: string): void {
-  const { input } = v;
-  const label = (id: string) => {
-    const c = input.run.candidates.find((x) => x.id === id);
-    return c ? v.candidateLabel(c) : id;
-  };
-  const colourOf = (id: string) =>
-    candidateColour(
-      Math.max(
-        0,
-        input.run.candidates.findIndex((x) => x.id === id),
-      ),
-    );
-  w.heading(title, 160);
-  const wf = input.walkForward;
-  if (wf) {
-    w.paragraph(
-      `Each candidate was re-estimated and rebalanced through time using only the prices known on each date, from ${wf.from} to ${wf.to}: ${wf.settings}. Figures are after costs.`,
-    );
-    w.table(
-      [
-        { header: 'Candidate', width: 2.4 },
-        { header: 'Return a year', width: 1.2, align: 'right' },
-        { header: 'Volatility', width: 1.2, align: 'right' },
-        { header: 'Sharpe ratio', width: 1.1, align: 'right' },
-        { header: 'Max drawdown', width: 1.2, align: 'right' },
-        { header: 'Turnover a year', width: 1.3, align: 'right' },
+  const wf = v.input.walkForward!;
+  w.heading(title);
+  w.paragraph(
+    `Each candidate was re-estimated and rebalanced through time using only the prices known on each date, from ${wf.from} to ${wf.to}: ${wf.settings}. Figures are after costs. Past performance does not guarantee future results.`,
+  );
+  w.table(
+    [
+      { header: 'Candidate', width: 2.6 },
+      { header: 'Return a year', width: 1.1, align: 'right' },
+      { header: 'Volatility', width: 1.1, align: 'right' },
+      { header: 'Sharpe ratio', width: 1.0, align: 'right' },
+      { header: 'Max drawdown', width: 1.1, align: 'right' },
+      { header: 'Turnover a year', width: 1.2, align: 'right' },
+    ],
+    wf.rows.map((r) => ({
+      cells: [
+        `${labelOf(v, r.candidateId)}${r.candidateId === v.recommended.id ? ' (recommended)' : ''}`,
+        formatPct(r.annualisedReturn),
+        formatPct(r.volatility),
+        r.sharpe === null ? '\u2013' : formatRatio2(r.sharpe),
+        formatPct(-Math.abs(r.maxDrawdown)),
+        formatPct(r.turnoverPerYear),
       ],
-      wf.rows.map((r) => ({
-        cells: [
-          label(r.candidateId),
-          formatPct(r.annualisedReturn),
-          formatPct(r.volatility),
-          r.sharpe === null ? '\u2013' : formatRatio2(r.sharpe),
-          formatPct(-Math.abs(r.maxDrawdown)),
-          formatPct(r.turnoverPerYear),
-        ],
-      })),
+    })),
+  );
+  if (wf.growth && wf.growth.dates.length > 1) {
+    const series = wf.growth.series.map((s) => ({
+      label: labelOf(v, s.candidateId),
+      colour: colourOf(v, s.candidateId),
+      values: s.values,
+    }));
+    const ends = series.map((s) => [s.label, s.values[s.values.length - 1]] as const).sort((a, b) => b[1] - a[1]);
+    w.chart(
+      renderChartSvg(growthOption(wf.growth.dates, series), CONTENT_WIDTH, 180),
+      180,
+      `Growth of 1 after costs: ${ends[0][0]} ends highest at ${formatFixed(ends[0][1], 2)}`,
+      'Log scale; each line in its candidate\u2019s colour, as in the key below.',
     );
-    if (wf.growth && wf.growth.dates.length > 1) {
-      const series = wf.growth.series.map((s) => ({
-        label: label(s.candidateId),
-        colour: colourOf(s.candidateId),
-        values: s.values,
-      }));
-      const ends = series.map((s) => [s.label, s.values[s.values.length - 1]] as const).sort((a, b) => b[1] - a[1]);
-      w.chart(
-        renderChartSvg(growthOption(wf.growth.dates, series), CONTENT_WIDTH, 200),
-        200,
-        `Growth of 1 after costs: ${ends[0][0]} ends highest at ${formatFixed(ends[0][1], 2)}`,
-        `Log scale. ${series.map((s) => s.label).join(', ')}, each in its candidate colour. Past performance does not guarantee future results.`,
-      );
-    }
-  }
-  const st = input.stress;
-  if (st) {
-    w.subheading('Stress tests');
-    w.paragraph(`Portfolio return of each candidate's weights under each stress${st.method ? `: ${st.method}` : ''}.`);
-    // One column per candidate, as everywhere in the memo; one row per stress.
-    const ids = st.rows.map((r) => r.candidateId);
-    w.table(
-      [
-        { header: 'Stress', width: 2.2 },
-        ...ids.map((id) => ({
-          header: `${label(id)}${id === v.recommended.id ? ' (recommended)' : ''}`,
-          width: 1.3,
-          align: 'right' as const,
-        })),
-      ],
-      st.shocks.map((s, k) => ({
-        cells: [`${s.name}\n${s.description}`, ...st.rows.map((r) => formatPct(r.impacts[k]))],
-      })),
-    );
+    // The lines carry no labels: the key names each colour, wrapping inside the page.
+    w.legend(series.map((s) => ({ label: s.label, colour: s.colour })));
   }
 }
 
@@ -669,13 +705,13 @@ function method(w: PageWriter, v: MemoView, title: string, hash: string): void {
   const estimateFacts: string[] = [];
   if (est.shrinkage !== undefined && est.shrinkage !== null)
     estimateFacts.push(`shrinkage intensity ${formatRatio2(est.shrinkage)}`);
-  if (est.observations !== undefined) estimateFacts.push(`${est.observations} observations`);
+  if (est.observations !== undefined) estimateFacts.push(countOf(est.observations, 'observation'));
   if (est.conditionNumber !== undefined && Number.isFinite(est.conditionNumber))
     estimateFacts.push(`condition number ${formatAmount(est.conditionNumber, 0)}`);
   const window = doc.window
     ? [
         doc.window.from ? `from ${doc.window.from}` : '',
-        doc.window.years ? `the last ${doc.window.years} years` : '',
+        doc.window.years ? `the last ${countOf(doc.window.years, 'year')}` : '',
         doc.window.to ? `to ${doc.window.to}` : '',
       ]
         .filter(Boolean)
@@ -691,9 +727,12 @@ function method(w: PageWriter, v: MemoView, title: string, hash: string): void {
     ['Returns', `${doc.returns.frequency} ${doc.returns.method} returns, annualised with ${ppy} periods a year`],
     [
       'Window',
-      `${window}; used ${input.run.returns.from} to ${input.run.returns.to} (${input.run.returns.observations} returns)`,
+      `${window}; used ${input.run.returns.from} to ${input.run.returns.to} (${countOf(input.run.returns.observations, 'return')})`,
     ],
-    ['Gaps', `a missing price is carried forward over at most ${doc.returns.maxFillDays} days, never longer`],
+    [
+      'Gaps',
+      `a missing price is carried forward over at most ${countOf(doc.returns.maxFillDays, 'day')}, never longer`,
+    ],
   ]);
   w.subheading('Limits of the recommended allocation');
   w.bullets(constraintSentences(effectiveConstraints(doc, rc.id), doc.current, v.name));
@@ -710,7 +749,7 @@ function method(w: PageWriter, v: MemoView, title: string, hash: string): void {
   w.subheading('Data notes and quality flags');
   const flags = [...input.data.flags, ...input.run.returns.warnings];
   if (flags.length === 0) w.paragraph('The import and the returns step raised no data-quality flags.');
-  else w.bullets(flags);
+  else w.bullets(flags.map((f) => sentence(withNames(v, f))));
   w.subheading('Audit trail');
   w.facts(
     [
@@ -727,8 +766,7 @@ function method(w: PageWriter, v: MemoView, title: string, hash: string): void {
 
 function cautions(w: PageWriter, v: MemoView, title: string): void {
   const { input } = v;
-  // Cautions and sign-off belong on one page: start a fresh one unless most of this one is free.
-  w.heading(title, 520);
+  w.heading(title);
   const n = input.run.estimate.assets.length;
   const t = input.run.returns.observations;
   w.subheading('Assumptions');
@@ -741,22 +779,29 @@ function cautions(w: PageWriter, v: MemoView, title: string): void {
   ]);
   w.subheading('Limitations');
   w.bullets([
-    `The estimate rests on ${t} returns for ${n} assets (${formatFixed(t / Math.max(1, n), 1)} returns per asset); correlations move, most in market stress, when diversification is needed most.`,
-    'The optimiser takes the estimate as exact: small changes in the data can move the weights (see the stability bands).',
+    `The estimate rests on ${countOf(t, 'return')} for ${countOf(n, 'asset')} (${formatFixed(t / Math.max(1, n), 1)} returns per asset); correlations move, most in market stress, when diversification is needed most.`,
+    input.stability
+      ? 'The optimiser takes the estimate as exact: small changes in the data can move the weights, as the stability bands in this appendix show.'
+      : 'The optimiser takes the estimate as exact: small changes in the data can move the weights. No stability analysis was run for this revision.',
     'Series with smoothed or appraisal-based prices understate volatility and correlation.',
     'Taxes, tax lots, liquidity of the household and its wider wealth are outside this memo unless the limits above include them.',
   ]);
   w.subheading('Cautions');
-  w.keep(60);
+  w.doc.font(FONT_BOLD).fontSize(SIZE.body);
+  const text = CAUTIONS.join(' ');
+  const boxH = Math.max(30, w.doc.heightOfString(text, { width: CONTENT_WIDTH - 12, lineGap: 2.2 }) + 6);
+  w.keep(boxH + 8);
   const y0 = w.doc.y;
-  w.doc.rect(MARGIN.left, y0, 2.5, 44).fill(AMBER);
+  w.doc.rect(MARGIN.left, y0, 2.5, boxH).fill(AMBER);
   w.doc.fillColor(INK).font(FONT_BOLD).fontSize(SIZE.body);
-  w.doc.text(CAUTIONS.join(' '), MARGIN.left + 12, y0 + 2, { width: CONTENT_WIDTH - 12, lineGap: 2.2 });
-  w.doc.y = Math.max(w.doc.y, y0 + 44) + 14;
+  w.doc.text(text, MARGIN.left + 12, y0 + 2, { width: CONTENT_WIDTH - 12, lineGap: 2.2 });
+  w.doc.y = Math.max(w.doc.y, y0 + boxH) + 12;
   w.doc.font(FONT_REGULAR);
 
-  w.subheading('Sign-off', 170);
+  w.subheading('Sign-off');
   const colW = (CONTENT_WIDTH - 24) / 2;
+  // The two signature blocks stay together on one page.
+  w.keep(22 + 3 * 34 + 8);
   const top = w.doc.y;
   const block = (x: number, heading: string, lines: string[]) => {
     w.doc.font(FONT_BOLD).fontSize(SIZE.body).fillColor(INK).text(heading, x, top, { width: colW });
@@ -768,7 +813,7 @@ function cautions(w: PageWriter, v: MemoView, title: string): void {
         .fontSize(SIZE.small)
         .fillColor(INK_SOFT)
         .text(line, x, y + 19, { width: colW });
-      y += 38;
+      y += 34;
     }
     return y;
   };

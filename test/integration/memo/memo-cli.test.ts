@@ -17,7 +17,7 @@ import { formatPct, formatPercent1, formatRatio2 } from '../../../shared-core/pr
 import { CAUTIONS, SECTION_TITLES } from '../../../src-main/memo/render-memo.js';
 import { sha256Hex } from '../../../src-main/store/canonical-json.js';
 import { openStore } from '../../../src-main/store/store.js';
-import { flatText, pageTexts, renderPngs } from './poppler.js';
+import { flatText, pageTexts, pdfInfo, renderPngs } from './poppler.js';
 
 const artifacts = fileURLToPath(new URL('../../artifacts/memo/', import.meta.url));
 mkdirSync(artifacts, { recursive: true });
@@ -121,6 +121,72 @@ describe('holdfast memo on the invented demo household (holdfast demo files)', (
     expect(flat).toContain('Maraval-Lindqvist family (invented)');
   });
 
+  it('runs to at most 9 pages, the body before the appendix to at most 5, headings in the order a client reads (pdfinfo, pdftotext)', () => {
+    const pdf = readFileSync(join(dir, 'memo.pdf'));
+    const pages = pageTexts(pdf);
+    expect(Number(pdfInfo(pdf).Pages)).toBe(pages.length);
+    expect(pages.length).toBeLessThanOrEqual(9);
+    const appendix = pages.findIndex((p) => /A\s+Why each position is held or left out/.test(p));
+    expect(appendix, 'pages before the appendix').toBeGreaterThan(0);
+    expect(appendix).toBeLessThanOrEqual(5);
+    const flat = flatText(pdf);
+    const headings = [
+      `1 ${SECTION_TITLES.recommendation}`,
+      `2 ${SECTION_TITLES.trades}`,
+      `3 ${SECTION_TITLES.risk}`,
+      `A ${SECTION_TITLES.reasons}`,
+      `B ${SECTION_TITLES.candidates}`,
+      `C ${SECTION_TITLES.method}`,
+      `D ${SECTION_TITLES.cautions}`,
+    ];
+    let last = -1;
+    for (const h of headings) {
+      const at = flat.indexOf(h);
+      expect(at, h).toBeGreaterThan(last);
+      last = at;
+    }
+    expect(pages[0]).toMatch(/Buys\s+[\d,]+ EUR in \d+ trades/);
+    // Counts agree with their nouns.
+    expect(flat).not.toMatch(/\b1 (assets|trades|candidates|returns|positions)\b/);
+  });
+
+  it("the reasons table prints each asset's correlation with the portfolio and its threshold as the solve gives them; a freely held asset meets its threshold (Choueifaty, Froidure and Reynier 2013)", () => {
+    const pdf = readFileSync(join(dir, 'memo.pdf'));
+    const parsed = parseScenarioText(readFileSync(join(dir, 'demo/demo-scenario.json'), 'utf8'));
+    if (!parsed.ok) throw new Error('demo scenario does not parse');
+    const table = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-prices.csv'), 'utf8'));
+    const fx = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-fx.csv'), 'utf8'));
+    const currencies = table.assets.map((a) => parsed.scenario.assetInfo?.[a]?.currency);
+    const run = runScenario(parsed.scenario, { ...table, currencies }, { fx });
+    const rc = run.candidates.find((c) => c.id === parsed.scenario.recommended)!;
+    const text = pageTexts(pdf).join('\n');
+    const lines = text
+      .slice(text.indexOf(SECTION_TITLES.reasons), text.indexOf('What the binding limits cost'))
+      .split('\n');
+    const info = parsed.scenario.assetInfo!;
+    const names = parsed.scenario.assets!.map((a) => info[a]?.name ?? a);
+    let held = 0;
+    for (const a of rc.explanations!.assets) {
+      const name = info[a.asset]?.name ?? a.asset;
+      // A long name wraps: the figures sit on the line with its first part.
+      const line = lines.find((l) => {
+        const first = l.trim().split(/\s{2,}/)[0];
+        return (
+          first === name ||
+          (first.length >= 15 && name.startsWith(first) && names.filter((n) => n.startsWith(first)).length === 1)
+        );
+      });
+      expect(line, name).toBeDefined();
+      const cells = line!.trim().split(/\s{2,}/);
+      expect(cells.slice(-2), name).toEqual([formatRatio2(a.measure!), formatRatio2(a.threshold!)]);
+      if (a.reason === 'held' || a.reason === 'group-limit') {
+        expect(cells.at(-2)).toBe(cells.at(-1));
+        held++;
+      }
+    }
+    expect(held).toBeGreaterThan(3);
+  });
+
   it('--backtest adds the walk-forward table with the figures runBacktest gives, and the stress table', async () => {
     const doc = JSON.parse(readFileSync(join(dir, 'demo/demo-scenario.json'), 'utf8'));
     doc.backtest = { estimationWindow: 36, rebalance: 'quarterly', costBps: 10 };
@@ -130,8 +196,10 @@ describe('holdfast memo on the invented demo household (holdfast demo files)', (
     const io = fakeIo(dir);
     expect(await runCli([...argv, '--backtest'], io), io.err).toBe(0);
     const pdf = readFileSync(join(dir, 'bt.pdf'));
+    writeFileSync(join(artifacts, 'memo-backtest.pdf'), pdf);
+    renderPngs(pdf, artifacts, 'memo-backtest');
     const text = pageTexts(pdf).join('\n');
-    expect(text).toContain(`6 ${SECTION_TITLES.walkForward}`);
+    expect(flatText(pdf)).toContain(`C ${SECTION_TITLES.walkForward}`);
     const parsed = parseScenarioText(JSON.stringify(doc));
     if (!parsed.ok) throw new Error('scenario does not parse');
     // As the memo reads them: each asset in its own currency, converted with the --fx rates.

@@ -160,6 +160,14 @@ export function scenarioDocument(): Scenario {
   return parsed.scenario;
 }
 
+function correlationWithPortfolio(weights: Record<string, number>, cov: Matrix, i: number): number {
+  const n = ASSETS.length;
+  const w = ASSETS.map((a) => weights[a] ?? 0);
+  const sw = (k: number) => w.reduce((s, x, j) => s + cov.data[k * n + j] * x, 0);
+  const variance = w.reduce((s, x, k) => s + x * sw(k), 0);
+  return sw(i) / Math.sqrt(cov.data[i * n + i] * variance);
+}
+
 function candidate(id: string, label: string, cov: Matrix): CandidateResult {
   const weights = { ...WEIGHTS[id] };
   return {
@@ -172,10 +180,15 @@ function candidate(id: string, label: string, cov: Matrix): CandidateResult {
     explanations:
       id === 'maxdiv'
         ? {
-            assets: ASSETS.map((a) => ({
+            assets: ASSETS.map((a, i) => ({
               asset: a,
               weight: weights[a],
               reason: weights[a] > 0 ? 'held' : 'excluded',
+              // Correlation with the portfolio, (Sigma w)_i / (sigma_i sigma_p), and 1/DR: the
+              // figures explain.ts gives for maximum diversification (hand-set weights, so the
+              // held ones need not meet the threshold exactly).
+              measure: correlationWithPortfolio(weights, cov, i),
+              threshold: 1 / metricsOf(weights, ASSETS, cov).diversificationRatio,
               text:
                 weights[a] > 0
                   ? `${INFO![a]!.name} is held at ${(weights[a] * 100).toFixed(1)}%: its correlation with the portfolio equals 1/DR.`

@@ -5,10 +5,10 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { InputError } from '../../../shared-core/errors.js';
-import { formatPercent1, MINUS } from '../../../shared-core/present/format.js';
+import { formatPercent1, formatRatio2, MINUS } from '../../../shared-core/present/format.js';
 import { memoHash } from '../../../src-main/memo/memo-hash.js';
 import type { MemoInput } from '../../../src-main/memo/memo-input.js';
-import { CAUTIONS, renderMemo, SECTION_TITLES } from '../../../src-main/memo/render-memo.js';
+import { CAUTIONS, memoHeadings, renderMemo, SECTION_TITLES } from '../../../src-main/memo/render-memo.js';
 import { memoFixture } from './memo-fixture.js';
 import { flatText, pageTexts, pdfInfo, renderPngs } from './poppler.js';
 
@@ -53,14 +53,71 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
     flat = flatText(pdf);
   });
 
-  it('has every section in order, numbered, walk-forward included when the input has it', () => {
-    const titles = Object.values(SECTION_TITLES);
+  it('reads as a client reads it: the body numbered 1 to 3, then the appendix lettered, walk-forward and stability included when the input has them', () => {
+    const expected = [
+      '1 The recommendation',
+      '2 The trades',
+      '3 Where the risk comes from',
+      'A Why each position is held or left out',
+      'B How stable the weights are',
+      'C Candidates considered',
+      'D Walk-forward test',
+      'E Method and data',
+      'F Cautions and sign-off',
+    ];
+    expect(memoHeadings(input).map((h) => h.replace(/\s+/g, ' '))).toEqual(expected);
     let last = -1;
-    titles.forEach((title, i) => {
-      const at = flat.indexOf(`${i + 1} ${title}`);
-      expect(at, title).toBeGreaterThan(last);
+    for (const heading of expected) {
+      const at = flat.indexOf(heading);
+      expect(at, heading).toBeGreaterThan(last);
       last = at;
-    });
+    }
+    // Page 1 holds the recommendation, its figures and the trades in total.
+    expect(pages[0]).toContain('The recommendation');
+    expect(pages[0]).toMatch(/Volatility, annualised/);
+    expect(pages[0]).toMatch(/Buys\s+[\d,]+ EUR in \d+ trades?/);
+    expect(pages[0]).toMatch(/Sales\s+[\d,]+ EUR in \d+ trades?/);
+    // The appendix starts on a page of its own.
+    const appendix = pages.findIndex((p) => /A\s+Why each position/.test(p));
+    expect(appendix).toBeGreaterThan(0);
+    expect(pages[appendix].trimStart()).toMatch(/^A\s+Why each position is held or left out/);
+  });
+
+  it('keeps every heading with what follows it: no heading is the last line of its page', () => {
+    const headings = memoHeadings(input).map((h) => h.replace(/\s+/g, ' '));
+    const subheadings = [
+      'The trades in total',
+      'Stress tests',
+      'What the binding limits cost',
+      'Limits of the recommended allocation',
+      'Data sources',
+      'Audit trail',
+      'Cautions',
+      'Sign-off',
+    ];
+    for (const page of pages) {
+      const lines = page
+        .split('\n')
+        .map((l) => l.trim().replace(/\s+/g, ' '))
+        .filter((l) => l !== '');
+      // The last line is the footer; the one before it is the page's last line of content.
+      const lastContent = lines[lines.length - 2] ?? '';
+      for (const h of [...headings, ...subheadings]) expect(lastContent, `'${h}' stranded`).not.toBe(h);
+    }
+  });
+
+  it('prints the reasons as a table, one row per asset with its weight, correlation and threshold, not sentences', () => {
+    const lines = between(pages, SECTION_TITLES.reasons, 'What the binding limits cost');
+    const rc = input.run.candidates.find((c) => c.id === input.recommended)!;
+    const info = input.scenario.document.assetInfo!;
+    for (const a of rc.explanations!.assets) {
+      const cells = rowOf(lines, info[a.asset]!.name!);
+      expect(cells.at(-2)).toBe(formatRatio2(a.measure!));
+      expect(cells.at(-1)).toBe(formatRatio2(a.threshold!));
+      expect(cells).toContain(formatPercent1(a.weight));
+    }
+    // The solver's sentences are not repeated row after row.
+    expect(flat).not.toContain('once the binding limits are counted');
   });
 
   it('carries the three cautions word for word and a sign-off block for the licensed adviser', () => {
@@ -92,7 +149,7 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
   });
 
   it('allocation table: current and target weights equal the holdings and the solve rounded by formatPercent1, changes are the printed difference', () => {
-    const lines = between(pages, SECTION_TITLES.allocation, 'Each percentage is the weight');
+    const lines = between(pages, SECTION_TITLES.trades, 'Each percentage is the weight');
     const rc = input.run.candidates.find((c) => c.id === input.recommended)!;
     const positions = input.household.holdings!.positions;
     const total = positions.reduce((s, p) => s + p.amount, 0);
@@ -110,7 +167,7 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
   });
 
   it('trades: each is the gap to target rounded to the lot (a full sale unrounded), and the column adds up to zero with the rounding cash', () => {
-    const lines = between(pages, SECTION_TITLES.allocation, 'Each percentage is the weight');
+    const lines = between(pages, SECTION_TITLES.trades, 'Each percentage is the weight');
     const rc = input.run.candidates.find((c) => c.id === input.recommended)!;
     const positions = input.household.holdings!.positions;
     const info = input.scenario.document.assetInfo!;
@@ -154,7 +211,7 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
   });
 
   it('summary figures are the candidate metrics, rounded as the design notes say (one decimal percent, two-decimal ratios)', () => {
-    const lines = between(pages, SECTION_TITLES.summary, SECTION_TITLES.allocation);
+    const lines = between(pages, SECTION_TITLES.recommendation, SECTION_TITLES.trades);
     const m = input.run.candidates[0].metrics!;
     const cm = input.currentMetrics!;
     expect(rowOf(lines, 'Volatility, annualised')).toEqual([
@@ -205,18 +262,21 @@ describe('determinism and the memo hash', () => {
 });
 
 describe('a memo without holding amounts or walk-forward', () => {
-  it('shows weights from the scenario, no trade column, and numbers the sections without walk-forward', async () => {
+  it('shows weights from the scenario, no trade column, and letters the appendix without walk-forward or stability', async () => {
     const input = memoFixture({ holdings: false });
     const pdf = await renderMemo(input);
     const flat = flatText(pdf);
     expect(flat).toContain('No holding amounts were given, so changes are shown as weights only');
     expect(flat).not.toContain('Trade EUR');
     expect(flat).not.toContain(SECTION_TITLES.walkForward);
-    expect(flat).toContain(`6 ${SECTION_TITLES.method}`);
-    expect(flat).toContain(`7 ${SECTION_TITLES.cautions}`);
-    expect(flat).toContain('No stability analysis was run for this scenario revision');
+    expect(flat).not.toContain(SECTION_TITLES.stability);
+    expect(flat).not.toContain('stability bands');
+    expect(flat).toContain(`B ${SECTION_TITLES.candidates}`);
+    expect(flat).toContain(`C ${SECTION_TITLES.method}`);
+    expect(flat).toContain(`D ${SECTION_TITLES.cautions}`);
+    expect(flat).toContain('No stability analysis was run for this revision');
     const pages = pageTexts(pdf);
-    const lines = between(pages, SECTION_TITLES.allocation, 'Each percentage is the weight');
+    const lines = between(pages, SECTION_TITLES.trades, 'Each percentage is the weight');
     const current = input.scenario.document.current!;
     expect(rowOf(lines, 'Alder Global Equity').slice(-3)).toEqual([
       formatPercent1(current['ALD-EQ']),
