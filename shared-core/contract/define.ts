@@ -35,7 +35,12 @@ export type ImplementationOf<T extends MethodTable> = {
   [K in keyof T]: (request: ParsedRequestOf<T, K>) => Promise<ResponseOf<T, K>>;
 };
 
-export type ServiceErrorCode = 'bad-request' | 'unknown-method' | 'not-found' | 'conflict' | 'cancelled' | 'internal';
+/**
+ * `busy`: another writer holds the store past the busy timeout (try again); `storage`: the store
+ * cannot be written (read-only, disk full, disk error). Both messages name the file and what to do.
+ */
+export type ServiceErrorCode =
+  'bad-request' | 'unknown-method' | 'not-found' | 'conflict' | 'cancelled' | 'busy' | 'storage' | 'internal';
 
 export interface ServiceError {
   code: ServiceErrorCode;

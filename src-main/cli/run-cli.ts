@@ -3,6 +3,7 @@ import { packageVersion } from '../service/app-info.js';
 import { commandHelp, parseOptions } from './args.js';
 import { EXIT, UsageError, type CliIO } from './command.js';
 import { commands } from './commands/index.js';
+import { StorageError } from '../store/storage-error.js';
 
 function overview(): string {
   const width = Math.max(...commands.map((c) => c.name.length)) + 2;
@@ -52,6 +53,11 @@ export async function runCli(argv: readonly string[], io: CliIO): Promise<number
     if (error instanceof InputError) {
       io.stderr(`holdfast ${command.name}: ${formatInputError(error)}\n`);
       return EXIT.badInput;
+    }
+    // The disk or the lock, not the input: one message naming the file and what to do.
+    if (error instanceof StorageError) {
+      io.stderr(`holdfast ${command.name}: ${error.message}\n`);
+      return EXIT.failure;
     }
     io.stderr(`holdfast ${command.name}: internal error: ${(error as Error).stack ?? String(error)}\n`);
     return EXIT.failure;

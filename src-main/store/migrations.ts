@@ -146,14 +146,19 @@ const migrations: readonly ((db: Database.Database) => void)[] = [
 
 export const LATEST_SCHEMA_VERSION = migrations.length;
 
-/** Applies the migrations from the store's version up to `target` (default: the latest). */
+/**
+ * Applies the migrations from the store's version up to `target` (default: the latest). Each step
+ * begins immediately and reads the version again inside its transaction, so two processes
+ * opening an old store at once apply each step once: the second waits, then finds it done.
+ */
 export function migrate(db: Database.Database, target = LATEST_SCHEMA_VERSION): void {
-  const from = db.pragma('user_version', { simple: true }) as number;
-  for (let v = from; v < target; v++) {
+  const version = () => db.pragma('user_version', { simple: true }) as number;
+  while (version() < target)
     db.transaction(() => {
+      const v = version();
+      if (v >= target) return;
       if (v === 0) db.pragma(`application_id = ${STORE_APPLICATION_ID}`);
       migrations[v](db);
       db.pragma(`user_version = ${v + 1}`);
-    })();
-  }
+    }).immediate();
 }

@@ -9,6 +9,8 @@ import { dayFromIso, isoFromDay } from './days.js';
 import { diffDocuments } from './document-diff.js';
 import { CancelledError, NotFoundError } from './errors.js';
 import { alignSeries } from './price-table-reader.js';
+import type { ReadOnlyReason } from './storage-error.js';
+import { announceWriter } from './writer-note.js';
 import { float64s, int32s, mergeSeries, toBlob, type SeriesArrays } from './series-codec.js';
 import type {
   AssetInput,
@@ -95,6 +97,7 @@ export class SqliteStore implements Store {
     private readonly db: Database.Database,
     readonly path: string,
     private readonly now: () => Date,
+    readonly readOnly?: ReadOnlyReason,
   ) {
     this.schemaVersion = db.pragma('user_version', { simple: true }) as number;
   }
@@ -112,8 +115,26 @@ export class SqliteStore implements Store {
     if (this.db.open) this.db.close();
   }
 
-  transaction<T>(fn: () => T): T {
-    return this.db.transaction(fn)();
+  /**
+   * BEGIN IMMEDIATE: the write lock is taken at the start, so a second writer waits for the busy
+   * timeout there. A deferred transaction that reads first cannot wait when it later needs to
+   * write (SQLite answers SQLITE_BUSY at once, since waiting could deadlock), which is how two
+   * writers used to fail. `activity` names a long write for others who find the store busy.
+   */
+  transaction<T>(fn: () => T, activity?: string): T {
+    if (activity === undefined || this.db.inTransaction) return this.db.transaction(fn).immediate();
+    // The note is left only once the lock is ours, so a writer that waits never covers the holder's.
+    let release: (() => void) | undefined;
+    try {
+      return this.db
+        .transaction(() => {
+          release = announceWriter(this.path, activity, this.now());
+          return fn();
+        })
+        .immediate();
+    } finally {
+      release?.();
+    }
   }
 
   private stamp(): string {
@@ -278,7 +299,7 @@ export class SqliteStore implements Store {
         assets: commit.prices.length,
         ...(commit.note !== undefined ? { note: commit.note } : {}),
       };
-    });
+    }, `an import of ${commit.source}`);
   }
 
   priceSeries(assetId: string): PriceSeries | undefined {

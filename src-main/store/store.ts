@@ -13,6 +13,7 @@
  */
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import type { Scenario } from '../../shared-core/scenario/schema.js';
+import type { ReadOnlyReason } from './storage-error.js';
 
 export type LiquidityTag = 'daily' | 'monthly' | 'illiquid';
 
@@ -239,15 +240,23 @@ export interface OpenStoreOptions {
   create?: boolean;
   /** Clock for timestamps (tests pass a fixed one). */
   now?: () => Date;
+  /** How long a write waits for another writer before failing as busy (default BUSY_TIMEOUT_MS, 5 s). */
+  busyTimeoutMs?: number;
 }
 
 export interface Store {
   readonly path: string;
   /** Schema version (`PRAGMA user_version`). */
   readonly schemaVersion: number;
+  /** Set when this process cannot write the store (it is open read-only): which file and why. */
+  readonly readOnly?: ReadOnlyReason;
   close(): void;
-  /** Runs `fn` as one transaction (nested store calls become savepoints). */
-  transaction<T>(fn: () => T): T;
+  /**
+   * Runs `fn` as one write transaction, begun immediately (nested store calls become
+   * savepoints). `activity` ("an import of prices.csv") is what another process that finds the
+   * store busy is told.
+   */
+  transaction<T>(fn: () => T, activity?: string): T;
 
   // Assets
   upsertAssets(assets: readonly AssetInput[]): void;
@@ -331,3 +340,4 @@ export interface Store {
 export { openStore } from './open-store.js';
 export { restoreStore, type RestoreResult } from './restore.js';
 export { StoreOpenError, CancelledError, NotFoundError } from './errors.js';
+export { StorageError, type StorageProblem, type ReadOnlyReason } from './storage-error.js';

@@ -1,10 +1,14 @@
 import type { IncomingMessage } from 'node:http';
 
+import { jsonDepth } from './json-depth.js';
+
 export const MAX_BODY_BYTES = 16 * 1024 * 1024;
+/** Deeper than any request of the service API (a scenario document nests about eight levels). */
+export const MAX_JSON_DEPTH = 64;
 
 export type BodyRead = { ok: true; value: unknown } | { ok: false; status: number; message: string };
 
-/** Reads a JSON request body: at most MAX_BODY_BYTES, UTF-8, and says where a syntax error is. */
+/** Reads a JSON request body: at most MAX_BODY_BYTES and MAX_JSON_DEPTH, UTF-8, and says where a syntax error is. */
 export async function readJsonBody(request: IncomingMessage, limit = MAX_BODY_BYTES): Promise<BodyRead> {
   const type = request.headers['content-type'] ?? '';
   if (!/^application\/json\b/i.test(type))
@@ -18,6 +22,13 @@ export async function readJsonBody(request: IncomingMessage, limit = MAX_BODY_BY
   }
   const text = Buffer.concat(chunks).toString('utf8');
   if (text.trim() === '') return { ok: true, value: {} };
+  const depth = jsonDepth(text);
+  if (depth > MAX_JSON_DEPTH)
+    return {
+      ok: false,
+      status: 400,
+      message: `request body nests ${depth} levels deep; at most ${MAX_JSON_DEPTH} are accepted`,
+    };
   try {
     return { ok: true, value: JSON.parse(text) };
   } catch (error) {

@@ -12,6 +12,10 @@ export function replyStatus(reply: ServiceReply): number {
     case 'conflict':
     case 'cancelled':
       return 409;
+    case 'busy':
+      return 503;
+    case 'storage':
+      return 507;
     default:
       return 500;
   }

@@ -20,6 +20,8 @@ import { lookupStatic } from './static-files.js';
  * host through a rebound DNS name), and so are cross-origin API calls.
  */
 export const LOOPBACK = '127.0.0.1';
+export const HEADERS_TIMEOUT_MS = 30_000;
+export const REQUEST_TIMEOUT_MS = 30_000;
 
 export interface WebHostOptions<T extends MethodTable> {
   table: T;
@@ -30,6 +32,9 @@ export interface WebHostOptions<T extends MethodTable> {
   port?: number;
   /** Fixed token for tests; a random one otherwise. */
   token?: string;
+  /** How long a client may take to send its headers, and its whole request (default 30 s each). */
+  headersTimeoutMs?: number;
+  requestTimeoutMs?: number;
 }
 
 export interface WebHost {
@@ -39,6 +44,8 @@ export interface WebHost {
   port: number;
   host: string;
   token: string;
+  /** The server's limits as Node applies them. */
+  timeouts: { headersMs: number; requestMs: number };
   close(): Promise<void>;
 }
 
@@ -94,7 +101,13 @@ export async function startWebHost<T extends MethodTable>(options: WebHostOption
         send(response, 405, 'use POST for /api/<method>\n', 'text/plain; charset=utf-8', { Allow: 'POST' });
         return;
       }
-      const name = decodeURIComponent(url.pathname.slice('/api/'.length));
+      let name: string;
+      try {
+        name = decodeURIComponent(url.pathname.slice('/api/'.length));
+      } catch {
+        refuse(response, 400, 'bad-request', `malformed method name in ${url.pathname}: not a valid percent-encoding`);
+        return;
+      }
       const body = await readJsonBody(request);
       if (!body.ok) {
         refuse(response, body.status, 'bad-request', `${name}: ${body.message}`);
@@ -123,13 +136,24 @@ export async function startWebHost<T extends MethodTable>(options: WebHostOption
     else send(response, 404, `not found: ${url.pathname}\n`, 'text/plain; charset=utf-8');
   }
 
-  const server = createServer((request, response) => {
-    handle(request, response).catch((error: unknown) => {
-      if (!response.headersSent)
-        sendReply(response, 500, { ok: false, error: { code: 'internal', message: (error as Error).message } });
-      else response.destroy();
-    });
-  });
+  const server = createServer(
+    // A client that sends its headers or its body too slowly is cut off (Node's defaults are
+    // 60 s and 300 s): the page's calls are small and local.
+    {
+      headersTimeout: options.headersTimeoutMs ?? HEADERS_TIMEOUT_MS,
+      requestTimeout: options.requestTimeoutMs ?? REQUEST_TIMEOUT_MS,
+      // How often Node looks for connections past those limits (its default is 30 s, which
+      // would let a slow client hold a connection for up to twice the limit).
+      connectionsCheckingInterval: Math.min(1000, options.headersTimeoutMs ?? HEADERS_TIMEOUT_MS),
+    },
+    (request, response) => {
+      handle(request, response).catch((error: unknown) => {
+        if (!response.headersSent)
+          sendReply(response, 500, { ok: false, error: { code: 'internal', message: (error as Error).message } });
+        else response.destroy();
+      });
+    },
+  );
   // Loopback only, whatever the caller wants: the host is never reachable from another machine.
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
@@ -148,6 +172,7 @@ export async function startWebHost<T extends MethodTable>(options: WebHostOption
     port: address.port,
     host: address.address,
     token,
+    timeouts: { headersMs: server.headersTimeout, requestMs: server.requestTimeout },
     close: () =>
       new Promise<void>((resolve, reject) => {
         server.close((error) => (error ? reject(error) : resolve()));

@@ -97,7 +97,7 @@ describe('store schema migrations (PRAGMA user_version)', () => {
 
   it('opens with WAL journaling and foreign keys on; a missing store with create: false is refused', () => {
     const path = join(tempDir(), 'fresh.hfstore');
-    const db = openDatabase(path, { create: true });
+    const { db } = openDatabase(path, { create: true });
     expect(db.pragma('journal_mode', { simple: true })).toBe('wal');
     expect(db.pragma('foreign_keys', { simple: true })).toBe(1);
     db.close();

@@ -167,6 +167,57 @@ describe('local web host: malformed requests get a clear error', () => {
   });
 });
 
+describe('local web host: hostile requests (issue 16)', () => {
+  it('a method name that is not valid percent-encoding: 400, not 500', async () => {
+    const r = await api(host, '%E0%A4%A', '{}');
+    expect(r.status).toBe(400);
+    const reply = JSON.parse(r.body);
+    expect(reply.error.code).toBe('bad-request');
+    expect(reply.error.message).toContain('malformed method name');
+  });
+
+  it('JSON nested 4,500 levels deep: 400 naming the depth, before anything walks it', async () => {
+    for (const body of ['['.repeat(4500) + ']'.repeat(4500), '{"a":'.repeat(4500) + '1' + '}'.repeat(4500)]) {
+      const r = await api(host, 'sum.of', body);
+      expect(r.status).toBe(400);
+      expect(JSON.parse(r.body).error.message).toMatch(/nests 4500 levels deep; at most 64/);
+    }
+    // Brackets inside strings are text, not nesting.
+    const inString = await api(host, 'sum.of', JSON.stringify({ a: 1, b: 2, c: '['.repeat(5000) }));
+    expect(JSON.parse(inString.body).error.code).toBe('bad-request');
+    expect(JSON.parse(inString.body).error.message).not.toContain('nests');
+    expect((await api(host, 'sum.of', JSON.stringify({ a: 1, b: 2 }))).status).toBe(200);
+  });
+
+  it('limits headers and the whole request to 30 s by default', () => {
+    expect(host.timeouts).toEqual({ headersMs: 30_000, requestMs: 30_000 });
+  });
+
+  it('cuts off a client that sends its headers too slowly (408), at the limit it was given', async () => {
+    const slow = await startWebHost({
+      table,
+      implementation,
+      staticRoot: mkdtempSync(join(tmpdir(), 'holdfast-empty-')),
+      headersTimeoutMs: 300,
+      requestTimeoutMs: 300,
+    });
+    try {
+      const started = Date.now();
+      const answer = await new Promise<string>((resolve, reject) => {
+        const socket = connect(slow.port, '127.0.0.1', () => socket.write('POST /api/sum.of HTTP/1.1\r\nHost: '));
+        let text = '';
+        socket.on('data', (d) => (text += d));
+        socket.on('close', () => resolve(text));
+        socket.on('error', reject);
+      });
+      expect(answer).toMatch(/^HTTP\/1\.1 408/);
+      expect(Date.now() - started).toBeLessThan(5000);
+    } finally {
+      await slow.close();
+    }
+  });
+});
+
 describe('local web host: the page', () => {
   it('serves the built renderer with a strict Content-Security-Policy naming no other origin', async () => {
     const page = await call(host, '/');
