@@ -280,5 +280,5 @@ export function importHousehold(store: Store, text: string, file: string): House
       pricesAdded,
       pricesKept,
     };
-  });
+  }, `an import of the household file ${file}`);
 }
