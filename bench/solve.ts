@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { PriceTable } from '../shared-core/prices/price-table.js';
-import { runScenario } from '../shared-core/scenario/run-scenario.js';
+import { runScenario } from '../shared-core/run/run-scenario.js';
 import { parseScenario } from '../shared-core/scenario/schema.js';
 import { seededRng } from '../shared-core/stability/rng.js';
 import { median, timeMedian, type BenchFigure, type BenchSuite } from './harness.js';

@@ -5,7 +5,8 @@ import type { EstimatorSpec } from '../scenario/estimator-spec.js';
 import { diagnose } from './diagnostics.js';
 import { checkReturns } from './moments.js';
 import { periodsPerYear } from './periods.js';
-import type { Estimator, Frequency } from './types.js';
+import type { Frequency } from '../scenario/frequency.js';
+import type { Estimator } from './types.js';
 
 /**
  * Default decay by frequency: 0.94 for daily and 0.97 for monthly data (RiskMetrics Technical

@@ -1,11 +1,7 @@
 import type { Matrix } from '../linalg/matrix.js';
 import type { TridiagonalForm } from '../linalg/tridiagonal-form.js';
 import type { EstimatorSpec } from '../scenario/estimator-spec.js';
-
-export type Frequency = 'daily' | 'weekly' | 'monthly';
-
-/** Periods per year by frequency (common practice: 252 trading days, 52 weeks, 12 months). */
-export const PERIODS_PER_YEAR: Record<Frequency, number> = { daily: 252, weekly: 52, monthly: 12 };
+import type { Frequency } from '../scenario/frequency.js';
 
 export interface EstimateContext {
   frequency: Frequency;

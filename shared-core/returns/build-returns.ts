@@ -1,5 +1,5 @@
 import { InputError, type InputLocation } from '../errors.js';
-import type { Frequency } from '../estimators/types.js';
+import type { Frequency } from '../scenario/frequency.js';
 import { zeros, type Matrix } from '../linalg/matrix.js';
 import type { PriceTable } from '../prices/price-table.js';
 import { rateOn } from './exchange-rate.js';

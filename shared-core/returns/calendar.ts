@@ -1,4 +1,4 @@
-import type { Frequency } from '../estimators/types.js';
+import type { Frequency } from '../scenario/frequency.js';
 
 /**
  * Calendar arithmetic on ISO dates `YYYY-MM-DD` for the returns engine: day numbers for gaps

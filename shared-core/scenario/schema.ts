@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { InputError } from '../errors.js';
 import { backtestSpecSchema, stressSpecSchema } from './backtest-spec.js';
 import { estimatorMethods, estimatorSpecSchema } from './estimator-spec.js';
+import { frequencies } from './frequency.js';
 import { isoDate } from './iso-date.js';
 import { issueToInputError } from './json-path.js';
 import { parseJsonText } from './json-text.js';
@@ -88,7 +89,7 @@ export const scenarioSchema = z
       .optional(),
     returns: z
       .strictObject({
-        frequency: z.enum(['daily', 'weekly', 'monthly']).default('daily'),
+        frequency: z.enum(frequencies).default('daily'),
         method: z.enum(['log', 'simple']).default('log'),
         /** Never fill a missing price forward over more than this many days. */
         maxFillDays: z.number().int().min(0).default(5),

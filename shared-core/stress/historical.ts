@@ -1,5 +1,5 @@
 import type { PriceTable } from '../prices/price-table.js';
-import { maxDrawdown } from '../walkforward/metrics.js';
+import { maxDrawdown } from '../analytics/drawdown.js';
 import type { AssetSet } from './targets.js';
 
 /**

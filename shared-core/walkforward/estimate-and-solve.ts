@@ -1,6 +1,7 @@
 import { diversificationRatio, portfolioVolatility } from '../analytics/risk.js';
 import { annualised, estimateCovariance } from '../estimators/registry.js';
-import type { CovarianceEstimate, Frequency } from '../estimators/types.js';
+import type { CovarianceEstimate } from '../estimators/types.js';
+import type { Frequency } from '../scenario/frequency.js';
 import type { Matrix } from '../linalg/matrix.js';
 import type { EstimatorSpec } from '../scenario/estimator-spec.js';
 import { solveCandidateDetailed } from '../optimise/solve-candidate.js';

@@ -1,3 +1,4 @@
+import { maxDrawdown, type Drawdown } from '../analytics/drawdown.js';
 import { mean, quantile, standardDeviation } from '../stability/quantile.js';
 import type { WalkForwardResult } from './types.js';
 
@@ -10,18 +11,8 @@ import type { WalkForwardResult } from './types.js';
  * - Sharpe ratio: mean over standard deviation of excess returns r_t - r_f, times sqrt(P)
  *   (Sharpe 1994, "The Sharpe ratio", J. Portfolio Management 21(1)), with the per-period cash
  *   return r_f = (1 + cashRate)^(1/P) - 1;
- * - maximum drawdown: the largest peak-to-trough fall of the growth-of-1 curve, with the peak,
- *   trough and recovery dates (common practice).
+ * - maximum drawdown: analytics/drawdown.ts.
  */
-export interface Drawdown {
-  /** As a positive fraction: 0.25 is a 25% fall. */
-  depth: number;
-  peakDate: string;
-  troughDate: string;
-  /** First date the curve regains the peak, null if it never does. */
-  recoveryDate: string | null;
-}
-
 export interface ReturnMetrics {
   annualisedReturn: number;
   volatility: number;
@@ -49,34 +40,6 @@ export function sharpeRatio(returns: ArrayLike<number>, periodsPerYear: number, 
   const rf = perPeriodRate(cashRate, periodsPerYear);
   const excess = Float64Array.from(returns, (r) => r - rf);
   return (mean(excess) / standardDeviation(excess)) * Math.sqrt(periodsPerYear);
-}
-
-/** `startDate` is the date at which the curve stands at 1 (before the first return). */
-export function maxDrawdown(returns: ArrayLike<number>, dates: readonly string[], startDate: string): Drawdown {
-  const curve = new Float64Array(returns.length + 1);
-  curve[0] = 1;
-  for (let t = 0; t < returns.length; t++) curve[t + 1] = curve[t] * (1 + returns[t]);
-  const dateAt = (k: number): string => (k === 0 ? startDate : dates[k - 1]);
-  let peak = 0;
-  let best = { depth: 0, peak: 0, trough: 0 };
-  for (let k = 1; k < curve.length; k++) {
-    if (curve[k] >= curve[peak]) peak = k;
-    const depth = 1 - curve[k] / curve[peak];
-    if (depth > best.depth) best = { depth, peak, trough: k };
-  }
-  let recovery: number | null = null;
-  if (best.depth > 0)
-    for (let k = best.trough + 1; k < curve.length; k++)
-      if (curve[k] >= curve[best.peak]) {
-        recovery = k;
-        break;
-      }
-  return {
-    depth: best.depth,
-    peakDate: dateAt(best.peak),
-    troughDate: dateAt(best.trough),
-    recoveryDate: recovery === null ? null : dateAt(recovery),
-  };
 }
 
 export function returnMetrics(

@@ -1,5 +1,5 @@
 import { InputError } from '../errors.js';
-import { PERIODS_PER_YEAR } from '../estimators/types.js';
+import { PERIODS_PER_YEAR } from '../scenario/frequency.js';
 import type { Matrix } from '../linalg/matrix.js';
 import type { PriceTable } from '../prices/price-table.js';
 import { buildReturns, DEFAULT_MAX_FILL_DAYS, type ReturnsResult } from '../returns/build-returns.js';

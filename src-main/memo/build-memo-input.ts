@@ -17,7 +17,7 @@ import { estimatorWords } from './plain-words.js';
 /**
  * What the memo needs from a scenario run: the candidates, the estimate each used (annualised
  * covariance in its asset order) and the returns. This is the shape of `runScenario`'s result
- * (shared-core/scenario/run-scenario.ts), written structurally so the memo depends on the fields
+ * (shared-core/run/run-scenario.ts), written structurally so the memo depends on the fields
  * it reads and nothing more.
  */
 export interface MemoRunSource {

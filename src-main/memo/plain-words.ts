@@ -1,6 +1,6 @@
 import type { EstimatorSpec } from '../../shared-core/scenario/estimator-spec.js';
 import type { ObjectiveSpec } from '../../shared-core/scenario/objective-spec.js';
-import { mergedConstraints } from '../../shared-core/scenario/run-scenario.js';
+import { mergedConstraints } from '../../shared-core/run/run-scenario.js';
 import type { Constraints, Scenario } from '../../shared-core/scenario/schema.js';
 import { formatPct, listInWords } from '../../shared-core/present/format.js';
 

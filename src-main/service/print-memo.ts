@@ -1,7 +1,7 @@
 import { basename } from 'node:path';
 import { ServiceFailure } from '../../shared-core/contract/define.js';
 import type { MemoSummary } from '../../shared-core/contract/service-api.js';
-import { runScenario } from '../../shared-core/scenario/run-scenario.js';
+import { runScenario } from '../../shared-core/run/run-scenario.js';
 import { storedScenarioInputs } from '../io/stored-scenario.js';
 import { buildMemoInput } from '../memo/build-memo-input.js';
 import type { MemoPosition } from '../memo/memo-input.js';

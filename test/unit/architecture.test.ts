@@ -1,100 +1,132 @@
-import { readFileSync, readdirSync, statSync } from 'node:fs';
-import { dirname, join, relative, resolve } from 'node:path';
+import { readdirSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { describe, expect, it } from 'vitest';
+import { ESLint } from 'eslint';
+import { beforeAll, describe, expect, it } from 'vitest';
 
-// The folder a file lives in says what it may import (the layering rule of DEVELOPERS.md).
+/**
+ * The folder a file lives in says what it may import; eslint.config.js holds the rules and
+ * `npm run lint` applies them to the tree. These checks show that each rule fires on a forbidden
+ * import and stays quiet on an allowed one, by linting probe text as if it lived at a given path.
+ */
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
+let eslint: ESLint;
 
-function sourceFiles(dir: string): string[] {
-  const out: string[] = [];
-  for (const name of readdirSync(join(root, dir))) {
-    const path = join(dir, name);
-    if (statSync(join(root, path)).isDirectory()) out.push(...sourceFiles(path));
-    else if (/\.(ts|tsx)$/.test(name) && !name.endsWith('.d.ts')) out.push(path);
-  }
-  return out;
+beforeAll(() => {
+  eslint = new ESLint({ cwd: root });
+});
+
+/** The messages of the import and global rules for `code` placed at `path`. */
+async function findings(path: string, code: string): Promise<string[]> {
+  const [result] = await eslint.lintText(code, { filePath: join(root, path) });
+  return result.messages
+    .filter((m) => m.ruleId?.startsWith('no-restricted') || m.fatal)
+    .map((m) => `${m.ruleId}: ${m.message}`);
 }
 
-function importsOf(file: string): string[] {
-  const text = readFileSync(join(root, file), 'utf8');
-  const specs: string[] = [];
-  const re =
-    /(?:^|\n)\s*(?:import|export)[^'"`;]*?from\s*['"]([^'"]+)['"]|import\(\s*['"]([^'"]+)['"]\s*\)|(?:^|\n)\s*import\s*['"]([^'"]+)['"]/g;
-  for (const m of text.matchAll(re)) specs.push(m[1] ?? m[2] ?? m[3]);
-  return specs;
-}
+const importing = (spec: string) => `import * as probe from '${spec}';\nexport const used = probe;\n`;
 
-/** Blanks out comments and string literals (keeping line breaks) so only code is scanned. */
-function stripCommentsAndStrings(text: string): string {
-  return text.replace(/\/\*[\s\S]*?\*\/|\/\/[^\n]*|'(?:\\.|[^'\\\n])*'|"(?:\\.|[^"\\\n])*"|`(?:\\.|[^`\\])*`/g, (m) =>
-    m.replace(/[^\n]/g, ' '),
-  );
-}
-
-function resolvesInside(file: string, spec: string, folder: string): boolean {
-  return relative(join(root, folder), resolve(join(root, dirname(file)), spec)).split(/[\\/]/)[0] !== '..';
-}
-
-describe('architecture', () => {
-  it('shared-core imports only itself, zod and ml-matrix: no Node, DOM, Electron or React', () => {
-    const offences: string[] = [];
-    for (const file of sourceFiles('shared-core'))
-      for (const spec of importsOf(file)) {
-        const ok = spec.startsWith('.')
-          ? resolvesInside(file, spec, 'shared-core')
-          : ['zod', 'ml-matrix'].includes(spec);
-        if (!ok) offences.push(`${file} imports '${spec}'`);
-      }
-    expect(offences).toEqual([]);
+describe('shared-core imports downwards only (document, then estimators / optimiser / walk-forward, then the run)', () => {
+  it.each([
+    ['shared-core/scenario/probe.ts', '../estimators/registry.js', 'the document does not import the estimators'],
+    ['shared-core/scenario/probe.ts', '../run/run-scenario.js', 'the document does not import the run'],
+    ['shared-core/estimators/probe.ts', '../run/run-scenario.js', 'the estimators do not import the run'],
+    ['shared-core/estimators/probe.ts', '../walkforward/engine.js', 'the estimators do not import the walk-forward'],
+    ['shared-core/optimise/probe.ts', '../estimators/registry.js', 'siblings of one layer stay independent'],
+    ['shared-core/stress/probe.ts', '../walkforward/metrics.js', 'stress does not import the walk-forward above it'],
+    ['shared-core/walkforward/probe.ts', '../run/run-scenario.js', 'the walk-forward does not import the run'],
+    ['shared-core/optimise/qp/probe.ts', '../../walkforward/engine.js', 'a sub-folder counts its own depth'],
+    [
+      'shared-core/methods/estimators/probe.ts',
+      '../../scenario/schema.js',
+      'method definitions sit below the document',
+    ],
+    ['shared-core/linalg/probe.ts', '../methods/define.js', 'arithmetic and method definitions are independent'],
+    ['shared-core/errors.ts', './linalg/matrix.js', 'the errors import nothing of the core'],
+  ])('%s importing %s is refused: %s', async (path, spec) => {
+    const found = await findings(path, importing(spec));
+    expect(found).toHaveLength(1);
+    expect(found[0]).toMatch(/^no-restricted-imports: .*layers import downwards/);
   });
 
-  it('shared-core touches no runtime globals of Node or the browser', () => {
-    const offences: string[] = [];
-    // A free identifier (not a property such as `scenario.window`) used as an object or called.
-    const globals =
-      /(?<![.\w$])(process|window|document|navigator|localStorage|Buffer|require|globalThis)\s*(\?\.|\.|\[|\()/;
-    for (const file of sourceFiles('shared-core')) {
-      const lines = stripCommentsAndStrings(readFileSync(join(root, file), 'utf8')).split('\n');
-      lines.forEach((line, i) => {
-        if (globals.test(line)) offences.push(`${file}:${i + 1}: ${line.trim()}`);
-      });
+  it('allows the imports the layers permit, at any depth and within a folder', async () => {
+    for (const [path, spec] of [
+      ['shared-core/scenario/probe.ts', '../errors.js'],
+      ['shared-core/scenario/probe.ts', '../methods/define.js'],
+      ['shared-core/estimators/probe.ts', '../scenario/estimator-spec.js'],
+      ['shared-core/estimators/probe.ts', '../linalg/matrix.js'],
+      ['shared-core/optimise/probe.ts', '../analytics/risk.js'],
+      ['shared-core/optimise/qp/probe.ts', '../clock.js'],
+      ['shared-core/optimise/qp/probe.ts', '../../linalg/matrix.js'],
+      ['shared-core/walkforward/probe.ts', '../estimators/registry.js'],
+      ['shared-core/walkforward/probe.ts', '../optimise/solve-candidate.js'],
+      ['shared-core/run/probe.ts', '../walkforward/engine.js'],
+      ['shared-core/run/probe.ts', './run-cache.js'],
+      ['shared-core/run/probe.ts', 'zod'],
+    ])
+      expect(await findings(path, importing(spec)), `${path} importing ${spec}`).toEqual([]);
+  });
+
+  it('places every folder of shared-core in a layer (a folder left out fails the lint configuration itself)', async () => {
+    const folders = readdirSync(join(root, 'shared-core'), { withFileTypes: true }).filter((e) => e.isDirectory());
+    expect(folders.length).toBeGreaterThan(5);
+    for (const folder of folders) {
+      const config = (await eslint.calculateConfigForFile(join(root, 'shared-core', folder.name, 'probe.ts'))) as {
+        rules: Record<string, [number, { patterns: { message: string }[] }]>;
+      };
+      const messages = config.rules['no-restricted-imports'][1].patterns.map((p) => p.message);
+      expect(
+        messages.some((m) => m.includes('layers import downwards')),
+        folder.name,
+      ).toBe(true);
     }
-    expect(offences).toEqual([]);
+  });
+});
+
+describe('shared-core runs anywhere: no Node, DOM, Electron or React', () => {
+  it.each(['node:fs', 'fs', 'react', 'electron', 'better-sqlite3', '../../src-main/cli/files.js'])(
+    'a core module importing %s is refused',
+    async (spec) => {
+      const found = await findings('shared-core/linalg/probe.ts', importing(spec));
+      expect(found.length).toBeGreaterThan(0);
+      expect(found.join('\n')).toMatch(/no-restricted-imports/);
+    },
+  );
+
+  it('refuses the globals of Node and the browser, and a dynamic import, but not a property of the same name', async () => {
+    for (const code of [
+      'export const t = process.hrtime();',
+      'export const w = window.innerWidth;',
+      'export const d = document.title;',
+      'export const b = Buffer.from([1]);',
+      'export const m = import("./matrix.js");',
+    ])
+      expect(await findings('shared-core/linalg/probe.ts', code), code).toHaveLength(1);
+    expect(
+      await findings(
+        'shared-core/linalg/probe.ts',
+        "export const y = (s: { window?: { years?: number } }) => s.window?.years; // window.x\nexport const m = 'see window.from';\n",
+      ),
+    ).toEqual([]);
+  });
+});
+
+describe('the renderer and the store', () => {
+  it('the renderer reaches the main process only through the service API, never by importing it', async () => {
+    for (const [path, spec] of [
+      ['src-renderer/scenario/probe.tsx', '../../src-main/service/households.js'],
+      ['src-renderer/scenario/probe.tsx', 'node:fs'],
+      ['src-renderer/probe.ts', '../src-main/cli/files.js'],
+      ['src-renderer/worker/probe.ts', 'better-sqlite3'],
+    ])
+      expect(await findings(path, importing(spec)), `${path} importing ${spec}`).toHaveLength(1);
+    expect(
+      await findings('src-renderer/scenario/probe.tsx', importing('../../shared-core/scenario/schema.js')),
+    ).toEqual([]);
   });
 
-  it('the globals check itself finds a free global and ignores properties, comments and strings', () => {
-    const globals =
-      /(?<![.\w$])(process|window|document|navigator|localStorage|Buffer|require|globalThis)\s*(\?\.|\.|\[|\()/;
-    expect(globals.test(stripCommentsAndStrings('const t = process.hrtime();'))).toBe(true);
-    expect(globals.test(stripCommentsAndStrings('if (window.innerWidth) {}'))).toBe(true);
-    expect(globals.test(stripCommentsAndStrings('const y = s.window?.years; // window.x'))).toBe(false);
-    expect(globals.test(stripCommentsAndStrings("const m = 'see window.from';"))).toBe(false);
-  });
-
-  it('the renderer reaches the main process only through the service API, never by importing it', () => {
-    const offences: string[] = [];
-    for (const file of sourceFiles('src-renderer'))
-      for (const spec of importsOf(file)) {
-        if (spec.startsWith('node:') || ['electron', 'better-sqlite3', 'fs', 'path'].includes(spec))
-          offences.push(`${file} imports '${spec}'`);
-        if (
-          spec.startsWith('.') &&
-          !resolvesInside(file, spec, 'src-renderer') &&
-          !resolvesInside(file, spec, 'shared-core')
-        )
-          offences.push(`${file} imports '${spec}'`);
-      }
-    expect(offences).toEqual([]);
-  });
-
-  it('no SQL outside the store module: only src-main/store opens better-sqlite3', () => {
-    const offences: string[] = [];
-    for (const folder of ['src-main', 'src-renderer', 'shared-core'])
-      for (const file of sourceFiles(folder)) {
-        if (file.startsWith(join('src-main', 'store'))) continue;
-        if (importsOf(file).includes('better-sqlite3')) offences.push(`${file} imports better-sqlite3`);
-      }
-    expect(offences).toEqual([]);
+  it('no SQL outside the store: only src-main/store opens better-sqlite3', async () => {
+    expect(await findings('src-main/service/probe.ts', importing('better-sqlite3'))).toHaveLength(1);
+    expect(await findings('src-main/store/probe.ts', importing('better-sqlite3'))).toEqual([]);
   });
 });

@@ -1,7 +1,8 @@
 import { correlationMatrix, assetVolatilities } from '../../../shared-core/analytics/risk.js';
 import { InputError, type InputLocation } from '../../../shared-core/errors.js';
 import { annualised, estimateCovariance } from '../../../shared-core/estimators/registry.js';
-import type { CovarianceEstimate, Frequency } from '../../../shared-core/estimators/types.js';
+import type { CovarianceEstimate } from '../../../shared-core/estimators/types.js';
+import type { Frequency } from '../../../shared-core/scenario/frequency.js';
 import { toRows } from '../../../shared-core/linalg/matrix.js';
 import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
 import { buildReturns, type ReturnMethod, type ReturnsResult } from '../../../shared-core/returns/build-returns.js';

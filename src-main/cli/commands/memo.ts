@@ -3,7 +3,7 @@ import { basename, resolve } from 'node:path';
 import { InputError } from '../../../shared-core/errors.js';
 import { wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
-import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
+import { runScenario } from '../../../shared-core/run/run-scenario.js';
 import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { DEFAULT_DRAWS } from '../../../shared-core/stability/weight-bands.js';

@@ -2,7 +2,7 @@ import { InputError, formatInputError } from '../../../shared-core/errors.js';
 import type { CandidateResult } from '../../../shared-core/optimise/result.js';
 import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
-import { runScenario, type ScenarioRun } from '../../../shared-core/scenario/run-scenario.js';
+import { runScenario, type ScenarioRun } from '../../../shared-core/run/run-scenario.js';
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';

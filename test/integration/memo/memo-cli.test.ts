@@ -5,7 +5,7 @@ import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_SCENARIO_NAME } from '../../../shared-core/demo/index.js';
 import { parseWidePriceCsv } from '../../../shared-core/prices/parse-wide-csv.js';
-import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
+import { runScenario } from '../../../shared-core/run/run-scenario.js';
 import { parseScenarioText } from '../../../shared-core/scenario/schema.js';
 import { estimateAndSolve } from '../../../shared-core/walkforward/estimate-and-solve.js';
 import { runBacktest } from '../../../shared-core/walkforward/run-backtest.js';

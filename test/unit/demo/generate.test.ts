@@ -11,7 +11,7 @@ import {
 import { regimeSwitching } from '../../../shared-core/demo/factors.js';
 import { parseWidePriceCsv } from '../../../shared-core/prices/parse-wide-csv.js';
 import { buildReturns } from '../../../shared-core/returns/build-returns.js';
-import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
+import { runScenario } from '../../../shared-core/run/run-scenario.js';
 import { parseScenario } from '../../../shared-core/scenario/schema.js';
 
 const demo = generateDemo();
@@ -309,7 +309,7 @@ describe('demo data: through the returns engine (shared-core/returns/build-retur
   });
 });
 
-describe('demo data: the demo scenario solves (shared-core/scenario/run-scenario.ts)', () => {
+describe('demo data: the demo scenario solves (shared-core/run/run-scenario.ts)', () => {
   it('all six candidates are optimal, fully invested, and keep the caps, the bands and the illiquid cap', () => {
     const parsed = parseScenario(demo.scenario);
     if (!parsed.ok) throw new Error('the demo scenario does not parse');

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
+import { maxDrawdown } from '../../../shared-core/analytics/drawdown.js';
 import {
   annualisedReturn,
   annualisedVolatility,
-  maxDrawdown,
   sharpeRatio,
   spread,
   walkForwardMetrics,

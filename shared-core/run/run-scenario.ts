@@ -14,7 +14,7 @@ import type { PriceTable } from '../prices/price-table.js';
 import { buildReturns, type BuildReturnsOptions, type ReturnsResult } from '../returns/build-returns.js';
 import { CancelledError, type CancelCheck } from '../stability/cancel.js';
 import { createRunCache, samePrices, type RunCache } from './run-cache.js';
-import type { Constraints, Scenario } from './schema.js';
+import type { Constraints, Scenario } from '../scenario/schema.js';
 
 export interface RunScenarioOptions {
   /** Active sets of an earlier run, by candidate id (walk-forward, live recompute). */

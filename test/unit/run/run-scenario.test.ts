@@ -2,8 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { conditionNumber } from '../../../shared-core/linalg/condition.js';
 import { effectiveBets } from '../../../shared-core/analytics/risk.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
-import { createRunCache } from '../../../shared-core/scenario/run-cache.js';
-import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
+import { createRunCache } from '../../../shared-core/run/run-cache.js';
+import { runScenario } from '../../../shared-core/run/run-scenario.js';
 import { parseScenario } from '../../../shared-core/scenario/schema.js';
 
 /** Seeded lognormal prices with one common factor (a Park and Miller 1988 stream). */
