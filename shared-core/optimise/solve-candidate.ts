@@ -15,6 +15,7 @@ import {
 import { conditionNumber } from '../linalg/condition.js';
 import type { TridiagonalForm } from '../linalg/tridiagonal-form.js';
 import { allFinite, identity, multiplyVector, type Matrix } from '../linalg/matrix.js';
+import { objectiveDefinition } from '../methods/objective-registry.js';
 import type { ObjectiveSpec } from '../scenario/objective-spec.js';
 import type { AssetInfo, Constraints } from '../scenario/schema.js';
 import { nowMs } from './clock.js';
@@ -411,7 +412,8 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
 const GAP_TIE = 1e-9;
 
 /**
- * The unit each objective's shadow prices are told in, and how the solver's multipliers reach it.
+ * How the solver's multipliers reach the quantity each objective's shadow prices are told in (its
+ * definition's `shadowPrice` words).
  * Every one is checked against re-solves with the limit moved in test/unit/optimise/shadow-prices.test.ts.
  */
 function objectiveScale(
@@ -427,21 +429,20 @@ function objectiveScale(
     ruleWeights?: Float64Array;
   },
 ): ObjectiveScale {
+  const words = objectiveDefinition(method).shadowPrice;
   switch (method) {
     case 'max-diversification':
     case 'max-sharpe':
       // R = 1 / sqrt(2 phi) (formulate.ts), so dR/dphi = -(2 phi)^(-3/2).
       return {
-        name: method === 'max-sharpe' ? 'the Sharpe ratio' : 'DR',
-        unit: method === 'max-sharpe' ? 'Sharpe ratio' : 'diversification ratio',
+        ...words,
         maximise: true,
         chain: -Math.pow(2 * phi, -1.5),
       };
     case 'min-variance':
       // sigma_p = sqrt(2 phi): dsigma/dphi = 1 / sigma.
       return {
-        name: 'volatility',
-        unit: 'annualised volatility',
+        ...words,
         maximise: false,
         chain: 1 / Math.sqrt(2 * phi),
         points: true,
@@ -450,8 +451,7 @@ function objectiveScale(
       // phi = w'Cw / 2 with C the correlation matrix; sqrt(w'Cw) is the volatility the portfolio
       // would have if every asset had the same volatility, as a share of it: d sqrt(2 phi)/dphi = 1 / sqrt(2 phi).
       return {
-        name: 'the volatility from correlations alone',
-        unit: 'volatility from correlations alone (every asset at the same volatility, as a share of it)',
+        ...words,
         maximise: false,
         chain: 1 / Math.sqrt(2 * phi),
         points: true,
@@ -464,8 +464,7 @@ function objectiveScale(
       const move =
         form && q && q.status === 'optimal' && budgets ? ercWeightSensitivity(S, budgets, form, m, q.solution) : null;
       return {
-        name: 'the largest gap between a risk contribution and its budget',
-        unit: 'largest gap between a risk contribution and its budget (share of risk)',
+        ...words,
         maximise: false,
         chain: NaN,
         points: true,
@@ -491,10 +490,8 @@ function objectiveScale(
       const r = at.ruleWeights;
       let d2 = 0;
       if (r) for (let i = 0; i < r.length; i++) d2 += (at.w[i] - r[i]) ** 2;
-      const rule = method === 'equal-weight' ? 'equal weights' : 'inverse-volatility weights';
       return {
-        name: `the distance from the ${rule}`,
-        unit: `distance from the ${rule} (square root of the summed squared weight differences)`,
+        ...words,
         maximise: false,
         chain: 1 / Math.sqrt(d2),
         points: true,

@@ -1,29 +1,16 @@
 import { z } from 'zod';
+import type { OptionSchemas } from '../methods/define.js';
+import { estimatorDefinitions } from '../methods/estimator-registry.js';
+
+export { estimatorMethods, type EstimatorMethod, type EstimatorSpec } from '../methods/estimator-registry.js';
+export { shrinkageTargets, type ShrinkageTarget } from '../methods/estimators/ledoit-wolf.js';
 
 /**
- * The estimator object of a scenario candidate: `method` plus that method's options, named as
- * the command-line flags are (`target`, `lambda`, `halfLife`). The list of methods here is the
- * one registry the UI, the command line and the schema read.
+ * The estimator object of a scenario candidate: `method` plus that method's options, named as the
+ * command-line flags are (`target`, `lambda`, `halfLife`). One member per definition in
+ * methods/estimator-registry.ts.
  */
-export const estimatorMethods = ['sample', 'ewma', 'ledoit-wolf', 'oas', 'denoised', 'robust', 'nonlinear'] as const;
-export type EstimatorMethod = (typeof estimatorMethods)[number];
-
-export const shrinkageTargets = ['scaled-identity', 'constant-correlation', 'single-index'] as const;
-export type ShrinkageTarget = (typeof shrinkageTargets)[number];
-
-const unit = z.number().gt(0).lt(1);
-
-export const estimatorSpecSchema = z.discriminatedUnion('method', [
-  z.strictObject({ method: z.literal('sample') }),
-  z
-    .strictObject({ method: z.literal('ewma'), lambda: unit.optional(), halfLife: z.number().positive().optional() })
-    .refine((e) => e.lambda === undefined || e.halfLife === undefined, {
-      message: 'give lambda or halfLife, not both',
-    }),
-  z.strictObject({ method: z.literal('ledoit-wolf'), target: z.enum(shrinkageTargets).optional() }),
-  z.strictObject({ method: z.literal('oas') }),
-  z.strictObject({ method: z.literal('denoised') }),
-  z.strictObject({ method: z.literal('robust') }),
-  z.strictObject({ method: z.literal('nonlinear') }),
-]);
-export type EstimatorSpec = z.infer<typeof estimatorSpecSchema>;
+export const estimatorSpecSchema = z.discriminatedUnion(
+  'method',
+  estimatorDefinitions.map((d) => d.options(z)) as unknown as OptionSchemas<typeof estimatorDefinitions>,
+);

@@ -1,79 +1,12 @@
-import type { EstimatorSpec } from '../../shared-core/scenario/estimator-spec.js';
-import type { ObjectiveSpec } from '../../shared-core/scenario/objective-spec.js';
 import { mergedConstraints } from '../../shared-core/run/run-scenario.js';
 import type { Constraints, Scenario } from '../../shared-core/scenario/schema.js';
 import { formatPct, listInWords } from '../../shared-core/present/format.js';
 
 /** The scenario's settings in the sentences the memo prints (method and data, candidates). */
 
-export const OBJECTIVE_WORDS: Record<ObjectiveSpec['method'], string> = {
-  'max-diversification': 'maximum diversification',
-  'min-variance': 'minimum variance',
-  'equal-risk-contribution': 'equal risk contribution',
-  'max-decorrelation': 'maximum decorrelation',
-  'max-sharpe': 'maximum Sharpe ratio',
-  'inverse-volatility': 'inverse volatility',
-  'equal-weight': 'equal weights',
-};
-
-export function objectiveWords(objective: ObjectiveSpec): string {
-  if (objective.method === 'equal-risk-contribution' && objective.budgets) return 'risk budgets (set by the advisor)';
-  return OBJECTIVE_WORDS[objective.method];
-}
-
-const TARGET_WORDS = {
-  'scaled-identity': 'a scaled identity',
-  'constant-correlation': 'constant correlation',
-  'single-index': 'a single-index model',
-} as const;
-
-export function estimatorWords(estimator: EstimatorSpec): string {
-  switch (estimator.method) {
-    case 'sample':
-      return 'sample covariance';
-    case 'ewma':
-      if (estimator.halfLife !== undefined) return `exponentially weighted (half-life ${estimator.halfLife} periods)`;
-      return estimator.lambda !== undefined
-        ? `exponentially weighted (lambda ${estimator.lambda})`
-        : 'exponentially weighted (default lambda)';
-    case 'ledoit-wolf':
-      return `Ledoit-Wolf shrinkage towards ${TARGET_WORDS[estimator.target ?? 'scaled-identity']}`;
-    case 'oas':
-      return 'oracle approximating shrinkage (OAS)';
-    case 'denoised':
-      return 'random-matrix denoised covariance';
-    case 'robust':
-      return 'robust covariance';
-    case 'nonlinear':
-      return 'analytical nonlinear shrinkage of the eigenvalues (Ledoit and Wolf 2020)';
-  }
-}
-
-/** The estimator in a few words, for table cells. */
-export function estimatorShort(estimator: EstimatorSpec): string {
-  switch (estimator.method) {
-    case 'sample':
-      return 'sample';
-    case 'ewma':
-      return estimator.halfLife !== undefined
-        ? `EWMA, half-life ${estimator.halfLife}`
-        : estimator.lambda !== undefined
-          ? `EWMA, lambda ${estimator.lambda}`
-          : 'EWMA';
-    case 'ledoit-wolf':
-      return estimator.target && estimator.target !== 'scaled-identity'
-        ? `Ledoit-Wolf, ${estimator.target}`
-        : 'Ledoit-Wolf';
-    case 'oas':
-      return 'OAS';
-    case 'denoised':
-      return 'denoised';
-    case 'robust':
-      return 'robust';
-    case 'nonlinear':
-      return 'nonlinear shrinkage';
-  }
-}
+// Each method's words are part of its definition (shared-core/methods/).
+export { estimatorShort, estimatorWords } from '../../shared-core/methods/estimator-registry.js';
+export { objectiveWords } from '../../shared-core/methods/objective-registry.js';
 
 /** The limits of a candidate, one sentence each. `name` turns asset ids into printed names. */
 export function constraintSentences(

@@ -1,6 +1,14 @@
 import type { Candidate, ScenarioInput } from '../../shared-core/scenario/schema.js';
-import type { EstimatorSpec } from '../../shared-core/scenario/estimator-spec.js';
-import type { ObjectiveSpec } from '../../shared-core/scenario/objective-spec.js';
+import {
+  describeEstimator,
+  estimatorDefinition,
+  type EstimatorSpec,
+} from '../../shared-core/methods/estimator-registry.js';
+import {
+  describeObjective,
+  objectiveDefinition,
+  type ObjectiveSpec,
+} from '../../shared-core/methods/objective-registry.js';
 
 /**
  * The candidates of a scenario as a grid: risk estimates down, objectives across, one candidate
@@ -22,62 +30,9 @@ export function specKey(spec: { method: string }): string {
   return [spec.method, ...entries.map(([k, v]) => `${k}=${JSON.stringify(v)}`)].join(';');
 }
 
-const estimatorShort: Record<EstimatorSpec['method'], string> = {
-  sample: 'sample',
-  ewma: 'ewma',
-  'ledoit-wolf': 'lw',
-  oas: 'oas',
-  denoised: 'dn',
-  robust: 'rob',
-  nonlinear: 'nls',
-};
-
-const objectiveShort: Record<ObjectiveSpec['method'], string> = {
-  'max-diversification': 'md',
-  'min-variance': 'mv',
-  'equal-risk-contribution': 'erc',
-  'max-decorrelation': 'mdc',
-  'max-sharpe': 'ms',
-  'inverse-volatility': 'iv',
-  'equal-weight': 'ew',
-};
-
-export const estimatorNames: Record<EstimatorSpec['method'], string> = {
-  sample: 'Sample',
-  ewma: 'Exponentially weighted',
-  'ledoit-wolf': 'Ledoit-Wolf shrinkage',
-  oas: 'Oracle approximating shrinkage',
-  denoised: 'Denoised (eigenvalue clipping)',
-  robust: 'Robust (M-estimator)',
-  nonlinear: 'Nonlinear shrinkage',
-};
-
-export const objectiveNames: Record<ObjectiveSpec['method'], string> = {
-  'max-diversification': 'Maximum diversification',
-  'min-variance': 'Minimum variance',
-  'equal-risk-contribution': 'Equal risk contribution',
-  'max-decorrelation': 'Maximum decorrelation',
-  'max-sharpe': 'Maximum Sharpe ratio',
-  'inverse-volatility': 'Inverse volatility',
-  'equal-weight': 'Equal weight',
-};
-
-/** A short, readable description of an estimator with its options: "Exponentially weighted, half-life 60". */
-export function describeEstimator(spec: EstimatorSpec): string {
-  const name = estimatorNames[spec.method];
-  if (spec.method === 'ewma') {
-    if (spec.halfLife !== undefined) return `${name}, half-life ${spec.halfLife}`;
-    if (spec.lambda !== undefined) return `${name}, lambda ${spec.lambda}`;
-  }
-  if (spec.method === 'ledoit-wolf' && spec.target !== undefined) return `${name}, ${spec.target} target`;
-  return name;
-}
-
-export function describeObjective(spec: ObjectiveSpec): string {
-  const name = objectiveNames[spec.method];
-  if (spec.method === 'equal-risk-contribution' && spec.budgets) return `${name}, own budgets`;
-  return name;
-}
+// The methods' names, short codes and descriptions come from their definitions (shared-core/methods/).
+export { describeEstimator } from '../../shared-core/methods/estimator-registry.js';
+export { describeObjective } from '../../shared-core/methods/objective-registry.js';
 
 export function gridFromCandidates(candidates: readonly CandidateInput[]): CandidateGrid {
   const estimators = new Map<string, EstimatorSpec>();
@@ -103,7 +58,7 @@ export function findCandidate(
 
 /** An id from the two methods ("md-lw"), made unique against `taken` with a numeric suffix. */
 export function candidateId(estimator: EstimatorSpec, objective: ObjectiveSpec, taken: ReadonlySet<string>): string {
-  const base = `${objectiveShort[objective.method]}-${estimatorShort[estimator.method]}`;
+  const base = `${objectiveDefinition(objective.method).idPart}-${estimatorDefinition(estimator.method).idPart}`;
   if (!taken.has(base)) return base;
   for (let i = 2; ; i++) if (!taken.has(`${base}-${i}`)) return `${base}-${i}`;
 }

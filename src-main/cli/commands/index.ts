@@ -1,3 +1,5 @@
+import { estimatorMethods } from '../../../shared-core/methods/estimator-registry.js';
+import { shrinkageTargets } from '../../../shared-core/methods/estimators/ledoit-wolf.js';
 import type { Command, OptionSpec } from '../command.js';
 
 /*
@@ -6,15 +8,12 @@ import type { Command, OptionSpec } from '../command.js';
  * it alone; a command's module (and so the store, the schemas or the PDF writer it uses) is
  * imported only when that command runs.
  *
- * The values below come from modules that load far more than their value (zod schemas, the demo
+ * The methods come from their definitions (shared-core/methods/), which import nothing at run
+ * time. The values below come from modules that load far more than their value (zod schemas, the demo
  * generator, the household file). They are written out here and checked equal to their source
  * by test/unit/cli/command-table.test.ts.
  */
 
-/** `estimatorMethods` of shared-core/scenario/estimator-spec.ts. */
-export const ESTIMATOR_METHODS = ['sample', 'ewma', 'ledoit-wolf', 'oas', 'denoised', 'robust', 'nonlinear'] as const;
-/** `shrinkageTargets` of shared-core/scenario/estimator-spec.ts. */
-export const SHRINKAGE_TARGETS = ['scaled-identity', 'constant-correlation', 'single-index'] as const;
 /** `DEFAULT_DEMO_SEED` of shared-core/demo/generate.ts. */
 export const DEFAULT_DEMO_SEED = 2;
 /** `DEFAULT_DRAWS` of shared-core/stability/weight-bands.ts. */
@@ -162,11 +161,11 @@ const estimateCommand: Command = {
       required: true,
       description: 'wide price file: date, then one column per asset',
     },
-    { name: 'method', kind: 'string', choices: ESTIMATOR_METHODS, description: 'estimator (default ledoit-wolf)' },
+    { name: 'method', kind: 'string', choices: estimatorMethods, description: 'estimator (default ledoit-wolf)' },
     {
       name: 'target',
       kind: 'string',
-      choices: SHRINKAGE_TARGETS,
+      choices: shrinkageTargets,
       description: 'ledoit-wolf target (default scaled-identity)',
     },
     {

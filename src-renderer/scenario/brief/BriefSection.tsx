@@ -1,19 +1,18 @@
 import { memo, useMemo, useState } from 'react';
 import type { Asset, Holdings } from '../../../shared-core/contract/service-api.js';
 import {
-  estimatorMethods,
-  shrinkageTargets,
+  estimatorDefinition,
+  estimatorDefinitions,
   type EstimatorSpec,
-} from '../../../shared-core/scenario/estimator-spec.js';
-import { objectiveMethods, type ObjectiveSpec } from '../../../shared-core/scenario/objective-spec.js';
-import type { ScenarioInput } from '../../../shared-core/scenario/schema.js';
+} from '../../../shared-core/methods/estimator-registry.js';
+import { shrinkageTargets } from '../../../shared-core/methods/estimators/ledoit-wolf.js';
 import {
-  describeEstimator,
-  describeObjective,
-  estimatorNames,
-  findCandidate,
-  objectiveNames,
-} from '../candidate-grid.js';
+  objectiveDefinition,
+  objectiveDefinitions,
+  type ObjectiveSpec,
+} from '../../../shared-core/methods/objective-registry.js';
+import type { ScenarioInput } from '../../../shared-core/scenario/schema.js';
+import { describeEstimator, describeObjective, findCandidate } from '../candidate-grid.js';
 import {
   addEstimator,
   addObjective,
@@ -318,8 +317,8 @@ function EstimatorOptions({
   return null;
 }
 
-const defaultEstimator = (method: EstimatorSpec['method']): EstimatorSpec =>
-  method === 'ewma' ? { method, lambda: 0.97 } : ({ method } as EstimatorSpec);
+/** The estimator object the editor starts from when a method is picked (its definition's). */
+const defaultEstimator = (method: EstimatorSpec['method']): EstimatorSpec => estimatorDefinition(method).initial;
 
 function EstimatesAndObjectives(props: BriefProps) {
   const { state, commit, messages } = props;
@@ -357,9 +356,9 @@ function EstimatesAndObjectives(props: BriefProps) {
                       label={`Objective ${j + 1}`}
                       path={`objectives[${j}]`}
                       value={o.method}
-                      options={objectiveMethods.map((m) => ({ value: m, label: objectiveNames[m] }))}
+                      options={objectiveDefinitions.map((d) => ({ value: d.method, label: d.label }))}
                       messages={objectiveMessages(o)}
-                      onChange={(m) => commit(updateObjective(state, j, { method: m } as ObjectiveSpec))}
+                      onChange={(m) => commit(updateObjective(state, j, objectiveDefinition(m).initial))}
                     />
                     <button type="button" className="quiet" onClick={() => commit(removeObjective(state, j))}>
                       Remove<span className="visually-hidden"> {describeObjective(o)}</span>
@@ -379,7 +378,7 @@ function EstimatesAndObjectives(props: BriefProps) {
                       label={`Risk estimate ${i + 1}`}
                       path={`estimators[${i}]`}
                       value={e.method}
-                      options={estimatorMethods.map((m) => ({ value: m, label: estimatorNames[m] }))}
+                      options={estimatorDefinitions.map((d) => ({ value: d.method, label: d.label }))}
                       messages={[]}
                       onChange={(m) => commit(updateEstimator(state, i, defaultEstimator(m)))}
                     />
@@ -414,9 +413,9 @@ function EstimatesAndObjectives(props: BriefProps) {
         <label>
           <span className="visually-hidden">Risk estimate to add</span>
           <select value={newEstimator} onChange={(e) => setNewEstimator(e.target.value as EstimatorSpec['method'])}>
-            {estimatorMethods.map((m) => (
-              <option key={m} value={m}>
-                {estimatorNames[m]}
+            {estimatorDefinitions.map((d) => (
+              <option key={d.method} value={d.method}>
+                {d.label}
               </option>
             ))}
           </select>
@@ -427,14 +426,14 @@ function EstimatesAndObjectives(props: BriefProps) {
         <label>
           <span className="visually-hidden">Objective to add</span>
           <select value={newObjective} onChange={(e) => setNewObjective(e.target.value as ObjectiveSpec['method'])}>
-            {objectiveMethods.map((m) => (
-              <option key={m} value={m}>
-                {objectiveNames[m]}
+            {objectiveDefinitions.map((d) => (
+              <option key={d.method} value={d.method}>
+                {d.label}
               </option>
             ))}
           </select>
         </label>
-        <button type="button" onClick={() => commit(addObjective(state, { method: newObjective } as ObjectiveSpec))}>
+        <button type="button" onClick={() => commit(addObjective(state, objectiveDefinition(newObjective).initial))}>
           Add objective
         </button>
       </div>

@@ -1,0 +1,17 @@
+import { defineObjective } from '../define.js';
+
+export const equalWeight = defineObjective({
+  method: 'equal-weight',
+  label: 'Equal weight',
+  idPart: 'ew',
+  options: (z) => z.strictObject({ method: z.literal('equal-weight') }),
+  initial: { method: 'equal-weight' },
+  describe: () => 'Equal weight',
+  memoWords: () => 'equal weights',
+  shadowPrice: {
+    name: 'the distance from the equal weights',
+    unit: 'distance from the equal weights (square root of the summed squared weight differences)',
+  },
+  source:
+    'common practice: weight 1 / N each (DeMiguel, Garlappi and Uppal 2009, Review of Financial Studies 22, as a benchmark)',
+});
