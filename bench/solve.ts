@@ -3,11 +3,10 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { PriceTable } from '../shared-core/prices/price-table.js';
 import { runScenario } from '../shared-core/run/run-scenario.js';
 import { parseScenario } from '../shared-core/scenario/schema.js';
-import { seededRng } from '../shared-core/stability/rng.js';
 import { median, timeMedian, type BenchFigure, type BenchSuite } from './harness.js';
+import { csvOf, inventedPrices, TRADING_DAYS } from './solve-universes.js';
 
 /**
  * Issue 4's speed targets.
@@ -19,49 +18,9 @@ import { median, timeMedian, type BenchFigure, type BenchSuite } from './harness
  *    T = 1260, in-process; target 150 ms.
  * Prices are invented: a seeded four-factor lognormal model.
  */
-const T = 1260;
+const T = TRADING_DAYS;
 /** Alternating runs per size: the shared host's speed drifts by 10-30 % within a minute. */
 const repeatsFor = (n: number) => (n <= 500 ? 9 : 5);
-
-function gaussian(rng: ReturnType<typeof seededRng>): number {
-  return Math.sqrt(-2 * Math.log(1 - rng.next())) * Math.cos(2 * Math.PI * rng.next());
-}
-
-function inventedPrices(n: number, seed: number): PriceTable {
-  const rng = seededRng(seed);
-  const rows = T + 1;
-  const load = Array.from({ length: n }, () => [
-    0.5 + rng.next(),
-    gaussian(rng) * 0.5,
-    gaussian(rng) * 0.5,
-    gaussian(rng) * 0.3,
-  ]);
-  const idio = Array.from({ length: n }, () => 0.004 + 0.012 * rng.next());
-  const closes = Array.from({ length: n }, () => new Float64Array(rows));
-  const level = new Float64Array(n).fill(100);
-  const dates: string[] = [];
-  const day = new Date('2019-01-02T00:00:00Z');
-  for (let t = 0; t < rows; t++) {
-    while (day.getUTCDay() === 0 || day.getUTCDay() === 6) day.setUTCDate(day.getUTCDate() + 1);
-    dates.push(day.toISOString().slice(0, 10));
-    day.setUTCDate(day.getUTCDate() + 1);
-    const f = [0.008 * gaussian(rng), 0.004 * gaussian(rng), 0.004 * gaussian(rng), 0.003 * gaussian(rng)];
-    for (let i = 0; i < n; i++) {
-      if (t > 0) {
-        const l = load[i];
-        level[i] *= Math.exp(l[0] * f[0] + l[1] * f[1] + l[2] * f[2] + l[3] * f[3] + idio[i] * gaussian(rng));
-      }
-      closes[i][t] = level[i];
-    }
-  }
-  return { dates, assets: Array.from({ length: n }, (_, i) => `F${String(i + 1).padStart(4, '0')}`), closes };
-}
-
-function csvOf(table: PriceTable): string {
-  const lines = [`date,${table.assets.join(',')}`];
-  table.dates.forEach((d, t) => lines.push(`${d},${table.closes.map((c) => c[t].toFixed(6)).join(',')}`));
-  return lines.join('\n') + '\n';
-}
 
 const PEER = String.raw`
 import sys, json

@@ -19,9 +19,18 @@
  */
 import type { Matrix } from '../linalg/matrix.js';
 import { zeros } from '../linalg/matrix.js';
-import { choleskyInPlace, choleskySolveInPlace, luFactor, luSolve } from './qp/dense-factor.js';
-import { solveQp } from './qp/solve-qp.js';
-import type { QpResult, QpSolution, QpWarmStart, SparseRow } from './qp/types.js';
+import { throwIfCancelled, type CancelCheck } from '../stability/cancel.js';
+import {
+  choleskyInPlace,
+  choleskySolveInPlace,
+  luFactor,
+  luSolve,
+  solveQp,
+  type QpResult,
+  type QpSolution,
+  type QpWarmStart,
+  type SparseRow,
+} from './qp/index.js';
 import type { Formulation, Sensitivity } from './formulate.js';
 import type { LinearMandate } from './mandate.js';
 
@@ -126,14 +135,15 @@ export function ercUnconstrained(S: Matrix, budgets: ArrayLike<number>): ErcOutc
 
 /**
  * The sequential QP over the mandate cone, from a strictly positive feasible point v0 (assets,
- * auxiliaries, kappa) of the homogenised formulation `f`.
+ * auxiliaries, kappa) of the homogenised formulation `f`. A true `shouldCancel` throws
+ * CancelledError (stability/cancel.ts).
  */
 export function ercOverCone(
   S: Matrix,
   budgets: ArrayLike<number>,
   f: Formulation,
   v0: Float64Array,
-  options: { warmStart?: QpWarmStart; shouldCancel?: () => boolean } = {},
+  options: { warmStart?: QpWarmStart; shouldCancel?: CancelCheck } = {},
 ): ErcOutcome {
   const n = budgets.length;
   const dim = f.qp.q.length;
@@ -147,8 +157,7 @@ export function ercOverCone(
   let last: QpResult | undefined;
   let iterations = 0;
   for (let it = 0; it < ERC_TOLERANCES.maxSqp; it++) {
-    if (options.shouldCancel?.())
-      return { ok: false, weights: v.slice(0, n), iterations, residual: NaN, reason: 'cancelled' };
+    throwIfCancelled(options.shouldCancel);
     const y = v.subarray(0, n);
     const g = gradient(S, budgets, y);
     const P = zeros(dim, dim);

@@ -16,7 +16,7 @@
  */
 import { zeros, type Matrix } from '../linalg/matrix.js';
 import type { LinearMandate, MandateRow } from './mandate.js';
-import type { QpProblem, QpSolution, SparseRow } from './qp/types.js';
+import type { QpProblem, QpSolution, SparseRow } from './qp/index.js';
 
 /** What a QP row or bound stands for in the mandate. */
 export type Provenance =

@@ -4,7 +4,7 @@
  * first and falling back on the constraints the phase-one certificate names.
  */
 import type { LinearMandate } from './mandate.js';
-import type { QpConflict } from './qp/types.js';
+import type { QpConflict } from './qp/index.js';
 import type { Formulation } from './formulate.js';
 
 const pct = (v: number): string => `${Number((v * 100).toFixed(2))}%`;

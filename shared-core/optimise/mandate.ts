@@ -5,7 +5,7 @@
  * multipliers, a conflict) can be told to a person in the mandate's own terms.
  */
 import type { AssetInfo, Constraints } from '../scenario/schema.js';
-import type { SparseRow } from './qp/types.js';
+import type { SparseRow } from './qp/index.js';
 
 export type RowKind =
   | 'budget'

@@ -34,20 +34,11 @@ import {
 } from './formulate.js';
 import { arithmeticConflicts, describeConflict } from './infeasibility.js';
 import { buildMandate, mandateViolation, type LinearMandate } from './mandate.js';
-import { addDot } from './qp/kernels.js';
-import { phaseOne } from './qp/phase-one.js';
-import { solveQp } from './qp/solve-qp.js';
-import type { QpResult, QpWarmStart } from './qp/types.js';
+import { addDot, phaseOne, QP_TOLERANCES, solveQp, type QpResult, type QpWarmStart } from './qp/index.js';
 import type { CandidateMetrics, CandidateResult } from './result.js';
 
 /** Above this condition number the covariance is treated as singular (common practice for double precision). */
 export const CONDITION_LIMIT = 1e12;
-/** From this many assets, long-only optimisations screen out assets that end at zero (qp/solve-qp.ts). */
-export const SCREEN_FROM = 150;
-/** Least size of the first working set of screening. */
-export const SCREEN_INITIAL = 60;
-/** The first working set holds this many times 1 / (smallest cap) assets. */
-export const SCREEN_PER_CAP = 2;
 /** A rule's weights count as feasible when no limit is broken by more than this. */
 export const RULE_FEASIBILITY = 1e-12;
 
@@ -73,6 +64,7 @@ export interface CandidateProblem {
   observations?: number;
   estimator?: string;
   warmStart?: QpWarmStart;
+  /** Polled while solving; a true answer throws CancelledError (stability/cancel.ts), nothing partial. */
   shouldCancel?: () => boolean;
   /**
    * `weights`: the walk-forward's many solves need only the weights; the effective number of
@@ -134,11 +126,11 @@ function conditioningProblem(p: CandidateProblem): string | null {
 /**
  * Which assets to try first when screening: the least correlated with the inverse-volatility
  * portfolio (maximum diversification) or with the lowest covariance with it (minimum variance).
- * Lower is more promising. Undefined below SCREEN_FROM assets.
+ * Lower is more promising. Undefined below QP_TOLERANCES.screenFrom assets.
  */
 function screeningScore(S: Matrix, vols: Float64Array, correlation: boolean): Float64Array | undefined {
   const n = vols.length;
-  if (n < SCREEN_FROM) return undefined;
+  if (n < QP_TOLERANCES.screenFrom) return undefined;
   const w = new Float64Array(n);
   for (let i = 0; i < n; i++) w[i] = 1 / vols[i];
   // Sigma w, every w_i non-zero: linalg multiplyVector's dense sums, in the solver's own dot
@@ -159,11 +151,10 @@ function screenPlan(m: LinearMandate, score: Float64Array) {
   const order = [...candidates].sort((a, b) => score[a] - score[b]);
   let minCap = 1;
   for (let i = 0; i < n; i++) minCap = Math.min(minCap, m.ub[i]);
-  // A capped optimum holds at least 1/cap assets; in the bench's universes (N = 500 and 1500) the
-  // maximum-diversification optimum held 1.2-1.4/cap. 2/cap solved both in one round, where 3/cap
-  // cost (3/2)^3 = 3.4x the factorisation work per interior-point iteration; a set too small only
-  // costs another round, never a wrong answer (the dual test adds what it left out).
-  const size = Math.min(n, Math.max(SCREEN_INITIAL, Math.ceil(SCREEN_PER_CAP / Math.max(minCap, 1e-3))));
+  const size = Math.min(
+    n,
+    Math.max(QP_TOLERANCES.screenInitial, Math.ceil(QP_TOLERANCES.screenPerCap / Math.max(minCap, 1e-3))),
+  );
   // Members of a band with a minimum stay in: the band needs them.
   const keep = new Set(order.slice(0, size));
   for (const r of m.inequalities) if (r.kind === 'group-min') for (const i of r.row.idx) keep.add(i);

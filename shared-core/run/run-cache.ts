@@ -1,7 +1,7 @@
 import type { CovarianceEstimate } from '../estimators/types.js';
 import type { Matrix } from '../linalg/matrix.js';
 import type { TridiagonalForm } from '../linalg/tridiagonal-form.js';
-import type { QpWarmStart } from '../optimise/qp/types.js';
+import type { QpWarmStart } from '../optimise/qp/index.js';
 import type { PriceTable } from '../prices/price-table.js';
 import type { ReturnsResult } from '../returns/build-returns.js';
 

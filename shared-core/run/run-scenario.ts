@@ -7,7 +7,7 @@ import { annualised, estimateCovariance } from '../estimators/registry.js';
 import type { CovarianceEstimate, EstimateContext } from '../estimators/types.js';
 import type { Matrix } from '../linalg/matrix.js';
 import { tridiagonalForm, type TridiagonalForm } from '../linalg/tridiagonal-form.js';
-import type { QpWarmStart } from '../optimise/qp/types.js';
+import type { QpWarmStart } from '../optimise/qp/index.js';
 import type { CandidateResult } from '../optimise/result.js';
 import { solveCandidateDetailed } from '../optimise/solve-candidate.js';
 import type { PriceTable } from '../prices/price-table.js';

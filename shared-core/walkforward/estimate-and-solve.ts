@@ -5,7 +5,7 @@ import type { Frequency } from '../scenario/frequency.js';
 import type { Matrix } from '../linalg/matrix.js';
 import type { EstimatorSpec } from '../scenario/estimator-spec.js';
 import { solveCandidateDetailed } from '../optimise/solve-candidate.js';
-import type { QpWarmStart } from '../optimise/qp/types.js';
+import type { QpWarmStart } from '../optimise/qp/index.js';
 import type { Constraints } from '../scenario/schema.js';
 import type { EstimateAndSolveFn, SolveOutcome } from './run-backtest.js';
 

@@ -1,4 +1,4 @@
-import { luFactor, luSolve } from '../optimise/qp/dense-factor.js';
+import { luFactor, luSolve } from '../optimise/qp/index.js';
 import { normalCdf } from './normal.js';
 
 /**

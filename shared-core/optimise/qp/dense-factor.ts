@@ -91,12 +91,12 @@ function subtractColumnDot(l: Float64Array, n: number, i: number, b: Float64Arra
 }
 
 /** b_i = (b_i - sum_{k<i} L_ik b_k) / L_ii for i = 0 .. n-1: L y = b. */
-function forwardSubstitute(l: Float64Array, n: number, b: Float64Array): void {
+export function forwardSubstitute(l: Float64Array, n: number, b: Float64Array): void {
   for (let i = 0; i < n; i++) b[i] = subtractDot(b[i], l, i * n, b, 0, i) / l[i * n + i];
 }
 
 /** b_i = (b_i - sum_{k>i} L_ki b_k) / L_ii for i = n-1 .. 0: L' x = y. */
-function backSubstituteTransposed(l: Float64Array, n: number, b: Float64Array): void {
+export function backSubstituteTransposed(l: Float64Array, n: number, b: Float64Array): void {
   for (let i = n - 1; i >= 0; i--) b[i] = subtractColumnDot(l, n, i, b) / l[i * n + i];
 }
 

@@ -15,6 +15,7 @@
  * times within its first few calls, and one long function with many loops late and at length.
  */
 import { allFinite } from '../../linalg/matrix.js';
+import { throwIfCancelled, type CancelCheck } from '../../stability/cancel.js';
 import { choleskyInPlace, choleskySolveInPlace } from './dense-factor.js';
 import {
   addDot,
@@ -44,7 +45,8 @@ export interface InteriorPointOptions {
   maxIterations?: number;
   /** Stop early (to let phase one decide) when primal infeasibility stalls. */
   detectInfeasibility?: boolean;
-  shouldCancel?: () => boolean;
+  /** Polled at every iteration; a true answer throws CancelledError (stability/cancel.ts). */
+  shouldCancel?: CancelCheck;
 }
 
 /** out = q + P x (P n x n, row-major), each entry summed from q_i in increasing column. */
@@ -247,7 +249,11 @@ function factorNormal(st: State, maxDiag: number): boolean {
   const { n, H, Hf } = st;
   Hf.set(H);
   let factored = choleskyInPlace(Hf, n);
-  for (let attempt = 0, reg = 1e-14 * (maxDiag || 1); !factored && attempt < 6; attempt++, reg *= 100) {
+  for (
+    let attempt = 0, reg = QP_TOLERANCES.ridgeStart * (maxDiag || 1);
+    !factored && attempt < QP_TOLERANCES.ridgeAttempts;
+    attempt++, reg *= 100
+  ) {
     Hf.set(H);
     for (let i = 0; i < n; i++) Hf[i * n + i] += reg;
     factored = choleskyInPlace(Hf, n);
@@ -270,7 +276,11 @@ function factorSchur(st: State): boolean {
   // Dependent equality rows make S singular: a small ridge picks one of the equal solutions.
   Sf.set(Sm);
   let sFactored = me === 0 || choleskyInPlace(Sf, me);
-  for (let attempt = 0, reg = 1e-14 * (sMax || 1); !sFactored && attempt < 8; attempt++, reg *= 100) {
+  for (
+    let attempt = 0, reg = QP_TOLERANCES.ridgeStart * (sMax || 1);
+    !sFactored && attempt < QP_TOLERANCES.ridgeAttempts;
+    attempt++, reg *= 100
+  ) {
     Sf.set(Sm);
     for (let a = 0; a < me; a++) Sf[a * me + a] += reg;
     sFactored = choleskyInPlace(Sf, me);
@@ -403,7 +413,7 @@ export function interiorPoint(p: QpProblem, options: InteriorPointOptions): Inte
   let status: InteriorPointOutcome['status'] = 'iteration-limit';
 
   for (; it < maxIt; it++) {
-    if (options.shouldCancel?.()) break;
+    throwIfCancelled(options.shouldCancel);
     residuals(st);
     // rc = s z is also the predictor's complementarity target (s and z do not change before it).
     const gap = complementarity(s, z, rc);

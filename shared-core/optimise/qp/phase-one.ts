@@ -8,11 +8,9 @@
  * (a Farkas certificate: a non-negative combination of them is contradictory).
  */
 import { zeros } from '../../linalg/matrix.js';
+import type { CancelCheck } from '../../stability/cancel.js';
 import { interiorPoint } from './interior-point.js';
 import { QP_TOLERANCES, type QpConflict, type QpProblem, type SparseRow } from './types.js';
-
-const PROXIMAL = 1e-10;
-const CERTIFICATE = 1e-6;
 
 export interface PhaseOneResult {
   feasible: boolean;
@@ -21,14 +19,15 @@ export interface PhaseOneResult {
   iterations: number;
 }
 
-export function phaseOne(p: QpProblem, shouldCancel?: () => boolean): PhaseOneResult {
+/** A true `shouldCancel` throws CancelledError (stability/cancel.ts). */
+export function phaseOne(p: QpProblem, shouldCancel?: CancelCheck): PhaseOneResult {
   const n = p.q.length;
   const me = p.A.length;
   const mi = p.G.length;
   const nt = 2 * me + mi;
   const dim = n + nt;
   const P = zeros(dim, dim);
-  for (let i = 0; i < n; i++) P.data[i * dim + i] = PROXIMAL;
+  for (let i = 0; i < n; i++) P.data[i * dim + i] = QP_TOLERANCES.phaseOneProximal;
   const q = new Float64Array(dim);
   for (let k = n; k < dim; k++) q[k] = 1;
   const A: SparseRow[] = p.A.map((r, j) => ({
@@ -53,11 +52,11 @@ export function phaseOne(p: QpProblem, shouldCancel?: () => boolean): PhaseOneRe
   const feasible = violation / scale <= QP_TOLERANCES.infeasibility;
   const conflict: QpConflict = { rowsA: [], rowsG: [], lower: [], upper: [], violation };
   if (!feasible) {
-    out.solution.y.forEach((v, j) => Math.abs(v) > CERTIFICATE && conflict.rowsA.push(j));
-    out.solution.z.forEach((v, j) => v > CERTIFICATE && conflict.rowsG.push(j));
+    out.solution.y.forEach((v, j) => Math.abs(v) > QP_TOLERANCES.phaseOneCertificate && conflict.rowsA.push(j));
+    out.solution.z.forEach((v, j) => v > QP_TOLERANCES.phaseOneCertificate && conflict.rowsG.push(j));
     for (let i = 0; i < n; i++) {
-      if (out.solution.zl[i] > CERTIFICATE) conflict.lower.push(i);
-      if (out.solution.zu[i] > CERTIFICATE) conflict.upper.push(i);
+      if (out.solution.zl[i] > QP_TOLERANCES.phaseOneCertificate) conflict.lower.push(i);
+      if (out.solution.zu[i] > QP_TOLERANCES.phaseOneCertificate) conflict.upper.push(i);
     }
   }
   return { feasible, conflict, x: x.slice(0, n), iterations: out.iterations };

@@ -1,14 +1,12 @@
 /**
  * Polishing: given a guess of the active set (from the interior point, or the previous solve as a
  * warm start), solve the equality-constrained QP on it exactly and keep the answer only if it is
- * primal feasible and every multiplier has the right sign, i.e. the KKT conditions hold. The KKT
- * matrix is regularised (so degenerate active sets still factor) and the regularisation is removed
- * by iterative refinement, the device OSQP's polishing uses (Stellato et al. 2020, Math.
- * Programming Computation 12).
+ * primal feasible and every multiplier has the right sign, i.e. the KKT conditions hold. The
+ * linear algebra (one Cholesky on the free variables, iterative refinement) is equality-kkt.ts.
  */
 import { allFinite } from '../../linalg/matrix.js';
-import { luFactorInPlace, luSolve, luSolveInto } from './dense-factor.js';
-import { addRowsTimes, gatherInto, maxAbs, packedRows, rowsTimes, subtractDot } from './kernels.js';
+import { solveEqualityKkt } from './equality-kkt.js';
+import { addRowsTimes, packedRows, rowsTimes } from './kernels.js';
 import { kktResidual, symmetricTimes } from './kkt.js';
 import { QP_TOLERANCES, type QpProblem, type QpSolution, type QpWarmStart } from './types.js';
 
@@ -16,18 +14,6 @@ export interface Polished {
   solution: QpSolution;
   residual: number;
   active: QpWarmStart;
-}
-
-/** r = rhs - K sol; the largest |entry| of r. */
-function refinementResidual(
-  K: Float64Array,
-  sol: Float64Array,
-  rhs: Float64Array,
-  r: Float64Array,
-  dim: number,
-): number {
-  for (let a = 0; a < dim; a++) r[a] = subtractDot(rhs[a], K, a * dim, sol, 0, dim);
-  return maxAbs(r);
 }
 
 export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next: QpWarmStart } | null {
@@ -50,42 +36,31 @@ export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next:
   }
   const act = [...new Set(guess.activeRows)].filter((r) => r >= 0 && r < mi).sort((a, b) => a - b);
   const m = me + act.length;
-  const dim = k + m;
-  const K = new Float64Array(dim * dim);
-  const rhs = new Float64Array(dim);
-  const Pd = p.P.data;
+  const rhs = new Float64Array(k);
   const Pfixed = symmetricTimes(p.P, x, n); // contribution of the fixed variables
-  for (let a = 0; a < k; a++) {
-    const ia = free[a];
-    gatherInto(K, a * dim, Pd, ia * n, free);
-    rhs[a] = -p.q[ia] - Pfixed[ia];
-  }
+  for (let a = 0; a < k; a++) rhs[a] = -p.q[free[a]] - Pfixed[free[a]];
+  // The equality rows and the active inequality rows on the free variables, the fixed ones'
+  // terms moved to the right-hand side.
+  const start = new Int32Array(m + 1);
+  const col: number[] = [];
+  const val: number[] = [];
+  const s = new Float64Array(m);
   for (let j = 0; j < m; j++) {
     const row = j < me ? p.A[j] : p.G[act[j - me]];
     let v = j < me ? p.b[j] : p.h[act[j - me]];
     for (let t = 0; t < row.idx.length; t++) {
       const i = row.idx[t];
       if (pos[i] >= 0) {
-        K[(k + j) * dim + pos[i]] += row.val[t];
-        K[pos[i] * dim + k + j] += row.val[t];
+        col.push(pos[i]);
+        val.push(row.val[t]);
       } else v -= row.val[t] * x[i];
     }
-    rhs[k + j] = v;
+    s[j] = v;
+    start[j + 1] = col.length;
   }
-  const delta = QP_TOLERANCES.polishRegularisation * (maxAbs(K) || 1);
-  const Kr = Float64Array.from(K);
-  for (let a = 0; a < dim; a++) Kr[a * dim + a] += a < k ? delta : -delta;
-  const f = luFactorInPlace(Kr, dim);
-  if (!f) return null;
-  const sol = luSolve(f, rhs);
-  const r = new Float64Array(dim);
-  const d = new Float64Array(dim);
-  for (let step = 0; step < QP_TOLERANCES.refinementSteps; step++) {
-    const rmax = refinementResidual(K, sol, rhs, r, dim);
-    if (rmax === 0) break;
-    luSolveInto(f, r, d);
-    for (let a = 0; a < dim; a++) sol[a] += d[a];
-  }
+  const C = { start, col: Int32Array.from(col), val: Float64Array.from(val) };
+  const sol = solveEqualityKkt({ P: p.P.data, n, free, C }, rhs, s);
+  if (!sol) return null;
   if (!allFinite(sol)) return null;
   for (let a = 0; a < k; a++) x[free[a]] = sol[a];
   const y = new Float64Array(me);
@@ -173,15 +148,21 @@ export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next:
 /**
  * Polishing with a few active-set corrections: each failed solve names the constraints to add
  * (violated) and to drop (wrong-signed multiplier), which repairs an identification spoilt by a
- * weakly active constraint.
+ * weakly active constraint. Repeated, this is a primal-dual active-set method (Hintermueller, Ito
+ * and Kunisch 2002, SIAM J. Optimization 13), which screening runs from a rough guess. `solves`
+ * counts the linear solves made, successful or not.
  */
-export function polish(p: QpProblem, guess: QpWarmStart, rounds = QP_TOLERANCES.polishRounds): Polished | null {
+export function polish(
+  p: QpProblem,
+  guess: QpWarmStart,
+  rounds: number = QP_TOLERANCES.polishRounds,
+): { polished: Polished | null; solves: number } {
   let current = guess;
   for (let k = 0; k < rounds; k++) {
     const out = polishOnce(p, current);
-    if (out === null) return null;
-    if ('solution' in out) return out;
+    if (out === null) return { polished: null, solves: k + 1 };
+    if ('solution' in out) return { polished: out, solves: k + 1 };
     current = out.next;
   }
-  return null;
+  return { polished: null, solves: rounds };
 }

@@ -12,6 +12,7 @@
  * multipliers for the shadow prices.
  */
 import { allFinite, zeros } from '../../linalg/matrix.js';
+import type { CancelCheck } from '../../stability/cancel.js';
 import { nowMs } from '../clock.js';
 import { interiorPoint } from './interior-point.js';
 import { addGatheredDot, gatherInto } from './kernels.js';
@@ -22,7 +23,11 @@ import { QP_TOLERANCES, type QpProblem, type QpResult, type QpSolution, type QpW
 
 export interface SolveQpOptions {
   warmStart?: QpWarmStart;
-  shouldCancel?: () => boolean;
+  /**
+   * Polled at every interior-point iteration: a true answer throws CancelledError
+   * (stability/cancel.ts), the core's one way of saying a computation was stopped.
+   */
+  shouldCancel?: CancelCheck;
   /**
    * Screening for problems where most variables end at a zero lower bound (most assets left out
    * of a long-only portfolio): solve on `keep` only with the rest held at their lower bounds,
@@ -41,13 +46,13 @@ export interface SolveQpOptions {
 
 const NOT_SOLVED = 'the interior point did not converge (phase one skipped)';
 
-/** Most variables screening adds per round, as a share of the working set (and at least SCREEN_BATCH_MIN). */
-const SCREEN_BATCH_SHARE = 0.5;
-const SCREEN_BATCH_MIN = 20;
-/** Relative dual tolerance of the screening test. */
-const SCREEN_TOLERANCE = 1e-10;
+/**
+ * Screening's answer: the full problem polished (its KKT conditions checked), or a guess of its
+ * active set for polishing, with the interior-point iterations and polishing solves it took.
+ */
+type Screened = { polished: Polished; iterations: number } | { guess: QpWarmStart; iterations: number };
 
-function screenedGuess(problem: QpProblem, options: SolveQpOptions): { guess: QpWarmStart; iterations: number } | null {
+function screened(problem: QpProblem, options: SolveQpOptions): Screened | null {
   const sc = options.screen!;
   const n = problem.q.length;
   const inSet = new Uint8Array(n).fill(1);
@@ -58,10 +63,11 @@ function screenedGuess(problem: QpProblem, options: SolveQpOptions): { guess: Qp
   const values = new Float64Array(n);
   for (let i = 0; i < n; i++) values[i] = Number.isFinite(problem.lb[i]) ? problem.lb[i] : 0;
   let iterations = 0;
-  for (let round = 0; round < 50; round++) {
+  for (let round = 0; round < QP_TOLERANCES.screenRounds; round++) {
     const keep: number[] = [];
     for (let i = 0; i < n; i++) if (inSet[i]) keep.push(i);
-    if (keep.length === n) return null;
+    // A working set past this share of the variables saves too little over the full problem.
+    if (keep.length > QP_TOLERANCES.screenShare * n) return null;
     const sub = solveQp(restrict(problem, keep, values), { shouldCancel: options.shouldCancel, skipPhaseOne: true });
     iterations += sub.iterations;
     const working = keep.length;
@@ -69,7 +75,7 @@ function screenedGuess(problem: QpProblem, options: SolveQpOptions): { guess: Qp
       // Too few variables to meet the limits: take the next ones in the caller's order.
       let added = 0;
       for (const i of sc.order)
-        if (!inSet[i] && added < Math.max(SCREEN_BATCH_MIN, working)) {
+        if (!inSet[i] && added < Math.max(QP_TOLERANCES.screenBatchMin, working)) {
           inSet[i] = 1;
           added++;
         }
@@ -86,20 +92,27 @@ function screenedGuess(problem: QpProblem, options: SolveQpOptions): { guess: Qp
     for (let a = 0; a < working; a++)
       scale = Math.max(scale, Math.abs(sub.solution.zl[a]), Math.abs(sub.solution.zu[a]));
     for (const v of sub.solution.y) scale = Math.max(scale, Math.abs(v));
-    const violators: number[] = [];
-    for (let i = 0; i < n; i++) if (!inSet[i] && g[i] < -SCREEN_TOLERANCE * scale) violators.push(i);
-    if (violators.length === 0) {
-      const atLower: number[] = [];
-      for (let i = 0; i < n; i++) if (!inSet[i]) atLower.push(i);
-      for (const a of sub.warmStart.atLower) atLower.push(keep[a]);
-      return {
-        guess: { activeRows: sub.warmStart.activeRows, atLower, atUpper: sub.warmStart.atUpper.map((a) => keep[a]) },
-        iterations,
-      };
-    }
-    violators.sort((a, b) => g[a] - g[b]);
-    const batch = Math.max(SCREEN_BATCH_MIN, Math.ceil(SCREEN_BATCH_SHARE * working));
-    for (const i of violators.slice(0, batch)) inSet[i] = 1;
+    const violating = new Uint8Array(n);
+    let violators = 0;
+    for (let i = 0; i < n; i++)
+      if (!inSet[i] && g[i] < -QP_TOLERANCES.screenDual * scale) {
+        violating[i] = 1;
+        violators++;
+      }
+    const atLower: number[] = [];
+    for (let i = 0; i < n; i++) if (!inSet[i] && !violating[i]) atLower.push(i);
+    for (const a of sub.warmStart.atLower) atLower.push(keep[a]);
+    const guess = { activeRows: sub.warmStart.activeRows, atLower, atUpper: sub.warmStart.atUpper.map((a) => keep[a]) };
+    if (violators === 0) return { guess, iterations };
+    // The violators free, the rest as the working set left them: polishing's active-set
+    // corrections (a primal-dual active-set method) usually finish from here in a few solves on
+    // the free variables alone, where another interior point would factor the working set at
+    // every iteration.
+    const pol = polish(problem, guess, QP_TOLERANCES.screenPolishRounds);
+    iterations += pol.solves;
+    if (pol.polished && pol.polished.residual <= QP_TOLERANCES.optimality)
+      return { polished: pol.polished, iterations };
+    for (let i = 0; i < n; i++) if (violating[i]) inSet[i] = 1;
   }
   return null;
 }
@@ -288,13 +301,21 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
     };
   };
 
-  let screenIterations = 0;
+  let iterations = 0;
+  /** Polishing from a guess; the answer only when its KKT residual meets the target. */
+  const polished = (guess: QpWarmStart): Polished | null => {
+    const out = polish(p, guess);
+    iterations += out.solves;
+    return out.polished && out.polished.residual <= QP_TOLERANCES.optimality ? out.polished : null;
+  };
+
   if (options.screen && !options.warmStart && keep.length === n) {
-    const found = screenedGuess(problem, options);
+    const found = screened(problem, options);
     if (found) {
-      screenIterations = found.iterations;
-      const pol = polish(p, found.guess);
-      if (pol && pol.residual <= QP_TOLERANCES.optimality) return done(pol, screenIterations + 1, 'screened');
+      iterations += found.iterations;
+      if ('polished' in found) return done(found.polished, iterations, 'screened');
+      const pol = polished(found.guess);
+      if (pol) return done(pol, iterations, 'screened');
     }
   }
 
@@ -305,29 +326,26 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
       atLower: w.atLower.map((i) => pos[i]).filter((a) => a >= 0),
       atUpper: w.atUpper.map((i) => pos[i]).filter((a) => a >= 0),
     };
-    const pol = polish(p, guess);
-    if (pol && pol.residual <= QP_TOLERANCES.optimality) return done(pol, 1, 'warm-start');
+    const pol = polished(guess);
+    if (pol) return done(pol, iterations, 'warm-start');
   }
 
-  let iterations = screenIterations;
   const first = interiorPoint(p, {
     tolerance: QP_TOLERANCES.interiorPointHandover,
     detectInfeasibility: true,
     shouldCancel: options.shouldCancel,
   });
   iterations += first.iterations;
-  if (options.shouldCancel?.())
-    return { status: 'error', reason: 'cancelled', iterations, kktResidual: NaN, ms: ms(), path: 'interior-point' };
   if (first.status === 'converged') {
-    const pol = polish(p, identify(first));
-    if (pol && pol.residual <= QP_TOLERANCES.optimality) return done(pol, iterations + 1, 'interior-point+polish');
+    const pol = polished(identify(first));
+    if (pol) return done(pol, iterations, 'interior-point+polish');
     const second = interiorPoint(p, {
       tolerance: QP_TOLERANCES.interiorPointFinal,
       shouldCancel: options.shouldCancel,
     });
     iterations += second.iterations;
-    const pol2 = polish(p, identify(second));
-    if (pol2 && pol2.residual <= QP_TOLERANCES.optimality) return done(pol2, iterations + 1, 'interior-point+polish');
+    const pol2 = polished(identify(second));
+    if (pol2) return done(pol2, iterations, 'interior-point+polish');
     const solution = lift(second.solution);
     const residual = kktResidual(problem, solution);
     if (second.status === 'converged' && residual <= QP_TOLERANCES.optimality)
@@ -366,8 +384,8 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
     });
     iterations += again.iterations;
     if (again.status === 'converged') {
-      const pol = polish(p, identify(again));
-      if (pol && pol.residual <= QP_TOLERANCES.optimality) return done(pol, iterations + 1, 'interior-point+polish');
+      const pol = polished(identify(again));
+      if (pol) return done(pol, iterations, 'interior-point+polish');
     }
     const solution = lift(again.solution);
     return {

@@ -87,10 +87,51 @@ export const QP_TOLERANCES = {
   infeasibility: 1e-8,
   /** Primal slack below which polishing treats a constraint as satisfied. */
   polishFeasibility: 1e-9,
-  /** Regularisation of the polishing KKT matrix (removed again by iterative refinement). */
-  polishRegularisation: 1e-11,
+  /**
+   * First ridge, relative to the largest diagonal entry, added to a matrix that should be
+   * positive definite but does not factor (a direction free of curvature and constraints,
+   * dependent equality rows); each further attempt multiplies it by 100. Iterative refinement
+   * removes its effect where the system itself is non-singular.
+   */
+  ridgeStart: 1e-14,
+  /** Attempts with a growing ridge before a factorisation is given up. */
+  ridgeAttempts: 8,
   /** Active-set corrections polishing may make before it gives up. */
   polishRounds: 8,
   /** Iterative-refinement passes of a polishing solve. */
   refinementSteps: 6,
+  /** Phase one's proximal term eps/2 |x|^2, which keeps its elastic problem strictly convex. */
+  phaseOneProximal: 1e-10,
+  /** A phase-one multiplier above this names its constraint in the conflict. */
+  phaseOneCertificate: 1e-6,
+
+  // Screening (solve-qp.ts): long-only problems solved on a working set of variables first.
+  /** Screening applies from this many variables (below it the full problem is cheap). */
+  screenFrom: 150,
+  /** Least size of the first working set. */
+  screenInitial: 60,
+  /**
+   * The first working set holds this many times 1 / (smallest cap) variables: a capped optimum
+   * holds at least 1 / cap assets, so a set of 2 / cap leaves room for the held ones and some
+   * left out; a set too small costs a round, never a wrong answer (the dual test adds what it
+   * left out).
+   */
+  screenPerCap: 2,
+  /**
+   * Screening gives up, for the full problem, once its working set would pass this share of the
+   * variables: the interior point's work per iteration grows as the cube of the set, and a set
+   * of half the variables already costs an eighth of the full problem's at every iteration.
+   */
+  screenShare: 0.5,
+  /** Rounds (working sets) screening tries before it gives up. */
+  screenRounds: 4,
+  /** Variables added when a working set is too small to meet the limits, at least. */
+  screenBatchMin: 20,
+  /** Relative dual tolerance of the test that a held-out variable belongs at its bound. */
+  screenDual: 1e-10,
+  /**
+   * Active-set corrections screening's polishing may make from the first working set's answer
+   * with the violators freed, each one linear solve on the free variables.
+   */
+  screenPolishRounds: 12,
 } as const;

@@ -3,8 +3,7 @@ import { fromRows, zeros, type Matrix } from '../../../shared-core/linalg/matrix
 import { diversificationRatio } from '../../../shared-core/analytics/risk.js';
 import { buildMandate, mandateViolation } from '../../../shared-core/optimise/mandate.js';
 import { directForm } from '../../../shared-core/optimise/formulate.js';
-import { solveQp } from '../../../shared-core/optimise/qp/solve-qp.js';
-import { phaseOne } from '../../../shared-core/optimise/qp/phase-one.js';
+import { phaseOne, solveQp } from '../../../shared-core/optimise/qp/index.js';
 import type { Constraints } from '../../../shared-core/scenario/schema.js';
 import type { ObjectiveSpec } from '../../../shared-core/scenario/objective-spec.js';
 import { ids, solve, weightsArray } from './helpers.js';

@@ -1,11 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { fromRows } from '../../../shared-core/linalg/matrix.js';
 import { rowDot } from '../../../shared-core/optimise/qp/kkt.js';
-import { phaseOne } from '../../../shared-core/optimise/qp/phase-one.js';
-import { solveQp } from '../../../shared-core/optimise/qp/solve-qp.js';
-import type { QpProblem } from '../../../shared-core/optimise/qp/types.js';
+import { phaseOne, QP_TOLERANCES, solveQp, type QpProblem } from '../../../shared-core/optimise/qp/index.js';
+import { CancelledError } from '../../../shared-core/stability/cancel.js';
+import { seededRng } from '../../../shared-core/stability/rng.js';
 import { solveWithQuadprog } from './quadprog-reference.js';
-import { randomQp } from './random-problems.js';
+import { randomCovariance, randomQp } from './random-problems.js';
 
 function maxViolation(p: QpProblem, x: Float64Array): number {
   let v = 0;
@@ -118,5 +118,70 @@ describe('dense convex QP solver', () => {
     const p = randomQp(5, 1);
     const r = solveQp({ ...p, q: new Float64Array(4) });
     expect(r.status).toBe('error');
+  });
+
+  it('a cancelled solve throws CancelledError, the one signal in the core that a computation was stopped', () => {
+    const p = randomQp(40, 5, { groups: 2 });
+    expect(() => solveQp(p, { shouldCancel: () => true })).toThrow(CancelledError);
+    expect(() => phaseOne(p, () => true)).toThrow(CancelledError);
+  });
+});
+
+/**
+ * Long-only minimum variance, sum x = 1, 0 <= x <= cap. `spread` sets how far the assets' own
+ * variances lie apart: a wide spread over strong factors leaves few assets in the optimum, close
+ * variances over weak factors keep most of them (invented numbers).
+ */
+function longOnly(n: number, seed: number, shape: 'few' | 'most', cap: number): QpProblem {
+  const rng = seededRng(seed);
+  const P = randomCovariance(n, seed, 3, shape === 'few' ? 1 : 0, 1);
+  for (let i = 0; i < n; i++) {
+    if (shape === 'most') for (let j = 0; j < n; j++) P.data[i * n + j] *= 0.0005;
+    P.data[i * n + i] += shape === 'few' ? 0.001 : 0.02 + 0.06 * rng.next();
+  }
+  return {
+    P,
+    q: new Float64Array(n),
+    A: [{ idx: [...Array(n).keys()], val: Array<number>(n).fill(1) }],
+    b: Float64Array.of(1),
+    G: [],
+    h: new Float64Array(0),
+    lb: new Float64Array(n),
+    ub: new Float64Array(n).fill(cap),
+  };
+}
+
+describe('screening (solve on a working set, test the rest, polish on the full problem)', () => {
+  // Strong factors leave few assets in the optimum; strong idiosyncratic risk keeps most of them.
+  const shapes = [
+    { name: 'few held', shape: 'few' as const },
+    { name: 'most held', shape: 'most' as const },
+  ];
+  for (const shape of shapes)
+    for (const cap of [0.02, 0.2])
+      it(`${shape.name}, cap ${cap * 100}%: the same optimum as the full solve, to the same KKT residual`, () => {
+        const n = 240;
+        const p = longOnly(n, 11, shape.shape, cap);
+        const all = [...Array(n).keys()];
+        const full = solveQp(p);
+        const screen = solveQp(p, { screen: { candidates: all, keep: all.slice(0, 60), order: all } });
+        expect(full.status).toBe('optimal');
+        expect(screen.status).toBe('optimal');
+        if (full.status !== 'optimal' || screen.status !== 'optimal') return;
+        for (let i = 0; i < n; i++) expect(Math.abs(screen.solution.x[i] - full.solution.x[i])).toBeLessThan(1e-9);
+        expect(screen.kktResidual).toBeLessThan(QP_TOLERANCES.optimality);
+        const held = full.solution.x.filter((v) => v > 1e-12).length;
+        if (shape.shape === 'few') expect(held).toBeLessThan(n / 4);
+        else expect(held).toBeGreaterThan(n / 2);
+      });
+
+  it('gives up for the full problem once its working set would pass a share of the variables', () => {
+    const n = 240;
+    const p = longOnly(n, 11, 'most', 0.02);
+    const all = [...Array(n).keys()];
+    const keep = all.slice(0, Math.ceil(QP_TOLERANCES.screenShare * n) + 1);
+    const r = solveQp(p, { screen: { candidates: all, keep, order: all } });
+    expect(r.path).toBe('interior-point+polish');
+    expect(r.iterations).toBe(solveQp(p).iterations);
   });
 });

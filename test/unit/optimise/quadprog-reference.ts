@@ -4,7 +4,7 @@
  * min -d'x + 1/2 x'Dx s.t. A'x >= b0 (first meq rows equalities), 1-based arrays.
  */
 import quadprog from 'quadprog';
-import type { QpProblem } from '../../../shared-core/optimise/qp/types.js';
+import type { QpProblem } from '../../../shared-core/optimise/qp/index.js';
 
 export interface ReferenceResult {
   x: Float64Array | null;

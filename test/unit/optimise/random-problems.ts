@@ -1,6 +1,6 @@
 /** Seeded random test problems (invented numbers, no market data). */
 import { zeros, type Matrix } from '../../../shared-core/linalg/matrix.js';
-import type { QpProblem, SparseRow } from '../../../shared-core/optimise/qp/types.js';
+import type { QpProblem, SparseRow } from '../../../shared-core/optimise/qp/index.js';
 import { seededRng, type Rng } from '../../../shared-core/stability/rng.js';
 
 export function gaussian(rng: Rng): number {

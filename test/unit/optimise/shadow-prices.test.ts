@@ -33,7 +33,7 @@ import { ercOverCone, ercWeightSensitivity } from '../../../shared-core/optimise
 import { explainBinding } from '../../../shared-core/optimise/explain.js';
 import { homogenisedForm, sensitivities } from '../../../shared-core/optimise/formulate.js';
 import { buildMandate } from '../../../shared-core/optimise/mandate.js';
-import type { QpResult } from '../../../shared-core/optimise/qp/types.js';
+import type { QpResult } from '../../../shared-core/optimise/qp/index.js';
 import type { CandidateProblem } from '../../../shared-core/optimise/solve-candidate.js';
 import type { CandidateResult } from '../../../shared-core/optimise/result.js';
 import type { ObjectiveSpec } from '../../../shared-core/scenario/objective-spec.js';
