@@ -208,13 +208,90 @@ export interface ScatterPoint {
   recommended: boolean;
 }
 
-/** Candidates: volatility (x) against diversification ratio (y), one point each in its colour. */
-export function candidatesScatterOption(points: readonly ScatterPoint[]): EChartsOption {
+type LabelSide = 'right' | 'left' | 'top' | 'bottom';
+interface Box {
+  x0: number;
+  x1: number;
+  y0: number;
+  y1: number;
+}
+
+const LABEL_SIZE = 7.5;
+/** Source Sans 3's average advance is about half the type size; labels are measured with it. */
+const labelWidth = (text: string) => text.length * LABEL_SIZE * 0.5;
+
+function labelBox(x: number, y: number, text: string, side: LabelSide): Box {
+  const w = labelWidth(text);
+  const h = LABEL_SIZE + 2;
+  const gap = 7;
+  switch (side) {
+    case 'right':
+      return { x0: x + gap, x1: x + gap + w, y0: y - h / 2, y1: y + h / 2 };
+    case 'left':
+      return { x0: x - gap - w, x1: x - gap, y0: y - h / 2, y1: y + h / 2 };
+    case 'top':
+      return { x0: x - w / 2, x1: x + w / 2, y0: y - gap - h, y1: y - gap };
+    case 'bottom':
+      return { x0: x - w / 2, x1: x + w / 2, y0: y + gap, y1: y + gap + h };
+  }
+}
+
+const overlaps = (a: Box, b: Box) => a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < b.y1 && b.y0 < a.y1;
+
+/**
+ * A side for each point's label so that no two labels, and no label and marker, overlap where a
+ * side allows it: greedy, the recommended point first, trying right, left, above, below, and
+ * keeping inside the plot. Positions are in the plot's own units (points, y downwards).
+ */
+export function labelSides(
+  points: readonly { x: number; y: number; label: string; first?: boolean }[],
+  plot: { width: number; height: number },
+): LabelSide[] {
+  const order = points.map((_, i) => i).sort((a, b) => Number(!!points[b].first) - Number(!!points[a].first) || a - b);
+  const markers: Box[] = points.map((p) => ({ x0: p.x - 5, x1: p.x + 5, y0: p.y - 5, y1: p.y + 5 }));
+  const placed: Box[] = [];
+  const sides: LabelSide[] = points.map(() => 'right');
+  for (const i of order) {
+    const p = points[i];
+    const inside = (b: Box) => b.x0 >= 0 && b.x1 <= plot.width && b.y0 >= 0 && b.y1 <= plot.height;
+    const free = (b: Box) => !placed.some((q) => overlaps(b, q)) && !markers.some((m, k) => k !== i && overlaps(b, m));
+    const sidesToTry: LabelSide[] = ['right', 'left', 'top', 'bottom'];
+    const side =
+      sidesToTry.find((s) => inside(labelBox(p.x, p.y, p.label, s)) && free(labelBox(p.x, p.y, p.label, s))) ??
+      sidesToTry.find((s) => free(labelBox(p.x, p.y, p.label, s))) ??
+      'right';
+    sides[i] = side;
+    placed.push(labelBox(p.x, p.y, p.label, side));
+  }
+  return sides;
+}
+
+/**
+ * Candidates: volatility (x) against diversification ratio (y), one point each in its colour,
+ * labelled on a side where the label collides with no other (ECharts' own overlap handling does
+ * not run in its server-side renderer). `width` and `height` are the chart's, in points.
+ */
+export function candidatesScatterOption(points: readonly ScatterPoint[], width: number, height: number): EChartsOption {
   const vols = points.map((p) => p.volatility * 100);
   const drs = points.map((p) => p.diversificationRatio);
   const pad = (lo: number, hi: number, f: number) => [lo - (hi - lo) * f - 0.05, hi + (hi - lo) * f + 0.05];
   const [x0, x1] = pad(Math.min(...vols), Math.max(...vols), 0.25);
   const [y0, y1] = pad(Math.min(...drs), Math.max(...drs), 0.25);
+  const xMin = Math.max(0, Math.floor(x0 * 2) / 2);
+  const xMax = Math.ceil(x1 * 2) / 2;
+  const yMin = Math.max(1, Math.floor(y0 * 20) / 20);
+  const yMax = Math.ceil(y1 * 20) / 20;
+  // The plot area, about: the grid's margins and the y axis labels' room (containLabel).
+  const plot = { width: width - 8 - 24 - 24, height: height - 16 - 24 - 14 };
+  const sides = labelSides(
+    points.map((p) => ({
+      x: ((p.volatility * 100 - xMin) / (xMax - xMin)) * plot.width,
+      y: (1 - (p.diversificationRatio - yMin) / (yMax - yMin)) * plot.height,
+      label: p.label,
+      first: p.recommended,
+    })),
+    plot,
+  );
   return {
     grid: { left: 8, right: 24, top: 16, bottom: 24, containLabel: true },
     xAxis: {
@@ -223,8 +300,8 @@ export function candidatesScatterOption(points: readonly ScatterPoint[]): EChart
       nameLocation: 'middle',
       nameGap: 20,
       nameTextStyle: axisLabel,
-      min: Math.max(0, Math.floor(x0 * 2) / 2),
-      max: Math.ceil(x1 * 2) / 2,
+      min: xMin,
+      max: xMax,
       axisLabel,
       splitLine,
     },
@@ -232,12 +309,12 @@ export function candidatesScatterOption(points: readonly ScatterPoint[]): EChart
       type: 'value',
       name: 'diversification ratio',
       nameTextStyle: axisLabel,
-      min: Math.max(1, Math.floor(y0 * 20) / 20),
-      max: Math.ceil(y1 * 20) / 20,
+      min: yMin,
+      max: yMax,
       axisLabel,
       splitLine,
     },
-    series: points.map((p) => ({
+    series: points.map((p, i) => ({
       type: 'scatter' as const,
       name: p.label,
       symbol: p.recommended ? 'diamond' : 'circle',
@@ -246,10 +323,10 @@ export function candidatesScatterOption(points: readonly ScatterPoint[]): EChart
       itemStyle: { color: p.colour, borderColor: INK, borderWidth: p.recommended ? 1 : 0.5 },
       label: {
         show: true,
-        position: 'right',
+        position: sides[i],
         formatter: p.label,
         fontFamily: FONT_REGULAR,
-        fontSize: 7.5,
+        fontSize: LABEL_SIZE,
         color: INK,
       },
     })),

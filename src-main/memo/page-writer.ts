@@ -18,6 +18,8 @@ export const CONTENT_WIDTH = PAGE.width - MARGIN.left - MARGIN.right;
 
 export const SIZE = { body: 9.5, small: 8, table: 8.5, h1: 15, h2: 11, title: 26 } as const;
 const TNUM = ['tnum', 'lnum'] as const;
+/** Room a row's colour swatch takes before its first cell. */
+const SWATCH = 11;
 
 export type Align = 'left' | 'right' | 'center';
 
@@ -34,6 +36,8 @@ export interface TableRow {
   total?: boolean;
   /** Muted ink: lines that qualify the ones above (rounding residual). */
   muted?: boolean;
+  /** A colour swatch before the first cell: the row is the key to a chart's colours. */
+  swatch?: string;
 }
 
 export interface BulletItem {
@@ -173,6 +177,12 @@ export class PageWriter {
     this.doc.font(FONT_REGULAR).fontSize(SIZE.body);
   }
 
+  /** The height `paragraph` gives `text` at `size`, to keep a lead paragraph with what follows it. */
+  paragraphHeight(text: string, size: number = SIZE.body): number {
+    this.doc.font(FONT_REGULAR).fontSize(size);
+    return this.doc.heightOfString(text, { width: CONTENT_WIDTH, lineGap: 2.2 }) + 6;
+  }
+
   paragraph(text: string, options: { muted?: boolean; size?: number; bold?: boolean; after?: number } = {}): void {
     const size = options.size ?? SIZE.body;
     this.doc.font(options.bold ? FONT_BOLD : FONT_REGULAR).fontSize(size);
@@ -239,20 +249,35 @@ export class PageWriter {
     const xs: number[] = [];
     widths.reduce((x, w) => (xs.push(x), x + w), MARGIN.left);
     const pad = 4;
+    const vpad = 2.3;
     // Many columns: smaller header type, so a word like "diversification" fits its column.
     const headerSize = columns.length > 6 ? Math.min(size, 7) : size;
-    const rowHeight = (cells: readonly string[], font: string, fontSize = size) => {
+    const rowHeight = (cells: readonly string[], font: string, fontSize = size, indent = 0) => {
       this.doc.font(font).fontSize(fontSize);
       return (
-        Math.max(...cells.map((c, i) => this.doc.heightOfString(c || ' ', { width: widths[i] - 2 * pad }))) + 2 * 2.6
+        Math.max(
+          ...cells.map((c, i) =>
+            this.doc.heightOfString(c || ' ', { width: widths[i] - 2 * pad - (i === 0 ? indent : 0) }),
+          ),
+        ) +
+        2 * vpad
       );
     };
-    const drawRow = (cells: readonly string[], font: string, colour: string, y: number, h: number, fontSize = size) => {
+    const drawRow = (
+      cells: readonly string[],
+      font: string,
+      colour: string,
+      y: number,
+      h: number,
+      fontSize = size,
+      indent = 0,
+    ) => {
       this.doc.font(font).fontSize(fontSize).fillColor(colour);
       cells.forEach((cell, i) => {
         const align = columns[i].align ?? 'left';
-        this.doc.text(cell, xs[i] + pad, y + 2.6, {
-          width: widths[i] - 2 * pad,
+        const shift = i === 0 ? indent : 0;
+        this.doc.text(cell, xs[i] + pad + shift, y + vpad, {
+          width: widths[i] - 2 * pad - shift,
           align,
           features: i === 0 ? undefined : [...TNUM],
           lineBreak: true,
@@ -289,14 +314,17 @@ export class PageWriter {
     header();
     rows.forEach((row, r) => {
       const font = row.total ? FONT_BOLD : FONT_REGULAR;
-      const h = rowHeight(row.cells, font);
+      const h = rowHeight(row.cells, font, size, row.swatch ? SWATCH : 0);
       if (this.doc.y + h > this.bottom) {
         this.newPage();
         header();
       }
       const y = this.doc.y;
       if (row.total) this.rule(y, INK, 0.6);
-      drawRow(row.cells, font, row.muted ? INK_SOFT : INK, y, h);
+      if (row.swatch) {
+        this.doc.rect(xs[0] + pad, y + vpad + 1.5, 7, 7).fill(row.swatch);
+        drawRow(row.cells, font, row.muted ? INK_SOFT : INK, y, h, size, SWATCH);
+      } else drawRow(row.cells, font, row.muted ? INK_SOFT : INK, y, h);
       this.doc.y = y + h;
       if (!row.total && r < rows.length - 1 && !rows[r + 1].total) this.rule(this.doc.y, RULE_SOFT, 0.5);
     });
@@ -343,38 +371,6 @@ export class PageWriter {
       .text(caption, MARGIN.left, this.doc.y, { width: CONTENT_WIDTH, lineGap: 1.5 });
     this.doc.fillColor(INK).fontSize(SIZE.body);
     this.space(10);
-  }
-
-  /**
-   * A colour key: a swatch and a label per item, flowing onto further lines so that every label
-   * stays inside the page's width.
-   */
-  legend(items: readonly { label: string; colour: string; ink?: string }[]): void {
-    const size = SIZE.small;
-    const lineH = 13;
-    this.doc.font(FONT_REGULAR).fontSize(size);
-    const widths = items.map((it) => 10 + Math.min(this.doc.widthOfString(it.label), CONTENT_WIDTH - 10) + 12);
-    let lines = 1;
-    widths.reduce((x, w) => (x + w > CONTENT_WIDTH && x > 0 ? (lines++, w) : x + w), 0);
-    this.keep(lines * lineH + 4);
-    let x = 0;
-    let y = this.doc.y;
-    items.forEach((it, i) => {
-      if (x + widths[i] > CONTENT_WIDTH && x > 0) {
-        x = 0;
-        y += lineH;
-      }
-      this.doc.rect(MARGIN.left + x, y + 2, 7, 7).fill(it.colour);
-      this.doc
-        .font(FONT_REGULAR)
-        .fontSize(size)
-        .fillColor(it.ink ?? INK)
-        .text(it.label, MARGIN.left + x + 10, y, { lineBreak: false, width: CONTENT_WIDTH - x - 10, ellipsis: true });
-      x += widths[i];
-    });
-    this.doc.fillColor(INK).fontSize(SIZE.body);
-    this.doc.x = MARGIN.left;
-    this.doc.y = y + lineH + 4;
   }
 
   /** Draws the running footer on every page, once the page count is known. */

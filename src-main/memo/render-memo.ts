@@ -45,10 +45,11 @@ export const CAUTIONS = [
 ] as const;
 
 /**
- * Section titles. The body, numbered 1 to 3, is what a client reads: the recommendation with its
- * figures and the total of the trades, the trades, the risk. The appendix, lettered from A,
- * carries the evidence: the reasons, the stability bands and the walk-forward test when the
- * revision has them, the candidates, the method and data, the cautions and sign-off.
+ * Section titles. The body, numbered, is what a client reads: the recommendation with its
+ * figures and the total of the trades, the trades, the risk, and how the candidates would have
+ * fared (the walk-forward test) when the revision has one. The appendix, lettered from A, carries
+ * the evidence: the reasons, the stability bands when the revision has them, the candidates, the
+ * method and data, the cautions and sign-off.
  */
 export const SECTION_TITLES = {
   recommendation: 'The recommendation',
@@ -65,15 +66,12 @@ export const SECTION_TITLES = {
 /** The headings the memo prints for `input`, in order, with their numbers and letters. */
 export function memoHeadings(input: MemoInput): string[] {
   const t = SECTION_TITLES;
-  const body = [t.recommendation, t.trades, t.risk].map((title, i) => `${i + 1}  ${title}`);
-  const appendix = [
-    t.reasons,
-    ...(input.stability ? [t.stability] : []),
-    t.candidates,
-    ...(input.walkForward ? [t.walkForward] : []),
-    t.method,
-    t.cautions,
-  ].map((title, i) => `${String.fromCharCode(65 + i)}  ${title}`);
+  const body = [t.recommendation, t.trades, t.risk, ...(input.walkForward ? [t.walkForward] : [])].map(
+    (title, i) => `${i + 1}  ${title}`,
+  );
+  const appendix = [t.reasons, ...(input.stability ? [t.stability] : []), t.candidates, t.method, t.cautions].map(
+    (title, i) => `${String.fromCharCode(65 + i)}  ${title}`,
+  );
   return [...body, ...appendix];
 }
 
@@ -103,11 +101,11 @@ export async function renderMemo(input: MemoInput): Promise<Buffer> {
   recommendation(w, view, next());
   trades(w, view, next());
   risk(w, view, next());
+  if (input.walkForward) walkForward(w, view, next());
   w.pageBreak();
   reasons(w, view, next());
   if (input.stability) stability(w, view, next());
   candidates(w, view, next());
-  if (input.walkForward) walkForward(w, view, next());
   method(w, view, next(), hash);
   cautions(w, view, next());
 
@@ -408,21 +406,34 @@ function risk(w: PageWriter, v: MemoView, title: string): void {
   const st = input.stress;
   if (st) {
     w.subheading('Stress tests');
-    w.paragraph(`Portfolio return of each candidate's weights under each stress${st.method ? `: ${st.method}` : ''}.`);
-    // One column per candidate, as everywhere in the memo; one row per stress.
-    const ids = st.rows.map((r) => r.candidateId);
+    const own = st.rows.find((r) => r.candidateId === rc.id);
+    const others = st.rows.filter((r) => r.candidateId !== rc.id);
+    w.paragraph(
+      `Portfolio return of the recommended weights under each stress${st.method ? `: ${st.method}` : ''}.${others.length ? ` The last column gives the range over the other ${countOf(others.length, 'candidate')}.` : ''}`,
+    );
+    const range = (k: number) => {
+      const xs = others.map((r) => r.impacts[k]).filter((x) => Number.isFinite(x));
+      if (xs.length === 0) return '\u2013';
+      const lo = Math.min(...xs);
+      const hi = Math.max(...xs);
+      return formatPct(lo) === formatPct(hi) ? formatPct(lo) : `${formatPct(lo)} to ${formatPct(hi)}`;
+    };
     w.table(
       [
-        { header: 'Stress', width: 2.4 },
-        ...ids.map((id) => ({
-          header: `${labelOf(v, id)}${id === v.recommended.id ? ' (recommended)' : ''}`,
-          width: 1.2,
-          align: 'right' as const,
-        })),
+        { header: 'Stress', width: 2.7 },
+        { header: 'Period or shock', width: 3.4 },
+        { header: 'Recommended', width: 1.15, align: 'right' },
+        ...(others.length ? [{ header: 'Other candidates', width: 1.4, align: 'right' as const }] : []),
       ],
       st.shocks.map((s, k) => ({
-        cells: [`${s.name}\n${s.description}`, ...st.rows.map((r) => formatPct(r.impacts[k]))],
+        cells: [
+          s.name,
+          s.description,
+          own ? formatPct(own.impacts[k]) : '\u2013',
+          ...(others.length ? [range(k)] : []),
+        ],
       })),
+      { fontSize: 7.5 },
     );
   }
 }
@@ -477,9 +488,9 @@ function reasons(w: PageWriter, v: MemoView, title: string): void {
   if (!table) {
     w.paragraph('The solver gave no per-asset explanation for this candidate.', { muted: true });
   } else {
-    w.paragraph(
-      `${table.rule ? `${table.rule} ` : ''}Figures of the recommended allocation, ${v.candidateLabel(rc)}, from the solver\u2019s optimality conditions; share of risk as in section 3.`,
-    );
+    const lead = `${table.rule ? `${table.rule} ` : ''}Figures of the recommended allocation, ${v.candidateLabel(rc)}, from the solver\u2019s optimality conditions; share of risk as in section 3.`;
+    w.keep(w.paragraphHeight(lead) + 90);
+    w.paragraph(lead);
     const riskColumn = spec?.objective.method !== 'equal-risk-contribution';
     const cols: Column[] = [
       { header: 'Asset', width: 3.4 },
@@ -594,6 +605,29 @@ function candidates(w: PageWriter, v: MemoView, title: string): void {
       `Not solved: ${listInWords(infeasible.map((c) => `${v.candidateLabel(c)} (${c.status}${c.message ? `: ${c.message}` : ''})`))}.`,
     );
   w.paragraph(lead.join(' '));
+  // The scatter first: it sums the table up, and the table may then flow over a page break.
+  const points = all
+    .map((c, i) => ({ c, i }))
+    .filter(({ c }) => c.status === 'optimal' && c.metrics)
+    .map(({ c, i }) => ({
+      label: v.candidateLabel(c),
+      volatility: c.metrics!.volatility,
+      diversificationRatio: c.metrics!.diversificationRatio,
+      colour: candidateColour(i),
+      recommended: c.id === v.recommended.id,
+    }));
+  if (points.length > 1) {
+    const best = [...points].sort((a, b) => b.diversificationRatio - a.diversificationRatio)[0];
+    const calm = [...points].sort((a, b) => a.volatility - b.volatility)[0];
+    w.chart(
+      renderChartSvg(candidatesScatterOption(points, CONTENT_WIDTH, 170), CONTENT_WIDTH, 170),
+      170,
+      best.label === calm.label
+        ? `${best.label} has both the highest diversification ratio and the lowest volatility`
+        : `${best.label} diversifies most (${formatRatio2(best.diversificationRatio)}); ${calm.label} has the lowest volatility (${formatPct(calm.volatility)})`,
+      'Each point is a solved candidate in its colour; the diamond is the recommended one. Volatility annualised, in %.',
+    );
+  }
   const groups = Math.ceil(all.length / CANDIDATES_PER_TABLE);
   const per = Math.ceil(all.length / Math.max(1, groups));
   const specOf = (c: CandidateResult) => input.scenario.document.candidates.find((s) => s.id === c.id);
@@ -627,45 +661,24 @@ function candidates(w: PageWriter, v: MemoView, title: string): void {
     ];
     w.table(cols, rows, { fontSize: chunk.length > 4 ? 7.5 : SIZE.table });
   }
-  const points = all
-    .map((c, i) => ({ c, i }))
-    .filter(({ c }) => c.status === 'optimal' && c.metrics)
-    .map(({ c, i }) => ({
-      label: v.candidateLabel(c),
-      volatility: c.metrics!.volatility,
-      diversificationRatio: c.metrics!.diversificationRatio,
-      colour: candidateColour(i),
-      recommended: c.id === v.recommended.id,
-    }));
-  if (points.length > 1) {
-    const best = [...points].sort((a, b) => b.diversificationRatio - a.diversificationRatio)[0];
-    const calm = [...points].sort((a, b) => a.volatility - b.volatility)[0];
-    w.chart(
-      renderChartSvg(candidatesScatterOption(points), CONTENT_WIDTH, 170),
-      170,
-      best.label === calm.label
-        ? `${best.label} has both the highest diversification ratio and the lowest volatility`
-        : `${best.label} diversifies most (${formatRatio2(best.diversificationRatio)}); ${calm.label} has the lowest volatility (${formatPct(calm.volatility)})`,
-      'Each point is a solved candidate in its colour; the diamond is the recommended one. Volatility annualised, in %.',
-    );
-  }
 }
 
-/** Appendix, when the revision has one: the walk-forward test of every candidate. */
+/** Body, when the revision has one: the walk-forward test of every candidate. */
 function walkForward(w: PageWriter, v: MemoView, title: string): void {
   const wf = v.input.walkForward!;
   w.heading(title);
   w.paragraph(
-    `Each candidate was re-estimated and rebalanced through time using only the prices known on each date, from ${wf.from} to ${wf.to}: ${wf.settings}. Figures are after costs. Past performance does not guarantee future results.`,
+    `Each candidate was re-estimated and rebalanced through time using only the prices known on each date, from ${wf.from} to ${wf.to}: ${wf.settings}. Figures are after costs.`,
   );
+  const lines = wf.growth && wf.growth.dates.length > 1;
   w.table(
     [
-      { header: 'Candidate', width: 2.6 },
-      { header: 'Return a year', width: 1.1, align: 'right' },
-      { header: 'Volatility', width: 1.1, align: 'right' },
-      { header: 'Sharpe ratio', width: 1.0, align: 'right' },
-      { header: 'Max drawdown', width: 1.1, align: 'right' },
-      { header: 'Turnover a year', width: 1.2, align: 'right' },
+      { header: 'Candidate', width: 3.2 },
+      { header: 'Return a year', width: 1.05, align: 'right' },
+      { header: 'Volatility', width: 1.0, align: 'right' },
+      { header: 'Sharpe ratio', width: 0.95, align: 'right' },
+      { header: 'Max drawdown', width: 1.05, align: 'right' },
+      { header: 'Turnover a year', width: 1.1, align: 'right' },
     ],
     wf.rows.map((r) => ({
       cells: [
@@ -676,9 +689,11 @@ function walkForward(w: PageWriter, v: MemoView, title: string): void {
         formatPct(-Math.abs(r.maxDrawdown)),
         formatPct(r.turnoverPerYear),
       ],
+      // The swatches are the growth chart's key.
+      ...(lines ? { swatch: colourOf(v, r.candidateId) } : {}),
     })),
   );
-  if (wf.growth && wf.growth.dates.length > 1) {
+  if (wf.growth && lines) {
     const series = wf.growth.series.map((s) => ({
       label: labelOf(v, s.candidateId),
       colour: colourOf(v, s.candidateId),
@@ -686,13 +701,11 @@ function walkForward(w: PageWriter, v: MemoView, title: string): void {
     }));
     const ends = series.map((s) => [s.label, s.values[s.values.length - 1]] as const).sort((a, b) => b[1] - a[1]);
     w.chart(
-      renderChartSvg(growthOption(wf.growth.dates, series), CONTENT_WIDTH, 180),
-      180,
+      renderChartSvg(growthOption(wf.growth.dates, series), CONTENT_WIDTH, 150),
+      150,
       `Growth of 1 after costs: ${ends[0][0]} ends highest at ${formatFixed(ends[0][1], 2)}`,
-      'Log scale; each line in its candidate\u2019s colour, as in the key below.',
+      'Log scale; each line in the colour of its candidate\u2019s swatch in the table above. Past performance does not guarantee future results.',
     );
-    // The lines carry no labels: the key names each colour, wrapping inside the page.
-    w.legend(series.map((s) => ({ label: s.label, colour: s.colour })));
   }
 }
 

@@ -199,7 +199,13 @@ describe('holdfast memo on the invented demo household (holdfast demo files)', (
     writeFileSync(join(artifacts, 'memo-backtest.pdf'), pdf);
     renderPngs(pdf, artifacts, 'memo-backtest');
     const text = pageTexts(pdf).join('\n');
-    expect(flatText(pdf)).toContain(`C ${SECTION_TITLES.walkForward}`);
+    expect(flatText(pdf)).toContain(`4 ${SECTION_TITLES.walkForward}`);
+    // With the walk-forward and the stresses the targets still hold: body <= 5 pages, whole <= 9.
+    const pages = pageTexts(pdf);
+    expect(pages.length).toBeLessThanOrEqual(9);
+    const appendix = pages.findIndex((p) => /A\s+Why each position is held or left out/.test(p));
+    expect(appendix).toBeGreaterThan(0);
+    expect(appendix).toBeLessThanOrEqual(5);
     const parsed = parseScenarioText(JSON.stringify(doc));
     if (!parsed.ok) throw new Error('scenario does not parse');
     // As the memo reads them: each asset in its own currency, converted with the --fx rates.

@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { InputError } from '../../../shared-core/errors.js';
-import { formatPercent1, formatRatio2, MINUS } from '../../../shared-core/present/format.js';
+import { formatPct, formatPercent1, formatRatio2, MINUS } from '../../../shared-core/present/format.js';
 import { memoHash } from '../../../src-main/memo/memo-hash.js';
 import type { MemoInput } from '../../../src-main/memo/memo-input.js';
 import { CAUTIONS, memoHeadings, renderMemo, SECTION_TITLES } from '../../../src-main/memo/render-memo.js';
@@ -53,17 +53,17 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
     flat = flatText(pdf);
   });
 
-  it('reads as a client reads it: the body numbered 1 to 3, then the appendix lettered, walk-forward and stability included when the input has them', () => {
+  it('reads as a client reads it: the body numbered, then the appendix lettered, walk-forward and stability included when the input has them', () => {
     const expected = [
       '1 The recommendation',
       '2 The trades',
       '3 Where the risk comes from',
+      '4 Walk-forward test',
       'A Why each position is held or left out',
       'B How stable the weights are',
       'C Candidates considered',
-      'D Walk-forward test',
-      'E Method and data',
-      'F Cautions and sign-off',
+      'D Method and data',
+      'E Cautions and sign-off',
     ];
     expect(memoHeadings(input).map((h) => h.replace(/\s+/g, ' '))).toEqual(expected);
     let last = -1;
@@ -118,6 +118,28 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
     }
     // The solver's sentences are not repeated row after row.
     expect(flat).not.toContain('once the binding limits are counted');
+  });
+
+  it("stress tests sit with the risk: the recommended weights' return under each stress, and the range over the other candidates", () => {
+    const lines = between(pages, 'Stress tests', SECTION_TITLES.reasons);
+    const st = input.stress!;
+    const own = st.rows.find((r) => r.candidateId === input.recommended)!;
+    const others = st.rows.filter((r) => r.candidateId !== input.recommended);
+    st.shocks.forEach((shock, k) => {
+      const xs = others.map((r) => r.impacts[k]);
+      expect(rowOf(lines, shock.name)).toEqual([
+        shock.description,
+        formatPct(own.impacts[k]),
+        `${formatPct(Math.min(...xs))} to ${formatPct(Math.max(...xs))}`,
+      ]);
+    });
+    const body = pages
+      .slice(
+        0,
+        pages.findIndex((p) => /A\s+Why each position/.test(p)),
+      )
+      .join('\n');
+    expect(body).toContain('Stress tests');
   });
 
   it('carries the three cautions word for word and a sign-off block for the licensed adviser', () => {
@@ -194,7 +216,7 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
   });
 
   it('candidates considered: one column per candidate, every weight equal to its solve weight by formatPercent1, the infeasible one marked in words', () => {
-    const lines = between(pages, SECTION_TITLES.candidates, SECTION_TITLES.walkForward);
+    const lines = between(pages, SECTION_TITLES.candidates, SECTION_TITLES.method);
     const info = input.scenario.document.assetInfo!;
     const header = lines.find((l) => l.includes('Most diversified') && l.includes('Lowest variance'))!;
     for (const c of input.run.candidates) expect(header).toContain(c.label!);
