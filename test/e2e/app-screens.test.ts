@@ -243,10 +243,10 @@ describeInBrowser('the demonstration store on the household screens in Chromium'
     await table.waitFor();
     const usd = demo.holdings.find((h) => h.currency === 'USD')!;
     const usdRow = table.locator('tbody tr', { hasText: usd.asset });
-    expect(await usdRow.locator('td').nth(2).innerText()).toBe(`USD ${usd.amount.toLocaleString('en-US')}`);
+    expect(await usdRow.locator('td').nth(2).innerText()).toBe(`${usd.amount.toLocaleString('en-US')} USD`);
     // Valued at the stored USD/EUR series (the demo's FX file), so not the dollar figure again.
     const inEur = await usdRow.locator('td').nth(3).innerText();
-    expect(inEur).toMatch(/^EUR [\d,]+$/);
+    expect(inEur).toMatch(/^[\d,]+ EUR$/);
     expect(inEur).not.toBe(`${usd.amount.toLocaleString('en-US')} EUR`);
     expect(await page.getByText(/^Exchange rates: USD to EUR /).count()).toBe(1);
     expect(await table.locator('tbody tr').count()).toBe(demo.holdings.length);
