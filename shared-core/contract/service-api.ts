@@ -403,7 +403,7 @@ export type Settings = z.infer<typeof settingsSchema>;
 
 export const serviceApi = {
   'app.info': method(
-    'Version, store location, whether the store holds the invented demonstration data, its data version and the page to open first.',
+    'Version, store location, whether the store holds the invented demonstration data, its data version, the page to open first and whether the store is read-only.',
     empty,
     z.object({
       version: z.string(),
@@ -413,6 +413,8 @@ export const serviceApi = {
       dataVersion: z.number().int(),
       /** Where the app opens (the demo opens on its household's scenario). */
       startAt: z.object({ householdId: id, scenarioId: id }).nullable(),
+      /** Why the store cannot be changed ("the file is read-only"), or null when it can. */
+      readOnly: z.string().nullable(),
     }),
   ),
   'settings.get': method('The advisor settings kept in the store.', empty, settingsSchema),

@@ -49,6 +49,7 @@ export function createService(store: Store, options: ServiceOptions = {}): Servi
         demo: options.demo ?? false,
         dataVersion: store.dataVersion(),
         startAt: startAt(),
+        readOnly: store.readOnly?.why ?? null,
       };
     },
     async 'settings.get'() {

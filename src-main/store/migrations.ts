@@ -1,4 +1,5 @@
 import type Database from 'better-sqlite3';
+import { seriesChecksum, type SeriesRowValues } from './series-checksum.js';
 
 /**
  * The store's schema as forward migrations. `PRAGMA user_version` is the number of migrations
@@ -142,6 +143,16 @@ const migrations: readonly ((db: Database.Database) => void)[] = [
       ALTER TABLE memos ADD COLUMN prepared_by TEXT;
     `);
   },
+  // 5: a SHA-256 beside every price and exchange-rate series (series-checksum.ts), computed here
+  // for the series stored so far. Scenario revisions (hash) and memos (sha256) had theirs already.
+  (db) => {
+    db.exec('ALTER TABLE price_series ADD COLUMN checksum TEXT');
+    const read = db.prepare('SELECT * FROM price_series WHERE asset_id = ?');
+    const update = db.prepare('UPDATE price_series SET checksum = ? WHERE asset_id = ?');
+    const ids = db.prepare('SELECT asset_id FROM price_series').pluck().all() as string[];
+    for (const id of ids) update.run(seriesChecksum(read.get(id) as SeriesRowValues), id);
+  },
+  // Add the next migration here: one function per schema version, never edit one that shipped.
 ];
 
 export const LATEST_SCHEMA_VERSION = migrations.length;

@@ -149,7 +149,7 @@ function repairSidecars(path: string): void {
  * marked as a rollback-journal database there (header bytes 18 and 19; the file is untouched)
  * since SQLite cannot open an in-memory copy in WAL mode.
  */
-function openReadOnly(path: string): Database.Database {
+export function openReadOnly(path: string): Database.Database {
   if (walHoldsPages(path)) return new Database(path, withNativeBinding({ readonly: true, fileMustExist: true }));
   const bytes = readFileSync(path);
   if (bytes.length >= 20 && bytes[18] === 2 && bytes[19] === 2) bytes[18] = bytes[19] = 1;

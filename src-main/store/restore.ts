@@ -1,9 +1,12 @@
 import Database from 'better-sqlite3';
-import { chmodSync, existsSync, renameSync, rmSync } from 'node:fs';
+import { chmodSync, copyFileSync, existsSync, linkSync, renameSync, rmSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { StoreOpenError } from './errors.js';
-import { assertOpenable, readStoreHeader } from './open-database.js';
+import { assertOpenable, openReadOnly, readStoreHeader } from './open-database.js';
 import { withNativeBinding } from './native-binding.js';
+import { StorageError, asStorageError } from './storage-error.js';
+import { verifyDatabase, type StoreVerdict } from './verify-store.js';
+import { announceWriter, describeWriter } from './writer-note.js';
 
 export interface RestoreResult {
   /** The store file now holding the backup's contents. */
@@ -11,13 +14,21 @@ export interface RestoreResult {
   /** Where the store that was replaced was kept, if there was one. */
   previous?: string;
   schemaVersion: number;
+  /** What was checked against its checksum before the backup was let in, and what its schema could not vouch for. */
+  verified: StoreVerdict['verified'];
+  unverified: string[];
 }
 
 /**
- * Restores a backup into `storePath`. The backup is checked first (a Holdfast store of a schema
- * this version reads, passing `PRAGMA integrity_check`); it is copied with SQLite's backup API
- * into a new file beside the store and checked again, and only then swapped in. A store that was
- * there is kept as `<store>.replaced-<time>` rather than deleted.
+ * Restores a backup into `storePath`, in an order that a crash at any point leaves the store as
+ * it was or wholly restored:
+ * 1. the backup is read and verified (structure, links, and every series, revision and memo
+ *    against its checksum: verify-store.ts); a damaged backup is refused, naming what is
+ *    damaged, before anything is written;
+ * 2. the verified copy is written with SQLite's backup API beside the store and verified again;
+ * 3. the store is locked exclusively (refused, leaving it as it was, while another Holdfast has
+ *    it open: that window would go on writing to the replaced file), its WAL folded in, a hard
+ *    link kept as `<store>.replaced-<time>`, and the new file renamed over it (atomic).
  */
 export async function restoreStore(fromPath: string, storePath: string, now = new Date()): Promise<RestoreResult> {
   const from = resolve(fromPath);
@@ -26,53 +37,97 @@ export async function restoreStore(fromPath: string, storePath: string, now = ne
   const header = readStoreHeader(from);
   assertOpenable(from, header);
   if (header.userVersion === 0) throw new StoreOpenError('is an empty file, not a Holdfast backup', from);
-  const source = new Database(from, withNativeBinding({ readonly: true, fileMustExist: true }));
   const staging = `${target}.restoring-${process.pid}`;
+  const cleanStaging = () => {
+    for (const f of [staging, `${staging}-wal`, `${staging}-shm`, `${staging}-journal`]) rmSync(f, { force: true });
+  };
   try {
-    checkIntegrity(source, from);
-    rmSync(staging, { force: true });
-    await source.backup(staging);
-  } finally {
-    source.close();
-  }
-  try {
+    let verdict: StoreVerdict;
+    const source = readBackup(from);
+    try {
+      verdict = refuseDamage(source, from);
+      cleanStaging();
+      await source.backup(staging);
+    } finally {
+      source.close();
+    }
     chmodSync(staging, 0o600);
     const copy = new Database(staging, withNativeBinding({ fileMustExist: true }));
     try {
-      checkIntegrity(copy, staging);
+      refuseDamage(copy, staging);
       copy.pragma('journal_mode = WAL');
     } finally {
       copy.close();
     }
-    let previous: string | undefined;
-    if (existsSync(target)) {
-      // Fold the old store's WAL into its file first, so no stale -wal is left beside the new one.
-      const old = new Database(target, withNativeBinding({ fileMustExist: true }));
-      old.pragma('wal_checkpoint(TRUNCATE)');
-      old.close();
-      previous = `${target}.replaced-${now.toISOString().replace(/[:.]/g, '-')}`;
-      renameSync(target, previous);
-      rmSync(`${target}-wal`, { force: true });
-      rmSync(`${target}-shm`, { force: true });
-    }
-    renameSync(staging, target);
-    return { store: target, ...(previous ? { previous } : {}), schemaVersion: header.userVersion };
+    const previous = existsSync(target) ? swapIn(staging, target, from, now) : (renameSync(staging, target), undefined);
+    return {
+      store: target,
+      ...(previous ? { previous } : {}),
+      schemaVersion: header.userVersion,
+      verified: verdict.verified,
+      unverified: verdict.unverified,
+    };
+  } catch (error) {
+    throw asStorageError(error, target) ?? error;
   } finally {
-    rmSync(staging, { force: true });
-    rmSync(`${staging}-wal`, { force: true });
-    rmSync(`${staging}-shm`, { force: true });
+    cleanStaging();
   }
 }
 
-function checkIntegrity(db: Database.Database, path: string): void {
-  let result: string[];
+function readBackup(from: string): Database.Database {
   try {
-    result = (db.pragma('integrity_check') as { integrity_check: string }[]).map((r) => r.integrity_check);
+    return openReadOnly(from);
   } catch (error) {
-    throw new StoreOpenError(`fails the integrity check: ${(error as Error).message}`, path);
+    throw new StoreOpenError(`cannot be read as a Holdfast backup (${(error as Error).message})`, from);
   }
-  if (result.length !== 1 || result[0] !== 'ok')
-    throw new StoreOpenError(`fails the integrity check: ${result.slice(0, 5).join('; ')}`, path);
-  const fk = db.pragma('foreign_key_check') as unknown[];
-  if (fk.length) throw new StoreOpenError(`has ${fk.length} rows pointing at missing records`, path);
+}
+
+function refuseDamage(db: Database.Database, path: string): StoreVerdict {
+  const verdict = verifyDatabase(db);
+  if (verdict.problems.length)
+    throw new StoreOpenError(
+      `is damaged, so it was not restored and the store was left as it was: ${verdict.problems.join('; ')}`,
+      path,
+    );
+  return verdict;
+}
+
+/** Step 3 of restoreStore, holding the store's lock; returns the name the replaced store is kept under. */
+function swapIn(staging: string, target: string, from: string, now: Date): string {
+  // A second to let a short write finish: an open window does not close by waiting longer.
+  const old = new Database(target, withNativeBinding({ fileMustExist: true, timeout: 1000 }));
+  let release: (() => void) | undefined;
+  try {
+    // In WAL mode an exclusive lock is granted only when no other connection has the file open.
+    old.pragma('locking_mode = EXCLUSIVE');
+    try {
+      old.exec('BEGIN EXCLUSIVE');
+      old.exec('COMMIT');
+    } catch (error) {
+      if ((error as { code?: string }).code?.startsWith('SQLITE_BUSY')) {
+        const holder = describeWriter(target);
+        throw new StorageError(
+          'busy',
+          target,
+          `the store is open${holder ? ` and busy with ${holder}` : ' in another Holdfast window or command'}, ` +
+            'so it was not replaced and was left as it was. Close Holdfast there (or stop holdfast serve) and restore again',
+        );
+      }
+      throw error;
+    }
+    release = announceWriter(target, `a restore from ${from}`, now);
+    old.pragma('wal_checkpoint(TRUNCATE)');
+    const previous = `${target}.replaced-${now.toISOString().replace(/[:.]/g, '-')}`;
+    try {
+      linkSync(target, previous);
+    } catch {
+      copyFileSync(target, previous); // a file system without hard links
+    }
+    renameSync(staging, target);
+    return previous;
+  } finally {
+    // Closing the old connection removes the old store's (empty) -wal; in exclusive mode it kept no -shm.
+    old.close();
+    release?.();
+  }
 }

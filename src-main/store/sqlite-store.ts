@@ -9,6 +9,8 @@ import { dayFromIso, isoFromDay } from './days.js';
 import { diffDocuments } from './document-diff.js';
 import { CancelledError, NotFoundError } from './errors.js';
 import { alignSeries } from './price-table-reader.js';
+import { seriesChecksum, type SeriesRowValues } from './series-checksum.js';
+import { verifyDatabase } from './verify-store.js';
 import type { ReadOnlyReason } from './storage-error.js';
 import { announceWriter } from './writer-note.js';
 import { float64s, int32s, mergeSeries, toBlob, type SeriesArrays } from './series-codec.js';
@@ -231,9 +233,11 @@ export class SqliteStore implements Store {
       );
       const read = this.sql('SELECT asset_id, days, closes, batches FROM price_series WHERE asset_id = ?');
       const write = this.sql(
-        `INSERT INTO price_series (asset_id, points, first_day, last_day, days, closes, batches) VALUES (?, ?, ?, ?, ?, ?, ?)
+        `INSERT INTO price_series (asset_id, points, first_day, last_day, days, closes, batches, checksum)
+           VALUES (@asset_id, @points, @first_day, @last_day, @days, @closes, @batches, @checksum)
          ON CONFLICT (asset_id) DO UPDATE SET points = excluded.points, first_day = excluded.first_day,
-           last_day = excluded.last_day, days = excluded.days, closes = excluded.closes, batches = excluded.batches`,
+           last_day = excluded.last_day, days = excluded.days, closes = excluded.closes, batches = excluded.batches,
+           checksum = excluded.checksum`,
       );
       let added = 0;
       let replaced = 0;
@@ -252,15 +256,16 @@ export class SqliteStore implements Store {
         added += merged.added;
         replaced += merged.replaced;
         const n = merged.days.length;
-        write.run(
-          p.assetId,
-          n,
-          n ? merged.days[0] : null,
-          n ? merged.days[n - 1] : null,
-          toBlob(merged.days),
-          toBlob(merged.closes),
-          toBlob(merged.batches),
-        );
+        const values: SeriesRowValues = {
+          asset_id: p.assetId,
+          points: n,
+          first_day: n ? merged.days[0] : null,
+          last_day: n ? merged.days[n - 1] : null,
+          days: toBlob(merged.days),
+          closes: toBlob(merged.closes),
+          batches: toBlob(merged.batches),
+        };
+        write.run({ ...values, checksum: seriesChecksum(values) });
         commit.onProgress?.(index + 1, commit.prices.length);
       });
       this.sql('UPDATE import_batches SET added = ?, replaced = ?, assets = ? WHERE id = ?').run(
@@ -803,17 +808,7 @@ export class SqliteStore implements Store {
   }
 
   check(): string[] {
-    let problems: string[];
-    try {
-      problems = (this.db.pragma('integrity_check') as { integrity_check: string }[])
-        .map((r) => r.integrity_check)
-        .filter((m) => m !== 'ok');
-    } catch (error) {
-      return [(error as Error).message];
-    }
-    for (const r of this.db.pragma('foreign_key_check') as { table: string; rowid: number; parent: string }[])
-      problems.push(`${r.table} row ${r.rowid} points at a missing ${r.parent}`);
-    return problems;
+    return verifyDatabase(this.db).problems;
   }
 
   async backup(destination: string): Promise<void> {

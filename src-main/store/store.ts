@@ -331,7 +331,10 @@ export interface Store {
   // Audit log (written by the methods above, in the same transaction as their change)
   auditLog(query?: AuditQuery): AuditEntry[];
 
-  /** Integrity check (`PRAGMA integrity_check` and `foreign_key_check`); [] when sound. */
+  /**
+   * What is damaged, each named ([] when sound): SQLite's structure and links, and every price
+   * series, scenario revision and memo against its checksum (verify-store.ts).
+   */
   check(): string[];
   /** Online backup (SQLite's backup API) to a new file, owner-only. */
   backup(destination: string): Promise<void>;
@@ -339,5 +342,7 @@ export interface Store {
 
 export { openStore } from './open-store.js';
 export { restoreStore, type RestoreResult } from './restore.js';
+export { checkStoreFile } from './check-store-file.js';
+export type { StoreVerdict } from './verify-store.js';
 export { StoreOpenError, CancelledError, NotFoundError } from './errors.js';
 export { StorageError, type StorageProblem, type ReadOnlyReason } from './storage-error.js';

@@ -88,7 +88,9 @@ export function App() {
         </nav>
         {info.data ? (
           <span className="masthead-note" title={info.data.storePath}>
-            Store: {fileName(info.data.storePath)} · v{info.data.version}
+            Store: {fileName(info.data.storePath)}
+            {info.data.readOnly ? ` (read-only: ${info.data.readOnly}; changes cannot be saved)` : null}
+            {` · v${info.data.version}`}
           </span>
         ) : null}
       </header>

@@ -106,8 +106,24 @@ const restoreCommand: Command = {
     { name: 'from', kind: 'string', valueName: 'FILE', required: true, description: 'the backup file' },
     { name: 'store', kind: 'string', valueName: 'FILE', required: true, description: 'the store to restore into' },
   ],
-  details: 'A store already at --store is not deleted: it is renamed to <store>.replaced-<time> beside it.',
+  details:
+    'The backup is verified first (its structure, and every price series, scenario revision and memo against\n' +
+    'its checksum); a damaged backup is refused, naming what is damaged, and the store is left as it was.\n' +
+    'A store already at --store is not deleted: it is kept as <store>.replaced-<time> beside it.',
   load: () => import('./restore.js').then((m) => m.runRestore),
+};
+
+const checkCommand: Command = {
+  name: 'check',
+  summary: 'verify a store or backup file: its structure and every checksum',
+  options: [
+    { name: 'store', kind: 'string', valueName: 'FILE', required: true, description: 'the store or backup to verify' },
+    { name: 'json', kind: 'boolean', description: 'print the verdict as one JSON object' },
+  ],
+  details:
+    'Reads the file only. Exit 0 when it is sound, 1 when something is damaged (each damaged series,\n' +
+    'revision or memo is named), 2 when the file is missing or not a Holdfast store.',
+  load: () => import('./check.js').then((m) => m.runCheck),
 };
 
 const exportHouseholdCommand: Command = {
@@ -318,6 +334,7 @@ export const commands: readonly Command[] = [
   importCommand,
   backupCommand,
   restoreCommand,
+  checkCommand,
   exportHouseholdCommand,
   importHouseholdCommand,
   serveCommand,

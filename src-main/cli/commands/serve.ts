@@ -19,6 +19,10 @@ export async function runServe(options: OptionValues, io: CliIO): Promise<number
   io.stdout(
     `${served.createdDemo ? `Created the demonstration store ${storeName}.\n` : ''}` +
       `Holdfast is serving ${storeName}${kind} on this machine only.\n` +
+      (served.store.readOnly
+        ? `The store is read-only (${served.store.readOnly.why}): the app shows it but cannot save changes. ` +
+          'To save, make the file and its folder writable and start holdfast serve again.\n'
+        : '') +
       `Open ${served.host.url}\n` +
       'Press Ctrl-C to stop.\n',
   );

@@ -35,8 +35,8 @@ function seedAt(db: Database.Database, version: number): void {
   }
   if (version >= 3)
     db.prepare(
-      "INSERT INTO memos (scenario_id, revision_hash, data_version, sha256, printed_at, title, pdf) VALUES (1, 'r', 2, 's', '2025-01-04', 'M', x'25504446')",
-    ).run();
+      "INSERT INTO memos (scenario_id, revision_hash, data_version, sha256, printed_at, title, pdf) VALUES (1, 'r', 2, ?, '2025-01-04', 'M', x'25504446')",
+    ).run(sha256Hex(Buffer.from('%PDF')));
 }
 
 describe('store schema migrations (PRAGMA user_version)', () => {
@@ -71,6 +71,29 @@ describe('store schema migrations (PRAGMA user_version)', () => {
       }
       store.close();
     });
+
+  it('version 5 keeps a checksum beside every price series, computed for the series stored before it', () => {
+    const path = join(tempDir(), 'v4.hfstore');
+    const old = new Database(path);
+    migrate(old, 4);
+    seedAt(old, 4);
+    old.close();
+    const store = openStore(path);
+    expect(store.check()).toEqual([]);
+    store.close();
+    const raw = new Database(path);
+    expect(raw.prepare("SELECT checksum FROM price_series WHERE asset_id = 'EQ1'").pluck().get()).toMatch(
+      /^[0-9a-f]{64}$/,
+    );
+    // A close changed behind the store's back (as a damaged disk would) no longer matches.
+    raw
+      .prepare("UPDATE price_series SET closes = ? WHERE asset_id = 'EQ1'")
+      .run(Buffer.from(new Float64Array([100, -0.0517]).buffer));
+    raw.close();
+    const damaged = openStore(path);
+    expect(damaged.check()).toEqual(["prices of asset 'EQ1': the stored values do not match their checksum"]);
+    damaged.close();
+  });
 
   it('refuses a store from a newer Holdfast with a clear message and leaves the file byte for byte unchanged', () => {
     const path = join(tempDir(), 'newer.hfstore');

@@ -46,6 +46,7 @@ describe('service: settings, app info and memos', () => {
       storePath: join(h.dir, 'store.sqlite'),
       demo: false,
       startAt: null,
+      readOnly: null,
     });
     const d = demoService();
     seedPrices(d.store, 'Invented core', { AAA: { dates: weekdays('2025-01-06', 3) } });
