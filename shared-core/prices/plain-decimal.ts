@@ -3,51 +3,34 @@ export type DecimalMark = 'point' | 'comma';
 
 const POW10 = Array.from({ length: 23 }, (_, k) => 10 ** k);
 
-/**
- * A plain decimal `[+-]digits[.digits]` in `text[start, end)` without making a substring, or
- * NaN when the cell is anything else (the caller then takes the general path). With at most 15
- * significant digits the digits form an exact integer and 10^k is exact, so one division gives
- * the correctly rounded double, the same as Number() (Clinger 1990, "How to read floating point
- * numbers accurately", the fast path). One cell per call; `readPlainDecimals` reads a line of
- * them the same way.
- */
-export function scanPlainDecimal(text: string, start: number, end: number, mark: DecimalMark): number {
-  const markCode = mark === 'point' ? 46 : 44;
-  let i = start;
-  let c = text.charCodeAt(i);
-  const negative = c === 45;
-  if (negative || c === 43) i++;
-  let mantissa = 0;
-  let digits = 0;
-  let fraction = 0;
-  for (; i < end; i++) {
-    c = text.charCodeAt(i);
-    if (c < 48 || c > 57) break;
-    mantissa = mantissa * 10 + (c - 48);
-    digits++;
-  }
-  if (i < end && c === markCode)
-    for (i++; i < end; i++) {
-      c = text.charCodeAt(i);
-      if (c < 48 || c > 57) break;
-      mantissa = mantissa * 10 + (c - 48);
-      digits++;
-      fraction++;
-    }
-  if (i !== end || digits === 0 || digits > 15) return NaN;
-  const value = fraction ? mantissa / POW10[fraction] : mantissa;
-  return negative ? -value : value;
-}
-
 /** The character codes of the two decimal marks. */
 export const POINT = 46;
 export const COMMA = 44;
 
+const GRAMMAR = {
+  point: /^[ \t]*[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?[ \t]*$/,
+  comma: /^[ \t]*[+-]?(?:\d+(?:,\d*)?|,\d+)(?:[eE][+-]?\d+)?[ \t]*$/,
+};
+
+/**
+ * The one grammar of a number in a price file: an optional sign, digits with at most one decimal
+ * mark (the file's: point or comma), an optional exponent, blanks around it; no thousands
+ * separators, no hex, no `Infinity`. NaN when `text` is anything else. `Number()` does the
+ * conversion (correctly rounded). `readPlainDecimals` reads the common subset in place, to the
+ * same double (test/unit/prices/read-plain-decimals.test.ts checks that they agree).
+ */
+export function readDecimal(text: string, mark: DecimalMark): number {
+  if (!GRAMMAR[mark].test(text)) return NaN;
+  return Number(mark === 'comma' ? text.replace(',', '.') : text);
+}
+
 /**
  * Cells separated by the character code `separator` in `text[start, end)`, read in place: cell k
- * into `columns[k][at]` (at least one column), NaN when empty, else as `scanPlainDecimal` reads
- * it (a plain decimal `[+-]digits[.digits]` of 1 to 15 digits, here with the decimal mark
- * `markCode`), to the same double.
+ * into `columns[k][at]` (at least one column), NaN when empty, else a plain decimal
+ * `[+-]digits[.digits]` of 1 to 15 digits (here with the decimal mark `markCode`), read as
+ * `readDecimal` reads it, to the same double: with at most 15 significant digits the digits form
+ * an exact integer and 10^k is exact, so one division gives the correctly rounded double
+ * (Clinger 1990, "How to read floating point numbers accurately", the fast path).
  *
  * Returns the least value read (+Infinity when every cell is empty), so that a caller checks a
  * line of prices for positivity at once; or NaN as soon as a cell is anything else or the range
@@ -58,8 +41,8 @@ export const COMMA = 44;
  * Written for V8's first pass over a file as much as for its optimised code: one call per line,
  * no call inside, few operations per character (a digit is one exclusive or and one test; the
  * sign is looked for only when a cell does not start with a digit), so the unoptimised code that
- * reads the first lines runs some 30% fewer instructions than scanPlainDecimal on each cell
- * found by indexOf (Node 20, --no-opt, 500 x 1261 prices). Every test runs in each cell, none
+ * reads the first lines runs some 30% fewer instructions than a scan of each cell found by
+ * indexOf (Node 20, --no-opt, 500 x 1261 prices). Every test runs in each cell, none
  * only before or after the loop: V8 compiles the function while its first line is being read,
  * and a test that had not run by then would be compiled without type feedback and deoptimise on
  * every later line. The character codes are written as numbers: a module constant costs the

@@ -2,9 +2,9 @@ import { isAscii } from 'node:buffer';
 import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { InputError } from '../../shared-core/errors.js';
-import { parseWidePriceCsv } from '../../shared-core/prices/parse-wide-csv.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import type { Scenario } from '../../shared-core/scenario/schema.js';
+import { readPriceTable, type PriceTableFile } from '../io/read-price-table.js';
 
 /** Reads a UTF-8 text file named on the command line; a missing file is an InputError naming it. */
 export function readInputFile(cwd: string, path: string): { path: string; text: string } {
@@ -22,15 +22,19 @@ export function readInputFile(cwd: string, path: string): { path: string; text: 
   }
 }
 
-/** Reads and parses a wide price file named on the command line; errors name the file. */
-export function readPriceFile(cwd: string, path: string): { path: string; table: PriceTable } {
-  const file = readInputFile(cwd, path);
-  try {
-    return { path: file.path, table: parseWidePriceCsv(file.text) };
-  } catch (error) {
-    if (error instanceof InputError) throw error.inFile(file.path);
-    throw error;
-  }
+/**
+ * Reads a price file named on the command line with the import's reader and validation
+ * (src-main/io/read-price-table.ts): errors name the file, line and column; flagged moves go to
+ * `warn`, one line each.
+ */
+export function readPriceFile(
+  cwd: string,
+  path: string,
+  warn?: (line: string) => void,
+): { path: string; table: PriceTable; locate: PriceTableFile['locate'] } {
+  const read = readPriceTable(resolve(cwd, path), { file: path });
+  for (const w of read.warnings) warn?.(w);
+  return { path, table: read.table, locate: read.locate };
 }
 
 /** The prices with each asset's currency from the scenario, and the rates read from `fxPath`. */
@@ -39,8 +43,9 @@ export function withExchangeRates(
   prices: PriceTable,
   scenario: Scenario,
   fxPath: string,
+  warn?: (line: string) => void,
 ): { prices: PriceTable; fx: PriceTable; converted: boolean } {
-  const fx = readPriceFile(cwd, fxPath).table;
+  const fx = readPriceFile(cwd, fxPath, warn).table;
   const currencies = prices.assets.map((a) => scenario.assetInfo?.[a]?.currency);
   return {
     prices: { ...prices, currencies },

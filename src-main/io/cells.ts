@@ -1,39 +1,66 @@
-/** Reading single cells of a price file: dates in three orders, numbers with either decimal mark. */
+/**
+ * What one cell of a price file means: a date (in one of three orders, decided for the whole file
+ * later), a price under the file's decimal mark, or why it is neither. Every reader of prices
+ * asks here, so the import and the commands accept the same cells.
+ */
+import { readDecimal, type DecimalMark } from '../../shared-core/prices/plain-decimal.js';
+import { priceProblem } from '../../shared-core/prices/price-value.js';
+import { dayFromCivil } from '../store/days.js';
 
+export type { DecimalMark };
 export type DateOrder = 'iso' | 'day-first' | 'month-first';
-import { scanPlainDecimal, type DecimalMark } from '../../shared-core/prices/plain-decimal.js';
 
-export { scanPlainDecimal, type DecimalMark };
-
-/** A date cell as read, before the file's date order is known. */
-export interface DateToken {
-  kind: 'iso' | 'numeric';
-  /** iso: year, month, day. numeric: first part, second part, year. */
-  a: number;
-  b: number;
-  year: number;
-}
+/**
+ * A date cell as read, before the file's date order is known, packed in one integer so that a
+ * row keeps no object: ((year * 100 + a) * 100 + b), plus NUMERIC for day/month dates, where
+ * (a, b) is (month, day) for ISO and the first and second parts otherwise. Two cells are the same
+ * date under any one order exactly when their keys are equal. NO_DATE when unreadable.
+ */
+export type DateKey = number;
+export const NO_DATE = -1;
+const NUMERIC = 100_000_000;
 
 const ISO = /^(\d{4})-(\d{2})-(\d{2})$/;
-const NUMERIC = /^(\d{1,2})([./-])(\d{1,2})\2(\d{4})$/;
+const DAY_MONTH = /^(\d{1,2})([./-])(\d{1,2})\2(\d{4})$/;
 
-export function readDateToken(text: string): DateToken | undefined {
-  const t = text.trim();
+/** The key of the date in `text[start, end)`; the common ISO cell is read without a substring. */
+export function dateKey(text: string, start = 0, end = text.length): DateKey {
+  if (end - start === 10 && text.charCodeAt(start + 4) === 45 && text.charCodeAt(start + 7) === 45) {
+    let key = 0;
+    for (let i = start; i < end; i++) {
+      if (i === start + 4 || i === start + 7) continue;
+      const digit = text.charCodeAt(i) ^ 48;
+      if (digit > 9) return NO_DATE;
+      key = key * 10 + digit;
+    }
+    return key;
+  }
+  const t = (start === 0 && end === text.length ? text : text.slice(start, end)).trim();
   let m = ISO.exec(t);
-  if (m) return { kind: 'iso', a: +m[2], b: +m[3], year: +m[1] };
-  m = NUMERIC.exec(t);
-  if (m) return { kind: 'numeric', a: +m[1], b: +m[3], year: +m[4] };
-  return undefined;
+  if (m) return (+m[1] * 100 + +m[2]) * 100 + +m[3];
+  m = DAY_MONTH.exec(t);
+  if (m) return NUMERIC + (+m[4] * 100 + +m[1]) * 100 + +m[3];
+  return NO_DATE;
 }
 
-/** Month and day of a token under a date order, or undefined when that date does not exist. */
-export function resolveDate(
-  token: DateToken,
-  order: DateOrder,
-): { year: number; month: number; day: number } | undefined {
-  const [month, day] = token.kind === 'iso' || order === 'month-first' ? [token.a, token.b] : [token.b, token.a];
-  if (month < 1 || month > 12 || day < 1 || day > daysInMonth(token.year, month)) return undefined;
-  return { year: token.year, month, day };
+export function isDayMonthKey(key: DateKey): boolean {
+  return key >= NUMERIC;
+}
+
+/** The first and second parts of a day/month key (to tell which order it allows). */
+export function keyParts(key: DateKey): { a: number; b: number } {
+  return { a: Math.floor(key / 100) % 100, b: key % 100 };
+}
+
+/** The day number (days since 1970-01-01) of a key under a date order; undefined when no such date. */
+export function dayOfKey(key: DateKey, order: DateOrder): number | undefined {
+  const k = key >= NUMERIC ? key - NUMERIC : key;
+  const year = Math.floor(k / 10000);
+  const a = Math.floor(k / 100) % 100;
+  const b = k % 100;
+  const [month, day] = key < NUMERIC || order === 'month-first' ? [a, b] : [b, a];
+  if (month < 1 || month > 12 || day < 1 || day > daysInMonth(year, month)) return undefined;
+  return dayFromCivil(year, month, day);
 }
 
 function daysInMonth(year: number, month: number): number {
@@ -46,26 +73,27 @@ function daysInMonth(year: number, month: number): number {
       : 31;
 }
 
-/**
- * The number in a cell under the file's decimal mark; NaN when the cell is not such a number.
- * `Number()` does the conversion (it is exact and fast); what it accepts beyond plain decimals
- * (hex, binary and octal prefixes, Infinity, blanks) is refused here, and under the decimal comma
- * a point is refused too (it could be a thousands separator).
- */
-export function readNumber(text: string, mark: DecimalMark): number {
-  let t = text;
-  if (mark === 'comma') {
-    if (t.includes('.')) return NaN;
-    t = t.replace(',', '.');
-  }
-  const v = Number(t);
-  if (!Number.isFinite(v)) return NaN;
-  let i = 0;
-  while (i < t.length && t.charCodeAt(i) <= 32) i++;
-  if (i === t.length) return NaN; // blank: Number() reads it as 0
-  const c1 = t.charCodeAt(i + 1) | 0x20; // the second character, lower-cased
-  if (t.charCodeAt(i) === 48 && (c1 === 120 || c1 === 98 || c1 === 111)) return NaN; // 0x 0b 0o
+export const DATE_FORMS = 'expected YYYY-MM-DD, DD/MM/YYYY or MM/DD/YYYY';
+
+/** A price cell: its value, or why it is not a price (an empty cell is neither: no price that day). */
+export function readPrice(
+  text: string,
+  mark: DecimalMark,
+): number | { why: string; kind: 'unparseable' | 'non-positive' } {
+  const v = readDecimal(text, mark);
+  if (Number.isNaN(v))
+    return {
+      kind: 'unparseable',
+      why: `'${shownCell(text)}' is not a number${mark === 'comma' ? ' with a decimal comma (like 101,25)' : ' (like 101.25)'}`,
+    };
+  const why = priceProblem(v);
+  if (why) return { kind: v > 0 ? 'unparseable' : 'non-positive', why };
   return v;
+}
+
+/** A blank cell (no price that day). */
+export function isBlank(text: string): boolean {
+  return text === '' || (text.charCodeAt(0) <= 32 && text.trim() === '');
 }
 
 /** Evidence for the decimal mark in one cell: 1 comma, -1 point, 0 neither (integers, blanks). */
@@ -74,4 +102,11 @@ export function decimalEvidence(text: string): number {
   if (/^[+-]?\d*,\d+$/.test(t)) return 1;
   if (/^[+-]?\d*\.\d+([eE][+-]?\d+)?$/.test(t)) return -1;
   return 0;
+}
+
+/** Most characters of a cell echoed in a message: a 5 MB cell is shown by its first 80. */
+export const SHOWN_CHARACTERS = 80;
+
+export function shownCell(text: string): string {
+  return text.length <= SHOWN_CHARACTERS ? text : `${text.slice(0, SHOWN_CHARACTERS - 1)}…`;
 }

@@ -1,98 +1,93 @@
-import { createReadStream, statSync } from 'node:fs';
 import { InputError } from '../../shared-core/errors.js';
-import { CancelledError } from '../store/errors.js';
 
 export type Delimiter = ',' | ';' | '\t';
 
-export interface CsvRecord {
-  /** 1-based line of the record's first character. */
-  line: number;
-  /** The record's cells, split on first use. */
-  readonly cells: string[];
-  /** The record's text when it holds no quote (so a reader may scan it without splitting). */
-  raw?: string;
-}
-
-function record(line: number, raw: string, delimiter: Delimiter, file: string): CsvRecord & { delimiter: Delimiter } {
-  let cells: string[] | undefined;
-  return {
-    line,
-    delimiter,
-    ...(raw.includes('"') ? {} : { raw }),
-    get cells() {
-      return (cells ??= splitRecord(raw, delimiter, line, file));
-    },
-  };
-}
-
-export interface ReadProgress {
-  bytesRead: number;
-  totalBytes: number;
-  rows: number;
-}
-
 /**
- * Streams a delimited text file as records (RFC 4180 quoting: a quoted cell may hold the
- * delimiter, doubled quotes and line breaks), without ever holding the whole file as one string.
- * The delimiter is chosen from the first line by `chooseDelimiter`.
+ * Records of a delimited text pushed in chunks (RFC 4180 quoting: a quoted cell may hold the
+ * delimiter, doubled quotes and line breaks), never holding more than a chunk and a line. Each
+ * record is handed over as a span `text[start, end)` without its line break; blank lines are
+ * skipped. `line` is the 1-based line of the record's start. `inPlace` says that the span may be
+ * scanned where it lies: it holds no quote, and `text` is a chunk as decoded (a flat string; a
+ * line joined across chunks is not, and a scan that met both kinds would be compiled by V8 for
+ * both, slower). A character (the line break) always follows the span, so a scan may read one
+ * past it without going out of bounds (which would cost the optimised scan a deoptimisation).
  */
-export async function* csvRecords(
-  path: string,
-  options: { signal?: AbortSignal; onChunk?: (p: ReadProgress) => void; file?: string } = {},
-): AsyncGenerator<CsvRecord & { delimiter: Delimiter }> {
-  const file = options.file ?? path;
-  const totalBytes = statSync(path).size;
-  const stream = createReadStream(path, { encoding: 'utf8', highWaterMark: 1 << 20 });
-  let bytesRead: number;
-  let rest = '';
-  let lineNo = 0;
-  let rows = 0;
-  let delimiter: Delimiter | undefined;
-  let pending: { line: number; text: string } | undefined; // a record whose quoted cell spans lines
-  try {
-    for await (const chunk of stream as AsyncIterable<string>) {
-      if (options.signal?.aborted) throw new CancelledError();
-      bytesRead = stream.bytesRead;
-      const text = rest + chunk;
-      const lines = text.split('\n');
-      rest = lines.pop()!;
-      for (let raw of lines) {
-        lineNo++;
-        if (raw.endsWith('\r')) raw = raw.slice(0, -1);
-        if (lineNo === 1) raw = raw.replace(/^\uFEFF/, '');
-        if (pending) {
-          pending.text += '\n' + raw;
-          if (!quotesBalanced(pending.text)) continue;
-          raw = pending.text;
-        } else if (raw.includes('"') && !quotesBalanced(raw)) {
-          pending = { line: lineNo, text: raw };
-          continue;
-        }
-        const start = pending?.line ?? lineNo;
-        pending = undefined;
-        if (raw.trim() === '') continue;
-        delimiter ??= chooseDelimiter(raw, file);
-        rows++;
-        yield record(start, raw, delimiter, file);
+export type OnRecord = (text: string, start: number, end: number, line: number, inPlace: boolean) => void;
+
+export class CsvLines {
+  /** Lines consumed so far (the line of the last record, or of the text being read). */
+  line = 0;
+  private rest = '';
+  private pending: { line: number; text: string } | undefined; // a record whose quoted cell spans lines
+  private nextQuote = -1;
+
+  constructor(
+    private readonly onRecord: OnRecord,
+    private readonly file: string,
+  ) {}
+
+  push(chunk: string): void {
+    let start = 0;
+    if (this.rest !== '') {
+      // The line cut by the previous chunk's end is joined on its own: the chunk itself stays the
+      // flat string it was decoded into, which the in-place scans read fastest.
+      const newline = chunk.indexOf('\n');
+      if (newline === -1) {
+        this.rest += chunk;
+        return;
       }
-      options.onChunk?.({ bytesRead, totalBytes, rows });
+      const line = this.rest + chunk.slice(0, newline + 1);
+      this.rest = '';
+      this.nextQuote = line.indexOf('"');
+      this.take(line, 0, line.length - 1, false);
+      start = newline + 1;
     }
-    if (rest !== '' || pending) {
-      lineNo++;
-      let raw = rest.endsWith('\r') ? rest.slice(0, -1) : rest;
-      if (lineNo === 1) raw = raw.replace(/^\uFEFF/, '');
-      const start = pending?.line ?? lineNo;
-      if (pending) raw = pending.text + '\n' + raw;
-      if (!quotesBalanced(raw)) throw new InputError('a quoted cell is never closed', { file, line: start });
-      if (raw.trim() !== '') {
-        delimiter ??= chooseDelimiter(raw, file);
-        rows++;
-        yield record(start, raw, delimiter, file);
-      }
+    this.nextQuote = chunk.indexOf('"', start);
+    for (;;) {
+      const newline = chunk.indexOf('\n', start);
+      if (newline === -1) break;
+      this.take(chunk, start, newline, true);
+      start = newline + 1;
     }
-    options.onChunk?.({ bytesRead: totalBytes, totalBytes, rows });
-  } finally {
-    stream.destroy();
+    this.rest = chunk.slice(start);
+  }
+
+  /** The text after the last line break, then the check that every quote was closed. */
+  end(): void {
+    if (this.rest !== '') {
+      const text = this.rest + '\n';
+      this.rest = '';
+      this.nextQuote = text.indexOf('"');
+      this.take(text, 0, text.length - 1, false);
+    }
+    if (this.pending)
+      throw new InputError('a quoted cell is never closed', { file: this.file, line: this.pending.line });
+  }
+
+  /** Characters of the line being read when the text stopped (for locating undecodable bytes). */
+  get column(): number {
+    return this.rest.length - this.rest.lastIndexOf('\n');
+  }
+
+  private take(text: string, start: number, end: number, chunk: boolean): void {
+    this.line++;
+    if (end > start && text.charCodeAt(end - 1) === 13) end--;
+    if (this.nextQuote !== -1 && this.nextQuote < start) this.nextQuote = text.indexOf('"', start);
+    const quoted = this.nextQuote !== -1 && this.nextQuote < end;
+    if (this.pending) {
+      this.pending.text += '\n' + text.slice(start, end);
+      if (!quotesBalanced(this.pending.text)) return;
+      const { line, text: record } = this.pending;
+      this.pending = undefined;
+      this.onRecord(record + '\n', 0, record.length, line, false);
+      return;
+    }
+    if (quoted && !quotesBalanced(text.slice(start, end))) {
+      this.pending = { line: this.line, text: text.slice(start, end) };
+      return;
+    }
+    if (start === end || (text.charCodeAt(start) <= 32 && text.slice(start, end).trim() === '')) return;
+    this.onRecord(text, start, end, this.line, chunk && !quoted);
   }
 }
 

@@ -7,6 +7,8 @@ import { liquidityTags } from '../../shared-core/scenario/schema.js';
 import { canonicalJson, sha256Hex } from '../store/canonical-json.js';
 import { dayFromIso } from '../store/days.js';
 import type { Store } from '../store/store.js';
+import { ASSET_ID, ASSET_ID_RULE } from '../../shared-core/prices/asset-id.js';
+import { priceProblem } from '../../shared-core/prices/price-value.js';
 
 /**
  * `holdfast-household@1`: one household carried from one installation to another: the household,
@@ -22,7 +24,12 @@ const timestamp = z.string().refine((s) => !Number.isNaN(Date.parse(s)) && /^\d{
   message: 'expected a time such as 2026-01-05T09:00:00.000Z',
 });
 const currency = z.string().regex(/^[A-Z]{3}$/, 'expected an ISO 4217 code such as EUR');
-const assetId = z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'expected letters, digits, dot, dash or underscore');
+const assetId = z.string().regex(ASSET_ID, ASSET_ID_RULE);
+/** A close as a price file's cell must be (shared-core/prices/price-value.ts). */
+const price = z.number().superRefine((value, ctx) => {
+  const why = priceProblem(value);
+  if (why) ctx.addIssue({ code: 'custom', message: why });
+});
 
 const fileSchema = z.strictObject({
   format: z.literal(HOUSEHOLD_FILE_FORMAT),
@@ -56,7 +63,7 @@ const fileSchema = z.strictObject({
   prices: z.record(
     z.string(),
     z
-      .strictObject({ dates: z.array(iso), closes: z.array(z.number().positive().finite()) })
+      .strictObject({ dates: z.array(iso), closes: z.array(price) })
       .refine((p) => p.dates.length === p.closes.length, { message: 'as many closes as dates' }),
   ),
   scenarios: z.array(

@@ -51,14 +51,17 @@ export function planImport(
     let changedCount = 0;
     let unchanged = 0;
     let j = 0;
-    for (let i = 0; i < a.days.length; i++) {
-      while (j < days.length && days[j] < a.days[i]) j++;
-      if (j < days.length && days[j] === a.days[i]) {
-        if (s!.closes[j] === a.closes[i]) unchanged++;
+    for (let i = 0; i < parsed.days.length; i++) {
+      const close = a.closes[i];
+      if (close !== close) continue; // no price that day
+      const day = parsed.days[i];
+      while (j < days.length && days[j] < day) j++;
+      if (j < days.length && days[j] === day) {
+        if (s!.closes[j] === close) unchanged++;
         else {
           changedCount++;
           if (changed.length < LISTED_CHANGES)
-            changed.push({ date: isoFromDay(a.days[i]), stored: s!.closes[j], incoming: a.closes[i] });
+            changed.push({ date: isoFromDay(day), stored: s!.closes[j], incoming: close });
         }
       } else newDates++;
     }
@@ -89,7 +92,17 @@ export function commitOf(
   const touched = new Set(plan.assets.filter((p) => p.newDates > 0 || p.changedCount > 0).map((p) => p.asset));
   const prices: PriceWrite[] = parsed.assets
     .filter((a) => touched.has(a.id))
-    .map((a) => ({ assetId: a.id, days: a.days, closes: a.closes }));
+    .map((a) => {
+      const days: number[] = [];
+      const closes: number[] = [];
+      parsed.days.forEach((day, i) => {
+        if (a.closes[i] === a.closes[i]) {
+          days.push(day);
+          closes.push(a.closes[i]);
+        }
+      });
+      return { assetId: a.id, days: Int32Array.from(days), closes: Float64Array.from(closes) };
+    });
   return {
     source: parsed.file,
     ...(options.note !== undefined ? { note: options.note } : {}),

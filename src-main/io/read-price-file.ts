@@ -1,53 +1,56 @@
+import { closeSync, openSync, readSync, statSync } from 'node:fs';
+import { open } from 'node:fs/promises';
 import { InputError } from '../../shared-core/errors.js';
-import { dayFromCivil } from '../store/days.js';
-import { csvRecords, type CsvRecord, type Delimiter, type ReadProgress } from './csv-records.js';
+import { ASSET_ID, ASSET_ID_RULE } from '../../shared-core/prices/asset-id.js';
+import { COMMA, POINT, readPlainDecimals } from '../../shared-core/prices/plain-decimal.js';
+import { isoFromDay } from '../store/days.js';
+import { CancelledError } from '../store/errors.js';
 import {
+  DATE_FORMS,
+  NO_DATE,
+  dateKey,
+  dayOfKey,
   decimalEvidence,
-  readDateToken,
-  readNumber,
-  resolveDate,
-  scanPlainDecimal,
+  isBlank,
+  isDayMonthKey,
+  keyParts,
+  readPrice,
+  shownCell,
+  type DateKey,
   type DateOrder,
-  type DateToken,
   type DecimalMark,
 } from './cells.js';
+import { ChunkDecoder, UndecodableBytes, type TextEncodingName } from './decode-text.js';
+import { CsvLines, chooseDelimiter, splitRecord, type Delimiter } from './csv-records.js';
 import { GrowableFloat64, GrowableInt32 } from './growable.js';
+import { ProblemList } from './problem-list.js';
 
 /**
- * Reads a price file in either form, detected from its header:
+ * The one reader of price files, for the import and for every command. Either form, detected from
+ * the header:
  *   wide: `date,<asset>,<asset>,...`, one row per date;
  *   long: `date,asset,close` (in any column order), one row per price.
  * Comma, semicolon or tab separators; decimal point or decimal comma (decided from the first
- * rows' numbers, or given); ISO dates or day-first / month-first dates. The date order is read
- * from the dates themselves (a first part above 12 means day-first); when every date reads both
- * ways the file is marked `ambiguous` and the caller must choose, never guessed.
+ * rows' numbers, or given); UTF-8 (with or without BOM), UTF-16 with BOM or Windows-1252
+ * (decode-text.ts); ISO dates or day-first / month-first dates. The date order is read from the
+ * dates themselves (a first part above 12 means day-first); when every date reads both ways the
+ * file is marked `ambiguous` and the caller must choose, never guessed.
+ *
+ * The file is read in chunks and each line scanned where it lies; a row whose date repeats an
+ * earlier one is not kept, and problems are listed up to 20 and then only counted
+ * (problem-list.ts), so a huge malformed file takes the memory of its distinct dates. A header
+ * that cannot be read is thrown at once as an InputError; every later problem is collected.
  */
-export interface CellProblem {
-  line: number;
-  column: number;
-  text: string;
-  message: string;
-}
-
-export interface FileProblem {
-  line?: number;
-  column?: number;
-  message: string;
-}
-
 export interface ParsedAsset {
   id: string;
   /** 1-based column of the asset's prices (a wide file's asset column, a long file's close column). */
   column: number;
-  /** Points in date order (repeats kept, so validation can list them). */
-  days: Int32Array;
+  /** The closes on the file's `days`; NaN where the asset has no price (or an unreadable one). */
   closes: Float64Array;
-  lines: Int32Array;
-  /** Prices read (parseable, with a readable date). */
-  values: number;
-  emptyCells: number;
-  unparseable: CellProblem[];
+  /** Blank close cells of a long file; undefined in a wide file, where every NaN that is not a bad cell is one. */
+  blankCells?: number;
   unparseableCount: number;
+  nonPositiveCount: number;
 }
 
 export interface ParsedPriceFile {
@@ -55,11 +58,24 @@ export interface ParsedPriceFile {
   form: 'wide' | 'long';
   delimiter: Delimiter;
   decimal: DecimalMark;
+  encoding: TextEncodingName;
   dateOrder: DateOrder | 'ambiguous';
+  /** Records after the header. */
   dataRows: number;
+  /** Ascending distinct day numbers (days since 1970-01-01) of the rows kept. */
+  days: Int32Array;
   assets: ParsedAsset[];
-  problems: FileProblem[];
+  /** The line of asset k's price on day index i (a wide file: the row's line). */
+  lineOf(k: number, i: number): number;
+  /** What the reading found (validate-prices.ts adds what it finds). */
+  problems: ProblemList;
   bytes: number;
+}
+
+export interface ReadProgress {
+  bytesRead: number;
+  totalBytes: number;
+  rows: number;
 }
 
 export interface ReadPriceFileOptions {
@@ -72,332 +88,603 @@ export interface ReadPriceFileOptions {
   onProgress?: (p: ReadProgress) => void;
 }
 
-const ASSET_ID = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;
-const LISTED_PER_ASSET = 20;
 const SAMPLE_ROWS = 200;
-const NO_DAY = -0x80000000;
+/** Cells enough to tell the decimal mark (a wide file's first rows hold thousands). */
+const SAMPLE_CELLS = 4000;
+const CHUNK_BYTES = 1 << 20;
+/**
+ * A wide file's prices are kept in blocks of rows, so that growth never copies: the first sized
+ * for the whole file as its size and first row suggest (then the table's columns are views of
+ * it, no copy), none above 4 M numbers (32 MB), so a huge file costs memory only as it is read.
+ */
+const BLOCK_NUMBERS = 1 << 22;
 
-interface AssetState {
+interface LongAsset {
   id: string;
-  column: number;
-  rec: GrowableInt32;
-  val: GrowableFloat64;
+  keys: GrowableInt32;
+  lines: GrowableInt32;
+  closes: GrowableFloat64;
+  lastKey: DateKey;
+  lastLine: number;
   emptyCells: number;
-  unparseable: CellProblem[];
   unparseableCount: number;
+  nonPositiveCount: number;
 }
 
-function newState(id: string, column: number): AssetState {
-  return {
-    id,
-    column,
-    rec: new GrowableInt32(),
-    val: new GrowableFloat64(),
-    emptyCells: 0,
-    unparseable: [],
-    unparseableCount: 0,
-  };
-}
+/** The reader as a sink of decoded text: push chunks, then `end()`. */
+export class PriceFileReader {
+  readonly problems = new ProblemList();
+  dataRows = 0;
+  private readonly lines: CsvLines;
+  private header = false;
+  private form: 'wide' | 'long' = 'wide';
+  private delimiter: Delimiter = ',';
+  private separatorCode = 44;
+  private markCode = POINT;
+  private decimal: DecimalMark | undefined;
+  private width = 0;
+  private dateCol = 0;
+  private assetCol = -1;
+  private closeCol = -1;
+  private ids: string[] = [];
+  private sample: { text: string; line: number }[] = [];
+  // wide rows
+  private readonly rowKeys = new GrowableInt32();
+  private readonly rowLines = new GrowableInt32();
+  private readonly seenDates = new Map<DateKey, number>();
+  private blocks: Float64Array[] = [];
+  private blockRows = 0;
+  private blockColumns: Float64Array[] = [];
+  private blockRow = 0;
+  private unparseable: Int32Array = new Int32Array(0);
+  private nonPositive: Int32Array = new Int32Array(0);
+  // long rows
+  private readonly long = new Map<string, LongAsset>();
 
-export async function readPriceFile(path: string, options: ReadPriceFileOptions = {}): Promise<ParsedPriceFile> {
-  const file = options.file ?? path;
-  const problems: FileProblem[] = [];
-  let bytes = 0;
-  let delimiter: Delimiter = ',';
-  let form: 'wide' | 'long' = 'wide';
-  let width = 0;
-  let dateCol = 0;
-  let assetCol = -1;
-  let closeCol = -1;
-  const wide: AssetState[] = [];
-  const long = new Map<string, AssetState>();
-  let decimal = options.decimal;
-  let sample: CsvRecord[] = [];
-  let header = false;
+  /** `bytes`: the size of the text to come, if known (it sizes the first block of rows). */
+  constructor(
+    private readonly file: string,
+    private readonly options: Pick<ReadPriceFileOptions, 'dateOrder' | 'decimal'> = {},
+    private readonly bytes = 0,
+  ) {
+    this.decimal = options.decimal;
+    this.lines = new CsvLines((text, start, end, line, inPlace) => this.record(text, start, end, line, inPlace), file);
+  }
 
-  const recLine = new GrowableInt32();
-  const tokens: (DateToken | undefined)[] = [];
-  let dayFirstLine: number | undefined;
-  let monthFirstLine: number | undefined;
+  push(text: string): void {
+    this.lines.push(text);
+  }
 
-  const cellValue = (s: AssetState, rec: number, text: string, line: number) => {
-    if (text === '' || (text.charCodeAt(0) <= 32 && text.trim() === '')) {
+  /** Where the text stopped: the line being read and its next column. */
+  get position(): { line: number; column: number } {
+    return { line: this.lines.line + 1, column: this.lines.column };
+  }
+
+  end(encoding: TextEncodingName, bytes: number): ParsedPriceFile {
+    this.lines.end();
+    if (!this.header) throw new InputError('the file is empty', { file: this.file });
+    if (this.decimal === undefined) this.decideDecimal();
+    return this.form === 'wide' ? this.finishWide(encoding, bytes) : this.finishLong(encoding, bytes);
+  }
+
+  private record(text: string, start: number, end: number, line: number, inPlace: boolean): void {
+    if (!this.header) return this.readHeader(text.slice(start, end), line);
+    this.dataRows++;
+    if (this.decimal === undefined) {
+      this.sample.push({ text: text.slice(start, end), line });
+      if (this.sample.length >= Math.min(SAMPLE_ROWS, Math.ceil(SAMPLE_CELLS / this.width))) this.decideDecimal();
+      return;
+    }
+    if (this.form === 'wide') this.wideRow(text, start, end, line, inPlace);
+    else this.longRow(this.cells(text.slice(start, end), line), line);
+  }
+
+  private cells(raw: string, line: number): string[] {
+    return splitRecord(raw, this.delimiter, line, this.file);
+  }
+
+  private readHeader(raw: string, line: number): void {
+    this.header = true;
+    const file = this.file;
+    this.delimiter = chooseDelimiter(raw, file);
+    this.separatorCode = this.delimiter.charCodeAt(0);
+    const names = this.cells(raw, line).map((c) => c.trim());
+    this.width = names.length;
+    const lower = names.map((c) => c.toLowerCase());
+    if (this.width === 3 && ['date', 'asset', 'close'].every((n) => lower.includes(n))) {
+      this.form = 'long';
+      [this.dateCol, this.assetCol, this.closeCol] = ['date', 'asset', 'close'].map((n) => lower.indexOf(n));
+      return;
+    }
+    if (lower[0] !== 'date')
+      throw new InputError(
+        `the first header cell is '${shownCell(names[0])}'; expected 'date' followed by one column per asset (wide form) or the columns date, asset, close (long form)`,
+        { file, line: 1, column: 1 },
+      );
+    const seen = new Set<string>();
+    names.slice(1).forEach((id, i) => {
+      const at = { file, line: 1, column: i + 2 };
+      if (!ASSET_ID.test(id)) throw new InputError(`asset id '${shownCell(id)}': ${ASSET_ID_RULE}`, at);
+      if (seen.has(id)) throw new InputError(`asset '${id}' appears twice in the header`, at);
+      seen.add(id);
+    });
+    this.ids = names.slice(1);
+    if (this.ids.length === 0) throw new InputError('the header names no asset columns', { file, line: 1, column: 2 });
+    this.unparseable = new Int32Array(this.ids.length);
+    this.nonPositive = new Int32Array(this.ids.length);
+  }
+
+  private decideDecimal(): void {
+    let comma = 0;
+    let point = 0;
+    let cellsSeen = 0;
+    // A comma-separated cell holds a decimal comma only inside quotes.
+    const evidence = this.delimiter !== ',' ? this.sample : this.sample.filter((r) => r.text.includes('"'));
+    for (const r of evidence) {
+      if (cellsSeen >= SAMPLE_CELLS) break;
+      const cells = this.cells(r.text, r.line);
+      cellsSeen += cells.length;
+      cells.forEach((c, i) => {
+        if (i === this.dateCol || (this.form === 'long' && i !== this.closeCol)) return;
+        const e = decimalEvidence(c);
+        if (e > 0) comma++;
+        else if (e < 0) point++;
+      });
+    }
+    this.decimal = comma > point ? 'comma' : 'point';
+    this.markCode = this.decimal === 'comma' ? COMMA : POINT;
+    const sample = this.sample;
+    this.sample = [];
+    for (const r of sample)
+      if (this.form === 'wide') this.wideRow(r.text, 0, r.text.length, r.line, false);
+      else this.longRow(this.cells(r.text, r.line), r.line);
+  }
+
+  /** Room for one more wide row in the current block. */
+  private rowSlot(length: number): void {
+    if (this.blockRow < this.blockRows) return;
+    const n = this.ids.length;
+    const expected = this.blocks.length === 0 ? Math.ceil((1.05 * this.bytes) / (length + 1)) + 16 : Infinity;
+    this.blockRows = Math.max(64, Math.min(expected, Math.floor(BLOCK_NUMBERS / n)));
+    const buffer = new Float64Array(n * this.blockRows);
+    this.blocks.push(buffer);
+    this.blockColumns = Array.from({ length: n }, (_, k) =>
+      buffer.subarray(k * this.blockRows, (k + 1) * this.blockRows),
+    );
+    this.blockRow = 0;
+  }
+
+  private keepRow(key: DateKey, line: number): void {
+    this.rowKeys.push(key);
+    this.rowLines.push(line);
+    this.seenDates.set(key, line);
+    this.blockRow++;
+  }
+
+  private wideRow(text: string, start: number, end: number, line: number, inPlace: boolean): void {
+    // The common row: no quote, a date cell, then plain decimals above zero, read in place.
+    if (inPlace) {
+      const d = text.indexOf(this.delimiter, start);
+      if (d !== -1 && d < end) {
+        const key = dateKey(text, start, d);
+        if (key !== NO_DATE && !this.seenDates.has(key)) {
+          this.rowSlot(end - start);
+          if (
+            readPlainDecimals(text, d + 1, end, this.separatorCode, this.markCode, this.blockColumns, this.blockRow) > 0
+          )
+            return this.keepRow(key, line);
+        }
+      }
+    }
+    // Any other row, cell by cell: finds and explains each problem.
+    const cells = this.cells(text.slice(start, end), line);
+    const key = dateKey(cells[0]);
+    if (key === NO_DATE)
+      return this.problems.add({
+        kind: 'date',
+        line,
+        column: 1,
+        message: `'${shownCell(cells[0])}' is not a date (${DATE_FORMS})`,
+      });
+    if (cells.length < this.width || cells.slice(this.width).some((c) => !isBlank(c)))
+      return this.problems.add({
+        kind: 'row',
+        line,
+        column: Math.min(cells.length, this.width) + 1,
+        message: `expected ${this.width} cells as in the header, found ${cells.length}`,
+      });
+    const first = this.seenDates.get(key);
+    if (first !== undefined)
+      return this.problems.add({
+        kind: 'repeated-date',
+        line,
+        column: 1,
+        lines: [first, line],
+        date: cells[0].trim(),
+        message: `date ${cells[0].trim()} repeats the date of line ${first}`,
+      });
+    this.rowSlot(end - start);
+    for (let k = 0; k < this.ids.length; k++) {
+      const cell = cells[k + 1];
+      let value = NaN;
+      if (!isBlank(cell)) {
+        const read = readPrice(cell, this.decimal!);
+        if (typeof read === 'number') value = read;
+        else {
+          if (read.kind === 'unparseable') this.unparseable[k]++;
+          else this.nonPositive[k]++;
+          this.problems.add({ kind: read.kind, line, column: k + 2, asset: this.ids[k], message: read.why });
+        }
+      }
+      this.blockColumns[k][this.blockRow] = value;
+    }
+    this.keepRow(key, line);
+  }
+
+  private longRow(cells: string[], line: number): void {
+    if (cells.length !== this.width)
+      return this.problems.add({
+        kind: 'row',
+        line,
+        column: Math.min(cells.length, this.width) + 1,
+        message: `expected ${this.width} cells (date, asset, close), found ${cells.length}`,
+      });
+    const dateText = cells[this.dateCol];
+    const key = dateKey(dateText);
+    if (key === NO_DATE)
+      return this.problems.add({
+        kind: 'date',
+        line,
+        column: this.dateCol + 1,
+        message: `'${shownCell(dateText)}' is not a date (${DATE_FORMS})`,
+      });
+    const id = cells[this.assetCol].trim();
+    if (!ASSET_ID.test(id))
+      return this.problems.add({
+        kind: 'row',
+        line,
+        column: this.assetCol + 1,
+        message: `asset id '${shownCell(id)}': ${ASSET_ID_RULE}`,
+      });
+    let s = this.long.get(id);
+    if (!s)
+      this.long.set(
+        id,
+        (s = {
+          id,
+          keys: new GrowableInt32(),
+          lines: new GrowableInt32(),
+          closes: new GrowableFloat64(),
+          lastKey: NO_DATE,
+          lastLine: 0,
+          emptyCells: 0,
+          unparseableCount: 0,
+          nonPositiveCount: 0,
+        }),
+      );
+    const cell = cells[this.closeCol];
+    if (isBlank(cell)) {
       s.emptyCells++;
       return;
     }
-    const v = readNumber(text, decimal!);
-    if (Number.isNaN(v)) {
-      s.unparseableCount++;
-      if (s.unparseable.length < LISTED_PER_ASSET)
-        s.unparseable.push({
-          line,
-          column: s.column,
-          text,
-          message: `'${text}' is not a number${decimal === 'comma' ? ' with a decimal comma (like 101,25)' : ' (like 101.25)'}`,
-        });
-      return;
-    }
-    s.rec.push(rec);
-    s.val.push(v);
-  };
-
-  // Sized once the header is read.
-  let rowValues = new Float64Array(0);
-  let rowEnds = new Int32Array(0);
-
-  // A wide row without quotes, scanned in place: most cells never become strings.
-  const handleWideRaw = (line: number, raw: string) => {
-    if (rowValues.length !== wide.length) {
-      rowValues = new Float64Array(wide.length);
-      rowEnds = new Int32Array(wide.length);
-    }
-    const d = raw.indexOf(delimiter);
-    const cellsFound = () => raw.split(delimiter).length;
-    if (d === -1) {
-      recLine.push(line);
-      tokens.push(readDateToken(raw));
-      problems.push({ line, message: `expected ${width} cells as in the header, found 1` });
-      return;
-    }
-    let start = d + 1;
-    for (let a = 0; a < wide.length; a++) {
-      let end = raw.indexOf(delimiter, start);
-      if (end === -1) {
-        if (a < wide.length - 1) {
-          pushDate(line, raw.slice(0, d));
-          problems.push({ line, message: `expected ${width} cells as in the header, found ${cellsFound()}` });
-          return;
-        }
-        end = raw.length;
-      }
-      rowValues[a] = scanPlainDecimal(raw, start, end, decimal!);
-      rowEnds[a] = end;
-      start = end + 1;
-    }
-    const lastEnd = rowEnds[wide.length - 1];
-    if (
-      lastEnd < raw.length &&
-      raw
-        .slice(lastEnd + 1)
-        .split(delimiter)
-        .some((c) => c.trim() !== '')
-    ) {
-      pushDate(line, raw.slice(0, d));
-      problems.push({ line, message: `expected ${width} cells as in the header, found ${cellsFound()}` });
-      return;
-    }
-    const rec = pushDate(line, raw.slice(0, d));
-    if (rec === -1) return;
-    for (let a = 0; a < wide.length; a++) {
-      const v = rowValues[a];
-      if (v === v) {
-        wide[a].rec.push(rec);
-        wide[a].val.push(v);
-      } else cellValue(wide[a], rec, raw.slice(a === 0 ? d + 1 : rowEnds[a - 1] + 1, rowEnds[a]), line);
-    }
-  };
-
-  /** Records a row's date; returns the row index, or -1 when the date cell is unreadable. */
-  const pushDate = (line: number, dateText: string): number => {
-    const rec = recLine.length;
-    recLine.push(line);
-    const token = readDateToken(dateText);
-    tokens.push(token);
-    if (!token) {
-      problems.push({
+    if (key === s.lastKey)
+      return this.problems.add({
+        kind: 'repeated-date',
         line,
-        column: dateCol + 1,
-        message: `'${dateText}' is not a date (expected YYYY-MM-DD, DD/MM/YYYY or MM/DD/YYYY)`,
+        column: this.dateCol + 1,
+        asset: id,
+        lines: [s.lastLine, line],
+        date: dateText.trim(),
+        message: `date ${dateText.trim()} repeats the date of line ${s.lastLine} for ${id}`,
       });
-      return -1;
+    const read = readPrice(cell, this.decimal!);
+    if (typeof read !== 'number') {
+      if (read.kind === 'unparseable') s.unparseableCount++;
+      else s.nonPositiveCount++;
+      return this.problems.add({ kind: read.kind, line, column: this.closeCol + 1, asset: id, message: read.why });
     }
-    if (token.kind === 'numeric') {
-      if (token.a > 12) dayFirstLine ??= line;
-      if (token.b > 12) monthFirstLine ??= line;
-    }
-    return rec;
-  };
-
-  const handle = (r: CsvRecord) => {
-    if (form === 'wide' && r.raw !== undefined) return handleWideRaw(r.line, r.raw);
-    const rec = recLine.length;
-    recLine.push(r.line);
-    const dateText = r.cells[dateCol] ?? '';
-    const token = readDateToken(dateText);
-    tokens.push(token);
-    if (!token) {
-      problems.push({
-        line: r.line,
-        column: dateCol + 1,
-        message: `'${dateText}' is not a date (expected YYYY-MM-DD, DD/MM/YYYY or MM/DD/YYYY)`,
-      });
-      return;
-    }
-    if (token.kind === 'numeric') {
-      if (token.a > 12) dayFirstLine ??= r.line;
-      if (token.b > 12) monthFirstLine ??= r.line;
-    }
-    if (form === 'wide') {
-      const extra = r.cells.slice(width);
-      if (r.cells.length < width || extra.some((c) => c.trim() !== '')) {
-        problems.push({ line: r.line, message: `expected ${width} cells as in the header, found ${r.cells.length}` });
-        return;
-      }
-      for (let a = 0; a < wide.length; a++) cellValue(wide[a], rec, r.cells[a + 1], r.line);
-    } else {
-      if (r.cells.length !== width) {
-        problems.push({
-          line: r.line,
-          message: `expected ${width} cells (date, asset, close), found ${r.cells.length}`,
-        });
-        return;
-      }
-      const id = r.cells[assetCol].trim();
-      if (!ASSET_ID.test(id)) {
-        problems.push({
-          line: r.line,
-          column: assetCol + 1,
-          message: `asset id '${id}': expected letters, digits, dot, dash or underscore`,
-        });
-        return;
-      }
-      let s = long.get(id);
-      if (!s) long.set(id, (s = newState(id, closeCol + 1)));
-      cellValue(s, rec, r.cells[closeCol], r.line);
-    }
-  };
-
-  for await (const r of csvRecords(path, {
-    file,
-    signal: options.signal,
-    onChunk: (p) => {
-      bytes = p.totalBytes;
-      options.onProgress?.(p);
-    },
-  })) {
-    if (!header) {
-      header = true;
-      delimiter = r.delimiter;
-      width = r.cells.length;
-      const names = r.cells.map((c) => c.trim());
-      const lower = names.map((c) => c.toLowerCase());
-      if (width === 3 && ['date', 'asset', 'close'].every((n) => lower.includes(n))) {
-        form = 'long';
-        [dateCol, assetCol, closeCol] = ['date', 'asset', 'close'].map((n) => lower.indexOf(n));
-      } else {
-        if (lower[0] !== 'date')
-          throw new InputError(
-            `the first header cell is '${names[0]}'; expected 'date' followed by one column per asset (wide form) or the columns date, asset, close (long form)`,
-            { file, line: 1, column: 1 },
-          );
-        const seen = new Set<string>();
-        names.slice(1).forEach((id, i) => {
-          const at = { file, line: 1, column: i + 2 };
-          if (!ASSET_ID.test(id))
-            throw new InputError(`asset id '${id}': expected letters, digits, dot, dash or underscore`, at);
-          if (seen.has(id)) throw new InputError(`asset '${id}' appears twice in the header`, at);
-          seen.add(id);
-          wide.push(newState(id, i + 2));
-        });
-        if (wide.length === 0) throw new InputError('the header names no asset columns', { file, line: 1 });
-      }
-      continue;
-    }
-    if (decimal === undefined) {
-      sample.push(r);
-      if (sample.length < SAMPLE_ROWS) continue;
-      decimal = chooseDecimal(sample, form === 'wide' ? undefined : closeCol);
-      sample.forEach(handle);
-      sample = [];
-      continue;
-    }
-    handle(r);
-  }
-  if (!header) throw new InputError('the file is empty', { file });
-  if (decimal === undefined) {
-    decimal = chooseDecimal(sample, form === 'wide' ? undefined : closeCol);
-    sample.forEach(handle);
+    s.keys.push(key);
+    s.lines.push(line);
+    s.closes.push(read);
+    s.lastKey = key;
+    s.lastLine = line;
   }
 
-  // The date order, from the evidence or the user's choice.
-  const kinds = new Set(tokens.filter((t) => t).map((t) => t!.kind));
-  let dateOrder: DateOrder | 'ambiguous';
-  if (kinds.size > 1) {
-    problems.push({ message: 'the file mixes ISO dates (YYYY-MM-DD) with day/month dates; use one form throughout' });
-    dateOrder = 'iso';
-  } else if (!kinds.has('numeric')) dateOrder = 'iso';
-  else if (options.dateOrder) dateOrder = options.dateOrder;
-  else if (dayFirstLine !== undefined && monthFirstLine !== undefined) {
-    problems.push({
-      message: `the dates follow no single order: line ${dayFirstLine} reads only day-first, line ${monthFirstLine} only month-first`,
+  /** The date order, from the evidence in the keys or the user's choice. */
+  private dateOrder(keysOf: (visit: (key: DateKey, line: number) => void) => void): DateOrder | 'ambiguous' {
+    let iso: number | undefined;
+    let dayMonth: number | undefined;
+    let dayFirst: number | undefined;
+    let monthFirst: number | undefined;
+    keysOf((key, line) => {
+      if (!isDayMonthKey(key)) {
+        iso ??= line;
+        return;
+      }
+      dayMonth ??= line;
+      const { a, b } = keyParts(key);
+      if (a > 12) dayFirst ??= line;
+      if (b > 12) monthFirst ??= line;
     });
-    dateOrder = 'day-first';
-  } else if (dayFirstLine !== undefined) dateOrder = 'day-first';
-  else if (monthFirstLine !== undefined) dateOrder = 'month-first';
-  else dateOrder = 'ambiguous';
+    if (iso !== undefined && dayMonth !== undefined) {
+      this.problems.add({
+        kind: 'date',
+        line: Math.max(iso, dayMonth),
+        column: this.dateCol + 1,
+        message: `the file mixes ISO dates (YYYY-MM-DD, line ${iso}) with day/month dates (line ${dayMonth}); use one form throughout`,
+      });
+      return 'iso';
+    }
+    if (dayMonth === undefined) return 'iso';
+    if (this.options.dateOrder) return this.options.dateOrder;
+    if (dayFirst !== undefined && monthFirst !== undefined) {
+      this.problems.add({
+        kind: 'date',
+        line: Math.max(dayFirst, monthFirst),
+        column: this.dateCol + 1,
+        message: `the dates follow no single order: line ${dayFirst} reads only day-first, line ${monthFirst} only month-first`,
+      });
+      return 'day-first';
+    }
+    if (dayFirst !== undefined) return 'day-first';
+    if (monthFirst !== undefined) return 'month-first';
+    return 'ambiguous';
+  }
 
-  const recDay = new Int32Array(recLine.length).fill(NO_DAY);
-  if (dateOrder !== 'ambiguous') {
-    const lines = recLine.view();
-    tokens.forEach((t, i) => {
-      if (!t) return;
-      const d = resolveDate(t, dateOrder as DateOrder);
-      if (d) recDay[i] = dayFromCivil(d.year, d.month, d.day);
-      else
-        problems.push({
-          line: lines[i],
-          column: dateCol + 1,
-          message:
-            t.kind === 'iso'
-              ? 'no such calendar date'
-              : `no such calendar date when read ${dateOrder}${options.dateOrder ? ' (the order chosen)' : ''}`,
-        });
+  private calendarProblem(line: number, order: DateOrder): void {
+    this.problems.add({
+      kind: 'date',
+      line,
+      column: this.dateCol + 1,
+      message:
+        order === 'iso'
+          ? 'no such calendar date'
+          : `no such calendar date when read ${order}${this.options.dateOrder ? ' (the order chosen)' : ''}`,
     });
   }
 
-  const lineOf = recLine.view();
-  const assets = (form === 'wide' ? wide : [...long.values()]).map((s) => finishAsset(s, recDay, lineOf));
-  return { file, form, delimiter, decimal, dateOrder, dataRows: recLine.length, assets, problems, bytes };
+  private base(encoding: TextEncodingName, bytes: number) {
+    return {
+      file: this.file,
+      form: this.form,
+      delimiter: this.delimiter,
+      decimal: this.decimal!,
+      encoding,
+      dataRows: this.dataRows,
+      problems: this.problems,
+      bytes,
+    };
+  }
+
+  private finishWide(encoding: TextEncodingName, bytes: number): ParsedPriceFile {
+    const keys = this.rowKeys.view();
+    const rowLines = this.rowLines.view();
+    const order = this.dateOrder((visit) => keys.forEach((k, r) => visit(k, rowLines[r])));
+    // Rows by day; a row with no such date is dropped, and so is a later row on the same day.
+    const kept: number[] = [];
+    const dayOfRow = new Int32Array(keys.length);
+    let sorted = true;
+    if (order !== 'ambiguous')
+      for (let r = 0; r < keys.length; r++) {
+        const day = dayOfKey(keys[r], order);
+        if (day === undefined) {
+          this.calendarProblem(rowLines[r], order);
+          continue;
+        }
+        dayOfRow[r] = day;
+        if (kept.length > 0 && day <= dayOfRow[kept[kept.length - 1]]) sorted = false;
+        kept.push(r);
+      }
+    if (!sorted) kept.sort((x, y) => dayOfRow[x] - dayOfRow[y] || x - y);
+    const rows: number[] = [];
+    for (const r of kept) {
+      const previous = rows[rows.length - 1];
+      if (previous !== undefined && dayOfRow[previous] === dayOfRow[r]) {
+        this.problems.add({
+          kind: 'repeated-date',
+          line: rowLines[r],
+          column: 1,
+          lines: [rowLines[previous], rowLines[r]],
+          date: isoFromDay(dayOfRow[r]),
+          message: `this date is the date of line ${rowLines[previous]}`,
+        });
+        continue;
+      }
+      rows.push(r);
+    }
+    const n = rows.length;
+    const days = Int32Array.from(rows, (r) => dayOfRow[r]);
+    const lines = Int32Array.from(rows, (r) => rowLines[r]);
+    const identity = n === keys.length && rows.every((r, i) => r === i);
+    const sizes = this.blocks.map((b) => b.length / this.ids.length);
+    const starts = sizes.map((_, b) => sizes.slice(0, b).reduce((t, s) => t + s, 0));
+    const assets = this.ids.map((id, k): ParsedAsset => {
+      let closes: Float64Array;
+      if (identity && this.blocks.length === 1) closes = this.blocks[0].subarray(k * sizes[0], k * sizes[0] + n);
+      else {
+        closes = new Float64Array(n);
+        let b = 0;
+        for (let i = 0; i < n; i++) {
+          const r = rows[i];
+          while (r >= starts[b] + sizes[b]) b++;
+          while (r < starts[b]) b--;
+          closes[i] = this.blocks[b][k * sizes[b] + r - starts[b]];
+        }
+      }
+      return {
+        id,
+        column: k + 2,
+        closes,
+        unparseableCount: this.unparseable[k],
+        nonPositiveCount: this.nonPositive[k],
+      };
+    });
+    this.blocks = [];
+    return { ...this.base(encoding, bytes), dateOrder: order, days, assets, lineOf: (_k, i) => lines[i] };
+  }
+
+  private finishLong(encoding: TextEncodingName, bytes: number): ParsedPriceFile {
+    const series = [...this.long.values()];
+    const order = this.dateOrder((visit) =>
+      series.forEach((s) => {
+        const lines = s.lines.view();
+        s.keys.view().forEach((k, i) => visit(k, lines[i]));
+      }),
+    );
+    // Each asset's points by day, the calendar and repeats checked; then the union of their days.
+    const points = series.map((s) => {
+      const keys = s.keys.view();
+      const lines = s.lines.view();
+      const idx: number[] = [];
+      const day = new Int32Array(keys.length);
+      if (order !== 'ambiguous')
+        for (let i = 0; i < keys.length; i++) {
+          const d = dayOfKey(keys[i], order);
+          if (d === undefined) this.calendarProblem(lines[i], order);
+          else {
+            day[i] = d;
+            idx.push(i);
+          }
+        }
+      idx.sort((x, y) => day[x] - day[y] || lines[x] - lines[y]);
+      const kept: number[] = [];
+      for (const i of idx) {
+        const previous = kept[kept.length - 1];
+        if (previous !== undefined && day[previous] === day[i]) {
+          this.problems.add({
+            kind: 'repeated-date',
+            line: lines[i],
+            column: this.dateCol + 1,
+            asset: s.id,
+            lines: [lines[previous], lines[i]],
+            date: isoFromDay(day[i]),
+            message: `this date is the date of line ${lines[previous]} for ${s.id}`,
+          });
+          continue;
+        }
+        kept.push(i);
+      }
+      return { s, kept, day, lines };
+    });
+    const all = new Set<number>();
+    for (const p of points) for (const i of p.kept) all.add(p.day[i]);
+    const days = Int32Array.from([...all].sort((a, b) => a - b));
+    const index = new Map<number, number>();
+    days.forEach((d, i) => index.set(d, i));
+    const lineTables: Int32Array[] = [];
+    const assets = points.map(({ s, kept, day, lines }): ParsedAsset => {
+      const closes = new Float64Array(days.length).fill(NaN);
+      const at = new Int32Array(days.length);
+      const values = s.closes.view();
+      for (const i of kept) {
+        const j = index.get(day[i])!;
+        closes[j] = values[i];
+        at[j] = lines[i];
+      }
+      lineTables.push(at);
+      return {
+        id: s.id,
+        column: this.closeCol + 1,
+        closes,
+        blankCells: s.emptyCells,
+        unparseableCount: s.unparseableCount,
+        nonPositiveCount: s.nonPositiveCount,
+      };
+    });
+    return { ...this.base(encoding, bytes), dateOrder: order, days, assets, lineOf: (k, i) => lineTables[k][i] };
+  }
 }
 
-function chooseDecimal(sample: readonly CsvRecord[], onlyColumn: number | undefined): DecimalMark {
-  let comma = 0;
-  let point = 0;
-  for (const r of sample)
-    r.cells.forEach((c, i) => {
-      if (i === 0 || (onlyColumn !== undefined && i !== onlyColumn)) return;
-      const e = decimalEvidence(c);
-      if (e > 0) comma++;
-      else if (e < 0) point++;
-    });
-  return comma > point ? 'comma' : 'point';
+function missing(error: unknown, file: string): InputError {
+  const code = (error as NodeJS.ErrnoException).code;
+  const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'is a directory' : (error as Error).message;
+  return new InputError(why, { file });
 }
 
-function finishAsset(s: AssetState, recDay: Int32Array, lineOf: Int32Array): ParsedAsset {
-  const rec = s.rec.view();
-  const val = s.val.view();
-  const idx: number[] = [];
-  for (let i = 0; i < rec.length; i++) if (recDay[rec[i]] !== NO_DAY) idx.push(i);
-  let sorted = true;
-  for (let k = 1; k < idx.length; k++) if (recDay[rec[idx[k]]] < recDay[rec[idx[k - 1]]]) sorted = false;
-  if (!sorted) idx.sort((x, y) => recDay[rec[x]] - recDay[rec[y]] || x - y);
-  const days = new Int32Array(idx.length);
-  const closes = new Float64Array(idx.length);
-  const lines = new Int32Array(idx.length);
-  idx.forEach((i, k) => {
-    days[k] = recDay[rec[i]];
-    closes[k] = val[i];
-    lines[k] = lineOf[rec[i]];
-  });
-  return {
-    id: s.id,
-    column: s.column,
-    days,
-    closes,
-    lines,
-    values: val.length,
-    emptyCells: s.emptyCells,
-    unparseable: s.unparseable,
-    unparseableCount: s.unparseableCount,
-  };
+function located(error: UndecodableBytes, reader: PriceFileReader, file: string): InputError {
+  reader.push(error.text);
+  return new InputError(error.message, { file, ...reader.position });
+}
+
+/** Reads a price file from disk, in chunks, yielding to the event loop between them (the import). */
+export async function readPriceFile(path: string, options: ReadPriceFileOptions = {}): Promise<ParsedPriceFile> {
+  const file = options.file ?? path;
+  let handle;
+  let totalBytes: number;
+  try {
+    handle = await open(path, 'r');
+    const stat = await handle.stat();
+    if (stat.isDirectory()) throw Object.assign(new Error(), { code: 'EISDIR' });
+    totalBytes = stat.size;
+  } catch (error) {
+    await handle?.close();
+    throw missing(error, file);
+  }
+  const reader = new PriceFileReader(file, options, totalBytes);
+  const decoder = new ChunkDecoder();
+  const buffer = Buffer.allocUnsafe(CHUNK_BYTES);
+  let bytesRead = 0;
+  try {
+    for (;;) {
+      if (options.signal?.aborted) throw new CancelledError();
+      const { bytesRead: n } = await handle.read(buffer, 0, CHUNK_BYTES, null);
+      bytesRead += n;
+      try {
+        reader.push(decoder.decode(buffer.subarray(0, n), n === 0));
+      } catch (error) {
+        if (error instanceof UndecodableBytes) throw located(error, reader, file);
+        throw error;
+      }
+      options.onProgress?.({ bytesRead, totalBytes, rows: reader.dataRows });
+      if (n === 0) break;
+    }
+  } finally {
+    await handle.close();
+  }
+  return reader.end(decoder.encoding ?? 'utf-8', bytesRead);
+}
+
+/** The same reading without yielding (the commands): chunks read synchronously, memory as above. */
+export function readPriceFileSync(
+  path: string,
+  options: Omit<ReadPriceFileOptions, 'signal' | 'onProgress'> = {},
+): ParsedPriceFile {
+  const file = options.file ?? path;
+  let fd: number;
+  let size: number;
+  try {
+    const stat = statSync(path);
+    if (stat.isDirectory()) throw Object.assign(new Error(), { code: 'EISDIR' });
+    size = stat.size;
+    fd = openSync(path, 'r');
+  } catch (error) {
+    throw missing(error, file);
+  }
+  const reader = new PriceFileReader(file, options, size);
+  const decoder = new ChunkDecoder();
+  const buffer = Buffer.allocUnsafe(CHUNK_BYTES);
+  let bytesRead = 0;
+  try {
+    for (;;) {
+      const n = readSync(fd, buffer, 0, CHUNK_BYTES, null);
+      bytesRead += n;
+      try {
+        reader.push(decoder.decode(buffer.subarray(0, n), n === 0));
+      } catch (error) {
+        if (error instanceof UndecodableBytes) throw located(error, reader, file);
+        throw error;
+      }
+      if (n === 0) break;
+    }
+  } finally {
+    closeSync(fd);
+  }
+  return reader.end(decoder.encoding ?? 'utf-8', bytesRead);
+}
+
+/** A price file's text already in memory (tests, generated files). */
+export function parsePriceText(text: string, options: ReadPriceFileOptions = {}): ParsedPriceFile {
+  const reader = new PriceFileReader(options.file ?? 'prices', options, text.length);
+  reader.push(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
+  return reader.end('utf-8', text.length);
 }

@@ -131,7 +131,7 @@ function isFile(path: string): boolean {
 }
 
 function onlyAmbiguousDates(report: ValidationReport): boolean {
-  return report.dateOrder === 'ambiguous' && report.problems.length === 1 && report.assets.every((a) => a.ok);
+  return report.dateOrder === 'ambiguous' && report.problemCount === 1;
 }
 
 export interface ImportJobs extends Part {
@@ -199,13 +199,12 @@ export function importMethods(store: Store): ImportJobs {
       }
       if (!report.ok) {
         j.report = reportOut(report, undefined);
-        const count =
-          report.problems.length +
-          report.assets.reduce((s, a) => s + a.nonPositive.length + a.unparseableCount + a.repeatedDates.length, 0);
+        const count = report.problemCount;
+        const listed = report.listed.length < count ? `the first ${report.listed.length} listed below` : 'listed below';
         return finish(
           j,
           'invalid',
-          `The file cannot be imported as it is (${count} problem${count === 1 ? '' : 's'}, listed below). Nothing was written.`,
+          `The file cannot be imported as it is (${count} problem${count === 1 ? '' : 's'}, ${listed}). Nothing was written.`,
         );
       }
       j.parsed = parsed;

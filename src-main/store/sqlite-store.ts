@@ -8,6 +8,7 @@ import { canonicalJson, sha256Hex } from './canonical-json.js';
 import { dayFromIso, isoFromDay } from './days.js';
 import { diffDocuments } from './document-diff.js';
 import { CancelledError, NotFoundError } from './errors.js';
+import { ASSET_ID, ASSET_ID_RULE } from '../../shared-core/prices/asset-id.js';
 import { alignSeries } from './price-table-reader.js';
 import { seriesChecksum, type SeriesRowValues } from './series-checksum.js';
 import { verifyDatabase } from './verify-store.js';
@@ -87,7 +88,6 @@ interface MemoRow {
   prepared_by: string | null;
 }
 
-const ASSET_ID = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;
 const CURRENCY = /^[A-Z]{3}$/;
 const opt = <T>(v: T | null): T | undefined => (v === null ? undefined : v);
 
@@ -162,8 +162,7 @@ export class SqliteStore implements Store {
   }
 
   private upsertAsset(input: AssetInput): void {
-    if (!ASSET_ID.test(input.id))
-      throw new InputError(`asset id '${input.id}': expected letters, digits, dot, dash or underscore`);
+    if (!ASSET_ID.test(input.id)) throw new InputError(`asset id '${input.id}': ${ASSET_ID_RULE}`);
     if (input.currency !== undefined && !CURRENCY.test(input.currency))
       throw new InputError(`asset '${input.id}': currency '${input.currency}' is not an ISO 4217 code such as EUR`);
     const old = this.getAsset(input.id);

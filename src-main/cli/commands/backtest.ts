@@ -1,5 +1,4 @@
 import { InputError, formatInputError } from '../../../shared-core/errors.js';
-import { parseWidePriceCsv } from '../../../shared-core/prices/parse-wide-csv.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
@@ -8,7 +7,7 @@ import { BACKTEST_CAUTIONS, backtestJsonText } from '../../../shared-core/walkfo
 import { estimateAndSolve } from '../../../shared-core/walkforward/estimate-and-solve.js';
 import { runBacktest, type BacktestPhase, type BacktestRun } from '../../../shared-core/walkforward/run-backtest.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
-import { readInputFile, withExchangeRates } from '../files.js';
+import { readInputFile, readPriceFile, withExchangeRates } from '../files.js';
 
 /**
  * `holdfast backtest`: every candidate of a scenario walked forward over a price file, with
@@ -24,15 +23,9 @@ export async function runBacktestCommand(options: OptionValues, io: CliIO): Prom
   if (seed !== undefined && !Number.isInteger(seed))
     throw new UsageError(`option '--seed' needs a whole number, got '${seed}'`);
 
-  const pricesFile = readInputFile(io.cwd, options.prices as string);
+  const warn = (w: string) => io.stderr(`holdfast backtest: warning: ${w}\n`);
+  let prices = readPriceFile(io.cwd, options.prices as string, warn).table;
   const scenarioFile = readInputFile(io.cwd, options.scenario as string);
-  let prices;
-  try {
-    prices = parseWidePriceCsv(pricesFile.text);
-  } catch (error) {
-    if (error instanceof InputError) throw error.inFile(pricesFile.path);
-    throw error;
-  }
   const parsed = parseScenarioText(scenarioFile.text);
   if (!parsed.ok) {
     for (const e of parsed.errors) io.stderr(`holdfast backtest: ${formatInputError(e.inFile(scenarioFile.path))}\n`);
@@ -40,7 +33,8 @@ export async function runBacktestCommand(options: OptionValues, io: CliIO): Prom
   }
   const scenario: Scenario = parsed.scenario;
   let fx: PriceTable | undefined;
-  if (options.fx !== undefined) ({ prices, fx } = withExchangeRates(io.cwd, prices, scenario, options.fx as string));
+  if (options.fx !== undefined)
+    ({ prices, fx } = withExchangeRates(io.cwd, prices, scenario, options.fx as string, warn));
 
   const progress = progressPrinter(io, scenario.candidates.length);
   let run: BacktestRun;

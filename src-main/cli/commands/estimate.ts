@@ -4,12 +4,12 @@ import { annualised, estimateCovariance } from '../../../shared-core/estimators/
 import type { CovarianceEstimate } from '../../../shared-core/estimators/types.js';
 import type { Frequency } from '../../../shared-core/scenario/frequency.js';
 import { toRows } from '../../../shared-core/linalg/matrix.js';
-import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
 import { buildReturns, type ReturnMethod, type ReturnsResult } from '../../../shared-core/returns/build-returns.js';
 import { estimatorSpecSchema, type EstimatorSpec } from '../../../shared-core/scenario/estimator-spec.js';
 import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
-import { readInputFile } from '../files.js';
+import { readPriceFile } from '../files.js';
+import type { PriceTableFile } from '../../io/read-price-table.js';
 
 /**
  * `holdfast estimate`: the covariance of a price file's returns by one estimator, annualised,
@@ -35,17 +35,12 @@ export async function runEstimate(options: OptionValues, io: CliIO): Promise<num
   const desmoothed = options.desmooth === undefined ? undefined : String(options.desmooth).split(',');
   if (desmoothed?.some((id) => id === '')) throw new UsageError(`--desmooth needs asset ids separated by commas`);
 
-  const file = readInputFile(io.cwd, String(options.prices));
+  const file = readPriceFile(io.cwd, String(options.prices), (w) => io.stderr(`holdfast estimate: warning: ${w}\n`));
   const inFile = (error: unknown) => (error instanceof InputError ? error.inFile(file.path) : error);
-  let table;
-  try {
-    table = parseWidePriceCsv(file.text);
-  } catch (error) {
-    throw inFile(error);
-  }
+  const table = file.table;
   for (const id of desmoothed ?? [])
     if (!table.assets.includes(id)) throw new UsageError(`--desmooth: no asset '${id}' in ${file.path}`);
-  const locate = wideCsvLocator(table);
+  const locate = file.locate;
   let returns: ReturnsResult;
   let estimate: CovarianceEstimate;
   try {
@@ -122,7 +117,7 @@ function estimatorSpec(options: OptionValues): EstimatorSpec {
 function pointAtAsset(
   location: InputLocation,
   assets: readonly string[],
-  locate: ReturnType<typeof wideCsvLocator>,
+  locate: PriceTableFile['locate'],
 ): InputLocation {
   const m = /^returns\[\*\]\[(\d+)\]$/.exec(location.path ?? '');
   if (m) return locate(assets[Number(m[1])]);

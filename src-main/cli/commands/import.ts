@@ -1,8 +1,8 @@
 import { existsSync, statSync } from 'node:fs';
 import { resolve } from 'node:path';
-import { InputError, formatInputError } from '../../../shared-core/errors.js';
+import { InputError } from '../../../shared-core/errors.js';
 import { importPriceFile, type PriceImportOutcome } from '../../io/import-prices.js';
-import type { ValidationReport } from '../../io/validate-prices.js';
+import { problemLines, warningLines, type ValidationReport } from '../../io/validate-prices.js';
 import type { ImportPlan } from '../../io/plan-import.js';
 import { CancelledError, type Store } from '../../store/store.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
@@ -54,20 +54,11 @@ function printOutcome(outcome: PriceImportOutcome, storeName: string, io: CliIO)
   const out = outcome.status === 'invalid' ? io.stderr : io.stdout;
   out(describeFile(r));
   if (outcome.status === 'invalid') {
-    const lines = problemLines(r);
-    for (const line of lines.slice(0, SHOWN)) io.stderr(`  ${line}\n`);
-    if (lines.length > SHOWN) io.stderr(`  ... and ${lines.length - SHOWN} more (see --json for all)\n`);
+    for (const line of problemLines(r)) io.stderr(`  ${line}\n`);
     io.stderr('nothing was written\n');
     return;
   }
-  const warnings = r.assets.flatMap((a) =>
-    a.suspiciousMoves.map(
-      (m) =>
-        `${r.file}:${m.line}: ${a.asset}: one-day move of ${(100 * m.change).toFixed(1)}% on ${m.date} (flagged, kept)`,
-    ),
-  );
-  for (const w of warnings.slice(0, SHOWN)) io.stdout(`  warning: ${w}\n`);
-  if (warnings.length > SHOWN) io.stdout(`  ... and ${warnings.length - SHOWN} more warnings\n`);
+  for (const w of warningLines(r)) io.stdout(`  warning: ${w}\n`);
   io.stdout(describePlan(outcome.plan));
   if (outcome.status === 'needs-confirmation') {
     io.stderr(
@@ -90,21 +81,6 @@ function printOutcome(outcome: PriceImportOutcome, storeName: string, io: CliIO)
 function describeFile(r: ValidationReport): string {
   const order = r.dateOrder === 'iso' ? 'ISO dates' : `${r.dateOrder} dates`;
   return `${r.file}: ${r.form} form, ${r.delimiter}-separated, decimal ${r.decimal}, ${order}; ${r.dataRows} rows, ${r.assets.length} assets\n`;
-}
-
-function problemLines(r: ValidationReport): string[] {
-  const at = (line?: number, column?: number, path?: string) =>
-    formatInputError(new InputError('', { file: r.file, line, column, path })).replace(/: $/, '');
-  const lines = r.problems.map((p) => `${at(p.line, p.column)}: ${p.message}`);
-  for (const a of r.assets) {
-    for (const c of [...a.unparseable, ...a.nonPositive])
-      lines.push(`${at(c.line, c.column)}: ${a.asset}: ${c.message}`);
-    if (a.unparseableCount > a.unparseable.length)
-      lines.push(`${r.file}: ${a.asset}: ${a.unparseableCount - a.unparseable.length} more cells that are not numbers`);
-    for (const d of a.repeatedDates)
-      lines.push(`${at(d.lines[1])}: ${a.asset}: date ${d.date} repeated (lines ${d.lines.join(', ')})`);
-  }
-  return lines;
 }
 
 function describePlan(p: ImportPlan): string {

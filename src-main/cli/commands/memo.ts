@@ -1,7 +1,6 @@
 import { renameSync, rmSync, writeFileSync } from 'node:fs';
 import { basename, resolve } from 'node:path';
 import { InputError } from '../../../shared-core/errors.js';
-import { wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { runScenario } from '../../../shared-core/run/run-scenario.js';
 import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
@@ -22,6 +21,7 @@ import { canonicalJson, sha256Hex } from '../../store/canonical-json.js';
 import type { Store } from '../../store/store.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
 import { readInputFile, readPriceFile, withExchangeRates } from '../files.js';
+import type { PriceTableFile } from '../../io/read-price-table.js';
 import { existingStore } from './store-access.js';
 
 /**
@@ -55,7 +55,9 @@ export async function runMemo(options: OptionValues, io: CliIO): Promise<number>
   try {
     built = storeForm
       ? await fromStore(existingStore(io.cwd, options.store as string), options, date, lot, preparedBy, io.signal)
-      : await fromFiles(io.cwd, options, date, lot, preparedBy, io.signal);
+      : await fromFiles(io.cwd, options, date, lot, preparedBy, io.signal, (w) =>
+          io.stderr(`holdfast memo: warning: ${w}\n`),
+        );
   } catch (error) {
     if (!(error instanceof CancelledError)) throw error;
     io.stderr('holdfast memo: interrupted; nothing written\n');
@@ -100,10 +102,11 @@ function runOrLocate(
   scenario: Scenario,
   prices: PriceTable,
   files: { prices: string; scenario: string; fx?: string },
+  locate: PriceTableFile['locate'],
   fx?: PriceTable,
 ) {
   try {
-    return runScenario(scenario, prices, { locate: wideCsvLocator(prices), ...(fx ? { fx } : {}) });
+    return runScenario(scenario, prices, { locate, ...(fx ? { fx } : {}) });
   } catch (error) {
     if (error instanceof InputError && error.location.file === undefined)
       throw error.inFile(error.location.line !== undefined ? files.prices : files.scenario);
@@ -138,8 +141,9 @@ async function fromFiles(
   lot: number,
   preparedBy: string,
   signal: AbortSignal,
+  warn: (line: string) => void,
 ): Promise<Built> {
-  const pricesFile = readPriceFile(cwd, options.prices as string);
+  const pricesFile = readPriceFile(cwd, options.prices as string, warn);
   let prices = pricesFile.table;
   const scenarioFile = readInputFile(cwd, options.scenario as string);
   const parsed = parseScenarioText(scenarioFile.text);
@@ -179,13 +183,14 @@ async function fromFiles(
   let fx: PriceTable | undefined;
   let fxConverted = false;
   if (options.fx !== undefined) {
-    const rated = withExchangeRates(cwd, prices, scenario, options.fx as string);
+    const rated = withExchangeRates(cwd, prices, scenario, options.fx as string, warn);
     ({ prices, fx, converted: fxConverted } = rated);
   }
   const run = runOrLocate(
     scenario,
     prices,
     { prices: pricesFile.path, scenario: scenarioFile.path, fx: options.fx as string | undefined },
+    pricesFile.locate,
     fx,
   );
   const recommended = chooseRecommended(scenario, run.candidates);

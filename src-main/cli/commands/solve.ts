@@ -1,12 +1,12 @@
 import { InputError, formatInputError } from '../../../shared-core/errors.js';
 import type { CandidateResult } from '../../../shared-core/optimise/result.js';
-import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { runScenario, type ScenarioRun } from '../../../shared-core/run/run-scenario.js';
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
-import { readInputFile, withExchangeRates } from '../files.js';
+import { readInputFile, readPriceFile, withExchangeRates } from '../files.js';
+import type { PriceTableFile } from '../../io/read-price-table.js';
 
 /** What `solve` needs, however it was obtained (files now; the store form reads the same shape). */
 export interface SolveInputs {
@@ -19,6 +19,8 @@ export interface SolveInputs {
   fromStore?: boolean;
   /** Exchange rates into the base currency for assets priced in another currency. */
   fx?: PriceTable;
+  /** The price file's cell of an asset's price on a date (the file form). */
+  locate?: PriceTableFile['locate'];
 }
 
 /** The file form: `--prices FILE.csv --scenario FILE.json`. Throws InputError naming the file. */
@@ -31,17 +33,12 @@ export function readSolveFiles(io: CliIO, pricesPath: string, scenarioPath: stri
     for (const e of rest) io.stderr(`holdfast solve: ${formatInputError(e)}\n`);
     throw first;
   }
-  const pricesFile = readInputFile(io.cwd, pricesPath);
-  let prices: PriceTable;
-  try {
-    prices = parseWidePriceCsv(pricesFile.text);
-  } catch (error) {
-    if (error instanceof InputError) throw error.inFile(pricesFile.path);
-    throw error;
-  }
-  const names = { pricesName: pricesFile.path, scenarioName: scenarioFile.path };
+  const warn = (w: string) => io.stderr(`holdfast solve: warning: ${w}\n`);
+  const pricesFile = readPriceFile(io.cwd, pricesPath, warn);
+  const prices = pricesFile.table;
+  const names = { pricesName: pricesFile.path, scenarioName: scenarioFile.path, locate: pricesFile.locate };
   if (fxPath === undefined) return { scenario: parsed.scenario, prices, ...names };
-  const rated = withExchangeRates(io.cwd, prices, parsed.scenario, fxPath);
+  const rated = withExchangeRates(io.cwd, prices, parsed.scenario, fxPath, warn);
   return { scenario: parsed.scenario, prices: rated.prices, fx: rated.fx, ...names };
 }
 
@@ -49,7 +46,7 @@ export function readSolveFiles(io: CliIO, pricesPath: string, scenarioPath: stri
 export function solveInputs(inputs: SolveInputs, signal?: AbortSignal): ScenarioRun {
   try {
     return runScenario(inputs.scenario, inputs.prices, {
-      locate: inputs.fromStore ? undefined : wideCsvLocator(inputs.prices),
+      locate: inputs.fromStore ? undefined : inputs.locate,
       ...(inputs.fx ? { fx: inputs.fx } : {}),
       shouldCancel: signal ? () => signal.aborted : undefined,
     });

@@ -1,38 +1,70 @@
 import { describe, expect, it } from 'vitest';
-import { readNumber, scanPlainDecimal } from '../../../src-main/io/cells.js';
+import { readDecimal } from '../../../shared-core/prices/plain-decimal.js';
+import { NO_DATE, dateKey, dayOfKey, readPrice, shownCell } from '../../../src-main/io/cells.js';
+import { dayFromIso } from '../../../src-main/store/days.js';
 
-// Park-Miller generator (Park and Miller 1988), seeded so a failure can be replayed.
-function lcg(seed: number) {
-  let s = seed;
-  return () => (s = (s * 16807) % 2147483647) / 2147483647;
-}
-
-describe('reading numbers', () => {
-  it('the in-place decimal scan gives the same double as ECMAScript Number() (ECMA-262 StringToNumber)', () => {
-    const rnd = lcg(12345);
-    for (let k = 0; k < 100_000; k++) {
-      const magnitude = 10 ** Math.floor(rnd() * 12 - 4);
-      const text = (rnd() * magnitude * (rnd() < 0.1 ? -1 : 1)).toFixed(Math.floor(rnd() * 11));
-      const v = scanPlainDecimal(text, 0, text.length, 'point');
-      // Beyond 15 significant digits the scan declines (NaN) and the caller uses Number().
-      if (!Number.isNaN(v)) expect(Object.is(v, Number(text))).toBe(true);
-      const comma = text.replace('.', ',');
-      const c = scanPlainDecimal(comma, 0, comma.length, 'comma');
-      if (!Number.isNaN(c)) expect(Object.is(c, Number(text))).toBe(true);
-    }
+describe('one grammar for numbers (shared-core/prices/plain-decimal.ts)', () => {
+  it('refuses what Number() accepts but a price file never means', () => {
+    for (const text of [
+      '',
+      '   ',
+      '0x10',
+      '0b1',
+      '0o7',
+      'Infinity',
+      '-Infinity',
+      '1,5',
+      '1 000',
+      '1.2.3',
+      '.',
+      '-',
+      'e5',
+    ])
+      expect(readDecimal(text, 'point'), text).toBeNaN();
+    expect(readDecimal('1.234,5', 'comma')).toBeNaN();
+    expect(readDecimal('1234.5', 'comma')).toBeNaN();
   });
 
-  it('declines everything but a plain decimal, so the general path decides', () => {
-    for (const text of ['', ' 1', '1e5', '0x10', '.', '-', '1.2.3', '1,5', 'Infinity', '1234567890123456'])
-      expect(scanPlainDecimal(text, 0, text.length, 'point')).toBeNaN();
-    expect(scanPlainDecimal('x12.5y', 1, 5, 'point')).toBe(12.5);
+  it('reads signs, either mark, an exponent and blanks around the number, as Number() converts them', () => {
+    expect(readDecimal(' 1e3 ', 'point')).toBe(1000);
+    expect(readDecimal('1234,5', 'comma')).toBe(1234.5);
+    expect(readDecimal('5.', 'point')).toBe(5);
+    expect(readDecimal('+.5', 'point')).toBe(0.5);
+    expect(readDecimal('2,5E-2', 'comma')).toBe(0.025);
+    expect(readDecimal('-3', 'point')).toBe(-3);
+  });
+});
+
+describe('a price cell (src-main/io/cells.ts)', () => {
+  it('is a number above zero within 1e-150 and 1e150, so that every ratio of two prices is finite (IEEE 754 doubles end near 1.8e308)', () => {
+    expect(readPrice('101.25', 'point')).toBe(101.25);
+    expect(readPrice('1e150', 'point')).toBe(1e150);
+    for (const text of ['1e308', '1e-320', '2e150', '1e-151'])
+      expect(readPrice(text, 'point'), text).toMatchObject({ kind: 'unparseable', why: /between 1e-150 and 1e150/ });
+    expect(readPrice('0', 'point')).toEqual({ kind: 'non-positive', why: 'a price must be above zero' });
+    expect(readPrice('abc', 'comma')).toEqual({
+      kind: 'unparseable',
+      why: "'abc' is not a number with a decimal comma (like 101,25)",
+    });
   });
 
-  it('the general path refuses what Number() accepts but a price file never means', () => {
-    for (const text of ['', '   ', '0x10', '0b1', '0o7', 'Infinity', '-Infinity', '1,5'])
-      expect(readNumber(text, 'point')).toBeNaN();
-    expect(readNumber(' 1e3 ', 'point')).toBe(1000);
-    expect(readNumber('1.234,5', 'comma')).toBeNaN();
-    expect(readNumber('1234,5', 'comma')).toBe(1234.5);
+  it('echoes at most 80 characters of a cell', () => {
+    const huge = 'x'.repeat(5_000_000);
+    const read = readPrice(huge, 'point') as { why: string };
+    expect(read.why.length).toBeLessThan(130);
+    expect(shownCell(huge)).toHaveLength(80);
+    expect(shownCell('short')).toBe('short');
+  });
+});
+
+describe('a date cell', () => {
+  it('reads ISO dates in place and day/month dates in either order once the order is known', () => {
+    expect(dayOfKey(dateKey('2024-02-29'), 'iso')).toBe(dayFromIso('2024-02-29'));
+    expect(dayOfKey(dateKey('x2024-02-29y', 1, 11), 'iso')).toBe(dayFromIso('2024-02-29'));
+    expect(dayOfKey(dateKey(' 2024-02-29 '), 'iso')).toBe(dayFromIso('2024-02-29'));
+    expect(dayOfKey(dateKey('2023-02-29'), 'iso')).toBeUndefined();
+    expect(dayOfKey(dateKey('03/04/2025'), 'day-first')).toBe(dayFromIso('2025-04-03'));
+    expect(dayOfKey(dateKey('03.04.2025'), 'month-first')).toBe(dayFromIso('2025-03-04'));
+    for (const text of ['2024-1-02', '2024/01/02', 'soon', '', '03/04-2025']) expect(dateKey(text), text).toBe(NO_DATE);
   });
 });

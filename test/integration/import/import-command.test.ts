@@ -63,7 +63,9 @@ describe('holdfast import', () => {
     expect(r.code).toBe(2);
     const out = JSON.parse(r.stdout);
     expect(out.status).toBe('invalid');
-    expect(out.report.assets[0].repeatedDates).toEqual([{ date: '2025-01-07', lines: [2, 3] }]);
+    expect(out.report.problems).toEqual([
+      { line: 3, column: 1, message: 'date 2025-01-07 repeats the date of line 2' },
+    ]);
     expect(sha256Hex(readFileSync(join(dir, 's.hfstore')))).toBe(before);
   });
 

@@ -1,7 +1,7 @@
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { readPriceFile } from '../../../src-main/io/read-price-file.js';
+import { readPriceFile, type ParsedPriceFile } from '../../../src-main/io/read-price-file.js';
 import { validatePrices } from '../../../src-main/io/validate-prices.js';
 import { isoFromDay } from '../../../src-main/store/days.js';
 import { useTempDir } from '../store/temp-dir.js';
@@ -14,7 +14,10 @@ function file(text: string): string {
   return path;
 }
 
-const dates = (a: { days: Int32Array }) => Array.from(a.days, isoFromDay);
+/** The dates on which asset k has a price, and those prices. */
+const dates = (p: ParsedPriceFile, k: number) =>
+  Array.from(p.days, isoFromDay).filter((_, i) => !Number.isNaN(p.assets[k].closes[i]));
+const closes = (p: ParsedPriceFile, k: number) => Array.from(p.assets[k].closes).filter((v) => !Number.isNaN(v));
 
 describe('price file detection', () => {
   it('reads a wide comma file with ISO dates', async () => {
@@ -22,7 +25,7 @@ describe('price file detection', () => {
     expect([p.form, p.delimiter, p.decimal, p.dateOrder]).toEqual(['wide', ',', 'point', 'iso']);
     expect(p.assets.map((a) => a.id)).toEqual(['EQ1', 'BD1']);
     expect(Array.from(p.assets[0].closes)).toEqual([100.5, 101]);
-    expect(p.assets[1].emptyCells).toBe(1);
+    expect(validatePrices(p).assets[1].emptyCells).toBe(1);
   });
 
   it('reads a long semicolon file with decimal commas and day-first dates (a day above 12 shows the order)', async () => {
@@ -30,14 +33,14 @@ describe('price file detection', () => {
       file('date;asset;close\r\n02/01/2025;EQ1;100,5\r\n13/01/2025;EQ1;101,25\r\n02/01/2025;BD1;50\r\n'),
     );
     expect([p.form, p.delimiter, p.decimal, p.dateOrder]).toEqual(['long', ';', 'comma', 'day-first']);
-    expect(dates(p.assets[0])).toEqual(['2025-01-02', '2025-01-13']);
-    expect(Array.from(p.assets[0].closes)).toEqual([100.5, 101.25]);
+    expect(dates(p, 0)).toEqual(['2025-01-02', '2025-01-13']);
+    expect(closes(p, 0)).toEqual([100.5, 101.25]);
   });
 
   it('reads month-first dates when a second part above 12 shows it, tab separated, with long columns in any order', async () => {
     const p = await readPriceFile(file('asset\tclose\tdate\nEQ1\t7\t01/02/2025\nEQ1\t8\t01/31/2025\n'));
     expect([p.form, p.delimiter, p.dateOrder]).toEqual(['long', '\t', 'month-first']);
-    expect(dates(p.assets[0])).toEqual(['2025-01-02', '2025-01-31']);
+    expect(dates(p, 0)).toEqual(['2025-01-02', '2025-01-31']);
   });
 
   it('flags a file whose dates read both ways as ambiguous, and reads it once the user chooses', async () => {
@@ -48,7 +51,7 @@ describe('price file detection', () => {
     expect(report.ok).toBe(false);
     expect(report.problems[0].message).toMatch(/both day-first and month-first.*--date-order/);
     const chosen = await readPriceFile(file(text), { dateOrder: 'month-first' });
-    expect(dates(chosen.assets[0])).toEqual(['2025-03-04', '2025-04-04']);
+    expect(dates(chosen, 0)).toEqual(['2025-03-04', '2025-04-04']);
     expect(validatePrices(chosen).ok).toBe(true);
   });
 
@@ -66,8 +69,12 @@ describe('price file detection', () => {
       file(['date,A,B,C', ...rows.map((r) => r.replace(/^([^,]*),/, '"$1",'))].join('\n')),
     );
     expect(plain.assets).toEqual(quoted.assets);
-    expect(Array.from(plain.assets[1].closes)).toEqual([3.5, Number('12345678901234567')]);
-    expect(plain.assets[2].unparseable.map((c) => [c.line, c.column, c.text])).toEqual([[3, 4, 'x']]);
+    expect(closes(plain, 1)).toEqual([3.5, Number('12345678901234567')]);
+    const report = validatePrices(plain);
+    expect(report.assets[2].unparseable.map((c) => [c.line, c.column, c.message])).toEqual([
+      [3, 4, "'x' is not a number (like 101.25)"],
+    ]);
+    expect(report.assets[0].nonPositive.map((c) => [c.line, c.column])).toEqual([[4, 2]]);
   });
 
   it('refuses a header that is neither form, naming line 1 and the column', async () => {
@@ -88,29 +95,28 @@ describe('validation report per asset', () => {
       '2025-01-02,100,10', // Thursday
       '2025-01-03,n/a,10', // line 3: not a number
       '2025-01-08,102,0', // line 4: Monday 6th and Tuesday 7th missing; non-positive
-      '2025-01-08,103,11', // line 5: repeated date
-      '2025-01-09,140,11', // +35.9% after 103: suspicious
+      '2025-01-08,103,11', // line 5: repeated date (the row is not kept)
+      '2025-01-09,140,11', // +37.3% after 102: suspicious
     ].join('\n');
     const r = validatePrices(await readPriceFile(file(text), { file: 'p.csv' }));
     const [eq, bd] = r.assets;
-    expect(eq).toMatchObject({ asset: 'EQ1', rowsRead: 4, firstDate: '2025-01-02', lastDate: '2025-01-09', ok: false });
-    expect(eq.unparseable).toEqual([
-      { line: 3, column: 2, text: 'n/a', message: "'n/a' is not a number (like 101.25)" },
-    ]);
-    expect(eq.repeatedDates).toEqual([{ date: '2025-01-08', lines: [4, 5] }]);
+    expect(eq).toMatchObject({ asset: 'EQ1', rowsRead: 3, firstDate: '2025-01-02', lastDate: '2025-01-09', ok: false });
+    expect(eq.unparseable).toEqual([{ line: 3, column: 2, message: "'n/a' is not a number (like 101.25)" }]);
+    expect(r.problems).toEqual([{ line: 5, column: 1, message: 'date 2025-01-08 repeats the date of line 4' }]);
     // Weekdays 2..9 Jan: 2,3,6,7,8,9 = 6; EQ1 has 2, 8, 9 (3 is unreadable): 3 missing.
     expect(eq.missingDays).toBe(3);
-    expect(eq.suspiciousMoves.map((m) => [m.date, m.line])).toEqual([['2025-01-09', 6]]);
-    expect(bd.nonPositive).toEqual([{ line: 4, column: 3, text: '0', message: 'a price must be above zero' }]);
+    expect(eq.suspiciousMoves.map((m) => [m.date, m.line, m.column])).toEqual([['2025-01-09', 6, 2]]);
+    expect(bd.nonPositive).toEqual([{ line: 4, column: 3, message: 'a price must be above zero' }]);
     expect(r.ok).toBe(false);
+    expect(r.problemCount).toBe(3);
   });
 
   it('reports a row with the wrong number of cells and an unreadable date with their line', async () => {
     const r = validatePrices(await readPriceFile(file('date,EQ1\n2025-01-02,1,2\n2025-02-30,1\nsoon,1\n')));
     expect(r.problems).toEqual([
-      { line: 2, message: 'expected 2 cells as in the header, found 3' },
-      { line: 4, column: 1, message: "'soon' is not a date (expected YYYY-MM-DD, DD/MM/YYYY or MM/DD/YYYY)" },
+      { line: 2, column: 3, message: 'expected 2 cells as in the header, found 3' },
       { line: 3, column: 1, message: 'no such calendar date' },
+      { line: 4, column: 1, message: "'soon' is not a date (expected YYYY-MM-DD, DD/MM/YYYY or MM/DD/YYYY)" },
     ]);
   });
 
@@ -122,6 +128,7 @@ describe('validation report per asset', () => {
     const p = await readPriceFile(path, { onProgress: (x) => seen.push(x.bytesRead / x.totalBytes) });
     expect(p.dataRows).toBe(60000);
     expect(p.assets[1].closes[59999]).toBe(50 + (59999 % 3) + 0.5);
+    expect(p.days.length).toBe(60000);
     expect(seen.length).toBeGreaterThan(1);
     expect(seen.at(-1)).toBe(1);
   });

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_SCENARIO_NAME } from '../../../shared-core/demo/index.js';
-import { parseWidePriceCsv } from '../../../shared-core/prices/parse-wide-csv.js';
+import { priceTableFromText } from '../../../src-main/io/read-price-table.js';
 import { runScenario } from '../../../shared-core/run/run-scenario.js';
 import { parseScenarioText } from '../../../shared-core/scenario/schema.js';
 import { estimateAndSolve } from '../../../shared-core/walkforward/estimate-and-solve.js';
@@ -89,8 +89,8 @@ describe('holdfast memo on the invented demo household (holdfast demo files)', (
     const parsed = parseScenarioText(readFileSync(join(dir, 'demo/demo-scenario.json'), 'utf8'));
     if (!parsed.ok) throw new Error('demo scenario does not parse');
     // The same run `holdfast solve` makes: prices converted to euro with the demo's FX series.
-    const table = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-prices.csv'), 'utf8'));
-    const fx = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-fx.csv'), 'utf8'));
+    const table = priceTableFromText(readFileSync(join(dir, 'demo/demo-prices.csv'), 'utf8')).table;
+    const fx = priceTableFromText(readFileSync(join(dir, 'demo/demo-fx.csv'), 'utf8')).table;
     const currencies = table.assets.map((a) => parsed.scenario.assetInfo?.[a]?.currency);
     const run = runScenario(parsed.scenario, { ...table, currencies }, { fx });
     const pages = pageTexts(pdf);
@@ -209,9 +209,9 @@ describe('holdfast memo on the invented demo household (holdfast demo files)', (
     const parsed = parseScenarioText(JSON.stringify(doc));
     if (!parsed.ok) throw new Error('scenario does not parse');
     // As the memo reads them: each asset in its own currency, converted with the --fx rates.
-    const local = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-prices.csv'), 'utf8'));
+    const local = priceTableFromText(readFileSync(join(dir, 'demo/demo-prices.csv'), 'utf8')).table;
     const table = { ...local, currencies: local.assets.map((a) => parsed.scenario.assetInfo?.[a]?.currency) };
-    const fx = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-fx.csv'), 'utf8'));
+    const fx = priceTableFromText(readFileSync(join(dir, 'demo/demo-fx.csv'), 'utf8')).table;
     const run = await runBacktest(parsed.scenario, table, { estimateAndSolve, fx });
     const lines = text.slice(text.indexOf(SECTION_TITLES.walkForward)).split('\n');
     for (const c of run.candidates) {

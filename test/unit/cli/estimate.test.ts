@@ -166,19 +166,19 @@ describe('holdfast estimate (the public interface of the estimators issue)', () 
       'a non-positive price',
       'date,A,B\n2024-01-01,1,2\n2024-01-02,0,2\n',
       [],
-      /^holdfast estimate: f\.csv:3:2: price 0 for A is not positive\n$/,
+      /^holdfast estimate: f\.csv:3:2: A: a price must be above zero\n$/,
     ],
     [
       'a date that does not parse',
       'date,A\n2024-01-01,1\n2024-1-02,2\n',
       [],
-      /^holdfast estimate: f\.csv:3:1: "2024-1-02" is not a date/,
+      /^holdfast estimate: f\.csv:3:1: '2024-1-02' is not a date \(expected YYYY-MM-DD/,
     ],
     [
-      'dates out of order',
-      'date,A\n2024-01-02,1\n2024-01-01,2\n',
+      'a date in no calendar',
+      'date,A\n2024-01-02,1\n2023-02-29,2\n',
       [],
-      /^holdfast estimate: f\.csv:3:1: date 2024-01-01 is out of order/,
+      /^holdfast estimate: f\.csv:3:1: no such calendar date\n$/,
     ],
     [
       'a repeated date',
@@ -190,7 +190,7 @@ describe('holdfast estimate (the public interface of the estimators issue)', () 
       'a non-numeric cell',
       'date,A,B\n2024-01-01,1,x\n',
       [],
-      /^holdfast estimate: f\.csv:2:3: price "x" for B is not a number/,
+      /^holdfast estimate: f\.csv:2:3: B: 'x' is not a number \(like 101\.25\)\n$/,
     ],
     [
       'a constant series',

@@ -9,7 +9,7 @@ import {
   type DemoData,
 } from '../../../shared-core/demo/index.js';
 import { regimeSwitching } from '../../../shared-core/demo/factors.js';
-import { parseWidePriceCsv } from '../../../shared-core/prices/parse-wide-csv.js';
+import { priceTableFromText } from '../../../src-main/io/read-price-table.js';
 import { buildReturns } from '../../../shared-core/returns/build-returns.js';
 import { runScenario } from '../../../shared-core/run/run-scenario.js';
 import { parseScenario } from '../../../shared-core/scenario/schema.js';
@@ -221,11 +221,11 @@ describe('demo data: the price history', () => {
 
   it('the price file reads back through the wide CSV parser exactly', () => {
     const files = demoFiles(demo);
-    const table = parseWidePriceCsv(files.find((f) => f.name === 'demo-prices.csv')!.text);
+    const table = priceTableFromText(files.find((f) => f.name === 'demo-prices.csv')!.text).table;
     expect(table.assets).toEqual(demo.prices.assets);
     expect(table.dates).toEqual(demo.prices.dates);
     table.closes.forEach((c, i) => expect(Array.from(c)).toEqual(Array.from(demo.prices.closes[i])));
-    const fx = parseWidePriceCsv(files.find((f) => f.name === 'demo-fx.csv')!.text);
+    const fx = priceTableFromText(files.find((f) => f.name === 'demo-fx.csv')!.text).table;
     expect(Array.from(fx.closes[0])).toEqual(Array.from(demo.fx.closes[0]));
   });
 });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { InputError, formatInputError } from '../../../shared-core/errors.js';
-import { parseWidePriceCsv } from '../../../shared-core/prices/parse-wide-csv.js';
-import { COMMA, POINT, readPlainDecimals, scanPlainDecimal } from '../../../shared-core/prices/plain-decimal.js';
+import { COMMA, POINT, readDecimal, readPlainDecimals } from '../../../shared-core/prices/plain-decimal.js';
+import { priceTableFromText } from '../../../src-main/io/read-price-table.js';
 
 // Park-Miller generator (Park and Miller 1988), seeded so a failure can be replayed.
 function lcg(seed: number) {
@@ -43,23 +43,23 @@ const quoted = (text: string) =>
 
 function failure(text: string): string {
   try {
-    parseWidePriceCsv(text);
+    priceTableFromText(text, { file: 'p.csv' });
   } catch (error) {
-    if (error instanceof InputError) return formatInputError(error.inFile('p.csv'));
+    if (error instanceof InputError) return formatInputError(error);
     throw error;
   }
   throw new Error('expected an InputError');
 }
 
-describe('parseWidePriceCsv: the in-place reading of common lines and the cell-by-cell reading agree', () => {
+describe('the price reader: the in-place reading of common lines and the cell-by-cell reading agree', () => {
   it('on a file with empty cells, signs, exponents and long digit strings, LF and CRLF (every value as Number() reads it, ECMA-262 section 7.1.4.1.1)', () => {
     for (const [seed, newline] of [
       [3, '\n'],
       [4, '\r\n'],
     ] as const) {
       const text = wideFile(60, 37, seed, newline);
-      const fast = parseWidePriceCsv(text);
-      const general = parseWidePriceCsv(quoted(text));
+      const fast = priceTableFromText(text).table;
+      const general = priceTableFromText(quoted(text)).table;
       expect(general.dates).toEqual(fast.dates);
       expect(general.assets).toEqual(fast.assets);
       const lines = text.split(newline).slice(1);
@@ -73,23 +73,40 @@ describe('parseWidePriceCsv: the in-place reading of common lines and the cell-b
     }
   });
 
-  it('a line the in-place reading declines is read again and its first bad cell named', () => {
+  it('a line the in-place reading declines is read again and each bad cell named', () => {
     const text = wideFile(30, 25, 5, '\n').split('\n');
     const cells = text[20].split(',');
     cells[17] = '-4.5';
     cells[21] = 'x';
     text[20] = cells.join(',');
-    expect(failure(text.join('\n'))).toBe('p.csv:21:18: price -4.5 for A16 is not positive');
+    expect(failure(text.join('\n'))).toBe(
+      "p.csv:21:18: A16: a price must be above zero\n  p.csv:21:22: A20: 'x' is not a number (like 101.25)",
+    );
     const short = wideFile(5, 25, 6, '\n').split('\n');
     short[3] = short[3].split(',').slice(0, 20).join(',');
-    expect(failure(short.join('\n'))).toMatch(/^p\.csv:4:21: expected 26 cells/);
+    expect(failure(short.join('\n'))).toBe('p.csv:4:21: expected 26 cells as in the header, found 20');
     const long = wideFile(5, 25, 7, '\n').split('\n');
     long[2] += ',1.5';
-    expect(failure(long.join('\n'))).toMatch(/^p\.csv:3:27: expected 26 cells/);
+    expect(failure(long.join('\n'))).toBe('p.csv:3:27: expected 26 cells as in the header, found 27');
   });
 });
 
 describe('readPlainDecimals: a line of plain decimals read in place', () => {
+  it('gives the same double as ECMAScript Number() (ECMA-262 StringToNumber, correctly rounded) up to 15 digits', () => {
+    const rnd = lcg(12345);
+    const one = [new Float64Array(1)];
+    for (let k = 0; k < 100_000; k++) {
+      const magnitude = 10 ** Math.floor(rnd() * 12 - 4);
+      const text = (rnd() * magnitude * (rnd() < 0.1 ? -1 : 1)).toFixed(Math.floor(rnd() * 11));
+      const least = readPlainDecimals(`${text}\n`, 0, text.length, COMMA, POINT, one, 0);
+      // Beyond 15 significant digits it declines (NaN) and the general path uses Number().
+      if (!Number.isNaN(least)) expect(Object.is(one[0][0], Number(text)), text).toBe(true);
+      const comma = text.replace('.', ',');
+      const c = readPlainDecimals(`${comma}\n`, 0, comma.length, 59, COMMA, one, 0);
+      if (!Number.isNaN(c)) expect(Object.is(one[0][0], Number(text)), comma).toBe(true);
+    }
+  });
+
   const columns = (n: number) => Array.from({ length: n }, () => new Float64Array(2));
 
   it('writes each cell to its column (NaN when empty) and returns the least value', () => {
@@ -114,7 +131,7 @@ describe('readPlainDecimals: a line of plain decimals read in place', () => {
       expect(readPlainDecimals(line, 0, line.length, COMMA, POINT, columns(4), 0), line).toBeNaN();
   });
 
-  it('reads each cell as scanPlainDecimal does, with either decimal mark', () => {
+  it('one grammar: every cell it reads, readDecimal reads to the same double; what readDecimal refuses, it refuses', () => {
     const rnd = lcg(41);
     const pieces = ['', '+', '-', '0', '7', '12', '003', '.', ',', '5', '99', 'e', ' ', '123456789', '"'];
     const one = [new Float64Array(1)];
@@ -127,8 +144,11 @@ describe('readPlainDecimals: a line of plain decimals read in place', () => {
       ] as const) {
         if (cell.includes(String.fromCharCode(separator))) continue;
         const least = readPlainDecimals(`${cell}\n`, 0, cell.length, separator, code, one, 0);
-        const scanned = scanPlainDecimal(cell, 0, cell.length, mark);
-        expect(Object.is(Number.isNaN(least) ? NaN : one[0][0], scanned), `${mark} "${cell}"`).toBe(true);
+        const general = readDecimal(cell, mark);
+        if (cell === '')
+          expect(one[0][0]).toBeNaN(); // an empty cell: no price
+        else if (!Number.isNaN(least)) expect(Object.is(one[0][0], general), `${mark} "${cell}"`).toBe(true);
+        if (Number.isNaN(general) && cell !== '') expect(least, `${mark} "${cell}"`).toBeNaN();
       }
     }
   });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { InputError, formatInputError } from '../../../shared-core/errors.js';
 import { toRows } from '../../../shared-core/linalg/matrix.js';
-import { parseWidePriceCsv, wideCsvLocator } from '../../../shared-core/prices/parse-wide-csv.js';
+import { priceTableFromText } from '../../../src-main/io/read-price-table.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { buildReturns, type BuildReturnsOptions } from '../../../shared-core/returns/build-returns.js';
 import { pricingFrequency } from '../../../shared-core/returns/calendar.js';
@@ -137,12 +137,12 @@ describe('buildReturns: aligned returns (returns engine of the estimators issue)
   it('a missing FX rate on a needed date is an error naming the asset, the currency and the date', () => {
     const dates = weekdays('2024-01-01', 12);
     const csv = ['date,HOME,ABROAD', ...dates.map((d, i) => `${d},${100 + i},${50 + (i % 3)}`)].join('\n');
-    const parsed = parseWidePriceCsv(csv);
-    const t = { ...parsed, currencies: ['EUR', 'USD'] };
+    const read = priceTableFromText(csv);
+    const t = { ...read.table, currencies: ['EUR', 'USD'] };
     const rates = Float64Array.from(dates, () => 0.9);
     for (const i of [5, 6, 7, 8, 9]) rates[i] = NaN; // 2024-01-08 .. 2024-01-12
     const fx: PriceTable = { dates, assets: ['USD'], closes: [rates] };
-    const e = error(() => buildReturns(t, { ...daily, baseCurrency: 'EUR', fx, locate: wideCsvLocator(t) }));
+    const e = error(() => buildReturns(t, { ...daily, baseCurrency: 'EUR', fx, locate: read.locate }));
     expect(formatInputError(e.inFile('p.csv'))).toBe(
       'p.csv:10:3: no USD rate in EUR for ABROAD on 2024-01-11 (none within 5 days before)',
     );
@@ -151,8 +151,8 @@ describe('buildReturns: aligned returns (returns engine of the estimators issue)
   });
 
   it('fewer than three common returns, a constant series, an unknown asset: clear errors with a location', () => {
-    const t = parseWidePriceCsv('date,A,B\n2024-01-01,1,5\n2024-01-02,2,5\n2024-01-03,3,5\n2024-01-04,4,5\n');
-    const locate = wideCsvLocator(t);
+    const read = priceTableFromText('date,A,B\n2024-01-01,1,5\n2024-01-02,2,5\n2024-01-03,3,5\n2024-01-04,4,5\n');
+    const { table: t, locate } = read;
     const flat = error(() => buildReturns(t, { ...daily, locate }));
     expect(formatInputError(flat)).toBe(
       'line 2:3: prices of B are constant from 2024-01-01 to 2024-01-04: no risk can be estimated',
