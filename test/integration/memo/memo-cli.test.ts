@@ -154,8 +154,8 @@ describe('holdfast memo on the invented demo household (holdfast demo files)', (
     const pdf = readFileSync(join(dir, 'memo.pdf'));
     const parsed = parseScenarioText(readFileSync(join(dir, 'demo/demo-scenario.json'), 'utf8'));
     if (!parsed.ok) throw new Error('demo scenario does not parse');
-    const table = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-prices.csv'), 'utf8'));
-    const fx = parseWidePriceCsv(readFileSync(join(dir, 'demo/demo-fx.csv'), 'utf8'));
+    const table = priceTableFromText(readFileSync(join(dir, 'demo/demo-prices.csv'), 'utf8')).table;
+    const fx = priceTableFromText(readFileSync(join(dir, 'demo/demo-fx.csv'), 'utf8')).table;
     const currencies = table.assets.map((a) => parsed.scenario.assetInfo?.[a]?.currency);
     const run = runScenario(parsed.scenario, { ...table, currencies }, { fx });
     const rc = run.candidates.find((c) => c.id === parsed.scenario.recommended)!;
