@@ -3,7 +3,7 @@ import { memoFixture } from '../test/integration/memo/memo-fixture.js';
 import { timeMedian, type BenchSuite } from './harness.js';
 
 /**
- * The allocation memo (issue 8): an 8-page memo with 5 charts (weights, risk contributions,
+ * The allocation memo (issue 8): a 7-page memo with 5 charts (weights, risk contributions,
  * correlation heat map, stability bands, candidates) in at most 1.5 s. The input is the invented
  * layout fixture with stability bands and a stress table, without the walk-forward chart.
  */

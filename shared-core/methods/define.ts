@@ -51,12 +51,26 @@ export interface ShadowPriceWords {
   unit: string;
 }
 
+/**
+ * How the optimality condition behind each asset's weight is told (the memo's reasons table):
+ * the rule in one sentence, and the headings of the figure it compares (explain.ts `measure`)
+ * and of its `threshold`. Rule-based weights have none.
+ */
+export interface OptimalityWords {
+  rule: string;
+  measure: string;
+  threshold: string;
+  /** The figures are shares printed as percentages with this many decimals; absent: ratios, two decimals. */
+  percentDigits?: number;
+}
+
 export interface ObjectiveDefinition<
   M extends string = string,
   S extends MethodSchema<M> = MethodSchema<M>,
 > extends MethodDefinition<M, S> {
   /** What a binding limit costs is told in this quantity (optimise/solve-candidate.ts prices it). */
   shadowPrice: ShadowPriceWords;
+  optimality?: OptimalityWords;
 }
 
 /** Declares an estimator; the identity, so that its options' type flows into its word functions. */

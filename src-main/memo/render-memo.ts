@@ -237,9 +237,10 @@ function recommendation(w: PageWriter, v: MemoView, title: string): void {
       ['Turnover', `${formatPct(m.turnover)} of the portfolio (sum of the absolute weight changes)`],
     ]);
   } else if (v.current) {
-    w.paragraph(
-      `No holding amounts were given, so the trades are weight changes only, for a turnover of ${formatPct(m.turnover)} of the portfolio.`,
-    );
+    w.facts([
+      ['Turnover', `${formatPct(m.turnover)} of the portfolio (sum of the absolute weight changes)`],
+      ['Trade amounts', 'none: the household\u2019s holding amounts were not given'],
+    ]);
   } else {
     w.paragraph('The scenario gives no current holdings: the memo shows the target weights only.');
   }

@@ -21,6 +21,12 @@ export const equalRiskContribution = defineObjective({
     name: 'the largest gap between a risk contribution and its budget',
     unit: 'largest gap between a risk contribution and its budget (share of risk)',
   },
+  optimality: {
+    rule: 'Each asset\u2019s share of the portfolio\u2019s risk is set to its budget unless a limit holds it elsewhere.',
+    measure: 'Share of risk',
+    threshold: 'Budget',
+    percentDigits: 1,
+  },
   source:
     'Maillard, Roncalli and Teiletche (2010), J. Portfolio Management 36(4); solved as in Spinu (2013), SSRN "An algorithm for computing risk parity weights"',
 });

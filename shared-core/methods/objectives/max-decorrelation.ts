@@ -12,5 +12,10 @@ export const maxDecorrelation = defineObjective({
     name: 'the volatility from correlations alone',
     unit: 'volatility from correlations alone (every asset at the same volatility, as a share of it)',
   },
+  optimality: {
+    rule: 'At the most decorrelated portfolio an asset held between its limits has a beta to the portfolio, measured on the correlation matrix, equal to its threshold (1 when no limit binds); an asset left out has at least its threshold.',
+    measure: 'Beta on correlations',
+    threshold: 'Threshold',
+  },
   source: 'Christoffersen, Errunza, Jacobs and Jin (2012), Review of Financial Studies 25',
 });

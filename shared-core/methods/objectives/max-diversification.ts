@@ -9,5 +9,10 @@ export const maxDiversification = defineObjective({
   describe: () => 'Maximum diversification',
   memoWords: () => 'maximum diversification',
   shadowPrice: { name: 'DR', unit: 'diversification ratio' },
+  optimality: {
+    rule: 'At the most diversified portfolio an asset held between its limits has a correlation with the portfolio equal to its threshold (1/DR when no limit binds; binding caps and bands move each asset\u2019s own); an asset left out has at least its threshold, one at its cap at most (Choueifaty, Froidure and Reynier 2013).',
+    measure: 'Correlation with portfolio',
+    threshold: 'Threshold',
+  },
   source: 'Choueifaty and Coignard (2008), "Toward maximum diversification", J. Portfolio Management 35(1)',
 });

@@ -9,5 +9,10 @@ export const minVariance = defineObjective({
   describe: () => 'Minimum variance',
   memoWords: () => 'minimum variance',
   shadowPrice: { name: 'volatility', unit: 'annualised volatility' },
+  optimality: {
+    rule: 'At the minimum-variance portfolio an asset held between its limits has a beta to the portfolio equal to its threshold (1 when no limit binds); an asset left out has at least its threshold, one at its cap at most.',
+    measure: 'Beta to portfolio',
+    threshold: 'Threshold',
+  },
   source: 'Markowitz (1952), "Portfolio selection", J. Finance 7: the minimum-variance portfolio',
 });

@@ -306,6 +306,7 @@ describe('a memo without holding amounts or walk-forward', () => {
       `${MINUS}11.7`,
     ]);
     writeFileSync(join(artifacts, 'memo-weights-only.pdf'), pdf);
+    renderPngs(pdf, artifacts, 'memo-weights-only');
   });
 });
 
