@@ -1,74 +1,112 @@
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { runScenario } from '../shared-core/run/run-scenario.js';
-import { parseScenario } from '../shared-core/scenario/schema.js';
-import { median, timeMedian, type BenchFigure, type BenchSuite } from './harness.js';
-import { csvOf, inventedPrices, TRADING_DAYS } from './solve-universes.js';
+import { parseScenario, type Scenario } from '../shared-core/scenario/schema.js';
+import { buildComparison, createComparisonCache } from '../src-renderer/worker/comparison.js';
+import { formatFigure, median, timeMedian, type BenchFigure, type BenchSuite } from './harness.js';
+import { PEER_SCRIPT } from './solve-peer.js';
+import { csvOf, inventedPrices, TRADING_DAYS, type UniverseShape } from './solve-universes.js';
 
 /**
- * Issue 4's speed targets.
- * 1. Whole-process `holdfast solve` with ledoit-wolf and long-only max-diversification capped
- *    per asset (N = 500 cap 2%, N = 1500 cap 1%, T = 1260 daily returns) against the script a
- *    quant would write with numpy, scikit-learn's LedoitWolf and cvxopt's QP (Debian packages),
- *    the two run alternately in this process; target: at most half the script's wall time.
- * 2. Live recompute for the editor: 6 candidates (3 estimators x 2 objectives) on N = 100,
- *    T = 1260, in-process; target 150 ms.
- * Prices are invented: a seeded four-factor lognormal model.
+ * The solver's bench (issues 4 and 20).
+ * 1. Whole-process `holdfast solve` with ledoit-wolf, T = 1260 daily returns, against the script
+ *    a quant would write with numpy, scikit-learn's LedoitWolf and cvxopt's QP (solve-peer.ts) on
+ *    the same files, the two run alternately in this process. The universes come from seeds in
+ *    two shapes (solve-universes.ts): optima that hold few of the assets and optima that hold
+ *    most; caps binding and not, group bands, a turnover limit, minimum variance as well as
+ *    maximum diversification; N = 500, 1500 and 3000. Per case: iterations, the solver's own
+ *    time, the whole process's time and peak memory, and the script's time and peak memory.
+ *    Target: at most half the script's time (the median of the paired ratios).
+ * 2. Live recompute for the editor: 6 candidates (3 estimators x 2 objectives), in-process.
+ * `BENCH_SOLVE_SIZES=500,1500` limits the sizes (N = 3000 takes minutes, most of it the script's).
  */
 const T = TRADING_DAYS;
-/** Alternating runs per size: the shared host's speed drifts by 10-30 % within a minute. */
-const repeatsFor = (n: number) => (n <= 500 ? 9 : 5);
 
-const PEER = String.raw`
-import sys, json
-import numpy as np
-from sklearn.covariance import LedoitWolf
-from cvxopt import matrix, solvers
-solvers.options["show_progress"] = False
-prices, cap = sys.argv[1], float(sys.argv[2])
-P = np.loadtxt(prices, delimiter=",", skiprows=1, usecols=None, converters={0: lambda s: 0.0})[:, 1:]
-r = np.diff(np.log(P), axis=0)
-S = LedoitWolf().fit(r).covariance_ * 252
-n = S.shape[0]
-sigma = np.sqrt(np.diag(S))
-# Maximum diversification in the rescaled variable: min y'Sy, sigma'y = 1, 0 <= y_i <= cap sum(y).
-G = np.vstack([-np.eye(n), np.eye(n) - cap * np.ones((n, n))])
-h = np.zeros(2 * n)
-sol = solvers.qp(matrix(S), matrix(np.zeros((n, 1))), matrix(G), matrix(h.reshape(-1, 1)), matrix(sigma.reshape(1, n)), matrix(1.0))
-y = np.array(sol["x"]).ravel()
-w = y / y.sum()
-out = {"status": sol["status"], "dr": float(w @ sigma / np.sqrt(w @ S @ w))}
-if len(sys.argv) > 3:
-    # The rest of what holdfast solve --json prints: volatility, Euler risk contributions,
-    # effective number of bets (Meucci 2009, from numpy's eigh) and of holdings.
-    Sw = S @ w
-    var = float(w @ Sw)
-    lam, E = np.linalg.eigh(S)
-    p = (E.T @ w) ** 2 * np.clip(lam, 0, None) / var
-    p = p[p > 0]
-    out.update(volatility=float(np.sqrt(var)), riskContributions=(w * Sw / var).tolist(),
-               effectiveBets=float(np.exp(-np.sum(p * np.log(p)))), effectiveHoldings=float(1 / np.sum(w * w)))
-print(json.dumps(out))
-`;
+interface Case {
+  n: number;
+  shape: UniverseShape;
+  objective: 'max-diversification' | 'min-variance';
+  cap: number;
+  /** Five bands over consecutive fifths of the assets, each held at 15-25 %. */
+  groups?: boolean;
+  /** Turnover limit against equal current weights. */
+  turnover?: number;
+}
+
+/** The caps of issue 4's bench (few held, not binding at most-held optima) and 1.5/N (binding). */
+const CAP: Record<number, number> = { 500: 0.02, 1500: 0.01, 3000: 0.005 };
+
+function casesFor(n: number): Case[] {
+  const cap = CAP[n];
+  const base: Case[] = [
+    { n, shape: 'few-held', objective: 'max-diversification', cap },
+    { n, shape: 'most-held', objective: 'max-diversification', cap },
+  ];
+  if (n >= 3000) return base;
+  return [
+    ...base,
+    { n, shape: 'most-held', objective: 'max-diversification', cap: 1.5 / n },
+    { n, shape: 'most-held', objective: 'min-variance', cap },
+    { n, shape: 'few-held', objective: 'min-variance', cap },
+    { n, shape: 'most-held', objective: 'max-diversification', cap, groups: true },
+    { n, shape: 'most-held', objective: 'min-variance', cap, turnover: 0.3 },
+  ];
+}
+
+/** Alternating runs per case: the shared host's speed drifts by 10-30 % within a minute. */
+const repeatsFor = (n: number) => (n <= 500 ? 5 : n <= 1500 ? 3 : 1);
+
+function describe(c: Case): string {
+  const limits = [
+    `cap ${Number((c.cap * 100).toFixed(2))}%`,
+    ...(c.groups ? ['5 group bands 15-25%'] : []),
+    ...(c.turnover !== undefined ? [`turnover <= ${c.turnover * 100}%`] : []),
+  ];
+  return `${c.objective} N=${c.n} ${c.shape} ${limits.join(', ')}`;
+}
+
+function groupsOf(assets: readonly string[]): { name: string; members: string[]; min: number; max: number }[] {
+  const fifth = Math.ceil(assets.length / 5);
+  return Array.from({ length: 5 }, (_, g) => ({
+    name: `G${g + 1}`,
+    members: assets.slice(g * fifth, (g + 1) * fifth),
+    min: 0.15,
+    max: 0.25,
+  }));
+}
 
 function peerAvailable(): string | null {
   const r = spawnSync('/usr/bin/python3', ['-c', 'import numpy, sklearn, cvxopt'], { encoding: 'utf8' });
   return r.status === 0 ? null : 'python3 with numpy, scikit-learn and cvxopt is absent: no peer measured';
 }
 
-function timed(cmd: string, args: string[]): { ms: number; stdout: string; ok: boolean; stderr: string } {
+const TIME = '/usr/bin/time';
+
+/** Wall time, output and peak resident memory (GNU time's %M, when it is installed). */
+function timed(
+  cmd: string,
+  args: string[],
+): { ms: number; stdout: string; ok: boolean; stderr: string; peakMb: number } {
+  const measured = existsSync(TIME);
   const t0 = performance.now();
-  const r = spawnSync(cmd, args, { encoding: 'utf8', maxBuffer: 1 << 28 });
-  return { ms: performance.now() - t0, stdout: r.stdout, stderr: r.stderr, ok: r.status === 0 };
+  const r = measured
+    ? spawnSync(TIME, ['-f', 'peak-kb %M', cmd, ...args], { encoding: 'utf8', maxBuffer: 1 << 28 })
+    : spawnSync(cmd, args, { encoding: 'utf8', maxBuffer: 1 << 28 });
+  const ms = performance.now() - t0;
+  const peak = /peak-kb (\d+)\s*$/.exec(r.stderr ?? '');
+  return { ms, stdout: r.stdout, stderr: r.stderr, ok: r.status === 0, peakMb: peak ? Number(peak[1]) / 1024 : NaN };
 }
 
-async function wholeProcess(n: number, cap: number): Promise<BenchFigure> {
+function wholeProcess(c: Case, peerScript: string, missing: string | null): BenchFigure {
   const dir = mkdtempSync(join(tmpdir(), 'holdfast-bench-solve-'));
   const prices = join(dir, 'prices.csv');
-  writeFileSync(prices, csvOf(inventedPrices(n, n)));
+  const table = inventedPrices(c.n, c.n, c.shape);
+  writeFileSync(prices, csvOf(table));
+  const current = c.turnover !== undefined ? Object.fromEntries(table.assets.map((a) => [a, 1 / c.n])) : undefined;
+  const groups = c.groups ? groupsOf(table.assets) : undefined;
   const scenario = join(dir, 'scenario.json');
   writeFileSync(
     scenario,
@@ -76,66 +114,90 @@ async function wholeProcess(n: number, cap: number): Promise<BenchFigure> {
       format: 'holdfast-scenario@1',
       name: 'Bench',
       baseCurrency: 'EUR',
-      constraints: { longOnly: true, weightBounds: { default: [0, cap] } },
-      candidates: [{ id: 'md-lw', estimator: { method: 'ledoit-wolf' }, objective: { method: 'max-diversification' } }],
+      constraints: {
+        longOnly: true,
+        weightBounds: { default: [0, c.cap] },
+        ...(groups ? { groups } : {}),
+        ...(c.turnover !== undefined ? { maxTurnover: c.turnover } : {}),
+      },
+      ...(current ? { current } : {}),
+      candidates: [{ id: 'bench', estimator: { method: 'ledoit-wolf' }, objective: { method: c.objective } }],
     }),
   );
-  const peerScript = join(dir, 'peer.py');
-  writeFileSync(peerScript, PEER);
+  const spec = join(dir, 'spec.json');
+  const index = new Map(table.assets.map((a, i) => [a, i]));
+  writeFileSync(
+    spec,
+    JSON.stringify({
+      objective: c.objective,
+      cap: c.cap,
+      groups: (groups ?? []).map((g) => ({ members: g.members.map((m) => index.get(m)), min: g.min, max: g.max })),
+      ...(c.turnover !== undefined ? { turnover: c.turnover, current: table.assets.map((a) => current![a]) } : {}),
+    }),
+  );
   const cli = fileURLToPath(new URL('../src-main/cli/main.js', import.meta.url));
-  const missing = peerAvailable();
   const ours: number[] = [];
+  const solver: number[] = [];
   const peer: number[] = [];
-  const peerFull: number[] = [];
+  let ourPeak = 0;
+  let peerPeak = 0;
   let notes = '';
-  for (let k = 0; k < repeatsFor(n); k++) {
+  for (let k = 0; k < repeatsFor(c.n); k++) {
     const a = timed(process.execPath, [cli, 'solve', '--prices', prices, '--scenario', scenario, '--json']);
     if (!a.ok) throw new Error(`holdfast solve failed: ${a.stderr}`);
     ours.push(a.ms);
-    const c = JSON.parse(a.stdout).candidates[0];
-    notes = `DR ${c.metrics.diversificationRatio.toFixed(6)}, held ${Object.values(c.weights as Record<string, number>).filter((w) => w > 1e-9).length}, solver ${c.solver.ms.toFixed(0)} ms`;
+    ourPeak = Math.max(ourPeak, a.peakMb);
+    const r = JSON.parse(a.stdout).candidates[0];
+    solver.push(r.solver.ms);
+    const held = Object.values(r.weights as Record<string, number>).filter((w) => w > 1e-9).length;
+    const atCap = Object.values(r.weights as Record<string, number>).filter((w) => w > c.cap - 1e-9).length;
+    notes = `${r.status}, ${r.solver.iterations} iterations, KKT ${Number(r.solver.kktResidual).toExponential(1)}, held ${held}, at cap ${atCap}, DR ${r.metrics.diversificationRatio.toFixed(6)}, vol ${(100 * r.metrics.volatility).toFixed(4)}%`;
     if (!missing) {
-      const b = timed('/usr/bin/python3', [peerScript, prices, String(cap)]);
+      const b = timed('/usr/bin/python3', [peerScript, prices, spec]);
       if (!b.ok) throw new Error(`peer script failed: ${b.stderr}`);
       peer.push(b.ms);
-      const full = timed('/usr/bin/python3', [peerScript, prices, String(cap), 'metrics']);
-      if (!full.ok) throw new Error(`peer script failed: ${full.stderr}`);
-      peerFull.push(full.ms);
-      const f = JSON.parse(full.stdout) as { dr: number; effectiveBets: number };
-      notes += `; peer DR ${JSON.parse(b.stdout).dr.toFixed(6)}; ENB ours ${c.metrics.effectiveBets.toFixed(4)}, peer ${f.effectiveBets.toFixed(4)}`;
+      peerPeak = Math.max(peerPeak, b.peakMb);
+      const p = JSON.parse(b.stdout) as { status: string; iterations: number; dr: number; volatility: number };
+      notes += `; peer ${p.status} in ${p.iterations} iterations, DR ${p.dr.toFixed(6)}, vol ${(100 * p.volatility).toFixed(4)}%`;
     }
   }
   const ourMedian = median(ours);
   const peerMedian = peer.length ? median(peer) : undefined;
   // Each of our runs against the peer's run right after it: less exposed to the host's drift.
   const paired = peer.length ? median(ours.map((ms, k) => ms / peer[k])) : undefined;
+  const memory = `peak ${ourPeak.toFixed(0)} MB${missing ? '' : ` (peer ${peerPeak.toFixed(0)} MB)`}`;
   return {
-    label: `holdfast solve ledoit-wolf max-diversification N=${n} cap ${cap * 100}% T=${T} (whole process)`,
+    label: `holdfast solve ${describe(c)} T=${T} (whole process)`,
     medianMs: ourMedian,
     ...(peerMedian !== undefined
       ? { targetMs: Math.round(peerMedian / 2), peerMs: peerMedian, peerLabel: 'numpy + sklearn LedoitWolf + cvxopt' }
       : {}),
-    notes: missing
-      ? `${notes}; ${missing}`
-      : `${notes}; median of the ${ours.length} paired ratios ${paired!.toFixed(2)}; target is half the weights-only peer's time; the peer printing the same metrics (eigh for the effective bets) took ${median(peerFull).toFixed(0)} ms, ratio ${(ourMedian / median(peerFull)).toFixed(2)}`,
+    notes: `solver ${median(solver).toFixed(0)} ms; ${memory}; ${notes}${
+      missing ? `; ${missing}` : `; median of the ${ours.length} paired ratios ${paired!.toFixed(2)}`
+    }`,
   };
 }
 
-async function liveRecompute(): Promise<BenchFigure> {
-  const prices = inventedPrices(100, 7);
-  const estimators = [{ method: 'ledoit-wolf' }, { method: 'oas' }, { method: 'ewma' }];
-  const objectives = [{ method: 'max-diversification' }, { method: 'min-variance' }];
+/** The page's six candidates on a universe: three estimators, maximum diversification and minimum variance. */
+function liveScenario(estimators: readonly string[], cap: number): Scenario {
+  const objectives = ['max-diversification', 'min-variance'];
   const parsed = parseScenario({
     format: 'holdfast-scenario@1',
     name: 'Live recompute bench',
     baseCurrency: 'EUR',
-    constraints: { longOnly: true, weightBounds: { default: [0, 0.05] } },
+    constraints: { longOnly: true, weightBounds: { default: [0, cap] } },
     candidates: estimators.flatMap((e) =>
-      objectives.map((o) => ({ id: `${o.method}-${e.method}`, estimator: e, objective: o })),
+      objectives.map((o) => ({ id: `${o}-${e}`, estimator: { method: e }, objective: { method: o } })),
     ),
   });
   if (!parsed.ok) throw new Error(parsed.errors[0].message);
-  const scenario = parsed.scenario;
+  return parsed.scenario;
+}
+
+/** Issue 4's figure: runScenario on today's N = 100 universe, cold and warm-started. */
+async function liveRecompute(): Promise<BenchFigure> {
+  const prices = inventedPrices(100, 7);
+  const scenario = liveScenario(['ledoit-wolf', 'oas', 'ewma'], 0.05);
   let statuses = '';
   const ms = await timeMedian(() => {
     const run = runScenario(scenario, prices);
@@ -152,9 +214,59 @@ async function liveRecompute(): Promise<BenchFigure> {
   };
 }
 
+/**
+ * Issue 20's figure: the scenario page's worker (buildComparison) on 6 candidates (sample,
+ * ledoit-wolf and ewma, each with both objectives), long-only with a 5/N cap; cold (no cache)
+ * and with the worker's cache of the previous run, alternating two cap edits.
+ */
+async function liveComparison(n: number, shape: UniverseShape, targetMs: number): Promise<BenchFigure> {
+  const prices = inventedPrices(n, n + 7, shape);
+  const cap = 5 / n;
+  const scenario = liveScenario(['sample', 'ledoit-wolf', 'ewma'], cap);
+  const edited = liveScenario(['sample', 'ledoit-wolf', 'ewma'], 0.95 * cap);
+  let outcome = '';
+  const cold = await timeMedian(() => {
+    const c = buildComparison(scenario, prices);
+    outcome = c.candidates
+      .map(
+        (r) => `${r.id} ${r.status}${r.status === 'optimal' ? ` ${r.solver.iterations} it` : `: ${r.message ?? ''}`}`,
+      )
+      .join(', ');
+  }, 5);
+  const cache = createComparisonCache();
+  buildComparison(scenario, prices, undefined, undefined, cache);
+  let flip = false;
+  const cached = await timeMedian(() => {
+    flip = !flip;
+    return buildComparison(flip ? edited : scenario, prices, undefined, undefined, cache);
+  }, 5);
+  return {
+    label: `live recompute (buildComparison, 6 candidates) N=${n} ${shape} cap ${Number((cap * 100).toFixed(2))}% T=${T} cold`,
+    medianMs: cold,
+    targetMs,
+    notes: `with the worker's cache after a cap edit ${cached.toFixed(1)} ms; ${outcome}`,
+  };
+}
+
 export const solveSuite: BenchSuite = {
   name: 'solve',
   async run() {
-    return [await liveRecompute(), await wholeProcess(500, 0.02), await wholeProcess(1500, 0.01)];
+    const figures = [
+      await liveRecompute(),
+      await liveComparison(100, 'few-held', 150),
+      await liveComparison(100, 'most-held', 150),
+      await liveComparison(300, 'most-held', 1000),
+    ];
+    const sizes = (process.env.BENCH_SOLVE_SIZES ?? '500,1500,3000').split(',').map(Number);
+    const missing = peerAvailable();
+    const peerScript = join(mkdtempSync(join(tmpdir(), 'holdfast-bench-peer-')), 'peer.py');
+    writeFileSync(peerScript, PEER_SCRIPT);
+    for (const n of sizes)
+      for (const c of casesFor(n)) {
+        const figure = wholeProcess(c, peerScript, missing);
+        process.stderr.write(`  (done) ${formatFigure(figure)}\n`);
+        figures.push(figure);
+      }
+    return figures;
   },
 };
