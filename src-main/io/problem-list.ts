@@ -38,6 +38,17 @@ export class ProblemList {
     if (list.length > this.limit) list.pop();
   }
 
+  /**
+   * Counts a problem at `line` that would not be listed (the list is full of earlier ones) and
+   * says so; a reader then skips building its message. False when it must be added.
+   */
+  countedOnly(line: number): boolean {
+    const list = this.listed;
+    if (list.length < this.limit || (list[list.length - 1].line ?? 0) > line) return false;
+    this.count++;
+    return true;
+  }
+
   /** Problems found but not listed. */
   get unlisted(): number {
     return this.count - this.listed.length;

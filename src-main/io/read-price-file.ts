@@ -267,6 +267,8 @@ export class PriceFileReader {
       const d = text.indexOf(this.delimiter, start);
       if (d !== -1 && d < end) {
         const key = dateKey(text, start, d);
+        // A row on a date already read is not kept; past 20 problems it is only counted.
+        if (key !== NO_DATE && this.seenDates.has(key) && this.problems.countedOnly(line)) return;
         if (key !== NO_DATE && !this.seenDates.has(key)) {
           this.rowSlot(end - start);
           if (
@@ -367,7 +369,8 @@ export class PriceFileReader {
       s.emptyCells++;
       return;
     }
-    if (key === s.lastKey)
+    if (key === s.lastKey) {
+      if (this.problems.countedOnly(line)) return;
       return this.problems.add({
         kind: 'repeated-date',
         line,
@@ -377,6 +380,7 @@ export class PriceFileReader {
         date: dateText.trim(),
         message: `date ${dateText.trim()} repeats the date of line ${s.lastLine} for ${id}`,
       });
+    }
     const read = readPrice(cell, this.decimal!);
     if (typeof read !== 'number') {
       if (read.kind === 'unparseable') s.unparseableCount++;

@@ -177,6 +177,19 @@ describe('located, bounded problems', () => {
     expect(listed[20]).toBe('  p.csv: 980 more problems not listed');
   });
 
+  it('a file of one line repeated: the first 20 repeats listed, the rest counted, by the import and the commands alike', async () => {
+    const dir = workspace({ 'rep.csv': 'date,A,B\n' + '2024-01-02,100.5,50.25\n'.repeat(5000) });
+    const e = await estimate(dir, 'rep.csv');
+    const i = await importInto(dir, 'rep.csv');
+    expect([e.code, i.code]).toEqual([2, 2]);
+    const listedBy = (text: string) =>
+      text.split('\n').filter((l) => /rep\.csv:\d+:1: date 2024-01-02 repeats/.test(l));
+    expect(listedBy(e.stderr)).toHaveLength(20);
+    expect(listedBy(i.stderr)).toHaveLength(20);
+    expect(e.stderr).toContain('rep.csv: 4979 more problems not listed');
+    expect(i.stderr).toContain('rep.csv: 4979 more problems not listed');
+  });
+
   it('echoes at most 80 characters of a 5 MB cell', async () => {
     const dir = workspace({ 'wide.csv': `date,A\n2024-01-02,1\n2024-01-03,${'9'.repeat(5_000_000)}x\n` });
     const e = await estimate(dir, 'wide.csv');
