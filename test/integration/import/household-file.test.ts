@@ -107,6 +107,17 @@ describe('household file holdfast-household@1', () => {
       expect(error).toBeInstanceOf(InputError);
       expect((error as InputError).location).toEqual({ file: 'hh.json', path: 'holdings[0].asOf' });
     }
+    // A close is held to the price file's rule (shared-core/prices/price-value.ts).
+    for (const close of [1e308, 1e-320, 0]) {
+      const bad = JSON.parse(text);
+      bad.prices.EQ1.closes[1] = close;
+      expect(() => importHousehold(b, JSON.stringify(bad), 'hh.json'), String(close)).toThrow(
+        expect.objectContaining({
+          location: { file: 'hh.json', path: 'prices.EQ1.closes[1]' },
+          message: expect.stringMatching(close > 0 ? /between 1e-150 and 1e150/ : /above zero/),
+        }),
+      );
+    }
     expect(() => importHousehold(a, text, 'hh.json')).toThrow(/household named 'Invented household B' already/);
     expect(b.listHouseholds()).toEqual([]);
     expect(b.listAssets()).toEqual([]);
