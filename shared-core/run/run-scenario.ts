@@ -13,6 +13,7 @@ import { solveCandidateDetailed } from '../optimise/solve-candidate.js';
 import type { PriceTable } from '../prices/price-table.js';
 import { buildReturns, type BuildReturnsOptions, type ReturnsResult } from '../returns/build-returns.js';
 import { CancelledError, type CancelCheck } from '../stability/cancel.js';
+import { mergedConstraints } from '../scenario/merged-constraints.js';
 import { createRunCache, samePrices, type RunCache } from './run-cache.js';
 import type { Constraints, Scenario } from '../scenario/schema.js';
 
@@ -43,14 +44,6 @@ export interface ScenarioRun {
   estimates: Record<string, CandidateEstimate>;
   returns: ReturnsResult;
   warmStarts: Record<string, QpWarmStart>;
-}
-
-/** The candidate's constraints: its own entries replace the scenario's (weight bounds entry by entry). */
-export function mergedConstraints(base: Constraints, own: Constraints | undefined): Constraints {
-  if (!own) return base;
-  const weightBounds =
-    base.weightBounds || own.weightBounds ? { ...base.weightBounds, ...own.weightBounds } : undefined;
-  return { ...base, ...own, ...(weightBounds ? { weightBounds } : {}) };
 }
 
 function checkAssets(c: Constraints | undefined, known: Set<string>, path: string): void {

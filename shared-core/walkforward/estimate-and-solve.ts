@@ -6,6 +6,7 @@ import type { Matrix } from '../linalg/matrix.js';
 import type { EstimatorSpec } from '../scenario/estimator-spec.js';
 import { solveCandidateDetailed } from '../optimise/solve-candidate.js';
 import type { QpWarmStart } from '../optimise/qp/index.js';
+import { mergedConstraints } from '../scenario/merged-constraints.js';
 import type { Constraints } from '../scenario/schema.js';
 import type { EstimateAndSolveFn, SolveOutcome } from './run-backtest.js';
 
@@ -31,16 +32,16 @@ function estimated(returns: Matrix, spec: EstimatorSpec, frequency: Frequency, p
 
 /**
  * The real allocator of the walk-forward: estimate the candidate's covariance on the window
- * (estimators/registry), annualise it, and solve the candidate under the scenario's constraints
- * with the candidate's overrides (optimise/solve-candidate), warm-started from the previous
- * rebalance's active set. Turnover limits are measured against the drifted weights handed in as
+ * (estimators/registry), annualise it, and solve the candidate (optimise/solve-candidate) under
+ * its mandate: the scenario's constraints with the candidate's own, merged as the comparison
+ * merges them (scenario/merged-constraints). Warm-started from the previous rebalance's active set. Turnover limits are measured against the drifted weights handed in as
  * `current`; coming from cash there is nothing to measure against, so a turnover limit is left
  * out of that first solve.
  */
 export const estimateAndSolve: EstimateAndSolveFn = (request): SolveOutcome => {
   const { candidate, scenario, assets, returns, periodsPerYear, current } = request;
   const { estimate, covariance } = estimated(returns, candidate.estimator, scenario.returns.frequency, periodsPerYear);
-  const merged: Constraints = { ...scenario.constraints, ...candidate.constraints };
+  const merged: Constraints = { ...mergedConstraints(scenario.constraints, candidate.constraints) };
   if (current === null) delete merged.maxTurnover;
   const { result, warmStart } = solveCandidateDetailed({
     id: candidate.id,

@@ -1,4 +1,4 @@
-import { mergedConstraints } from '../../shared-core/run/run-scenario.js';
+import { mergedConstraints } from '../../shared-core/scenario/merged-constraints.js';
 import type { Constraints, Scenario } from '../../shared-core/scenario/schema.js';
 import { formatPct, listInWords } from '../../shared-core/present/format.js';
 
