@@ -53,3 +53,73 @@ export function inBaseCurrency(
   });
   return { dates: table.dates, assets: table.assets, closes };
 }
+
+/**
+ * Where the rate of one currency in the base currency comes from: a stored exchange-rate series
+ * (an asset tagged `fx`, units of its quote per one unit of its base), read as it is or inverted.
+ */
+export interface FxSource {
+  currency: string;
+  /** The series holding the rate. */
+  assetId: string;
+  inverted: boolean;
+}
+
+/** The id of the series quoting `quote` per one unit of `base`, if there is one. */
+export type FindFxSeries = (base: string, quote: string) => string | undefined;
+
+/**
+ * The one exchange-rate lookup: for each currency other than the base (sorted, once each), the
+ * series that prices it in the base currency, a direct one first, else the inverse one; the
+ * currencies without either are `missing`. The store, the app's page and the command line all
+ * choose their series here.
+ */
+export function fxSources(
+  currencies: readonly (string | null | undefined)[] | undefined,
+  base: string,
+  find: FindFxSeries,
+): { sources: FxSource[]; missing: string[] } {
+  const needed = [...new Set((currencies ?? []).filter((c): c is string => !!c && c !== base))].sort();
+  const sources: FxSource[] = [];
+  const missing: string[] = [];
+  for (const currency of needed) {
+    const direct = find(currency, base);
+    const inverse = direct === undefined ? find(base, currency) : undefined;
+    if (direct !== undefined) sources.push({ currency, assetId: direct, inverted: false });
+    else if (inverse !== undefined) sources.push({ currency, assetId: inverse, inverted: true });
+    else missing.push(currency);
+  }
+  return { sources, missing };
+}
+
+/**
+ * The rate table the returns engine reads (one column per currency, units of the base per one
+ * unit of it) from an aligned table of the source series (columns found by `assetId`).
+ */
+export function fxTable(rates: PriceTable, sources: readonly FxSource[]): PriceTable {
+  return {
+    dates: rates.dates,
+    assets: sources.map((s) => s.currency),
+    closes: sources.map((s) => {
+      const column = rates.closes[rates.assets.indexOf(s.assetId)];
+      return s.inverted ? Float64Array.from(column, (v) => 1 / v) : column;
+    }),
+  };
+}
+
+/**
+ * The last finite, positive rate of `currency` on or before `asOf` in a rate table, with its
+ * date: how a holding dated `asOf` is valued in the base currency. Undefined when there is none.
+ */
+export function rateOnOrBefore(
+  fx: PriceTable | undefined,
+  currency: string,
+  asOf: string,
+): { rate: number; date: string } | undefined {
+  const column = fx?.closes[fx.assets.indexOf(currency)];
+  if (!fx || !column) return undefined;
+  for (let i = fx.dates.length - 1; i >= 0; i--)
+    if (fx.dates[i] <= asOf && Number.isFinite(column[i]) && column[i] > 0)
+      return { rate: column[i], date: fx.dates[i] };
+  return undefined;
+}

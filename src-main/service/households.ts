@@ -3,7 +3,7 @@ import type { ServiceApiTable } from '../../shared-core/contract/service-api.js'
 import type { HouseholdRecord, Store } from '../store/store.js';
 import { notFound, rowId } from './failures.js';
 import { householdSummaryOut } from './records.js';
-import { valueHoldings } from './valuation.js';
+import { valueHoldings } from '../app/value-holdings.js';
 
 type Part = Pick<
   ImplementationOf<ServiceApiTable>,
@@ -44,7 +44,7 @@ export function householdMethods(store: Store): Part {
     },
     async 'holdings.get'({ householdId }) {
       const record = household(householdId);
-      return valueHoldings(store, record, store.holdings(record.id));
+      return valueHoldings(store, record, record.baseCurrency, store.holdings(record.id));
     },
     async 'holdings.set'({ householdId, asOf, positions }) {
       const record = household(householdId);
@@ -56,7 +56,7 @@ export function householdMethods(store: Store): Part {
         record.id,
         positions.map((p) => ({ assetId: p.asset, amount: p.amount, currency: p.currency, asOf })),
       );
-      return valueHoldings(store, record, store.holdings(record.id));
+      return valueHoldings(store, record, record.baseCurrency, store.holdings(record.id));
     },
   };
 }

@@ -8,7 +8,7 @@ import type {
   UniverseMember,
 } from '../../shared-core/contract/service-api.js';
 import type { AssetRecord, HouseholdRecord, MemoInfo, RevisionInfo, Store, UniverseRecord } from '../store/store.js';
-import { valueHoldings } from './valuation.js';
+import { valueHoldings } from '../app/value-holdings.js';
 
 /** Store records to the wire shapes of the service API (one function per record). */
 
@@ -91,7 +91,7 @@ export function householdOut(store: Store, record: HouseholdRecord): Household {
 }
 
 export function householdSummaryOut(store: Store, record: HouseholdRecord): HouseholdSummary {
-  const valued = valueHoldings(store, record, store.holdings(record.id));
+  const valued = valueHoldings(store, record, record.baseCurrency, store.holdings(record.id));
   return {
     ...householdOut(store, record),
     scenarioCount: store.listScenarios(record.id).length,

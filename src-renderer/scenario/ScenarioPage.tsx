@@ -8,6 +8,7 @@ import type {
 } from '../../shared-core/contract/service-api.js';
 import { priceTableFromWire } from '../../shared-core/contract/service-api.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
+import { fxSources, fxTable } from '../../shared-core/returns/exchange-rate.js';
 import type { Scenario, ScenarioInput } from '../../shared-core/scenario/schema.js';
 import { menu, useMenuCommands } from '../app/menu.js';
 import { errorText } from '../app/notes.js';
@@ -23,7 +24,6 @@ import { applyEdit, canRedo, canUndo, createHistory, redo, undo, type History } 
 import { MemoSection } from './memo/MemoSection.js';
 import { ReasonsSection } from './reasons/ReasonsSection.js';
 import { BesidePanel, RevisionBar } from './revisions/RevisionBar.js';
-import { fxSources, fxTable } from './fx-table.js';
 import { fillStoreGaps } from './store-gaps.js';
 import { useRecompute } from './use-recompute.js';
 import { WalkForwardSection } from './walkforward/WalkForwardSection.js';
@@ -176,7 +176,11 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
       const table = priceTableFromWire(r.table);
       // Assets priced in another currency are measured in the base one with the store's rates;
       // a currency without a rate is left to the core, which says which asset lacks one.
-      const { sources } = fxSources(table.currencies, baseCurrency, boot.catalogue);
+      const { sources } = fxSources(
+        table.currencies,
+        baseCurrency,
+        (b, q) => boot.catalogue.find((a) => a.fx?.base === b && a.fx.quote === q)?.id,
+      );
       let fx: PriceTable | undefined;
       if (sources.length > 0) {
         const rates = await api['prices.table']({ assets: sources.map((x) => x.assetId) });

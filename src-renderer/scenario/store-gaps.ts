@@ -4,7 +4,7 @@ import { assetInfoOf } from './editor-state.js';
 
 /**
  * Fills the two gaps of a document that the store fills for `holdfast solve --store`
- * (src-main/io/stored-scenario.ts), never overriding the document: each asset's tags where
+ * (src-main/app/stored-scenario.ts), never overriding the document: each asset's tags where
  * `assetInfo` lacks it, and `current` from the holdings' base-currency weights when the document
  * has none. The page computes from the same inputs as the command line, so their weights agree.
  */

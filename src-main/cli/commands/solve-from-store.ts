@@ -1,6 +1,5 @@
 import { InputError } from '../../../shared-core/errors.js';
-import { storedExchangeRates } from '../../io/exchange-rates.js';
-import { storedScenarioInputs } from '../../io/stored-scenario.js';
+import { storedScenarioInputs } from '../../app/stored-scenario.js';
 import type { SolveInputs } from './solve.js';
 import { existingStore } from './store-access.js';
 
@@ -13,9 +12,8 @@ export function readSolveStore(cwd: string, storeName: string, household: string
   const store = existingStore(cwd, storeName);
   try {
     const inputs = storedScenarioInputs(store, household, scenario);
-    const fx = storedExchangeRates(store, inputs.scenario.baseCurrency, inputs.prices.currencies ?? []);
     return {
-      ...(fx ? { fx } : {}),
+      ...(inputs.fx ? { fx: inputs.fx } : {}),
       scenario: inputs.scenario,
       prices: inputs.prices,
       pricesName: storeName,

@@ -1,6 +1,6 @@
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { storedScenarioInputs } from '../../../src-main/io/stored-scenario.js';
+import { storedScenarioInputs } from '../../../src-main/app/stored-scenario.js';
 import { openStore, type Store } from '../../../src-main/store/store.js';
 import { useTempDir } from './temp-dir.js';
 

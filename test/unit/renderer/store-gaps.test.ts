@@ -36,7 +36,7 @@ const holdings: Holdings = {
   rates: [],
 };
 
-// The same rule as the store-backed solve (src-main/io/stored-scenario.ts): fill, never override.
+// The same rule as the store-backed solve (src-main/app/stored-scenario.ts): fill, never override.
 describe('the gaps the store fills', () => {
   it('adds missing asset tags and current weights from the valued holdings', () => {
     const out = fillStoreGaps(scenario, [asset], holdings);

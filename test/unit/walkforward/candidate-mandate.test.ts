@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { generateDemo } from '../../../shared-core/demo/index.js';
 import { formatInputError } from '../../../shared-core/errors.js';
-import { runScenario } from '../../../shared-core/scenario/run-scenario.js';
+import { runScenario } from '../../../shared-core/run/run-scenario.js';
 import { parseScenario, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { estimateAndSolve } from '../../../shared-core/walkforward/estimate-and-solve.js';
 import { runBacktest } from '../../../shared-core/walkforward/run-backtest.js';

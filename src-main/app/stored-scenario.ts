@@ -1,11 +1,15 @@
 import { InputError } from '../../shared-core/errors.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import type { AssetInfo, Scenario } from '../../shared-core/scenario/schema.js';
-import type { Store } from '../store/store.js';
+import type { HouseholdRecord, Store } from '../store/store.js';
+import { storedExchangeRates } from './exchange-rates.js';
+import { valueHoldings } from './value-holdings.js';
 
 export interface StoredScenarioInputs {
   scenario: Scenario;
   prices: PriceTable;
+  /** The stored rates into the scenario's base currency, when an asset is priced in another. */
+  fx?: PriceTable;
   /** `store.hfstore: household 'X', scenario 'Y', revision 3`: where the inputs came from. */
   label: string;
   revision: { number: number; hash: string };
@@ -50,47 +54,48 @@ export function storedScenarioInputs(store: Store, householdName: string, scenar
   }
   const scenario: Scenario = { ...doc, assetInfo };
   if (!doc.current) {
-    const current = holdingWeights(store, household.id, household.baseCurrency, new Set(assets));
+    const current = holdingWeights(store, household, doc.baseCurrency, new Set(assets));
     if (current) scenario.current = current;
   }
+  const fx = storedExchangeRates(store, scenario.baseCurrency, prices.currencies ?? []);
   return {
     scenario,
     prices,
+    ...(fx ? { fx } : {}),
     label: `${store.path}: household '${householdName}', scenario '${scenarioName}', revision ${revision.number}`,
     revision: { number: revision.number, hash: revision.hash },
     dataVersion: store.dataVersion(),
   };
 }
 
+/**
+ * The holdings as weights of their value in the scenario's base currency (the one valuation,
+ * value-holdings.ts); a holding that cannot be valued is an InputError at its JSON path.
+ */
 function holdingWeights(
   store: Store,
-  householdId: number,
+  household: HouseholdRecord,
   base: string,
   universe: ReadonlySet<string>,
 ): Record<string, number> | undefined {
-  const holdings = store.holdings(householdId);
+  const holdings = store.holdings(household.id);
   if (holdings.length === 0) return undefined;
-  const values = holdings.map((h, i) => {
+  holdings.forEach((h, i) => {
     if (!universe.has(h.assetId))
       throw new InputError(`held asset '${h.assetId}' is not among the scenario's assets`, { path: `holdings[${i}]` });
-    return h.amount * fxRate(store, h.currency, base, h.asOf, i);
   });
-  const total = values.reduce((s, v) => s + v, 0);
+  const valued = valueHoldings(store, household, base, holdings);
+  const unvalued = valued.positions.findIndex((p) => p.valueInBase === null);
+  if (unvalued !== -1) {
+    const h = holdings[unvalued];
+    throw new InputError(
+      `no stored ${h.currency}/${base} rate on or before ${h.asOf} to value this holding in ${base}`,
+      {
+        path: `holdings[${unvalued}].currency`,
+      },
+    );
+  }
+  const total = valued.positions.reduce((s, p) => s + (p.valueInBase as number), 0);
   if (!(total > 0)) throw new InputError('the holdings add up to no positive value', { path: 'holdings' });
-  return Object.fromEntries(holdings.map((h, i) => [h.assetId, values[i] / total]));
-}
-
-/** Units of `to` per unit of `from` on or before `asOf`, from a stored FX series (either direction). */
-function fxRate(store: Store, from: string, to: string, asOf: string, index: number): number {
-  if (from === to) return 1;
-  const direct = store.fxAsset(from, to);
-  const inverse = direct ? undefined : store.fxAsset(to, from);
-  const series = (direct ?? inverse) && store.priceSeries((direct ?? inverse)!.id);
-  let close: number | undefined;
-  if (series) for (let i = 0; i < series.dates.length && series.dates[i] <= asOf; i++) close = series.closes[i];
-  if (close === undefined)
-    throw new InputError(`no stored ${from}/${to} rate on or before ${asOf} to value this holding in ${to}`, {
-      path: `holdings[${index}].currency`,
-    });
-  return direct ? close : 1 / close;
+  return Object.fromEntries(valued.positions.map((p) => [p.asset, (p.valueInBase as number) / total]));
 }
