@@ -21,7 +21,9 @@ import { csvOf, inventedPrices, TRADING_DAYS, type UniverseShape } from './solve
  *    time, the whole process's time and peak memory, and the script's time and peak memory.
  *    Target: at most half the script's time (the median of the paired ratios).
  * 2. Live recompute for the editor: 6 candidates (3 estimators x 2 objectives), in-process.
- * `BENCH_SOLVE_SIZES=500,1500` limits the sizes (N = 3000 takes minutes, most of it the script's).
+ * `BENCH_SOLVE_SIZES=500,1500` limits the sizes (N = 3000 takes minutes, most of it the script's);
+ * `BENCH_SOLVE_CASES=2` keeps the first cases of each size (issue 4's universe and its most-held
+ * twin); `BENCH_SOLVE_LIVE=0` leaves out the live recompute.
  */
 const T = TRADING_DAYS;
 
@@ -56,8 +58,11 @@ function casesFor(n: number): Case[] {
   ];
 }
 
-/** Alternating runs per case: the shared host's speed drifts by 10-30 % within a minute. */
-const repeatsFor = (n: number) => (n <= 500 ? 5 : n <= 1500 ? 3 : 1);
+/**
+ * Alternating runs per case: the shared host's speed drifts by 10-30 % within a minute.
+ * `BENCH_SOLVE_REPEATS` overrides it.
+ */
+const repeatsFor = (n: number) => Number(process.env.BENCH_SOLVE_REPEATS) || (n <= 500 ? 5 : n <= 1500 ? 3 : 1);
 
 function describe(c: Case): string {
   const limits = [
@@ -251,18 +256,23 @@ async function liveComparison(n: number, shape: UniverseShape, targetMs: number)
 export const solveSuite: BenchSuite = {
   name: 'solve',
   async run() {
-    const figures = [
-      await liveRecompute(),
-      await liveComparison(100, 'few-held', 150),
-      await liveComparison(100, 'most-held', 150),
-      await liveComparison(300, 'most-held', 1000),
-    ];
+    const figures =
+      process.env.BENCH_SOLVE_LIVE === '0'
+        ? []
+        : [
+            await liveRecompute(),
+            await liveComparison(100, 'few-held', 150),
+            await liveComparison(100, 'most-held', 150),
+            await liveComparison(300, 'most-held', 1000),
+          ];
+    for (const f of figures) process.stderr.write(`  (done) ${formatFigure(f)}\n`);
+    const limit = Number(process.env.BENCH_SOLVE_CASES) || Infinity;
     const sizes = (process.env.BENCH_SOLVE_SIZES ?? '500,1500,3000').split(',').map(Number);
     const missing = peerAvailable();
     const peerScript = join(mkdtempSync(join(tmpdir(), 'holdfast-bench-peer-')), 'peer.py');
     writeFileSync(peerScript, PEER_SCRIPT);
     for (const n of sizes)
-      for (const c of casesFor(n)) {
+      for (const c of casesFor(n).slice(0, limit)) {
         const figure = wholeProcess(c, peerScript, missing);
         process.stderr.write(`  (done) ${formatFigure(figure)}\n`);
         figures.push(figure);
