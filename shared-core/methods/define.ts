@@ -13,6 +13,15 @@ import type { z } from 'zod';
  */
 export type Zod = typeof z;
 
+/**
+ * How the words print a figure of an option (a rate, say): given by the edge that shows them
+ * (shared-core/present/method-words.ts binds the one formatter), since the definitions sit below it.
+ */
+export interface MethodFigures {
+  /** A fraction as a percentage: 0.025 -> "2.50%". */
+  percent: (fraction: number) => string;
+}
+
 /** A schema for one method's object: `method` (the literal name) plus its options. */
 export type MethodSchema<M extends string> = z.ZodType<{ method: M }, { method: M }>;
 
@@ -28,9 +37,9 @@ interface MethodDefinition<M extends string, S extends MethodSchema<M>> {
   /** The object the editor starts from when the method is picked. */
   initial: z.input<S>;
   /** The label with the options that change it: "Exponentially weighted, half-life 60". */
-  describe: (spec: z.output<S>) => string;
+  describe: (spec: z.output<S>, figures: MethodFigures) => string;
   /** The memo's words for it, inside a sentence: "exponentially weighted (half-life 60 periods)". */
-  memoWords: (spec: z.output<S>) => string;
+  memoWords: (spec: z.output<S>, figures: MethodFigures) => string;
   /** The paper or practice it comes from, as cited beside its formula. */
   source: string;
 }
@@ -40,7 +49,7 @@ export interface EstimatorDefinition<
   S extends MethodSchema<M> = MethodSchema<M>,
 > extends MethodDefinition<M, S> {
   /** The memo's few words for a table cell: "EWMA, half-life 60". */
-  memoShort: (spec: z.output<S>) => string;
+  memoShort: (spec: z.output<S>, figures: MethodFigures) => string;
 }
 
 /** How an objective's shadow prices are told: the quantity a limit moves, and its unit. */

@@ -1,5 +1,6 @@
 import type { z } from 'zod';
 import { byMethod } from './by-method.js';
+import type { MethodFigures } from './define.js';
 import { denoised } from './estimators/denoised.js';
 import { ewma } from './estimators/ewma.js';
 import { ledoitWolf } from './estimators/ledoit-wolf.js';
@@ -27,10 +28,13 @@ const definitions = byMethod(estimatorDefinitions);
 /** The definition of one estimator. */
 export const estimatorDefinition = <M extends EstimatorMethod>(method: M) => definitions[method];
 
-type Words = (spec: EstimatorSpec) => string;
+type Words = (spec: EstimatorSpec, figures: MethodFigures) => string;
 /** The editor's name of the estimator with the options that change it. */
-export const describeEstimator = (spec: EstimatorSpec): string => (definitions[spec.method].describe as Words)(spec);
+export const describeEstimator = (spec: EstimatorSpec, figures: MethodFigures): string =>
+  (definitions[spec.method].describe as Words)(spec, figures);
 /** The memo's words for the estimator, inside a sentence. */
-export const estimatorWords = (spec: EstimatorSpec): string => (definitions[spec.method].memoWords as Words)(spec);
+export const estimatorWords = (spec: EstimatorSpec, figures: MethodFigures): string =>
+  (definitions[spec.method].memoWords as Words)(spec, figures);
 /** The memo's few words for the estimator, for table cells. */
-export const estimatorShort = (spec: EstimatorSpec): string => (definitions[spec.method].memoShort as Words)(spec);
+export const estimatorShort = (spec: EstimatorSpec, figures: MethodFigures): string =>
+  (definitions[spec.method].memoShort as Words)(spec, figures);

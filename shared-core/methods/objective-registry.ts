@@ -1,5 +1,6 @@
 import type { z } from 'zod';
 import { byMethod } from './by-method.js';
+import type { MethodFigures } from './define.js';
 import { equalRiskContribution } from './objectives/equal-risk-contribution.js';
 import { equalWeight } from './objectives/equal-weight.js';
 import { inverseVolatility } from './objectives/inverse-volatility.js';
@@ -34,8 +35,10 @@ const definitions = byMethod(objectiveDefinitions);
 /** The definition of one objective. */
 export const objectiveDefinition = <M extends ObjectiveMethod>(method: M) => definitions[method];
 
-type Words = (spec: ObjectiveSpec) => string;
+type Words = (spec: ObjectiveSpec, figures: MethodFigures) => string;
 /** The editor's name of the objective with the options that change it. */
-export const describeObjective = (spec: ObjectiveSpec): string => (definitions[spec.method].describe as Words)(spec);
+export const describeObjective = (spec: ObjectiveSpec, figures: MethodFigures): string =>
+  (definitions[spec.method].describe as Words)(spec, figures);
 /** The memo's words for the objective, inside a sentence. */
-export const objectiveWords = (spec: ObjectiveSpec): string => (definitions[spec.method].memoWords as Words)(spec);
+export const objectiveWords = (spec: ObjectiveSpec, figures: MethodFigures): string =>
+  (definitions[spec.method].memoWords as Words)(spec, figures);

@@ -33,6 +33,8 @@ export interface AssetFigures {
   riskShares: Float64Array;
   budgets?: Float64Array;
   expected?: Float64Array;
+  /** Annualised risk-free rate of the Sharpe ratio (max-sharpe's option), when given. */
+  riskFreeRate?: number;
   /** Correlation-matrix product C w and w'Cw for maximum decorrelation. */
   corrW?: Float64Array;
   ruleWeights?: Float64Array;
@@ -203,7 +205,11 @@ export function explainAssets(
       case 'max-sharpe': {
         const mu = fig.expected ? fig.expected[i] : 0;
         const muP = portfolioFigures.muP;
-        const need = (fig.sigmaW[i] / variance) * muP;
+        // Held assets earn rf + beta_i (mu_P - rf), beta_i = (Sigma w)_i / w'Sigma w (first-order
+        // conditions of the tangency portfolio).
+        const beta = fig.sigmaW[i] / variance;
+        const rf = fig.riskFreeRate;
+        const need = rf === undefined ? beta * muP : rf + beta * (muP - rf);
         const c = `expected return ${pct(mu, 2)} against ${pct(need, 2)} asked by its beta to the portfolio`;
         const text =
           reason === 'at-upper-bound'

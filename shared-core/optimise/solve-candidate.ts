@@ -181,6 +181,7 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
     },
   });
   const method = p.objective.method;
+  const riskFreeRate = p.objective.method === 'max-sharpe' ? p.objective.riskFreeRate : undefined;
   const usesCovariance = method !== 'equal-weight' && method !== 'inverse-volatility';
   const covIssue = covarianceProblem(p) ?? (usesCovariance ? conditioningProblem(p) : null);
   if (covIssue) return fail('error', covIssue);
@@ -225,7 +226,10 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
       const missing = p.assets.filter((a) => p.expectedReturns?.[a] === undefined);
       if (missing.length > 0) return fail('error', `max-sharpe needs expectedReturns for ${missing.join(', ')}`);
       expected = Float64Array.from(p.assets, (a) => p.expectedReturns![a]);
-      runQp(homogenisedForm(m, S, expected));
+      // The Sharpe ratio (w'mu - rf) / sigma_w is the ratio of the homogenised form with the
+      // excess returns mu - rf as numerator, since the budget keeps sum w = 1 (Sharpe 1966).
+      const rf = riskFreeRate ?? 0;
+      runQp(homogenisedForm(m, S, rf === 0 ? expected : expected.map((v) => v - rf)));
       break;
     }
     case 'min-variance':
@@ -324,7 +328,7 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
     return fail(
       'infeasible',
       method === 'max-sharpe'
-        ? 'no portfolio within the limits has a positive expected return, so the Sharpe ratio cannot be maximised'
+        ? `no portfolio within the limits has ${riskFreeRate ? `an expected return above the risk-free rate of ${pctText(riskFreeRate)}` : 'a positive expected return'}, so the Sharpe ratio cannot be maximised`
         : 'no portfolio within the limits has a positive diversification ratio',
       iterations,
     );
@@ -365,6 +369,7 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
       riskShares: Float64Array.from(p.assets, (a) => metrics.riskContributions[a]),
       budgets,
       expected,
+      riskFreeRate,
       corrW: C ? multiplyVector(C, w) : undefined,
       ruleWeights,
       ownThresholds: !(form && q && q.status === 'optimal')

@@ -5,8 +5,7 @@ import { formatPct, listInWords } from '../../shared-core/present/format.js';
 /** The scenario's settings in the sentences the memo prints (method and data, candidates). */
 
 // Each method's words are part of its definition (shared-core/methods/).
-export { estimatorShort, estimatorWords } from '../../shared-core/methods/estimator-registry.js';
-export { objectiveWords } from '../../shared-core/methods/objective-registry.js';
+export { estimatorShort, estimatorWords, objectiveWords } from '../../shared-core/present/method-words.js';
 
 /** The limits of a candidate, one sentence each. `name` turns asset ids into printed names. */
 export function constraintSentences(

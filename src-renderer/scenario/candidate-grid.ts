@@ -1,14 +1,7 @@
 import type { Candidate, ScenarioInput } from '../../shared-core/scenario/schema.js';
-import {
-  describeEstimator,
-  estimatorDefinition,
-  type EstimatorSpec,
-} from '../../shared-core/methods/estimator-registry.js';
-import {
-  describeObjective,
-  objectiveDefinition,
-  type ObjectiveSpec,
-} from '../../shared-core/methods/objective-registry.js';
+import { estimatorDefinition, type EstimatorSpec } from '../../shared-core/methods/estimator-registry.js';
+import { objectiveDefinition, type ObjectiveSpec } from '../../shared-core/methods/objective-registry.js';
+import { describeEstimator, describeObjective } from '../../shared-core/present/method-words.js';
 
 /**
  * The candidates of a scenario as a grid: risk estimates down, objectives across, one candidate
@@ -31,8 +24,7 @@ export function specKey(spec: { method: string }): string {
 }
 
 // The methods' names, short codes and descriptions come from their definitions (shared-core/methods/).
-export { describeEstimator } from '../../shared-core/methods/estimator-registry.js';
-export { describeObjective } from '../../shared-core/methods/objective-registry.js';
+export { describeEstimator, describeObjective } from '../../shared-core/present/method-words.js';
 
 export function gridFromCandidates(candidates: readonly CandidateInput[]): CandidateGrid {
   const estimators = new Map<string, EstimatorSpec>();

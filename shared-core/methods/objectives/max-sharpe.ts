@@ -1,13 +1,26 @@
 import { defineObjective } from '../define.js';
 
+const label = 'Maximum Sharpe ratio';
+
 export const maxSharpe = defineObjective({
   method: 'max-sharpe',
-  label: 'Maximum Sharpe ratio',
+  label,
   idPart: 'ms',
-  options: (z) => z.strictObject({ method: z.literal('max-sharpe') }),
+  // The scenario's expectedReturns over the risk-free rate, both annualised: the portfolio
+  // maximises (w'mu - rf) / sqrt(w'Sigma w). Without a rate it is 0.
+  options: (z) =>
+    z.strictObject({
+      method: z.literal('max-sharpe'),
+      /** Annualised, as a fraction (0.02 for 2 %), like the expected returns. */
+      riskFreeRate: z.number().gt(-1).lt(1).optional(),
+    }),
   initial: { method: 'max-sharpe' },
-  describe: () => 'Maximum Sharpe ratio',
-  memoWords: () => 'maximum Sharpe ratio',
+  describe: (spec, { percent }) =>
+    spec.riskFreeRate !== undefined ? `${label}, risk-free rate ${percent(spec.riskFreeRate)}` : label,
+  memoWords: (spec, { percent }) =>
+    spec.riskFreeRate !== undefined
+      ? `maximum Sharpe ratio (risk-free rate ${percent(spec.riskFreeRate)})`
+      : 'maximum Sharpe ratio',
   shadowPrice: { name: 'the Sharpe ratio', unit: 'Sharpe ratio' },
   optimality: {
     rule: 'At the highest Sharpe ratio an asset held between its limits earns exactly the expected return its beta to the portfolio asks; one left out earns at most that.',

@@ -1,18 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { estimators } from '../../../shared-core/estimators/registry.js';
+import { estimatorDefinitions, estimatorMethods } from '../../../shared-core/methods/estimator-registry.js';
+import { objectiveDefinitions, objectiveMethods } from '../../../shared-core/methods/objective-registry.js';
 import {
   describeEstimator,
-  estimatorDefinitions,
-  estimatorMethods,
+  describeObjective,
   estimatorShort,
   estimatorWords,
-} from '../../../shared-core/methods/estimator-registry.js';
-import {
-  describeObjective,
-  objectiveDefinitions,
-  objectiveMethods,
   objectiveWords,
-} from '../../../shared-core/methods/objective-registry.js';
+} from '../../../shared-core/present/method-words.js';
 import { estimatorSpecSchema } from '../../../shared-core/scenario/estimator-spec.js';
 import { objectiveSpecSchema } from '../../../shared-core/scenario/objective-spec.js';
 import { commands } from '../../../src-main/cli/commands/index.js';
@@ -63,5 +59,12 @@ describe('the registries feed every list', () => {
       'Equal risk contribution, own budgets',
     );
     expect(objectiveWords({ method: 'min-variance' })).toBe('minimum variance');
+    expect(objectiveWords({ method: 'max-sharpe' })).toBe('maximum Sharpe ratio');
+    expect(objectiveWords({ method: 'max-sharpe', riskFreeRate: 0.025 })).toBe(
+      'maximum Sharpe ratio (risk-free rate 2.50%)',
+    );
+    expect(describeObjective({ method: 'max-sharpe', riskFreeRate: -0.005 })).toBe(
+      'Maximum Sharpe ratio, risk-free rate \u22120.50%',
+    );
   });
 });
