@@ -18,7 +18,9 @@ const SHARED_CORE_LAYERS = [
   { name: 'returns, estimators, optimiser, stress', members: ['returns', 'estimators', 'optimise', 'stress'] },
   { name: 'walk-forward', members: ['walkforward'] },
   { name: 'run', members: ['run'] },
-  { name: 'the core seen from outside', members: ['contract', 'demo', 'present'] },
+  { name: 'how figures are written', members: ['present'] },
+  { name: 'the book review', members: ['review'] },
+  { name: 'the core seen from outside', members: ['contract', 'demo'] },
 ];
 
 /** Deepest folder level under a layer's folder that the rules are written out for. */

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import type { ReviewRow } from '../review/review-row.js';
 import type { PriceTable } from '../prices/price-table.js';
 import { liquidityTags, type ScenarioInput } from '../scenario/schema.js';
 import { isoDate } from '../scenario/iso-date.js';
@@ -653,6 +654,31 @@ export const serviceApi = {
     'A printed memo with its PDF bytes (base64), unchanged since printing.',
     z.strictObject({ memoId: id }),
     z.object({ memo: memoSummarySchema, pdfBase64: z.string() }),
+  ),
+
+  'book.review': method(
+    'The book review: every household against the recommendation it follows, on the latest prices (reads the store only).',
+    z.strictObject({
+      /** Re-solve each recommendation on the latest prices and report how far the optimum moved. */
+      resolve: z.boolean().default(false),
+    }),
+    z.object({ rows: z.array(z.custom<ReviewRow>()), dataVersion: z.number().int() }),
+  ),
+  'book.setReview': method(
+    "Sets a household's drift tolerance or review note (null clears), or marks it as reviewed now.",
+    z.strictObject({
+      householdId: id,
+      /** Sum |current - target| beyond which the household needs attention, as a fraction (0.05 = 5 %). */
+      driftTolerance: z
+        .number()
+        .gt(0, 'the drift tolerance must be above 0 %')
+        .max(2, 'the drift tolerance must be at most 200 %')
+        .nullable()
+        .optional(),
+      note: z.string().max(2000, 'the note must be at most 2,000 characters').nullable().optional(),
+      reviewed: z.boolean().optional(),
+    }),
+    z.object({ driftTolerance: z.number().nullable(), note: z.string().nullable(), reviewedAt: z.string().nullable() }),
   ),
 } as const;
 

@@ -72,7 +72,7 @@ export function storedScenarioInputs(store: Store, householdName: string, scenar
  * The holdings as weights of their value in the scenario's base currency (the one valuation,
  * value-holdings.ts); a holding that cannot be valued is an InputError at its JSON path.
  */
-function holdingWeights(
+export function holdingWeights(
   store: Store,
   household: HouseholdRecord,
   base: string,

@@ -3,6 +3,7 @@ import type { ServiceApiTable } from '../../shared-core/contract/service-api.js'
 import type { Store } from '../store/store.js';
 import { packageVersion } from './app-info.js';
 import { translateStoreError } from './failures.js';
+import { bookMethods } from './book.js';
 import { householdMethods } from './households.js';
 import { importMethods } from './imports.js';
 import { libraryMethods } from './library.js';
@@ -59,6 +60,7 @@ export function createService(store: Store, options: ServiceOptions = {}): Servi
       return settings.set({ preparedBy });
     },
     ...householdMethods(store),
+    ...bookMethods(store),
     ...libraryMethods(store),
     ...priceMethods(store),
     'imports.start': imports['imports.start'],

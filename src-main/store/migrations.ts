@@ -152,6 +152,18 @@ const migrations: readonly ((db: Database.Database) => void)[] = [
     const ids = db.prepare('SELECT asset_id FROM price_series').pluck().all() as string[];
     for (const id of ids) update.run(seriesChecksum(read.get(id) as SeriesRowValues), id);
   },
+  // 6: the book review's own state per household: the advisor's drift tolerance, a review note,
+  // and when the household was last marked as reviewed. A row only once the advisor sets one.
+  (db) => {
+    db.exec(`
+      CREATE TABLE household_reviews (
+        household_id INTEGER PRIMARY KEY REFERENCES households(id) ON DELETE CASCADE,
+        drift_tolerance REAL CHECK (drift_tolerance IS NULL OR (drift_tolerance > 0 AND drift_tolerance <= 2)),
+        note TEXT,
+        reviewed_at TEXT
+      ) STRICT;
+    `);
+  },
   // Add the next migration here: one function per schema version, never edit one that shipped.
 ];
 

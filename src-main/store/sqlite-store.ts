@@ -24,6 +24,7 @@ import type {
   Holding,
   HouseholdInput,
   HouseholdRecord,
+  HouseholdReview,
   ImportBatch,
   MemoInfo,
   MemoInput,
@@ -543,6 +544,43 @@ export class SqliteStore implements Store {
         householdId,
       ) as { asset_id: string; amount: number; currency: string; as_of: string }[]
     ).map((r) => ({ assetId: r.asset_id, amount: r.amount, currency: r.currency, asOf: r.as_of }));
+  }
+
+  householdReview(householdId: number): HouseholdReview {
+    const r = this.sql('SELECT drift_tolerance, note, reviewed_at FROM household_reviews WHERE household_id = ?').get(
+      householdId,
+    ) as { drift_tolerance: number | null; note: string | null; reviewed_at: string | null } | undefined;
+    return { driftTolerance: r?.drift_tolerance ?? null, note: r?.note ?? null, reviewedAt: r?.reviewed_at ?? null };
+  }
+
+  setHouseholdReview(
+    householdId: number,
+    changes: { driftTolerance?: number | null; note?: string | null; reviewed?: boolean },
+  ): HouseholdReview {
+    const t = changes.driftTolerance;
+    if (t !== undefined && t !== null && !(Number.isFinite(t) && t > 0 && t <= 2))
+      throw new InputError('the drift tolerance must be above 0 % and at most 200 %', { path: 'driftTolerance' });
+    return this.transaction(() => {
+      if (!this.getHousehold(householdId)) throw new NotFoundError(`no household with id ${householdId}`);
+      const old = this.householdReview(householdId);
+      const next: HouseholdReview = {
+        driftTolerance: t === undefined ? old.driftTolerance : t,
+        note: changes.note === undefined ? old.note : changes.note,
+        reviewedAt: changes.reviewed ? this.stamp() : old.reviewedAt,
+      };
+      this.sql(
+        `INSERT INTO household_reviews (household_id, drift_tolerance, note, reviewed_at) VALUES (?, ?, ?, ?)
+           ON CONFLICT (household_id) DO UPDATE SET drift_tolerance = excluded.drift_tolerance, note = excluded.note,
+           reviewed_at = excluded.reviewed_at`,
+      ).run(householdId, next.driftTolerance, next.note, next.reviewedAt);
+      const what = [
+        changes.driftTolerance !== undefined ? 'tolerance' : '',
+        changes.note !== undefined ? 'note' : '',
+        changes.reviewed ? 'reviewed' : '',
+      ].filter(Boolean);
+      this.audit(changes.reviewed ? 'review' : 'update', 'review', householdId, undefined, what.join(', '));
+      return next;
+    });
   }
 
   // ---- scenarios ----

@@ -138,6 +138,15 @@ export interface Holding {
   asOf: string;
 }
 
+/** The book review's state of one household (defaults until the advisor sets them). */
+export interface HouseholdReview {
+  /** Sum |current - target| beyond which the household needs attention; null: the default. */
+  driftTolerance: number | null;
+  note: string | null;
+  /** When the advisor last marked the household as reviewed. */
+  reviewedAt: string | null;
+}
+
 export interface ScenarioRecord {
   id: number;
   householdId: number;
@@ -222,7 +231,7 @@ export interface AuditEntry {
   id: number;
   at: string;
   action: string;
-  entity: 'household' | 'holdings' | 'scenario' | 'revision' | 'draft' | 'universe' | 'prices' | 'memo';
+  entity: 'household' | 'holdings' | 'scenario' | 'revision' | 'draft' | 'universe' | 'prices' | 'memo' | 'review';
   entityId: number;
   /** Revision hash where the change concerns a scenario revision. */
   revisionHash?: string;
@@ -293,6 +302,13 @@ export interface Store {
   /** Replaces the household's current holdings. */
   setHoldings(householdId: number, holdings: readonly Holding[]): void;
   holdings(householdId: number): Holding[];
+  /** The book review's tolerance, note and last review of a household. */
+  householdReview(householdId: number): HouseholdReview;
+  /** Sets the tolerance and the note (undefined keeps, null clears); `reviewed` stamps the review now. */
+  setHouseholdReview(
+    householdId: number,
+    changes: { driftTolerance?: number | null; note?: string | null; reviewed?: boolean },
+  ): HouseholdReview;
 
   // Scenarios, revisions, drafts
   createScenario(input: { householdId: number; name: string; universe?: string }): ScenarioRecord;

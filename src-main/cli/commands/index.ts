@@ -126,6 +126,29 @@ const checkCommand: Command = {
   load: () => import('./check.js').then((m) => m.runCheck),
 };
 
+const reviewCommand: Command = {
+  name: 'review',
+  summary: 'the book review: every household against its recommendation, on the latest prices',
+  options: [
+    { name: 'store', kind: 'string', valueName: 'FILE', required: true, description: 'the store' },
+    { name: 'json', kind: 'boolean', description: 'print the rows as JSON' },
+    { name: 'csv', kind: 'string', valueName: 'FILE', description: 'also write the table as CSV' },
+    {
+      name: 'resolve',
+      kind: 'boolean',
+      description: 're-solve each recommendation on the latest prices and report how far the optimum moved',
+    },
+  ],
+  details:
+    'For each household: the scenario and revision it follows and its recommended candidate; drift of the\n' +
+    "holdings from it (sum |current - target| against the household's tolerance, default 5 %) and the\n" +
+    'largest gap; volatility and diversification ratio of the holdings and of the recommendation on the\n' +
+    'latest prices, with the change since the revision was saved; the mandate limits the holdings break;\n' +
+    'the last memo and what changed since. Reads the store only.\n' +
+    'Exit 0 when every household is in order, 4 when one needs attention or cannot be computed.',
+  load: () => import('./review.js').then((m) => m.runReview),
+};
+
 const exportHouseholdCommand: Command = {
   name: 'export-household',
   summary: `write one household with its scenarios and prices to a portable ${HOUSEHOLD_FILE_FORMAT} file`,
@@ -335,6 +358,7 @@ export const commands: readonly Command[] = [
   backupCommand,
   restoreCommand,
   checkCommand,
+  reviewCommand,
   exportHouseholdCommand,
   importHouseholdCommand,
   serveCommand,
