@@ -98,7 +98,7 @@ function quotesBalanced(text: string): boolean {
 }
 
 /** The delimiter of a header line: tab, semicolon or comma, whichever occurs (outside quotes). */
-export function chooseDelimiter(header: string, file: string, line = 1): Delimiter {
+export function chooseDelimiter(header: string, file: string): Delimiter {
   const bare = header.replace(/"[^"]*"/g, '');
   const counts = (['\t', ';', ','] as const).map((d) => [d, bare.split(d).length - 1] as const);
   const used = counts.filter(([, n]) => n > 0);
@@ -107,8 +107,7 @@ export function chooseDelimiter(header: string, file: string, line = 1): Delimit
       'the header has one column only; expected a date column and prices, separated by comma, semicolon or tab',
       {
         file,
-        line,
-        column: 1,
+        line: 1,
       },
     );
   if (used.length > 1) {
@@ -118,7 +117,7 @@ export function chooseDelimiter(header: string, file: string, line = 1): Delimit
     if (best[1] === second[1])
       throw new InputError(
         `the header mixes separators (${used.map(([d, n]) => `${n} ${name(d)}`).join(', ')}); use one of comma, semicolon or tab`,
-        { file, line, column: 1 },
+        { file, line: 1 },
       );
     return best[0];
   }

@@ -60,11 +60,8 @@ export interface ParsedPriceFile {
   decimal: DecimalMark;
   encoding: TextEncodingName;
   dateOrder: DateOrder | 'ambiguous';
-  /** Records after the header, and the line of the first (0 when none). */
+  /** Records after the header. */
   dataRows: number;
-  firstRowLine: number;
-  /** 1-based column of the dates. */
-  dateColumn: number;
   /** Ascending distinct day numbers (days since 1970-01-01) of the rows kept. */
   days: Int32Array;
   assets: ParsedAsset[];
@@ -118,7 +115,6 @@ interface LongAsset {
 export class PriceFileReader {
   readonly problems = new ProblemList();
   dataRows = 0;
-  private firstRowLine = 0;
   private readonly lines: CsvLines;
   private header = false;
   private form: 'wide' | 'long' = 'wide';
@@ -173,7 +169,7 @@ export class PriceFileReader {
 
   private record(text: string, start: number, end: number, line: number, inPlace: boolean): void {
     if (!this.header) return this.readHeader(text.slice(start, end), line);
-    if (this.dataRows++ === 0) this.firstRowLine = line;
+    this.dataRows++;
     if (this.decimal === undefined) {
       this.sample.push({ text: text.slice(start, end), line });
       if (this.sample.length >= Math.min(SAMPLE_ROWS, Math.ceil(SAMPLE_CELLS / this.width))) this.decideDecimal();
@@ -190,7 +186,7 @@ export class PriceFileReader {
   private readHeader(raw: string, line: number): void {
     this.header = true;
     const file = this.file;
-    this.delimiter = chooseDelimiter(raw, file, line);
+    this.delimiter = chooseDelimiter(raw, file);
     this.separatorCode = this.delimiter.charCodeAt(0);
     const names = this.cells(raw, line).map((c) => c.trim());
     this.width = names.length;
@@ -203,17 +199,17 @@ export class PriceFileReader {
     if (lower[0] !== 'date')
       throw new InputError(
         `the first header cell is '${shownCell(names[0])}'; expected 'date' followed by one column per asset (wide form) or the columns date, asset, close (long form)`,
-        { file, line, column: 1 },
+        { file, line: 1, column: 1 },
       );
     const seen = new Set<string>();
     names.slice(1).forEach((id, i) => {
-      const at = { file, line, column: i + 2 };
+      const at = { file, line: 1, column: i + 2 };
       if (!ASSET_ID.test(id)) throw new InputError(`asset id '${shownCell(id)}': ${ASSET_ID_RULE}`, at);
       if (seen.has(id)) throw new InputError(`asset '${id}' appears twice in the header`, at);
       seen.add(id);
     });
     this.ids = names.slice(1);
-    if (this.ids.length === 0) throw new InputError('the header names no asset columns', { file, line, column: 2 });
+    if (this.ids.length === 0) throw new InputError('the header names no asset columns', { file, line: 1, column: 2 });
     this.unparseable = new Int32Array(this.ids.length);
     this.nonPositive = new Int32Array(this.ids.length);
   }
@@ -459,8 +455,6 @@ export class PriceFileReader {
       decimal: this.decimal!,
       encoding,
       dataRows: this.dataRows,
-      firstRowLine: this.firstRowLine,
-      dateColumn: this.dateCol + 1,
       problems: this.problems,
       bytes,
     };

@@ -81,9 +81,7 @@ export function validatePrices(parsed: ParsedPriceFile, suspiciousMove = DEFAULT
   problems.count += parsed.problems.unlisted;
   if (parsed.dateOrder === 'ambiguous')
     problems.add({
-      kind: 'date',
-      line: parsed.firstRowLine,
-      column: parsed.dateColumn,
+      kind: 'file',
       message:
         'every date reads both day-first and month-first (no day above 12); choose the order (--date-order day-first or month-first)',
     });
