@@ -3,6 +3,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { sha256Hex } from '../../../src-main/store/canonical-json.js';
+import { seriesChecksum } from '../../../src-main/store/series-checksum.js';
 import { LATEST_SCHEMA_VERSION, migrate } from '../../../src-main/store/migrations.js';
 import { openDatabase } from '../../../src-main/store/open-database.js';
 import { StoreOpenError, openStore } from '../../../src-main/store/store.js';
@@ -25,7 +26,14 @@ function seedAt(db: Database.Database, version: number): void {
     db.prepare(
       "INSERT INTO import_batches (source, imported_at, added, replaced, assets) VALUES ('b.csv', '2025-01-02', 1, 0, 1)",
     ).run();
-    db.prepare("INSERT INTO price_series VALUES ('EQ1', 2, 20090, 20091, ?, ?, ?)").run(days, closes, batches);
+    db.prepare(
+      "INSERT INTO price_series (asset_id, points, first_day, last_day, days, closes, batches) VALUES ('EQ1', 2, 20090, 20091, ?, ?, ?)",
+    ).run(days, closes, batches);
+    // From version 5 a series carries its checksum, written with the series.
+    if (version >= 5)
+      db.prepare("UPDATE price_series SET checksum = ? WHERE asset_id = 'EQ1'").run(
+        seriesChecksum({ asset_id: 'EQ1', points: 2, first_day: 20090, last_day: 20091, days, closes, batches }),
+      );
     db.prepare("INSERT INTO universes (name) VALUES ('Core')").run();
     db.prepare("INSERT INTO universe_members VALUES (1, 'EQ1', 0, '[\"Equity\"]')").run();
   }
