@@ -1,4 +1,5 @@
 import type { Constraints } from '../scenario/schema.js';
+import { isSolved } from './result.js';
 import type { CandidateProblem, CandidateSolve } from './solve-candidate.js';
 
 /**
@@ -40,7 +41,9 @@ export function solveWithMinimumPosition(
   let last = withBounds(out, floored);
   if (last.result.status !== 'optimal') return last;
   for (let step = 0; step < p.assets.length; step++) {
-    const w = last.result.weights;
+    const solved = last.result;
+    if (solved.status !== 'optimal') return last; // every `last` is optimal: it is only replaced by one
+    const w = solved.weights;
     let smallest: string | undefined;
     for (const a of p.assets)
       if (!floored.includes(a) && w[a] > ON && w[a] < size - ON && (smallest === undefined || w[a] < w[smallest]))
@@ -80,8 +83,6 @@ function failed(p: CandidateProblem, status: 'error' | 'infeasible', message: st
       ...(p.label !== undefined ? { label: p.label } : {}),
       status,
       message,
-      weights: {},
-      metrics: null,
       solver: { iterations: 0, kktResidual: NaN, ms: 0 },
     },
   };
@@ -89,8 +90,9 @@ function failed(p: CandidateProblem, status: 'error' | 'infeasible', message: st
 
 /** The bounds the heuristic set are not the mandate's: explain those assets by the heuristic instead. */
 function annotate(s: CandidateSolve, size: number, out: readonly string[], floored: readonly string[]): CandidateSolve {
-  const ex = s.result.explanations;
-  if (!ex || (out.length === 0 && floored.length === 0)) return s;
+  const solved = s.result;
+  if (!isSolved(solved) || !solved.explanations || (out.length === 0 && floored.length === 0)) return s;
+  const ex = solved.explanations;
   const assets = ex.assets.map((e) =>
     out.includes(e.asset)
       ? {
@@ -115,7 +117,7 @@ function annotate(s: CandidateSolve, size: number, out: readonly string[], floor
   return {
     ...s,
     result: {
-      ...s.result,
+      ...solved,
       explanations: {
         assets,
         binding: ex.binding.filter((b) => !artificial(b.constraint)),

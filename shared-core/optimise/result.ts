@@ -53,13 +53,46 @@ export interface BindingConstraint {
   text: string;
 }
 
-export interface CandidateResult {
+interface CandidateHead {
   id: string;
   label?: string;
-  status: SolveStatus;
-  message?: string;
-  weights: Record<string, number>;
-  metrics: CandidateMetrics | null;
   solver: SolverReport;
-  explanations?: { assets: AssetExplanation[]; binding: BindingConstraint[]; flags: string[] };
+}
+
+/** Weights and their figures: the solver reached the optimum. */
+export interface OptimalCandidate extends CandidateHead {
+  status: 'optimal';
+  weights: Record<string, number>;
+  metrics: CandidateMetrics;
+  /** Absent where only the weights were asked for (the walk-forward's rebalances). */
+  explanations?: CandidateExplanations;
+}
+
+/** Weights and their figures from the last iterate: usable, with the residual told in `message`. */
+export interface IterationLimitCandidate extends Omit<OptimalCandidate, 'status'> {
+  status: 'iteration-limit';
+  message: string;
+}
+
+/** No weights: the limits contradict each other, or the problem cannot be solved as posed. */
+export interface FailedCandidate extends CandidateHead {
+  status: 'infeasible' | 'error';
+  /** What went wrong, in words a person can act on. */
+  message: string;
+}
+
+export interface CandidateExplanations {
+  assets: AssetExplanation[];
+  binding: BindingConstraint[];
+  flags: string[];
+}
+
+/** One candidate's result: its status says which fields it has (OSQP's status table is the model). */
+export type CandidateResult = OptimalCandidate | IterationLimitCandidate | FailedCandidate;
+
+/** A candidate with weights and metrics to show. */
+export type SolvedCandidate = OptimalCandidate | IterationLimitCandidate;
+
+export function isSolved(c: CandidateResult): c is SolvedCandidate {
+  return c.status === 'optimal' || c.status === 'iteration-limit';
 }

@@ -35,7 +35,7 @@ import {
 import { arithmeticConflicts, describeConflict } from './infeasibility.js';
 import { buildMandate, mandateViolation, type LinearMandate } from './mandate.js';
 import { addDot, phaseOne, QP_TOLERANCES, solveQp, type QpResult, type QpWarmStart } from './qp/index.js';
-import type { CandidateMetrics, CandidateResult } from './result.js';
+import type { CandidateExplanations, CandidateMetrics, CandidateResult, SolvedCandidate } from './result.js';
 
 /** Above this condition number the covariance is treated as singular (common practice for double precision). */
 export const CONDITION_LIMIT = 1e12;
@@ -175,8 +175,6 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
       ...head,
       status,
       message,
-      weights: {},
-      metrics: null,
       solver: { iterations, kktResidual: NaN, ms: nowMs() - t0 },
     },
   });
@@ -338,27 +336,29 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
   const w = weights as Float64Array;
   if (m.longOnly) for (let i = 0; i < n; i++) if (w[i] < 0 && w[i] > -1e-12) w[i] = 0;
 
-  const status = q && q.status === 'iteration-limit' ? 'iteration-limit' : 'optimal';
   const metrics = metricsOf(w, p, m);
-  const limitMessage =
-    status === 'iteration-limit'
-      ? { message: `stopped at the iteration limit with KKT residual ${residual.toExponential(1)}` }
-      : {};
-  const solved = (): CandidateResult => ({
-    ...head,
-    status,
-    ...limitMessage,
-    weights: Object.fromEntries(p.assets.map((a, i) => [a, w[i]])),
-    metrics,
-    solver: { iterations, kktResidual: residual, ms: nowMs() - t0 },
-  });
+  const solved = (): SolvedCandidate => {
+    const figures = {
+      weights: Object.fromEntries(p.assets.map((a, i) => [a, w[i]])),
+      metrics,
+      solver: { iterations, kktResidual: residual, ms: nowMs() - t0 },
+    };
+    return q && q.status === 'iteration-limit'
+      ? {
+          ...head,
+          status: 'iteration-limit',
+          message: `stopped at the iteration limit with KKT residual ${residual.toExponential(1)}`,
+          ...figures,
+        }
+      : { ...head, status: 'optimal', ...figures };
+  };
   if (p.detail === 'weights') return { result: solved(), warmStart };
   const explanations = explain();
   metrics.effectiveBets = effectiveBets(w, S, p.spectrum?.());
   const result: CandidateResult = { ...solved(), explanations };
   return { result, warmStart };
 
-  function explain(): NonNullable<CandidateResult['explanations']> {
+  function explain(): CandidateExplanations {
     const sens: Sensitivity[] = form && q && q.status === 'optimal' ? sensitivities(form, m, q.solution) : [];
     const sigmaW = multiplyVector(S, w);
     const fig: AssetFigures = {

@@ -4,6 +4,7 @@ import type { CovarianceEstimate } from '../estimators/types.js';
 import type { Frequency } from '../scenario/frequency.js';
 import type { Matrix } from '../linalg/matrix.js';
 import type { EstimatorSpec } from '../scenario/estimator-spec.js';
+import { isSolved } from '../optimise/result.js';
 import { solveCandidateDetailed } from '../optimise/solve-candidate.js';
 import type { QpWarmStart } from '../optimise/qp/index.js';
 import { mergedConstraints } from '../scenario/merged-constraints.js';
@@ -58,11 +59,11 @@ export const estimateAndSolve: EstimateAndSolveFn = (request): SolveOutcome => {
     detail: 'weights',
     ...(request.previous ? { warmStart: request.previous as QpWarmStart } : {}),
   });
-  const weights = Float64Array.from(assets, (a) => result.weights[a] ?? 0);
+  const weights = Float64Array.from(assets, (a) => (isSolved(result) ? result.weights[a] : undefined) ?? 0);
   const ok = result.status === 'optimal';
   return {
     status: result.status,
-    ...(result.message !== undefined ? { message: result.message } : {}),
+    ...(result.status !== 'optimal' ? { message: result.message } : {}),
     weights,
     covariance,
     forecastVolatility: ok ? portfolioVolatility(weights, covariance) : NaN,

@@ -8,7 +8,7 @@ import {
 import { InputError } from '../../shared-core/errors.js';
 import type { CovarianceEstimate } from '../../shared-core/estimators/types.js';
 import type { Matrix } from '../../shared-core/linalg/matrix.js';
-import type { CandidateMetrics, CandidateResult } from '../../shared-core/optimise/result.js';
+import type { CandidateMetrics, CandidateResult, OptimalCandidate } from '../../shared-core/optimise/result.js';
 import type { ReturnsResult } from '../../shared-core/returns/build-returns.js';
 import type { Scenario } from '../../shared-core/scenario/schema.js';
 import type { MemoData, MemoInput, MemoPosition, MemoStability, MemoStress, MemoWalkForward } from './memo-input.js';
@@ -65,12 +65,12 @@ export function metricsFor(
 
 export function chooseRecommended(scenario: Scenario, candidates: readonly CandidateResult[]): string {
   if (scenario.recommended) return scenario.recommended;
-  const solved = candidates.filter((c) => c.status === 'optimal' && c.metrics);
+  const solved = candidates.filter((c): c is OptimalCandidate => c.status === 'optimal');
   if (solved.length === 0)
     throw new InputError('no candidate of the scenario could be solved, so there is nothing to recommend', {
       path: 'candidates',
     });
-  return [...solved].sort((a, b) => b.metrics!.diversificationRatio - a.metrics!.diversificationRatio)[0].id;
+  return [...solved].sort((a, b) => b.metrics.diversificationRatio - a.metrics.diversificationRatio)[0].id;
 }
 
 export function buildMemoInput(o: BuildMemoOptions): MemoInput {

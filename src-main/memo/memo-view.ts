@@ -1,5 +1,5 @@
 import { InputError } from '../../shared-core/errors.js';
-import type { CandidateResult } from '../../shared-core/optimise/result.js';
+import { isSolved, type CandidateResult, type OptimalCandidate } from '../../shared-core/optimise/result.js';
 import { decimalsForLot } from '../../shared-core/present/format.js';
 import type { MemoInput } from './memo-input.js';
 import { planTrades, type TradePlan } from './trades.js';
@@ -17,7 +17,7 @@ export interface MemoView {
   shown: readonly string[];
   /** Assets neither held nor proposed. */
   unused: readonly string[];
-  recommended: CandidateResult;
+  recommended: OptimalCandidate;
   recommendedIndex: number;
   /** Current weights (fractions), or null without holdings or scenario weights. */
   current: Record<string, number> | null;
@@ -41,15 +41,11 @@ export function buildView(input: MemoInput): MemoView {
   const recommended = input.run.candidates[recommendedIndex];
   if (recommended.status !== 'optimal')
     throw new InputError(
-      `the recommended candidate '${recommended.id}' is ${recommended.status}${recommended.message ? ` (${recommended.message})` : ''}; recommend a solved one`,
+      `the recommended candidate '${recommended.id}' is ${recommended.status} (${recommended.message}); recommend a solved one`,
       { path: 'recommended' },
     );
-  if (!recommended.metrics)
-    throw new InputError(`the recommended candidate '${recommended.id}' has no figures (metrics)`, {
-      path: `run.candidates[${recommendedIndex}].metrics`,
-    });
   for (const [ci, c] of input.run.candidates.entries())
-    for (const asset of Object.keys(c.weights))
+    for (const asset of Object.keys(isSolved(c) ? c.weights : {}))
       if (!known.has(asset))
         throw new InputError(`asset '${asset}' is not in the estimate's assets`, {
           path: `run.candidates[${ci}].weights.${asset}`,

@@ -1,5 +1,5 @@
 import { objectiveDefinition, type ObjectiveSpec } from '../../shared-core/methods/objective-registry.js';
-import type { AssetExplanation, CandidateResult } from '../../shared-core/optimise/result.js';
+import type { AssetExplanation, SolvedCandidate } from '../../shared-core/optimise/result.js';
 import { formatFixed, formatPct } from '../../shared-core/present/format.js';
 
 /**
@@ -42,7 +42,7 @@ function position(a: AssetExplanation, liquidityCap: boolean): string {
 }
 
 /** Held assets by weight, then those left out; null when the solver gave no explanation. */
-export function reasonsTable(candidate: CandidateResult, objective: ObjectiveSpec | undefined): ReasonsTable | null {
+export function reasonsTable(candidate: SolvedCandidate, objective: ObjectiveSpec | undefined): ReasonsTable | null {
   const ex = candidate.explanations;
   if (!ex || ex.assets.length === 0) return null;
   const words = objective ? objectiveDefinition(objective.method).optimality : undefined;

@@ -1,5 +1,5 @@
 import { correlationMatrix } from '../../shared-core/analytics/risk.js';
-import type { CandidateResult } from '../../shared-core/optimise/result.js';
+import type { CandidateResult, OptimalCandidate } from '../../shared-core/optimise/result.js';
 import { clusterOrder } from '../../shared-core/analytics/cluster-order.js';
 import {
   bandsOption,
@@ -167,13 +167,13 @@ function rank(values: number[], value: number, descending: boolean): number {
 /** Page 1: the recommendation, its figures against the current holdings, the trades in total. */
 function recommendation(w: PageWriter, v: MemoView, title: string): void {
   const { input, recommended: rc, trades: plan } = v;
-  const m = rc.metrics!;
+  const m = rc.metrics;
   const spec = input.scenario.document.candidates.find((c) => c.id === rc.id);
   w.heading(title);
   if (input.rationale) w.paragraph(input.rationale);
-  const solved = input.run.candidates.filter((c) => c.status === 'optimal' && c.metrics);
-  const drs = solved.map((c) => c.metrics!.diversificationRatio);
-  const vols = solved.map((c) => c.metrics!.volatility);
+  const solved = input.run.candidates.filter((c): c is OptimalCandidate => c.status === 'optimal');
+  const drs = solved.map((c) => c.metrics.diversificationRatio);
+  const vols = solved.map((c) => c.metrics.volatility);
   const how = spec ? ` (${objectiveWords(spec.objective)}, ${estimatorWords(spec.estimator)})` : '';
   const sentences = [
     `The recommended allocation is ${v.candidateLabel(rc)}${how}.`,
@@ -346,7 +346,7 @@ function trades(w: PageWriter, v: MemoView, title: string): void {
 /** Where the risk comes from: contributions, correlations and, when the revision has them, stresses. */
 function risk(w: PageWriter, v: MemoView, title: string): void {
   const { input, recommended: rc } = v;
-  const m = rc.metrics!;
+  const m = rc.metrics;
   const cm = input.currentMetrics;
   w.heading(title);
   const order = v.shown;
@@ -506,7 +506,7 @@ function reasons(w: PageWriter, v: MemoView, title: string): void {
           ]
         : []),
     ];
-    const risks = rc.metrics!.riskContributions;
+    const risks = rc.metrics.riskContributions;
     w.table(
       cols,
       table.rows.map((r) => ({
@@ -574,7 +574,7 @@ function stability(w: PageWriter, v: MemoView, title: string): void {
 }
 
 function candidateFigures(c: CandidateResult): { vol: string; dr: string; bets: string; turnover: string } {
-  if (c.status !== 'optimal' || !c.metrics) return { vol: '\u2013', dr: '\u2013', bets: '\u2013', turnover: '\u2013' };
+  if (c.status !== 'optimal') return { vol: '\u2013', dr: '\u2013', bets: '\u2013', turnover: '\u2013' };
   return {
     vol: formatPct(c.metrics.volatility),
     dr: formatRatio2(c.metrics.diversificationRatio),
@@ -609,14 +609,19 @@ function candidates(w: PageWriter, v: MemoView, title: string): void {
   // The scatter first: it sums the table up, and the table may then flow over a page break.
   const points = all
     .map((c, i) => ({ c, i }))
-    .filter(({ c }) => c.status === 'optimal' && c.metrics)
-    .map(({ c, i }) => ({
-      label: v.candidateLabel(c),
-      volatility: c.metrics!.volatility,
-      diversificationRatio: c.metrics!.diversificationRatio,
-      colour: candidateColour(i),
-      recommended: c.id === v.recommended.id,
-    }));
+    .flatMap(({ c, i }) =>
+      c.status === 'optimal'
+        ? [
+            {
+              label: v.candidateLabel(c),
+              volatility: c.metrics.volatility,
+              diversificationRatio: c.metrics.diversificationRatio,
+              colour: candidateColour(i),
+              recommended: c.id === v.recommended.id,
+            },
+          ]
+        : [],
+    );
   if (points.length > 1) {
     const best = [...points].sort((a, b) => b.diversificationRatio - a.diversificationRatio)[0];
     const calm = [...points].sort((a, b) => a.volatility - b.volatility)[0];

@@ -244,7 +244,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
       setProblem({
         summary:
           'No candidate can be solved with these inputs; the comparison below is from the last inputs that solved.',
-        details: o.comparison.candidates.map((c) => `${c.id}: ${c.message ?? c.status}`),
+        details: o.comparison.candidates.map((c) => `${c.id}: ${c.status === 'optimal' ? c.status : c.message}`),
         messages: [],
       });
       return;

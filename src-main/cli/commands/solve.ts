@@ -1,5 +1,5 @@
 import { InputError, formatInputError } from '../../../shared-core/errors.js';
-import type { CandidateResult } from '../../../shared-core/optimise/result.js';
+import { isSolved, type CandidateResult } from '../../../shared-core/optimise/result.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { runScenario, type ScenarioRun } from '../../../shared-core/run/run-scenario.js';
 import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
@@ -67,17 +67,17 @@ export function exitCodeOf(candidates: readonly CandidateResult[]): number {
   return EXIT.failure;
 }
 
-/** The `--json` document: the issue's keys, then the explanations. */
+/** The `--json` document: the issue's keys, then the explanations; a candidate without weights prints `{}` and `null`. */
 export function solveJson(run: ScenarioRun): string {
   const candidates = run.candidates.map((c) => ({
     id: c.id,
     ...(c.label !== undefined ? { label: c.label } : {}),
     status: c.status,
-    ...(c.message !== undefined ? { message: c.message } : {}),
-    weights: c.weights,
-    metrics: c.metrics,
+    ...(c.status !== 'optimal' ? { message: c.message } : {}),
+    weights: isSolved(c) ? c.weights : {},
+    metrics: isSolved(c) ? c.metrics : null,
     solver: { iterations: c.solver.iterations, kktResidual: c.solver.kktResidual, ms: c.solver.ms },
-    ...(c.explanations ? { explanations: c.explanations } : {}),
+    ...(isSolved(c) && c.explanations ? { explanations: c.explanations } : {}),
   }));
   return (
     JSON.stringify({ candidates }, (_, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n'
@@ -89,8 +89,10 @@ const pct = (v: number) => `${(v * 100).toFixed(1)}%`.padStart(7);
 export function solveTable(run: ScenarioRun): string {
   const lines: string[] = [];
   for (const c of run.candidates) {
-    lines.push(`${c.id}${c.label ? ` (${c.label})` : ''}: ${c.status}${c.message ? ` - ${c.message}` : ''}`);
-    if (c.metrics) {
+    lines.push(
+      `${c.id}${c.label ? ` (${c.label})` : ''}: ${c.status}${c.status !== 'optimal' ? ` - ${c.message}` : ''}`,
+    );
+    if (isSolved(c)) {
       const m = c.metrics;
       lines.push(
         `  volatility ${pct(m.volatility).trim()}, diversification ratio ${m.diversificationRatio.toFixed(3)}, effective bets ${m.effectiveBets.toFixed(2)}, effective holdings ${m.effectiveHoldings.toFixed(2)}, turnover ${pct(m.turnover).trim()}`,

@@ -99,8 +99,8 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
   const assets = useStable(comparison.assets, sameStrings);
   const solvedCandidates = useMemo(() => comparison.candidates.filter(solved), [comparison]);
   const focus =
-    comparison.candidates.find((c) => c.id === props.focused && solved(c)) ??
-    comparison.candidates.find((c) => c.id === props.recommended && solved(c)) ??
+    solvedCandidates.find((c) => c.id === props.focused) ??
+    solvedCandidates.find((c) => c.id === props.recommended) ??
     solvedCandidates[0];
   const estimateOfFocus = focus ? comparison.estimateOf[focus.id] : undefined;
   const [chosenEstimate, setChosenEstimate] = useState<string | undefined>(undefined);

@@ -1,5 +1,5 @@
 import { memo } from 'react';
-import type { CandidateResult } from '../../../shared-core/optimise/result.js';
+import { isSolved, type CandidateResult, type OptimalCandidate } from '../../../shared-core/optimise/result.js';
 import { candidateColour } from '../../../shared-core/present/palette.js';
 import { formatDuration, formatPercent, formatRatio } from '../format.js';
 
@@ -23,9 +23,12 @@ export interface CandidateTableProps {
   locale?: string;
 }
 
-export function solved(c: CandidateResult): boolean {
-  return c.status === 'optimal' && c.metrics !== null;
+export function solved(c: CandidateResult): c is OptimalCandidate {
+  return c.status === 'optimal';
 }
+
+/** The figures of a candidate with weights (an iteration-limit stop has them too). */
+const figures = (c: CandidateResult) => (isSolved(c) ? c.metrics : undefined);
 
 function StatusLine({ c }: { c: CandidateResult }) {
   if (c.status === 'optimal') return <span className="status ok">solved</span>;
@@ -51,16 +54,16 @@ export const CandidateTable = memo(function CandidateTable(props: CandidateTable
     {
       label: 'Volatility',
       unit: 'annualised',
-      value: (c) => formatPercent(c.metrics?.volatility, locale),
+      value: (c) => formatPercent(figures(c)?.volatility, locale),
     },
     {
       label: 'Diversification ratio',
       unit: 'w′σ / √(w′Σw)',
-      value: (c) => formatRatio(c.metrics?.diversificationRatio, locale),
+      value: (c) => formatRatio(figures(c)?.diversificationRatio, locale),
     },
-    { label: 'Effective bets', unit: 'of risk', value: (c) => formatRatio(c.metrics?.effectiveBets, locale) },
-    { label: 'Effective holdings', unit: '1 / Σw²', value: (c) => formatRatio(c.metrics?.effectiveHoldings, locale) },
-    { label: 'Turnover', unit: 'Σ|w − current|', value: (c) => formatPercent(c.metrics?.turnover, locale) },
+    { label: 'Effective bets', unit: 'of risk', value: (c) => formatRatio(figures(c)?.effectiveBets, locale) },
+    { label: 'Effective holdings', unit: '1 / Σw²', value: (c) => formatRatio(figures(c)?.effectiveHoldings, locale) },
+    { label: 'Turnover', unit: 'Σ|w − current|', value: (c) => formatPercent(figures(c)?.turnover, locale) },
   ];
   const anyFailed = candidates.some((c) => !solved(c));
   return (

@@ -1,5 +1,6 @@
 import { useEffect, useMemo, useRef, useState, type RefObject } from 'react';
 import type { RevisionSummary } from '../../../shared-core/contract/service-api.js';
+import { isSolved } from '../../../shared-core/optimise/result.js';
 import { priceTableFromWire } from '../../../shared-core/contract/service-api.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { parseScenario, type Scenario, type ScenarioInput } from '../../../shared-core/scenario/schema.js';
@@ -181,7 +182,9 @@ export function BesidePanel(props: {
     // The revision's own assets decide its prices; the draft's do not.
   }, [parsed]);
   const changes = useMemo(() => (loaded ? diffDocuments(loaded.document, props.current) : []), [loaded, props.current]);
-  const rows = (c: Comparison | null) => new Map((c?.candidates ?? []).map((x) => [x.id, x]));
+  // Every candidate keeps its row; one without weights shows no figures.
+  const rows = (c: Comparison | null) =>
+    new Map((c?.candidates ?? []).map((x) => [x.id, { metrics: isSolved(x) ? x.metrics : undefined }]));
   const then = rows(comparison);
   const now = rows(props.currentComparison);
   const ids = [...new Set([...then.keys(), ...now.keys()])];

@@ -254,8 +254,6 @@ export function memoFixture(options: FixtureOptions = {}): MemoInput {
           label: 'Low turnover',
           status: 'infeasible',
           message: 'turnover cap 1.0% cannot reach the cash floor',
-          weights: {},
-          metrics: null,
           solver: { iterations: 40, kktResidual: 1, ms: 9 },
         },
       ],

@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
+import { optimal } from '../../support/candidate-status.js';
 import { canonicalJson, hashedInput, memoHash } from '../../../src-main/memo/memo-hash.js';
 import { MEMO_LAYOUT_VERSION } from '../../../src-main/memo/memo-input.js';
 import { memoFixture } from './memo-fixture.js';
@@ -31,7 +32,7 @@ describe('the memo hash (SHA-256 of the canonical JSON of layout version and inp
     const reordered = Object.fromEntries(Object.entries(memoFixture()).reverse()) as typeof a;
     expect(memoHash(reordered)).toBe(memoHash(a));
     const b = memoFixture();
-    b.run.candidates[0].weights['ALD-EQ'] += 1e-9;
+    optimal(b.run.candidates[0]).weights['ALD-EQ'] += 1e-9;
     expect(memoHash(b)).not.toBe(memoHash(a));
     const c = memoFixture();
     c.lot = 500;

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { optimal } from '../../support/candidate-status.js';
 import { InputError } from '../../../shared-core/errors.js';
 import { buildMemoInput, chooseRecommended, metricsFor } from '../../../src-main/memo/build-memo-input.js';
 import { parseHoldingsText } from '../../../src-main/memo/memo-sources.js';
@@ -104,9 +105,10 @@ describe('buildMemoInput from a scenario run', () => {
     const doc = scenarioDocument();
     expect(chooseRecommended(doc, run.candidates)).toBe('maxdiv');
     delete doc.recommended;
-    const best = [...run.candidates]
-      .filter((c) => c.metrics)
-      .sort((a, b) => b.metrics!.diversificationRatio - a.metrics!.diversificationRatio)[0];
+    const best = run.candidates
+      .filter((c) => c.status === 'optimal')
+      .map(optimal)
+      .sort((a, b) => b.metrics.diversificationRatio - a.metrics.diversificationRatio)[0];
     expect(chooseRecommended(doc, run.candidates)).toBe(best.id);
     expect(errorOf(() => chooseRecommended(doc, [])).location.path).toBe('candidates');
   });

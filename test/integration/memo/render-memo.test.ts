@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { optimal } from '../../support/candidate-status.js';
 import { InputError } from '../../../shared-core/errors.js';
 import { formatPct, formatPercent1, formatRatio2, MINUS } from '../../../shared-core/present/format.js';
 import { memoHash } from '../../../src-main/memo/memo-hash.js';
@@ -108,7 +109,7 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
 
   it('prints the reasons as a table, one row per asset with its weight, correlation and threshold, not sentences', () => {
     const lines = between(pages, SECTION_TITLES.reasons, 'What the binding limits cost');
-    const rc = input.run.candidates.find((c) => c.id === input.recommended)!;
+    const rc = optimal(input.run.candidates.find((c) => c.id === input.recommended)!);
     const info = input.scenario.document.assetInfo!;
     for (const a of rc.explanations!.assets) {
       const cells = rowOf(lines, info[a.asset]!.name!);
@@ -172,7 +173,7 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
 
   it('allocation table: current and target weights equal the holdings and the solve rounded by formatPercent1, changes are the printed difference', () => {
     const lines = between(pages, SECTION_TITLES.trades, 'Each percentage is the weight');
-    const rc = input.run.candidates.find((c) => c.id === input.recommended)!;
+    const rc = optimal(input.run.candidates.find((c) => c.id === input.recommended)!);
     const positions = input.household.holdings!.positions;
     const total = positions.reduce((s, p) => s + p.amount, 0);
     const info = input.scenario.document.assetInfo!;
@@ -190,7 +191,7 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
 
   it('trades: each is the gap to target rounded to the lot (a full sale unrounded), and the column adds up to zero with the rounding cash', () => {
     const lines = between(pages, SECTION_TITLES.trades, 'Each percentage is the weight');
-    const rc = input.run.candidates.find((c) => c.id === input.recommended)!;
+    const rc = optimal(input.run.candidates.find((c) => c.id === input.recommended)!);
     const positions = input.household.holdings!.positions;
     const info = input.scenario.document.assetInfo!;
     const rounded = (x: number) => Math.sign(x) * Math.round(Math.abs(x));
@@ -234,7 +235,7 @@ describe('the allocation memo (text read back with poppler pdftotext, Debian pop
 
   it('summary figures are the candidate metrics, rounded as the design notes say (one decimal percent, two-decimal ratios)', () => {
     const lines = between(pages, SECTION_TITLES.recommendation, SECTION_TITLES.trades);
-    const m = input.run.candidates[0].metrics!;
+    const m = optimal(input.run.candidates[0]).metrics;
     const cm = input.currentMetrics!;
     expect(rowOf(lines, 'Volatility, annualised')).toEqual([
       `${formatPercent1(cm.volatility)}%`,

@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
+import { optimal } from '../../support/candidate-status.js';
 import { easterSunday, isoOfDay } from '../../../shared-core/demo/calendar.js';
 import {
   DEFAULT_DEMO_SEED,
@@ -317,8 +318,8 @@ describe('demo data: the demo scenario solves (shared-core/run/run-scenario.ts)'
     const run = runScenario(s, demo.prices, { fx: demo.fx });
     expect(run.candidates.map((c) => c.status)).toEqual(Array(6).fill('optimal'));
     const tol = 1e-6;
-    for (const c of run.candidates) {
-      const w = c.weights as Record<string, number>;
+    for (const c of run.candidates.map(optimal)) {
+      const w = c.weights;
       const total = Object.values(w).reduce((a, b) => a + b, 0);
       expect(total, c.id).toBeCloseTo(1, 6);
       for (const [asset, x] of Object.entries(w)) {

@@ -3,11 +3,13 @@ import { fromRows, type Matrix } from '../../../shared-core/linalg/matrix.js';
 import type { ObjectiveSpec } from '../../../shared-core/scenario/objective-spec.js';
 import type { Constraints } from '../../../shared-core/scenario/schema.js';
 import { solveCandidate, type CandidateProblem } from '../../../shared-core/optimise/solve-candidate.js';
-import type { CandidateResult } from '../../../shared-core/optimise/result.js';
+import type { CandidateResult, OptimalCandidate, SolvedCandidate } from '../../../shared-core/optimise/result.js';
+import { optimal } from '../../support/candidate-status.js';
 
 export const ids = (n: number): string[] => Array.from({ length: n }, (_, i) => `A${String(i + 1).padStart(3, '0')}`);
 
-export function solve(
+/** Whatever the solve gives: for the tests of infeasible and failed problems. */
+export function attempt(
   covariance: Matrix,
   objective: ObjectiveSpec,
   constraints: Constraints = {},
@@ -16,7 +18,12 @@ export function solve(
   return solveCandidate({ id: 't', assets: ids(covariance.rows), covariance, objective, constraints, ...extra });
 }
 
-export const weightsArray = (r: CandidateResult, n: number): number[] => ids(n).map((a) => r.weights[a]);
+/** The optimum; a problem that does not solve fails the test with its status and message. */
+export function solve(...args: Parameters<typeof attempt>): OptimalCandidate {
+  return optimal(attempt(...args));
+}
+
+export const weightsArray = (r: SolvedCandidate, n: number): number[] => ids(n).map((a) => r.weights[a]);
 
 export function equicorrelated(n: number, vol: number, rho: number): Matrix {
   return fromRows(

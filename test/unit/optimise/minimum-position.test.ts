@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { fromRows } from '../../../shared-core/linalg/matrix.js';
-import { equicorrelated, ids, solve, weightsArray } from './helpers.js';
+import { attempt, equicorrelated, ids, solve, weightsArray } from './helpers.js';
+import { failed } from '../../support/candidate-status.js';
 import { randomCovariance } from './random-problems.js';
 
 /**
@@ -49,10 +50,12 @@ describe('minimum position size (heuristic)', () => {
       [0.01, 0.05, 0.0],
       [0.0, 0.0, 0.09],
     ]);
-    const r = solve(
-      S,
-      { method: 'min-variance' },
-      { groups: [{ name: 'Gold', members: ['A003'], min: 0.01, max: 0.02 }], minPosition: 0.05 },
+    const r = failed(
+      attempt(
+        S,
+        { method: 'min-variance' },
+        { groups: [{ name: 'Gold', members: ['A003'], min: 0.01, max: 0.02 }], minPosition: 0.05 },
+      ),
     );
     expect(r.status).toBe('infeasible');
     expect(r.message).toMatch(/minimum position size of 5%: A003 can neither be left out nor held at 5%/);
@@ -69,7 +72,9 @@ describe('minimum position size (heuristic)', () => {
   });
 
   it('is refused for a long-short mandate, with the reason', () => {
-    const r = solve(equicorrelated(4, 0.1, 0.2), { method: 'min-variance' }, { longOnly: false, minPosition: 0.05 });
+    const r = failed(
+      attempt(equicorrelated(4, 0.1, 0.2), { method: 'min-variance' }, { longOnly: false, minPosition: 0.05 }),
+    );
     expect(r.status).toBe('error');
     expect(r.message).toMatch(/applies to long-only mandates/);
   });

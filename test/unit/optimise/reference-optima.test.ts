@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { fromRows, zeros, type Matrix } from '../../../shared-core/linalg/matrix.js';
 import { solveCandidate } from '../../../shared-core/optimise/solve-candidate.js';
 import type { Constraints } from '../../../shared-core/scenario/schema.js';
+import { optimal } from '../../support/candidate-status.js';
 
 // Reference optima from cvxopt 1.3.0 solvers.qp (Debian python3-cvxopt) and, for the
 // EuStockMarkets cases (R datasets, Debian r-base-core), R quadprog 1.5-8 solve.QP
@@ -41,14 +42,15 @@ function covarianceOf(c: Case): Matrix {
 describe(`reference optima (${doc.source})`, () => {
   for (const c of doc.cases)
     it(`${c.name}: weights within 1e-6, the objective (DR or volatility) within 1e-9 relative`, () => {
-      const r = solveCandidate({
-        id: 'ref',
-        assets: c.assets,
-        covariance: covarianceOf(c),
-        objective: { method: c.objective },
-        constraints: c.constraints,
-      });
-      expect(r.status).toBe('optimal');
+      const r = optimal(
+        solveCandidate({
+          id: 'ref',
+          assets: c.assets,
+          covariance: covarianceOf(c),
+          objective: { method: c.objective },
+          constraints: c.constraints,
+        }),
+      );
       c.assets.forEach((a, i) => expect(Math.abs(r.weights[a] - c.weights[i]), a).toBeLessThan(1e-6));
       if (c.quadprogWeights)
         c.assets.forEach((a, i) => expect(Math.abs(r.weights[a] - c.quadprogWeights![i])).toBeLessThan(1e-6));

@@ -35,7 +35,7 @@ import { homogenisedForm, sensitivities } from '../../../shared-core/optimise/fo
 import { buildMandate } from '../../../shared-core/optimise/mandate.js';
 import type { QpResult } from '../../../shared-core/optimise/qp/index.js';
 import type { CandidateProblem } from '../../../shared-core/optimise/solve-candidate.js';
-import type { CandidateResult } from '../../../shared-core/optimise/result.js';
+import type { SolvedCandidate } from '../../../shared-core/optimise/result.js';
 import type { ObjectiveSpec } from '../../../shared-core/scenario/objective-spec.js';
 import type { Constraints } from '../../../shared-core/scenario/schema.js';
 import { equicorrelated, ids, solve, weightsArray } from './helpers.js';
@@ -51,7 +51,7 @@ const dot = (a: ArrayLike<number>, b: ArrayLike<number>): number => {
 };
 
 /** The objective's value from the weights alone, in the unit the core reports its prices in. */
-function objectiveValue(S: Matrix, objective: ObjectiveSpec, r: CandidateResult, expected: number[]): number {
+function objectiveValue(S: Matrix, objective: ObjectiveSpec, r: SolvedCandidate, expected: number[]): number {
   const n = S.rows;
   const w = weightsArray(r, n);
   const vols = Array.from({ length: n }, (_, i) => Math.sqrt(S.data[i * n + i]));
@@ -81,7 +81,7 @@ function objectiveValue(S: Matrix, objective: ObjectiveSpec, r: CandidateResult,
   }
 }
 
-const bindingNames = (r: CandidateResult): string[] =>
+const bindingNames = (r: SolvedCandidate): string[] =>
   r.explanations!.binding.map((b) => b.constraint.replace(/ -?[\d.]+%$/, '')).sort();
 
 interface Case {
@@ -98,7 +98,7 @@ function checkAgainstResolve(S: Matrix, objective: ObjectiveSpec, c: Case, expec
   const expectedReturns = Object.fromEntries(ids(n).map((a, i) => [a, expected[i]]));
   const at = (limit: number) => solve(S, objective, c.constraints(limit), { expectedReturns, ...c.extra });
   const r = at(c.limit);
-  expect(r.status, r.message).toBe('optimal');
+  expect(r.status).toBe('optimal');
   const b = r.explanations!.binding.find((x) => x.constraint.startsWith(`${c.label} `));
   expect(b, `${c.label} should bind; binding: ${bindingNames(r).join(', ')}`).toBeDefined();
   const up = at(c.limit + H);

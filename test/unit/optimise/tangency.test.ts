@@ -2,7 +2,8 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { fromRows } from '../../../shared-core/linalg/matrix.js';
 import { parseScenario } from '../../../shared-core/scenario/schema.js';
-import { ids, solve, weightsArray } from './helpers.js';
+import { attempt, ids, solve, weightsArray } from './helpers.js';
+import { failed } from '../../support/candidate-status.js';
 
 interface TangencyCase {
   name: string;
@@ -69,7 +70,7 @@ describe('max-sharpe over a risk-free rate: the tangency portfolio', () => {
   });
 
   it('a rate above every reachable expected return is infeasible, in words naming the rate', () => {
-    const r = solve(S, { method: 'max-sharpe', riskFreeRate: 0.5 }, {}, { expectedReturns });
+    const r = failed(attempt(S, { method: 'max-sharpe', riskFreeRate: 0.5 }, {}, { expectedReturns }));
     expect(r.status).toBe('infeasible');
     expect(r.message).toMatch(/expected return above the risk-free rate of 50%/);
   });

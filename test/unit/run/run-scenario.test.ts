@@ -5,6 +5,7 @@ import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { createRunCache } from '../../../shared-core/run/run-cache.js';
 import { runScenario } from '../../../shared-core/run/run-scenario.js';
 import { parseScenario } from '../../../shared-core/scenario/schema.js';
+import { optimal } from '../../support/candidate-status.js';
 
 /** Seeded lognormal prices with one common factor (a Park and Miller 1988 stream). */
 function prices(n: number, days: number): PriceTable {
@@ -46,11 +47,10 @@ describe('runScenario: one tridiagonal reduction per estimate', () => {
     const cache = createRunCache();
     const run = runScenario(parsed.scenario, prices(12, 300), { cache });
     expect(cache.forms.size).toBe(2); // two estimators, six candidates
-    for (const c of run.candidates) {
-      expect(c.status).toBe('optimal');
+    for (const c of run.candidates.map(optimal)) {
       const { covariance, assets, estimate } = run.estimates[c.id];
       const w = assets.map((a) => c.weights[a]);
-      expect(c.metrics!.effectiveBets).toBeCloseTo(effectiveBets(w, covariance), 12);
+      expect(c.metrics.effectiveBets).toBeCloseTo(effectiveBets(w, covariance), 12);
       expect(estimate.diagnostics.conditionNumber).toBeCloseTo(conditionNumber(estimate.covariance).value, 8);
     }
   });
@@ -72,8 +72,9 @@ describe('runScenario with a run cache (the editor’s live recompute)', () => {
   const scenario = parsed.scenario;
   const copy = (t: PriceTable): PriceTable => ({ ...t, dates: [...t.dates], closes: t.closes.map((c) => c.slice()) });
   const sameWeights = (a: ReturnType<typeof runScenario>, b: ReturnType<typeof runScenario>) =>
-    a.candidates.forEach((c, k) => {
-      for (const [asset, w] of Object.entries(c.weights)) expect(w).toBeCloseTo(b.candidates[k].weights[asset], 12);
+    a.candidates.map(optimal).forEach((c, k) => {
+      for (const [asset, w] of Object.entries(c.weights))
+        expect(w).toBeCloseTo(optimal(b.candidates[k]).weights[asset], 12);
     });
 
   it('reuses the returns and estimates while their inputs are unchanged, even for a copied price table, and answers as a run without it', () => {
@@ -92,7 +93,7 @@ describe('runScenario with a run cache (the editor’s live recompute)', () => {
     const cold = runScenario(capped, table);
     sameWeights(edited, cold);
     edited.candidates.forEach((c, k) =>
-      expect(c.metrics!.effectiveBets).toBeCloseTo(cold.candidates[k].metrics!.effectiveBets, 12),
+      expect(optimal(c).metrics.effectiveBets).toBeCloseTo(optimal(cold.candidates[k]).metrics.effectiveBets, 12),
     );
   });
 
