@@ -197,11 +197,10 @@ function computeFigures(
     return { result, solved, estimate: result.estimates[candidate] };
   };
   const then = run(recommendedOnly(scenario, candidate, savedDay));
-  if (then.solved.status !== 'optimal' || !then.solved.metrics)
-    throw new InputError(
-      `the recommended candidate '${candidate}' ends ${then.solved.status}: ${then.solved.message ?? ''}`.trim(),
-    );
-  const target = then.solved.weights;
+  const thenSolved = then.solved;
+  if (thenSolved.status !== 'optimal')
+    throw new InputError(`the recommended candidate '${candidate}' ends ${thenSolved.status}: ${thenSolved.message}`);
+  const target = thenSolved.weights;
   // No price after the revision's day: the latest run is the same run.
   const latest = stored.prices.dates[stored.prices.dates.length - 1];
   const now = latest !== undefined && latest <= savedDay ? then : run(recommendedOnly(scenario, candidate));
@@ -225,14 +224,14 @@ function computeFigures(
   };
   if (options.resolve) {
     const s = now.solved;
-    if (s.status === 'optimal' && s.metrics) {
+    if (s.status === 'optimal') {
       const moved = driftFrom(s.weights, target).total;
       figures.resolved = {
         status: 'optimal',
         moved,
         diversificationRatioChange: s.metrics.diversificationRatio - figures.recommendedRisk.now.diversificationRatio,
       };
-    } else figures.resolved = { status: 'not-solved', message: `${s.status}${s.message ? `: ${s.message}` : ''}` };
+    } else figures.resolved = { status: 'not-solved', message: `${s.status}: ${s.message}` };
   }
   return figures;
 }
