@@ -1,6 +1,7 @@
 import { basename } from 'node:path';
 import { InputError } from '../../shared-core/errors.js';
 import { buildMemoInput, chooseRecommended } from '../memo/build-memo-input.js';
+import { countOf } from '../../shared-core/present/format.js';
 import { memoSectionsFromBacktest } from '../memo/from-backtest.js';
 import { memoHash } from '../memo/memo-hash.js';
 import type { MemoData, MemoInput, MemoPosition } from '../memo/memo-input.js';
@@ -24,7 +25,10 @@ export interface MemoRequest {
   /** A candidate id; the default is the scenario's `recommended`, else the most diversified solved one. */
   recommended?: string;
   rationale?: string;
-  /** Add the walk-forward and stress sections; with stabilityDraws, the weight bands. */
+  /**
+   * Add the walk-forward and stress sections (added anyway when the scenario has walk-forward
+   * settings); with stabilityDraws, the weight bands.
+   */
   walkForward?: { stabilityDraws?: number };
   signal?: AbortSignal;
 }
@@ -50,8 +54,12 @@ async function memoInput(
     });
   const run = runScenarioInputs(inputs, { signal: request.signal });
   const recommended = request.recommended ?? chooseRecommended(scenario, run.candidates);
-  const backtest = request.walkForward
-    ? await walkForward(inputs, { stabilityDraws: request.walkForward.stabilityDraws, signal: request.signal })
+  // The walk-forward and stress sections whenever the revision has walk-forward settings, printed
+  // from the page as from the command line; a request may also ask for them (--backtest), and for
+  // the weight bands.
+  const asked = request.walkForward ?? (scenario.backtest ? {} : undefined);
+  const backtest = asked
+    ? await walkForward(inputs, { stabilityDraws: asked.stabilityDraws, signal: request.signal })
     : undefined;
   return buildMemoInput({
     scenario,
@@ -176,7 +184,9 @@ export async function memoFromStore(
       flags: [
         ...store
           .listBatches()
-          .map((b) => `Prices imported from ${b.source} on ${b.importedAt.slice(0, 10)} (${b.assets} assets).`),
+          .map(
+            (b) => `Prices imported from ${b.source} on ${b.importedAt.slice(0, 10)} (${countOf(b.assets, 'asset')}).`,
+          ),
         ...valued.rates.map((r) => `Holdings valued with ${r}.`),
       ],
     },
