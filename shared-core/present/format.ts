@@ -198,8 +198,9 @@ function dayFormat(locale: string | undefined): Intl.DateTimeFormat {
   return f;
 }
 
-/** An instant (ISO 8601 with time) as the locale's medium date and short time, in local time. */
-export function formatInstant(iso: string, locale: string | undefined): string {
+/** An instant (ISO 8601 with time) as the locale's medium date and short time, in local time: "1 Dec 2026, 14:02". */
+export function formatInstant(iso: string | null | undefined, locale?: string): string {
+  if (!iso) return DASH;
   const t = Date.parse(iso);
   if (!Number.isFinite(t)) return iso;
   return new Intl.DateTimeFormat(locale, { dateStyle: 'medium', timeStyle: 'short' }).format(new Date(t));
@@ -221,4 +222,18 @@ export function listInWords(items: readonly string[]): string {
 /** A count with its noun, singular for exactly one: "1 asset", "25 assets", "0 trades". */
 export function countOf(n: number, singular: string, plural = `${singular}s`): string {
   return `${formatAmount(n)} ${n === 1 ? singular : plural}`;
+}
+
+/** A moment's time of day in the locale: "14:02". */
+export function formatTimeOfDay(iso: string | null | undefined, locale?: string): string {
+  if (!iso) return DASH;
+  const t = Date.parse(iso);
+  if (!Number.isFinite(t)) return iso;
+  return new Intl.DateTimeFormat(locale, { timeStyle: 'short' }).format(new Date(t));
+}
+
+/** Today's date as ISO 8601 `YYYY-MM-DD` in the user's own time zone (for files and fields). */
+export function todayIso(now = new Date()): string {
+  const pad = (n: number) => String(n).padStart(2, '0');
+  return `${now.getFullYear()}-${pad(now.getMonth() + 1)}-${pad(now.getDate())}`;
 }

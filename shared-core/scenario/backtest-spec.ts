@@ -1,12 +1,16 @@
 import { z } from 'zod';
+import type { Frequency } from '../estimators/types.js';
 import { isoDate } from './iso-date.js';
 
 /** Walk-forward settings of a scenario (`holdfast backtest`). */
 export const rebalanceSchedules = ['monthly', 'quarterly', 'yearly', 'drift'] as const;
 
 export const backtestSpecSchema = z.strictObject({
-  /** Trailing estimation window, in return periods. */
-  estimationWindow: z.number().int().min(3).default(250),
+  /**
+   * Trailing estimation window, in return periods. Absent: what the history allows
+   * (`defaultEstimationWindow`), so a walk-forward runs on its defaults whatever the data.
+   */
+  estimationWindow: z.number().int().min(3).optional(),
   expanding: z.boolean().default(false),
   rebalance: z.enum(rebalanceSchedules).default('monthly'),
   /** For `drift`: rebalance when any weight leaves target +/- this band. */
@@ -18,6 +22,24 @@ export const backtestSpecSchema = z.strictObject({
   from: isoDate.optional(),
 });
 export type BacktestSpec = z.infer<typeof backtestSpecSchema>;
+
+/**
+ * The usual estimation window per frequency: three years of monthly returns, two of weekly, one
+ * trading year of daily (common practice, from memory; not from a cited source).
+ */
+export const USUAL_ESTIMATION_WINDOW: Readonly<Record<Frequency, number>> = { daily: 252, weekly: 104, monthly: 36 };
+
+/** The shortest window the walk-forward accepts (the schema's minimum). */
+export const MIN_ESTIMATION_WINDOW = 3;
+
+/**
+ * The walk-forward's estimation window when the scenario gives none: the usual window for the
+ * frequency, but never more than half of the `returns` the history holds, so at least as many
+ * periods are walked forward out of sample as are used to estimate the first rebalance.
+ */
+export function defaultEstimationWindow(frequency: Frequency, returns: number): number {
+  return Math.max(MIN_ESTIMATION_WINDOW, Math.min(USUAL_ESTIMATION_WINDOW[frequency], Math.floor(returns / 2)));
+}
 
 /** User-defined stress shocks saved with the scenario: a return shock to one asset or group. */
 export const stressSpecSchema = z.strictObject({

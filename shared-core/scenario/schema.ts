@@ -116,6 +116,16 @@ export const scenarioSchema = z
     });
     if (s.recommended !== undefined && !seen.has(s.recommended))
       ctx.addIssue({ code: 'custom', path: ['recommended'], message: `no candidate with id '${s.recommended}'` });
+    // No asset can hold more than the whole of a long-only portfolio: a cap of 150 % is a typing
+    // slip, refused in the field's own words (the screens show the same text beside the field).
+    if (s.constraints.longOnly !== false)
+      for (const [asset, [, hi]] of Object.entries(s.constraints.weightBounds ?? {}))
+        if (hi > 1)
+          ctx.addIssue({
+            code: 'custom',
+            path: ['constraints', 'weightBounds', asset, 1],
+            message: 'the upper bound must be at most 100 % (the portfolio is long-only)',
+          });
     if (s.window?.years !== undefined && s.window.from !== undefined)
       ctx.addIssue({
         code: 'custom',

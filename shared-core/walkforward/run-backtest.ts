@@ -5,7 +5,7 @@ import type { PriceTable } from '../prices/price-table.js';
 import { buildReturns, DEFAULT_MAX_FILL_DAYS, type ReturnsResult } from '../returns/build-returns.js';
 import { inBaseCurrency } from '../returns/exchange-rate.js';
 import { dayNumber, pricingFrequency } from '../returns/calendar.js';
-import { backtestSpecSchema, type BacktestSpec } from '../scenario/backtest-spec.js';
+import { backtestSpecSchema, defaultEstimationWindow, type BacktestSpec } from '../scenario/backtest-spec.js';
 import type { Candidate, Scenario } from '../scenario/schema.js';
 import { drain, drainAsync, throwIfCancelled, type CancelCheck } from '../stability/cancel.js';
 import { weightStabilitySteps, type WeightStability } from '../stability/weight-bands.js';
@@ -85,7 +85,17 @@ export interface CandidateBacktest {
 
 export interface BacktestRun {
   assets: string[];
-  settings: BacktestSpec & { startDate: string; endDate: string; rowsPerYear: number; periodsPerYear: number };
+  settings: Omit<BacktestSpec, 'estimationWindow'> & {
+    /** In return periods: the scenario's, or `defaultEstimationWindow` of the history. */
+    estimationWindow: number;
+    /** The scenario gave no window, so it was chosen from the history's `historyReturns`. */
+    windowFromHistory: boolean;
+    historyReturns: number;
+    startDate: string;
+    endDate: string;
+    rowsPerYear: number;
+    periodsPerYear: number;
+  };
   candidates: CandidateBacktest[];
   reference: string;
   comparisons: CandidateComparison[];
@@ -152,7 +162,7 @@ export async function runBacktest(
   // First possible rebalance: the date of the estimationWindow-th return (only dates and the
   // pattern of missing prices are read here, never a price level), or `from` if later.
   const all = returnsOf(table);
-  const W = spec.estimationWindow;
+  const W = spec.estimationWindow ?? defaultEstimationWindow(frequency, all.dates.length);
   if (all.dates.length < W)
     throw new InputError(
       `the first rebalance needs ${W} returns of history, the prices give ${all.dates.length} in all`,
@@ -354,6 +364,9 @@ export async function runBacktest(
     assets,
     settings: {
       ...spec,
+      estimationWindow: W,
+      windowFromHistory: spec.estimationWindow === undefined,
+      historyReturns: all.dates.length,
       startDate: table.dates[startIndex],
       endDate: table.dates[table.dates.length - 1],
       rowsPerYear,

@@ -1,10 +1,4 @@
-import {
-  diversificationRatio,
-  effectiveBets,
-  effectiveHoldings,
-  portfolioVolatility,
-  riskContributions,
-} from '../../shared-core/analytics/risk.js';
+import { metricsFor } from '../../shared-core/analytics/weights-metrics.js';
 import { InputError } from '../../shared-core/errors.js';
 import type { CovarianceEstimate } from '../../shared-core/estimators/types.js';
 import type { Matrix } from '../../shared-core/linalg/matrix.js';
@@ -45,23 +39,8 @@ export interface BuildMemoOptions {
   stress?: MemoStress;
 }
 
-/** The figures of given weights under a covariance (in the covariance's asset order). */
-export function metricsFor(
-  weights: Readonly<Record<string, number>>,
-  assets: readonly string[],
-  covariance: Matrix,
-): CandidateMetrics {
-  const w = Float64Array.from(assets, (a) => weights[a] ?? 0);
-  const rc = riskContributions(w, covariance);
-  return {
-    volatility: portfolioVolatility(w, covariance),
-    diversificationRatio: diversificationRatio(w, covariance),
-    effectiveBets: effectiveBets(w, covariance),
-    effectiveHoldings: effectiveHoldings(w),
-    riskContributions: Object.fromEntries(assets.map((a, i) => [a, rc[i]])),
-    turnover: 0,
-  };
-}
+/** The figures of given weights: one function for the memo and the screens (shared-core). */
+export { metricsFor };
 
 export function chooseRecommended(scenario: Scenario, candidates: readonly CandidateResult[]): string {
   if (scenario.recommended) return scenario.recommended;

@@ -2,7 +2,7 @@ import { useId, useMemo, useState } from 'react';
 import type { Asset, Holdings } from '../../shared-core/contract/service-api.js';
 import { isIsoDate } from '../../shared-core/scenario/iso-date.js';
 import { api } from '../bridge.js';
-import { todayIso } from '../app/format-time.js';
+import { todayIso } from '../../shared-core/present/format.js';
 import { ErrorNote, errorText, Loading } from '../app/notes.js';
 import { href } from '../app/route.js';
 import { useLoad } from '../app/use-load.js';

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { api } from '../bridge.js';
-import { formatInstant } from '../app/format-time.js';
+import { formatInstant } from '../../shared-core/present/format.js';
 import { ErrorNote, Loading } from '../app/notes.js';
 import { useLoad } from '../app/use-load.js';
 import { HoldingsPanel } from './HoldingsPanel.js';

@@ -1,13 +1,33 @@
 import { useEffect, useId, useRef, useState, type FormEvent } from 'react';
 import type { HouseholdSummary, ScenarioSummary } from '../../shared-core/contract/service-api.js';
 import { api } from '../bridge.js';
-import { formatInstant } from '../app/format-time.js';
+import { formatInstant } from '../../shared-core/present/format.js';
 import { takeNewScenarioRequest, useMenuCommands } from '../app/menu.js';
 import { ErrorNote, errorText, Loading } from '../app/notes.js';
 import { href, navigate } from '../app/route.js';
 import { useLoad } from '../app/use-load.js';
 import { formatPercent } from '../scenario/format.js';
-import { shareOutsideUniverse, starterScenario } from './starter-scenario.js';
+import { priceTableFromWire } from '../../shared-core/contract/service-api.js';
+import type { ScenarioInput } from '../../shared-core/scenario/schema.js';
+import {
+  shareOutsideUniverse,
+  starterScenario,
+  STATED_DEFAULTS_TEXT,
+  type HouseholdMandate,
+} from './starter-scenario.js';
+
+/** The household's mandate: the limits of its most recently saved scenario, if it has one. */
+async function householdMandate(householdId: string): Promise<HouseholdMandate | undefined> {
+  const list = await api['scenarios.list']({ householdId });
+  const newest = list
+    .filter((s) => s.latestRevision !== null)
+    .sort((a, b) => (b.latestRevision!.savedAt < a.latestRevision!.savedAt ? -1 : 1))[0];
+  if (!newest) return undefined;
+  const detail = await api['scenarios.get']({ scenarioId: newest.id });
+  const constraints = (detail.document as ScenarioInput | null)?.constraints;
+  if (!constraints) return undefined;
+  return { source: `${newest.name}, revision ${newest.latestRevision!.number}`, constraints };
+}
 
 /** A household's scenarios, each with its revision history; a new one starts from a universe. */
 export function ScenariosPanel({ household }: { household: HouseholdSummary }) {
@@ -208,19 +228,30 @@ function NewScenarioForm({ household, onCancel }: { household: HouseholdSummary;
     setBusy(true);
     setFailure(undefined);
     try {
-      const document = starterScenario({
+      const priced = universe.data.members.filter((m) => m.asset.fx === null).map((m) => m.asset.id);
+      const [prices, mandate] = await Promise.all([
+        priced.length > 0
+          ? api['prices.table']({ assets: priced }).then((r) => priceTableFromWire(r.table))
+          : Promise.resolve(undefined),
+        householdMandate(household.id),
+      ]);
+      const { document, origin } = starterScenario({
         name: name.trim(),
         baseCurrency: household.baseCurrency,
         members: universe.data.members,
         holdings: holdings.data,
+        prices,
+        mandate,
       });
       const created = await api['scenarios.create']({
         householdId: household.id,
         document,
         universe: universe.data.universe.name,
         author: author.trim(),
-        note: 'first draft',
+        note: `Started: ${origin}`,
       });
+      // Initials are asked once: the first ones typed are kept for every later save and memo.
+      if (!settings.data?.preparedBy) await api['settings.set']({ preparedBy: author.trim().toUpperCase() });
       navigate({ page: 'scenario', householdId: household.id, scenarioId: created.scenario.id });
     } catch (error) {
       setFailure(errorText(error));
@@ -268,23 +299,38 @@ function NewScenarioForm({ household, onCancel }: { household: HouseholdSummary;
             <div className="hint">{formatPercent(outside)} of the holdings are outside this universe.</div>
           ) : null}
         </div>
-        <div className="field">
-          <label htmlFor={`${id}-author`}>Your initials</label>
-          <input
-            id={`${id}-author`}
-            type="text"
-            value={author}
-            maxLength={4}
-            size={6}
-            onChange={(e) => setInitials(e.target.value.toUpperCase())}
-            aria-invalid={author && authorReason ? true : undefined}
-          />
-          {author && authorReason ? <div className="reason">{authorReason}</div> : null}
-        </div>
+        {settings.data?.preparedBy ? (
+          <div className="field">
+            <span className="label-like">Signed as</span>
+            <div>
+              {settings.data.preparedBy} <a href={href({ page: 'settings' })}>change in settings</a>
+            </div>
+          </div>
+        ) : (
+          <div className="field">
+            <label htmlFor={`${id}-author`}>Your initials</label>
+            <input
+              id={`${id}-author`}
+              type="text"
+              value={author}
+              maxLength={4}
+              size={6}
+              onChange={(e) => setInitials(e.target.value.toUpperCase())}
+              aria-invalid={author && authorReason ? true : undefined}
+              aria-describedby={`${id}-author-hint`}
+            />
+            <div className="hint" id={`${id}-author-hint`}>
+              asked once: kept in the settings for every save and memo
+            </div>
+            {author && authorReason ? <div className="reason">{authorReason}</div> : null}
+          </div>
+        )}
       </div>
       <p className="hint">
-        Starts with the universe's assets, five years of daily log returns, long-only, the current holdings as the
-        turnover reference and one candidate (Ledoit-Wolf, maximum diversification); change all of it in the scenario.
+        Starts with the universe's assets, five years of log returns at the frequency the coarsest of them is priced at,
+        the household's mandate (the limits of its newest scenario) or else stated defaults ({STATED_DEFAULTS_TEXT}
+        ), the current holdings as the turnover reference and one candidate (Ledoit-Wolf, maximum diversification);
+        change all of it in the scenario.
       </p>
       {failure ? (
         <div className="note error" role="alert">

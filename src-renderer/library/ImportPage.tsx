@@ -1,7 +1,7 @@
 import { useEffect, useId, useRef, useState, type FormEvent } from 'react';
 import type { ImportJob } from '../../shared-core/contract/service-api.js';
 import { api } from '../bridge.js';
-import { formatInstant } from '../app/format-time.js';
+import { formatInstant } from '../../shared-core/present/format.js';
 import { ErrorNote, errorText } from '../app/notes.js';
 import { href } from '../app/route.js';
 import { useLoad } from '../app/use-load.js';

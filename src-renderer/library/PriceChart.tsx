@@ -73,7 +73,7 @@ export function PriceChart({ series }: { series: PriceSeries }) {
           emphasis: { handleStyle: { borderColor: ACCENT }, moveHandleStyle: { color: ACCENT, opacity: 0.6 } },
           textStyle: { color: INK_SOFT },
           dataBackground: { lineStyle: { color: INK_FAINT }, areaStyle: { color: RULE_SOFT } },
-          labelFormatter: (value: number) => new Date(value).toISOString().slice(0, 10),
+          labelFormatter: (value: number) => formatDate(new Date(value).toISOString().slice(0, 10)),
         },
       ],
       series: [

@@ -17,9 +17,11 @@ import type { Comparison } from '../worker/comparison.js';
 import type { RecomputeOutcome } from '../worker/recompute-client.js';
 import { AnswerSection } from './answer/AnswerSection.js';
 import { BriefSection } from './brief/BriefSection.js';
-import { EditorEpoch } from './brief/fields.js';
+import { ApplyFix, EditorEpoch, FixButton } from './brief/fields.js';
 import { setField, editorStateFor, type EditorState } from './editor-state.js';
-import { formatDuration } from './format.js';
+import { formatDateTime, formatDuration, formatPercent } from './format.js';
+import { illiquidCaution } from './answer/illiquid-caution.js';
+import { formatTimeOfDay } from '../../shared-core/present/format.js';
 import { applyEdit, canRedo, canUndo, createHistory, redo, undo, type History } from './history.js';
 import { MemoSection } from './memo/MemoSection.js';
 import { ReasonsSection } from './reasons/ReasonsSection.js';
@@ -28,6 +30,7 @@ import { fillStoreGaps } from './store-gaps.js';
 import { useRecompute } from './use-recompute.js';
 import { WalkForwardSection } from './walkforward/WalkForwardSection.js';
 import { checkDraft, describeMessage, type FieldMessage } from './validate-draft.js';
+import { describeField, inFieldWords } from './field-words.js';
 import './scenario.css';
 
 /**
@@ -229,12 +232,17 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
       return;
     }
     if (o.kind === 'failed') {
-      const messages: FieldMessage[] = o.input && o.path ? [{ path: o.path, message: o.message, source: 'check' }] : [];
+      const messages: FieldMessage[] =
+        o.input && o.path ? [{ path: o.path, message: inFieldWords(o.path, o.message), source: 'check' }] : [];
       setProblem({
         summary: o.input
-          ? 'These inputs cannot be computed; the comparison below is from the last inputs that could.'
-          : 'The recompute failed; the comparison below is from the last run that finished.',
-        details: [o.path ? `${o.path}: ${o.message}` : o.message],
+          ? hadGood.current
+            ? 'These inputs cannot be computed; the comparison below is from the last inputs that could.'
+            : 'These inputs cannot be computed yet; no comparison to show.'
+          : hadGood.current
+            ? 'The recompute failed; the comparison below is from the last run that finished.'
+            : 'The recompute failed; no comparison to show.',
+        details: [o.path ? describeField(o.path, o.message) : o.message],
         messages,
       });
       return;
@@ -336,6 +344,8 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
 
   // ---- revisions ----
   const [revisions, setRevisions] = useState(boot.revisions);
+  // The initials in the settings, asked once (at the first save) and then kept.
+  const [preparedBy, setPreparedBy] = useState(boot.preparedBy);
   const [beside, setBeside] = useState<number | null>(null);
   const reloadRevisions = useCallback(
     () => api['scenarios.revisions']({ scenarioId }).then(setRevisions),
@@ -381,6 +391,13 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   const [focus, setFocus] = useState<string | undefined>(undefined);
   const stateRef = useRef(state);
   stateRef.current = state;
+  const applyFix = useCallback(
+    (path: (string | number)[], value: unknown) => {
+      commit(setField(stateRef.current, path, value), path.join('.'));
+      setEpoch((e) => e + 1);
+    },
+    [commit],
+  );
   const recommend = useCallback(
     (id: string | undefined) => commit(setField(stateRef.current, ['recommended'], id)),
     [commit],
@@ -393,6 +410,11 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   const colourIndex = useCallback((id: string) => Math.max(0, candidateIds.split('\n').indexOf(id)), [candidateIds]);
   const deferredCandidates = useDeferredValue(good?.comparison.candidates);
   const stale = recompute.state.busy || !check.ok || problem !== null;
+  // While the scenario has only its first revision, say where its limits and frequency came from.
+  const started =
+    revisions.length === 1 && revisions[0].note.startsWith('Started: ')
+      ? revisions[0].note.slice('Started: '.length)
+      : null;
 
   return (
     <div className="scenario-page" data-testid="scenario-page">
@@ -402,7 +424,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
           <h1>{doc.name || boot.detail.scenario.name}</h1>
           <p className="faint">
             {revisions[0]
-              ? `Revision ${revisions[0].number} saved ${new Date(revisions[0].savedAt).toLocaleString(locale)} by ${revisions[0].author}`
+              ? `Revision ${revisions[0].number} saved ${formatDateTime(revisions[0].savedAt, locale)} by ${revisions[0].author}`
               : 'No revision yet'}
             {' · '}
             <span data-testid="draft-status">
@@ -411,7 +433,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
                 : draft.error
                   ? `draft not saved: ${errorText(draft.error)}`
                   : draft.savedAt
-                    ? `draft saved ${new Date(draft.savedAt).toLocaleTimeString(locale)}`
+                    ? `draft saved ${formatTimeOfDay(draft.savedAt, locale)}`
                     : 'no unsaved changes'}
             </span>
           </p>
@@ -427,7 +449,8 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
             scenarioId={scenarioId}
             document={doc}
             valid={check.ok}
-            preparedBy={boot.preparedBy}
+            preparedBy={preparedBy}
+            onInitialsKept={setPreparedBy}
             revisions={revisions}
             saveButton={saveButton}
             onSaved={() => {
@@ -439,38 +462,48 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
           />
         </div>
       </header>
-      <RecomputeStatus
-        busy={recompute.state.busy}
-        onCancel={recompute.cancel}
-        check={check.ok ? [] : check.messages}
-        problem={problem}
-        shown={shown}
-        pricesError={pricesError}
-        hasResult={good !== null}
-      />
+      <ApplyFix.Provider value={applyFix}>
+        <RecomputeStatus
+          busy={recompute.state.busy}
+          onCancel={recompute.cancel}
+          check={check.ok ? [] : check.messages}
+          problem={problem}
+          shown={shown}
+          pricesError={pricesError}
+          hasResult={good !== null}
+        />
+      </ApplyFix.Provider>
+      {started ? (
+        <p className="note" role="note" data-testid="starting-note">
+          <strong>How this scenario started: </strong>
+          {started}
+        </p>
+      ) : null}
       {boot.openedDraft ? (
         <p className="note" role="note">
-          Opened the unsaved draft of {new Date(boot.detail.draft?.savedAt ?? '').toLocaleString(locale)}; the latest
-          revision is {boot.detail.scenario.latestRevision?.number ?? 'none'}. Save it as a revision to keep it in the
-          history.
+          Opened the unsaved draft of {formatDateTime(boot.detail.draft?.savedAt ?? '', locale)}; the latest revision is{' '}
+          {boot.detail.scenario.latestRevision?.number ?? 'none'}. Save it as a revision to keep it in the history.
         </p>
       ) : null}
       <div className={beside !== null ? 'with-beside' : undefined}>
         <div className="scenario-main">
-          <EditorEpoch.Provider value={epoch}>
-            <BriefSection
-              state={state}
-              commit={commit}
-              update={update}
-              messages={messages}
-              onTyping={onTyping}
-              catalogue={boot.catalogue}
-              holdings={boot.holdings}
-              locale={locale}
-            />
-          </EditorEpoch.Provider>
+          <ApplyFix.Provider value={applyFix}>
+            <EditorEpoch.Provider value={epoch}>
+              <BriefSection
+                state={state}
+                commit={commit}
+                update={update}
+                messages={messages}
+                onTyping={onTyping}
+                catalogue={boot.catalogue}
+                holdings={boot.holdings}
+                locale={locale}
+              />
+            </EditorEpoch.Provider>
+          </ApplyFix.Provider>
           {good ? (
             <>
+              <IlliquidNote scenario={good.scenario} candidates={good.comparison.candidates} locale={locale} />
               <AnswerSection
                 comparison={good.comparison}
                 scenario={good.scenario}
@@ -505,6 +538,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
             householdName={boot.household.name}
             revisions={revisions}
             unsaved={draft.saving || draft.savedAt !== undefined || doc !== savedDoc.current}
+            preparedBy={preparedBy}
             onSaveFirst={openSave}
           />
         </div>
@@ -585,7 +619,9 @@ function RecomputeStatus(props: {
       {props.check.length > 0 ? (
         <ul className="problem-list" data-testid="input-problems">
           {props.check.map((m, i) => (
-            <li key={i}>{describeMessage(m)}</li>
+            <li key={i}>
+              {describeMessage(m)} <FixButton fix={m.fix} />
+            </li>
           ))}
         </ul>
       ) : null}
@@ -600,5 +636,21 @@ function RecomputeStatus(props: {
         <p className="note error">The prices could not be read: {errorText(props.pricesError)}</p>
       ) : null}
     </div>
+  );
+}
+
+function IlliquidNote(props: { scenario: Scenario; candidates: Comparison['candidates']; locale?: string }) {
+  const caution = illiquidCaution(props.scenario, props.candidates);
+  if (!caution) return null;
+  return (
+    <p className="note warning" role="note" data-testid="illiquid-caution">
+      <span className="marker" aria-hidden="true">
+        ◆
+      </span>{' '}
+      <strong>Caution: </strong>
+      {caution.candidate} puts {formatPercent(caution.weight, props.locale)} in illiquid assets (
+      {caution.assets.join(', ')}), and the scenario sets no cap on them. Money in a fund with a lock-up cannot be taken
+      back on request: set “Cap on illiquid assets together” under the mandate limits.
+    </p>
   );
 }

@@ -48,9 +48,16 @@ export function findCandidate(
   return candidates.find((c) => specKey(c.estimator) === e && specKey(c.objective) === o);
 }
 
-/** An id from the two methods ("md-lw"), made unique against `taken` with a numeric suffix. */
-export function candidateId(estimator: EstimatorSpec, objective: ObjectiveSpec, taken: ReadonlySet<string>): string {
-  const base = `${objectiveDefinition(objective.method).idPart}-${estimatorDefinition(estimator.method).idPart}`;
+/**
+ * The one rule for candidate ids: risk estimate, then objective ("lw-maxdiv", as the demo
+ * scenario and a new scenario's first candidate), made unique against `taken` with a suffix.
+ */
+export function candidateId(
+  estimator: EstimatorSpec,
+  objective: ObjectiveSpec,
+  taken: ReadonlySet<string> = new Set(),
+): string {
+  const base = `${estimatorDefinition(estimator.method).idPart}-${objectiveDefinition(objective.method).idPart}`;
   if (!taken.has(base)) return base;
   for (let i = 2; ; i++) if (!taken.has(`${base}-${i}`)) return `${base}-${i}`;
 }

@@ -7,6 +7,9 @@
 
 import {
   DASH,
+  formatPercent1,
+  MINUS,
+  PLAIN,
   formatDay,
   formatInstant,
   formatMoney,
@@ -68,8 +71,15 @@ export function parsePercentInput(text: string): number | null {
   return Number(cleaned) / 100;
 }
 
-/** A fraction back to the text the field shows: 0.15 -> "15", 0.125 -> "12.5". */
-export function percentInputText(value: number | undefined): string {
+/**
+ * A fraction back to the text the field shows, to at most `decimals` decimals of a per cent and
+ * without trailing zeros: 0.15 -> "15", 0.125 -> "12.5", 0.128456 -> "12.85" (one figure reads the
+ * same in the field as in the tables; what the advisor types is kept as typed).
+ */
+export function percentInputText(value: number | undefined, decimals = 2): string {
   if (value === undefined || !Number.isFinite(value)) return '';
-  return String(Number((value * 100).toPrecision(12)));
+  return formatPercent1(value, PLAIN, decimals)
+    .replace(/(\.\d*?)0+$/, '$1')
+    .replace(/\.$/, '')
+    .replace(MINUS, '-');
 }

@@ -1,5 +1,8 @@
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import { parseScenario, type Scenario, type ScenarioInput } from '../../shared-core/scenario/schema.js';
+import { coarsestPricing } from '../../shared-core/returns/coarsest-pricing.js';
+import { isCoarser } from '../../shared-core/returns/calendar.js';
+import { describeField, inFieldWords } from './field-words.js';
 import { formatPercent } from './format.js';
 
 /**
@@ -10,10 +13,13 @@ import { formatPercent } from './format.js';
  * window without prices) that would otherwise only surface after a solve.
  */
 export interface FieldMessage {
-  /** JSON path as the schema names it: `constraints.weightBounds.default`. */
+  /** JSON path as the schema names it: `constraints.weightBounds.default` (never shown). */
   path: string;
+  /** In the field's own words and units (field-words.ts). */
   message: string;
   source: 'typing' | 'schema' | 'check';
+  /** The one change that resolves it, offered as a button. */
+  fix?: { label: string; path: (string | number)[]; value: unknown };
 }
 
 export type DraftCheck = { ok: true; scenario: Scenario; messages: [] } | { ok: false; messages: FieldMessage[] };
@@ -33,8 +39,10 @@ export function checkDraft(draft: ScenarioInput, context: DraftContext = {}): Dr
   }));
   const parsed = parseScenario(draft);
   if (!parsed.ok) {
-    for (const error of parsed.errors)
-      messages.push({ path: error.location.path ?? '(document)', message: error.message, source: 'schema' });
+    for (const error of parsed.errors) {
+      const path = error.location.path ?? '(document)';
+      messages.push({ path, message: inFieldWords(path, error.message), source: 'schema' });
+    }
     return { ok: false, messages };
   }
   messages.push(...checkScenario(parsed.scenario, context.prices));
@@ -117,6 +125,22 @@ export function checkScenario(scenario: Scenario, prices?: PriceTable): FieldMes
     scenario.assets?.forEach((a, i) => {
       if (!prices.assets.includes(a)) check(`assets[${i}]`, `no prices for '${a}' in the store`);
     });
+    const pricing = coarsestPricing(
+      prices,
+      assets.filter((a) => prices.assets.includes(a)),
+      scenario.window ?? {},
+    );
+    if (isCoarser(pricing.frequency, scenario.returns.frequency)) {
+      const named =
+        pricing.assets.slice(0, 3).join(', ') +
+        (pricing.assets.length > 3 ? ` and ${pricing.assets.length - 3} more` : '');
+      out.push({
+        path: 'returns.frequency',
+        message: `${named} ${pricing.assets.length === 1 ? 'is' : 'are'} priced ${pricing.frequency}, so the returns cannot be ${scenario.returns.frequency}: use ${pricing.frequency} returns or leave ${pricing.assets.length === 1 ? 'it' : 'them'} out`,
+        source: 'check',
+        fix: { label: `Use ${pricing.frequency} returns`, path: ['returns', 'frequency'], value: pricing.frequency },
+      });
+    }
     const windowMessage = checkWindow(scenario, prices, assets);
     if (windowMessage) check(windowMessage.path, windowMessage.message);
   }
@@ -160,7 +184,7 @@ export function messagesAt(messages: readonly FieldMessage[], path: string): Fie
   return messages.filter((m) => m.path === path || m.path.startsWith(`${path}.`) || m.path.startsWith(`${path}[`));
 }
 
-/** One line per message for a summary list: "window.from: no prices ...". */
+/** One line per message for a summary list, naming the field by its label: "From (date): no prices ...". */
 export function describeMessage(m: FieldMessage): string {
-  return `${m.path}: ${m.message}`;
+  return describeField(m.path, m.message);
 }

@@ -3,7 +3,7 @@ import { defineObjective } from '../define.js';
 export const equalWeight = defineObjective({
   method: 'equal-weight',
   label: 'Equal weight',
-  idPart: 'ew',
+  idPart: 'equal',
   options: (z) => z.strictObject({ method: z.literal('equal-weight') }),
   initial: { method: 'equal-weight' },
   describe: () => 'Equal weight',

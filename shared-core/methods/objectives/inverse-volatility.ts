@@ -3,7 +3,7 @@ import { defineObjective } from '../define.js';
 export const inverseVolatility = defineObjective({
   method: 'inverse-volatility',
   label: 'Inverse volatility',
-  idPart: 'iv',
+  idPart: 'invvol',
   options: (z) => z.strictObject({ method: z.literal('inverse-volatility') }),
   initial: { method: 'inverse-volatility' },
   describe: () => 'Inverse volatility',

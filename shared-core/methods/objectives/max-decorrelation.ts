@@ -3,7 +3,7 @@ import { defineObjective } from '../define.js';
 export const maxDecorrelation = defineObjective({
   method: 'max-decorrelation',
   label: 'Maximum decorrelation',
-  idPart: 'mdc',
+  idPart: 'maxdecor',
   options: (z) => z.strictObject({ method: z.literal('max-decorrelation') }),
   initial: { method: 'max-decorrelation' },
   describe: () => 'Maximum decorrelation',

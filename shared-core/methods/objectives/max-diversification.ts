@@ -3,7 +3,7 @@ import { defineObjective } from '../define.js';
 export const maxDiversification = defineObjective({
   method: 'max-diversification',
   label: 'Maximum diversification',
-  idPart: 'md',
+  idPart: 'maxdiv',
   options: (z) => z.strictObject({ method: z.literal('max-diversification') }),
   initial: { method: 'max-diversification' },
   describe: () => 'Maximum diversification',

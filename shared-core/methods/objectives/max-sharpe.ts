@@ -5,7 +5,7 @@ const label = 'Maximum Sharpe ratio';
 export const maxSharpe = defineObjective({
   method: 'max-sharpe',
   label,
-  idPart: 'ms',
+  idPart: 'maxsharpe',
   // The scenario's expectedReturns over the risk-free rate, both annualised: the portfolio
   // maximises (w'mu - rf) / sqrt(w'Sigma w). Without a rate it is 0.
   options: (z) =>

@@ -3,7 +3,7 @@ import { defineObjective } from '../define.js';
 export const minVariance = defineObjective({
   method: 'min-variance',
   label: 'Minimum variance',
-  idPart: 'mv',
+  idPart: 'minvar',
   options: (z) => z.strictObject({ method: z.literal('min-variance') }),
   initial: { method: 'min-variance' },
   describe: () => 'Minimum variance',

@@ -309,8 +309,10 @@ const backtestCommand: Command = {
     { name: 'seed', kind: 'number', valueName: 'N', description: 'seed of every bootstrap (default 1)' },
   ],
   details:
-    'The scenario\'s "backtest" block sets estimationWindow, expanding, rebalance (monthly, quarterly,\n' +
-    'yearly, drift), driftBand, costBps (one figure or per asset class), cashRate and from; its\n' +
+    'The scenario\'s "backtest" block sets estimationWindow (default: what the history allows, 36\n' +
+    'monthly, 104 weekly or 252 daily returns and never more than half of them), expanding,\n' +
+    'rebalance (monthly, quarterly, yearly, drift), driftBand, costBps (one figure or per asset\n' +
+    'class), cashRate and from; its\n' +
     '"stress" block holds user-defined shocks. Exit 0 on success, 2 on bad input, 130 when interrupted.',
   load: () => import('./backtest.js').then((m) => m.runBacktestCommand),
 };

@@ -11,6 +11,7 @@ import type { Comparison, EstimateView } from '../../worker/comparison.js';
 import { describeEstimator } from '../candidate-grid.js';
 import { formatDate } from '../format.js';
 import { CandidateTable, solved } from './CandidateTable.js';
+import { currentFigures } from './current-figures.js';
 import { TradeListView } from './TradeListView.js';
 
 /**
@@ -115,6 +116,10 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
   const basis = basisOf(props.comparison, props.scenario, locale);
   const chartBasis = basisOf(comparison, scenario, locale);
   const current = useStable(scenario.current ?? NO_HOLDINGS, sameNumberRecord);
+  const currentNow = useMemo(
+    () => currentFigures(props.comparison, props.scenario.current, props.recommended),
+    [props.comparison, props.scenario.current, props.recommended],
+  );
   const focusWeights = useStable(focus?.weights ?? NO_HOLDINGS, sameNumberRecord);
 
   const weightRows = useStable(
@@ -178,6 +183,7 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
         candidates={props.comparison.candidates}
         colourIndex={table.colourIndex}
         current={props.scenario.current ?? NO_HOLDINGS}
+        currentMetrics={currentNow}
         recommended={props.recommended}
         focused={focus?.id}
         onFocus={props.onFocus}

@@ -1,5 +1,10 @@
 import { memo } from 'react';
-import { isSolved, type CandidateResult, type OptimalCandidate } from '../../../shared-core/optimise/result.js';
+import {
+  isSolved,
+  type CandidateMetrics,
+  type CandidateResult,
+  type OptimalCandidate,
+} from '../../../shared-core/optimise/result.js';
 import { candidateColour } from '../../../shared-core/present/palette.js';
 import { formatDuration, formatPercent, formatRatio } from '../format.js';
 
@@ -15,6 +20,8 @@ export interface CandidateTableProps {
   /** Position of each candidate in the scenario (its colour). */
   colourIndex: (id: string) => number;
   current: Readonly<Record<string, number>>;
+  /** The current weights' figures under one candidate's estimate, where they can be computed. */
+  currentMetrics: { metrics: CandidateMetrics; basis: string } | { metrics: null; reason: string };
   recommended?: string;
   focused?: string;
   onRecommend: (id: string | undefined) => void;
@@ -50,28 +57,27 @@ function StatusLine({ c }: { c: CandidateResult }) {
 
 export const CandidateTable = memo(function CandidateTable(props: CandidateTableProps) {
   const { assets, candidates, current, locale } = props;
-  const metricRows: { label: string; unit: string; value: (c: CandidateResult) => string; current?: string }[] = [
-    {
-      label: 'Volatility',
-      unit: 'annualised',
-      value: (c) => formatPercent(figures(c)?.volatility, locale),
-    },
+  type Row = { label: string; unit: string; value: (m: CandidateMetrics | null | undefined) => string };
+  const metricRows: Row[] = [
+    { label: 'Volatility', unit: 'annualised', value: (m) => formatPercent(m?.volatility, locale) },
     {
       label: 'Diversification ratio',
       unit: 'w′σ / √(w′Σw)',
-      value: (c) => formatRatio(figures(c)?.diversificationRatio, locale),
+      value: (m) => formatRatio(m?.diversificationRatio, locale),
     },
-    { label: 'Effective bets', unit: 'of risk', value: (c) => formatRatio(figures(c)?.effectiveBets, locale) },
-    { label: 'Effective holdings', unit: '1 / Σw²', value: (c) => formatRatio(figures(c)?.effectiveHoldings, locale) },
-    { label: 'Turnover', unit: 'Σ|w − current|', value: (c) => formatPercent(figures(c)?.turnover, locale) },
+    { label: 'Effective bets', unit: 'of risk', value: (m) => formatRatio(m?.effectiveBets, locale) },
+    { label: 'Effective holdings', unit: '1 / Σw²', value: (m) => formatRatio(m?.effectiveHoldings, locale) },
+    { label: 'Turnover', unit: 'Σ|w − current|', value: (m) => formatPercent(m?.turnover, locale) },
   ];
+  const cm = props.currentMetrics;
   const anyFailed = candidates.some((c) => !solved(c));
   return (
     <div className="table-scroll comparison-scroll">
       <table className="grid comparison" data-testid="comparison-table">
         <caption>
           {candidates.length} candidates, one column each; weights in per cent of the portfolio. Press a column's “Show”
-          button to draw it in the charts below.
+          button to draw it in the charts below.{' '}
+          {cm.metrics ? `Current figures ${cm.basis}.` : `Current figures: ${cm.reason}.`}
         </caption>
         <thead>
           <tr>
@@ -131,11 +137,18 @@ export const CandidateTable = memo(function CandidateTable(props: CandidateTable
               <th scope="row" className="row-head">
                 {row.label} <span className="faint">{row.unit}</span>
               </th>
-              <td className="num current-col faint">–</td>
+              <td
+                className={`num current-col${cm.metrics ? '' : ' faint'}`}
+                data-candidate="current"
+                data-metric={row.label}
+                title={cm.metrics ? cm.basis : cm.reason}
+              >
+                {cm.metrics ? row.value(cm.metrics) : '–'}
+              </td>
               {candidates.map((c) =>
                 solved(c) ? (
                   <td key={c.id} className="num" data-candidate={c.id} data-metric={row.label}>
-                    {row.value(c)}
+                    {row.value(figures(c))}
                   </td>
                 ) : (
                   <td key={c.id} className="num faint">

@@ -600,6 +600,7 @@ const AssetRow = memo(
             label={`Current weight of ${a}`}
             path={`current.${a}`}
             value={props.current}
+            decimals={1}
             placeholder="0"
             messages={messagesAt(messages, `current.${a}`)}
             onTyping={onTyping}
@@ -759,7 +760,8 @@ function BacktestFields({ state, commit, messages, onTyping }: BriefProps) {
           unit="return periods"
           path="backtest.estimationWindow"
           value={b.estimationWindow}
-          placeholder="250"
+          placeholder="from the history"
+          hint="empty: 36 monthly, 104 weekly or 252 daily returns, never more than half the history"
           messages={at('backtest.estimationWindow')}
           onTyping={onTyping}
           onChange={(v) => set('estimationWindow', v)}

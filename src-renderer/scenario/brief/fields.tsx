@@ -8,6 +8,20 @@ import { createContext, useContext, useEffect, useId, useRef, useState, type Rea
  */
 export const EditorEpoch = createContext(0);
 
+/** Applies a message's one-change fix (a button beside the message); provided by the page. */
+export const ApplyFix = createContext<((path: (string | number)[], value: unknown) => void) | null>(null);
+
+/** A message's fix as a button, where the page can apply it. */
+export function FixButton({ fix }: { fix: FieldMessage['fix'] }) {
+  const apply = useContext(ApplyFix);
+  if (!fix || !apply) return null;
+  return (
+    <button type="button" className="fix" onClick={() => apply(fix.path, fix.value)}>
+      {fix.label}
+    </button>
+  );
+}
+
 function useFieldText(
   value: number | undefined,
   show: (value: number | undefined) => string,
@@ -57,7 +71,7 @@ export function FieldNote({ id, messages, hint }: { id: string; messages: readon
           <span className="marker" aria-hidden="true">
             ◆
           </span>{' '}
-          {m.message}
+          {m.message} <FixButton fix={m.fix} />
         </span>
       ))}
       {messages.length === 0 && hint ? <span className="field-hint">{hint}</span> : null}
@@ -68,6 +82,11 @@ export function FieldNote({ id, messages, hint }: { id: string; messages: readon
 function useNoteId(): string {
   return `note-${useId().replace(/:/g, '')}`;
 }
+
+const SHOW_PERCENT = {
+  1: (v: number | undefined) => percentInputText(v, 1),
+  2: (v: number | undefined) => percentInputText(v, 2),
+};
 
 /**
  * A weight or rate typed as per cent. Text that is not a number is reported (through `onTyping`)
@@ -82,6 +101,8 @@ export function PercentField(
     /** Empty means "no limit" (the key is removed). */
     optional?: boolean;
     disabled?: boolean;
+    /** Decimals of a per cent the field shows for a value it did not type (default 2). */
+    decimals?: 1 | 2;
   },
 ) {
   const {
@@ -97,7 +118,7 @@ export function PercentField(
     compact,
     disabled,
   } = props;
-  const { text, setText, emitted, input } = useFieldText(value, percentInputText, path, onTyping);
+  const { text, setText, emitted, input } = useFieldText(value, SHOW_PERCENT[props.decimals ?? 2], path, onTyping);
   const noteId = useNoteId();
   const inputId = `${noteId}-in`;
   const change = (next: string) => {

@@ -1,7 +1,7 @@
 import { memo, useCallback, useEffect, useId, useRef, useState } from 'react';
 import type { MemoSummary, RevisionSummary } from '../../../shared-core/contract/service-api.js';
 import { CAUTIONS } from '../../app/Cautions.js';
-import { formatInstant, todayIso } from '../../app/format-time.js';
+import { formatInstant, todayIso } from '../../../shared-core/present/format.js';
 import { useMenuCommands } from '../../app/menu.js';
 import { errorText } from '../../app/notes.js';
 import { href } from '../../app/route.js';
@@ -45,6 +45,8 @@ export const MemoSection = memo(function MemoSection(props: {
   unsaved: boolean;
   /** Opens the page's "save as revision" form. */
   onSaveFirst: () => void;
+  /** The initials in the settings as the page knows them (read again when they change). */
+  preparedBy?: string | null;
 }) {
   const id = useId();
   const newest = props.revisions[0];
@@ -99,7 +101,7 @@ export const MemoSection = memo(function MemoSection(props: {
   );
   useEffect(() => {
     void readInitials();
-  }, [readInitials]);
+  }, [readInitials, props.preparedBy]);
 
   // ---- the form ----
   const [dateText, setDateText] = useState(() => todayIso());
@@ -112,7 +114,20 @@ export const MemoSection = memo(function MemoSection(props: {
   const revision = source && !('error' in source) && source.number === newest?.number ? source : null;
   const recommended =
     picked !== null && revision?.candidates.some((c) => c.id === picked) ? picked : revision?.recommended;
-  const ready = revision !== null && date.ok && lot.ok && state.kind !== 'printing';
+  // Why printing cannot run now, said beside the button (it is disabled until then).
+  const blocked =
+    initials === null
+      ? 'no initials in the settings: the memo names who prepared it'
+      : !date.ok
+        ? `the date: ${date.reason}`
+        : !lot.ok
+          ? `the lot: ${lot.reason}`
+          : revision === null
+            ? 'reading the newest revision…'
+            : initials === undefined
+              ? 'reading the settings…'
+              : undefined;
+  const ready = blocked === undefined && state.kind !== 'printing';
 
   const refusal = state.kind === 'failed' && state.error instanceof ServiceCallError ? state.error : null;
   const refusedField = refusal?.where ? FIELD_OF[refusal.where.split(/[.[]/)[0]] : undefined;
@@ -277,15 +292,23 @@ export const MemoSection = memo(function MemoSection(props: {
               className="primary"
               onClick={print}
               disabled={!ready}
-              aria-describedby={`${id}-caution`}
+              aria-describedby={`${id}-why ${id}-caution`}
               data-testid="memo-print"
             >
               {state.kind === 'printing' ? 'Printing the memo…' : 'Print memo'}
             </button>
-            <span className="faint">
-              {initials === null ? (
+            <span id={`${id}-why`} className={blocked ? 'why-disabled' : 'faint'} data-testid="memo-print-why">
+              {blocked ? (
                 <>
-                  No initials in the <a href={href({ page: 'settings' })}>settings</a> yet; the memo needs them.
+                  Cannot print yet: {blocked}
+                  {initials === null ? (
+                    <>
+                      {' '}
+                      (<a href={href({ page: 'settings' })}>set them in the settings</a>, or save a revision, which asks
+                      for them once)
+                    </>
+                  ) : null}
+                  .
                 </>
               ) : initials ? (
                 `Prepared by ${initials} (from the settings).`
@@ -335,8 +358,7 @@ function PrintRefusal({ error }: { error: unknown }) {
     );
   return (
     <div className="note error" role="alert">
-      The memo was not printed: {refusal ? refusal.message : errorText(error)}
-      {refusal?.where ? ` (about ${refusal.where})` : ''}.
+      The memo was not printed: {refusal ? refusal.message : errorText(error)}.
     </div>
   );
 }

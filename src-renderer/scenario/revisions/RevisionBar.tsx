@@ -8,7 +8,7 @@ import { errorText } from '../../app/notes.js';
 import { api } from '../../bridge.js';
 import type { Comparison } from '../../worker/comparison.js';
 import { diffDocuments, showValue } from '../document-diff.js';
-import { formatPercent, formatRatio } from '../format.js';
+import { formatDateTime, formatPercent, formatRatio } from '../format.js';
 import { useRecompute } from '../use-recompute.js';
 
 /** "Save as revision" with a note and initials, and the list of revisions to open beside. */
@@ -20,11 +20,15 @@ export function RevisionBar(props: {
   revisions: readonly RevisionSummary[];
   saveButton: RefObject<HTMLButtonElement | null>;
   onSaved: (revision: RevisionSummary) => void;
+  /** Initials typed here the first time are kept in the settings; the page learns them so. */
+  onInitialsKept: (initials: string) => void;
   onOpenBeside: (revision: number) => void;
 }) {
   const [open, setOpen] = useState(false);
   const [note, setNote] = useState('');
   const [initials, setInitials] = useState(props.preparedBy ?? '');
+  const author = (props.preparedBy ?? initials).trim().toUpperCase();
+  const initialsReason = /^[A-Z]{2,4}$/.test(author) ? undefined : 'Your initials: two to four letters';
   const [saving, setSaving] = useState(false);
   const [error, setError] = useState<unknown>(null);
   const [saved, setSaved] = useState<RevisionSummary | null>(null);
@@ -37,26 +41,34 @@ export function RevisionBar(props: {
     if (pick === '' && props.revisions[0]) setPick(props.revisions[0].number);
   }, [props.revisions, pick]);
   const save = () => {
+    if (initialsReason) return;
     setSaving(true);
     setError(null);
-    api['scenarios.saveRevision']({
-      scenarioId: props.scenarioId,
-      document: props.document,
-      author: initials,
-      note,
-    }).then(
-      (r) => {
-        setSaving(false);
-        setSaved(r);
-        setOpen(false);
-        setNote('');
-        props.onSaved(r);
-      },
-      (e: unknown) => {
-        setSaving(false);
-        setError(e);
-      },
-    );
+    const keep = props.preparedBy
+      ? Promise.resolve()
+      : api['settings.set']({ preparedBy: author }).then(() => props.onInitialsKept(author));
+    keep
+      .then(() =>
+        api['scenarios.saveRevision']({
+          scenarioId: props.scenarioId,
+          document: props.document,
+          author,
+          note,
+        }),
+      )
+      .then(
+        (r) => {
+          setSaving(false);
+          setSaved(r);
+          setOpen(false);
+          setNote('');
+          props.onSaved(r);
+        },
+        (e: unknown) => {
+          setSaving(false);
+          setError(e);
+        },
+      );
   };
   return (
     <>
@@ -67,18 +79,23 @@ export function RevisionBar(props: {
         aria-expanded={open}
         aria-keyshortcuts="Control+S"
         disabled={!props.valid}
-        title={props.valid ? undefined : 'Put right the inputs marked in the brief first'}
+        aria-describedby={props.valid ? undefined : 'save-why'}
         onClick={() => setOpen((o) => !o)}
       >
         Save as revision…
       </button>
+      {props.valid ? null : (
+        <span id="save-why" className="why-disabled">
+          Put right the inputs marked in the brief first.
+        </span>
+      )}
       <span className="revision-pick">
         <label>
           <span className="visually-hidden">Revision to open beside the current one</span>
           <select value={pick} onChange={(e) => setPick(e.target.value === '' ? '' : Number(e.target.value))}>
             {props.revisions.map((r) => (
               <option key={r.number} value={r.number}>
-                revision {r.number} · {r.author} · {r.note.slice(0, 40) || 'no note'}
+                revision {r.number} · {r.author} · {formatDateTime(r.savedAt)}
               </option>
             ))}
           </select>
@@ -105,26 +122,51 @@ export function RevisionBar(props: {
               if (e.key === 'Escape') setOpen(false);
             }}
           />
-          <label htmlFor="revision-initials">Your initials</label>
-          <input
-            id="revision-initials"
-            type="text"
-            value={initials}
-            size={5}
-            onChange={(e) => setInitials(e.target.value)}
-          />
+          {props.preparedBy ? (
+            <p className="faint" data-testid="revision-signed">
+              Signed {props.preparedBy} (from the settings).
+            </p>
+          ) : (
+            <>
+              <label htmlFor="revision-initials">Your initials</label>
+              <input
+                id="revision-initials"
+                type="text"
+                value={initials}
+                size={5}
+                maxLength={4}
+                aria-invalid={initials !== '' && initialsReason ? true : undefined}
+                aria-describedby="revision-initials-hint"
+                onChange={(e) => setInitials(e.target.value.toUpperCase())}
+              />
+              <span id="revision-initials-hint" className="hint">
+                Asked once: kept in the settings for every later revision and memo.
+              </span>
+            </>
+          )}
           {error ? (
             <p className="reason" role="alert">
               {errorText(error)}
             </p>
           ) : null}
           <div className="actions">
-            <button type="button" className="primary" disabled={saving} onClick={save}>
+            <button
+              type="button"
+              className="primary"
+              disabled={saving || initialsReason !== undefined}
+              aria-describedby="revision-save-why"
+              onClick={save}
+            >
               {saving ? 'Saving…' : 'Save revision'}
             </button>
             <button type="button" onClick={() => setOpen(false)}>
               Cancel
             </button>
+            {initialsReason ? (
+              <span id="revision-save-why" className="why-disabled">
+                {initialsReason} are needed to sign the revision.
+              </span>
+            ) : null}
           </div>
         </div>
       ) : null}
@@ -204,7 +246,7 @@ export function BesidePanel(props: {
       {loaded ? (
         <>
           <p className="faint">
-            Saved {new Date(loaded.summary.savedAt).toLocaleString(props.locale)} by {loaded.summary.author}
+            Saved {formatDateTime(loaded.summary.savedAt, props.locale)} by {loaded.summary.author}
             {loaded.summary.note ? `: “${loaded.summary.note}”` : ''}
           </p>
           <h3>What the draft changes ({changes.length})</h3>

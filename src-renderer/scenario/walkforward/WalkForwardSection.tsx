@@ -3,6 +3,7 @@ import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import type { Scenario } from '../../../shared-core/scenario/schema.js';
 import type { BacktestRun } from '../../../shared-core/walkforward/run-backtest.js';
 import type { FromBacktest, ToBacktest } from '../../worker/backtest.worker.js';
+import { describeField } from '../field-words.js';
 import { formatDuration } from '../format.js';
 import { WalkForwardView } from './WalkForwardView.js';
 
@@ -51,7 +52,7 @@ export const WalkForwardSection = memo(function WalkForwardSection(props: {
         w.terminate();
         worker.current = null;
       } else {
-        setState({ kind: 'failed', message: m.path ? `${m.path}: ${m.message}` : m.message });
+        setState({ kind: 'failed', message: m.path ? describeField(m.path, m.message) : m.message });
         w.terminate();
         worker.current = null;
       }
@@ -88,7 +89,9 @@ export const WalkForwardSection = memo(function WalkForwardSection(props: {
                   style={{ width: `${(100 * state.done) / Math.max(1, state.total)}%` }}
                 />
               </span>
-              <span className="faint">{state.label}</span>
+              <span className="faint progress-label">
+                {Math.round((100 * state.done) / Math.max(1, state.total))} % · {state.label}
+              </span>
             </span>
             <button type="button" onClick={cancel}>
               Cancel

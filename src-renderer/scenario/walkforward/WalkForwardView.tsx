@@ -107,7 +107,7 @@ function GrowthChart({ run, colourIndex }: { run: BacktestRun; colourIndex: (id:
     <ChartFigure
       testId="walkforward-growth"
       title={growthFinding(run)}
-      basis={`Growth of 1 invested on ${formatDate(run.settings.startDate)}, after costs, log scale; the fall from each candidate's running peak beneath, on the same dates. Rebalanced ${run.settings.rebalance}, estimated on the ${run.settings.expanding ? 'expanding' : `trailing ${run.settings.estimationWindow}-period`} window, costs ${typeof run.settings.costBps === 'number' ? `${run.settings.costBps} bp` : 'by asset class'} of traded value. Past results do not guarantee future ones.`}
+      basis={`Growth of 1 invested on ${formatDate(run.settings.startDate)}, after costs, log scale; the fall from each candidate's running peak beneath, on the same dates. Rebalanced ${run.settings.rebalance}, estimated on the ${run.settings.expanding ? 'expanding' : `trailing ${run.settings.estimationWindow}-period`} window${run.settings.windowFromHistory ? ` (chosen from the history: the usual window, at most half of its ${run.settings.historyReturns} returns)` : ''}, costs ${typeof run.settings.costBps === 'number' ? `${run.settings.costBps} bp` : 'by asset class'} of traded value. Past results do not guarantee future ones.`}
       option={option}
       height={420}
       table={<MetricsTable run={run} caption="Growth and drawdown, by candidate" />}

@@ -1,5 +1,10 @@
 import { describe, expect, it } from 'vitest';
+import { demoAssets } from '../../../shared-core/demo/assets.js';
+import { demoScenario } from '../../../shared-core/demo/scenario.js';
+import type { EstimatorSpec } from '../../../shared-core/scenario/estimator-spec.js';
+import type { ObjectiveSpec } from '../../../shared-core/scenario/objective-spec.js';
 import {
+  candidateId,
   candidatesForGrid,
   gridFromCandidates,
   isTicked,
@@ -20,10 +25,21 @@ describe('candidates as estimators x objectives', () => {
     expect(specKey({ method: 'ewma', halfLife: 60, lambda: undefined } as never)).toBe('ewma;halfLife=60');
   });
 
-  it('makes one candidate per ticked cell with unique readable ids: 3 estimators x 2 objectives = 6', () => {
+  it('makes one candidate per ticked cell with ids by one rule, estimate then objective, as the demo scenario', () => {
     const grid: CandidateGrid = { estimators: [sample, lw, ewma], objectives: [md, mv] };
     const out = candidatesForGrid(grid, () => true, []);
-    expect(out.map((c) => c.id)).toEqual(['md-sample', 'mv-sample', 'md-lw', 'mv-lw', 'md-ewma', 'mv-ewma']);
+    expect(out.map((c) => c.id)).toEqual([
+      'sample-maxdiv',
+      'sample-minvar',
+      'lw-maxdiv',
+      'lw-minvar',
+      'ewma-maxdiv',
+      'ewma-minvar',
+    ]);
+    const demo = demoScenario(demoAssets, {});
+    expect(demo.candidates.map((c) => c.id)).toEqual(
+      demo.candidates.map((c) => candidateId(c.estimator as EstimatorSpec, c.objective as ObjectiveSpec)),
+    );
     expect(out[2].label).toBe('Maximum diversification \u00b7 Ledoit-Wolf shrinkage');
   });
 
@@ -33,12 +49,12 @@ describe('candidates as estimators x objectives', () => {
     ];
     const out = candidatesForGrid({ estimators: [lw], objectives: [md, mv] }, () => true, previous);
     expect(out[0]).toBe(previous[0]);
-    expect(out[1].id).toBe('mv-lw');
+    expect(out[1].id).toBe('lw-minvar');
   });
 
   it('gives two variants of one method distinct ids', () => {
     const grid: CandidateGrid = { estimators: [ewma, { method: 'ewma', halfLife: 30 }], objectives: [md] };
-    expect(candidatesForGrid(grid, () => true, []).map((c) => c.id)).toEqual(['md-ewma', 'md-ewma-2']);
+    expect(candidatesForGrid(grid, () => true, []).map((c) => c.id)).toEqual(['ewma-maxdiv', 'ewma-maxdiv-2']);
   });
 
   it('carries overrides across an edit of an estimator option through the rename map', () => {

@@ -45,11 +45,11 @@ describe('editor edits', () => {
     s = addObjective(s, { method: 'min-variance' });
     expect(s.doc.candidates.map((c) => c.id)).toEqual([
       'md-lw',
-      'mv-lw',
-      'md-sample',
-      'mv-sample',
-      'md-ewma',
-      'mv-ewma',
+      'lw-minvar',
+      'sample-maxdiv',
+      'sample-minvar',
+      'ewma-maxdiv',
+      'ewma-minvar',
     ]);
     expect(s.doc.recommended).toBe('md-lw');
   });
@@ -69,7 +69,7 @@ describe('editor edits', () => {
       { method: 'ewma', halfLife: 30 },
     ]);
     s = removeEstimator(s, 0);
-    expect(s.doc.candidates.map((c) => c.id)).toEqual(['md-ewma']);
+    expect(s.doc.candidates.map((c) => c.id)).toEqual(['ewma-maxdiv']);
   });
 
   it('removing an asset removes its own bound, expected return and band membership; adding one copies its store tags', () => {

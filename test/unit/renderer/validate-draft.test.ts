@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import type { ScenarioInput } from '../../../shared-core/scenario/schema.js';
-import { checkDraft, messagesAt } from '../../../src-renderer/scenario/validate-draft.js';
+import { checkDraft, describeMessage, messagesAt } from '../../../src-renderer/scenario/validate-draft.js';
 
 const assets = Array.from({ length: 10 }, (_, i) => `A${i}`);
 const dates = Array.from({ length: 40 }, (_, i) => `2024-01-${String(i + 1).padStart(2, '0')}`).filter((d) =>
@@ -28,12 +28,62 @@ describe('draft checks beside each field', () => {
     expect(out.ok).toBe(true);
   });
 
-  it("passes the scenario schema's own message through at its JSON path", () => {
+  it("places the scenario schema's message at its field, in the field's words", () => {
     const out = checkDraft({ ...base, constraints: { weightBounds: { default: [0.2, 0.1] } } }, { prices });
     expect(out.ok).toBe(false);
     expect(messagesAt(out.messages, 'constraints.weightBounds.default')).toEqual([
-      { path: 'constraints.weightBounds.default', message: 'lower bound above upper bound', source: 'schema' },
+      {
+        path: 'constraints.weightBounds.default',
+        message: 'the lower bound is above the upper bound',
+        source: 'schema',
+      },
     ]);
+  });
+
+  it("refuses a cap of 150 % in the field's own words and unit, with no JSON path or fraction on screen", () => {
+    const out = checkDraft(
+      { ...base, constraints: { longOnly: true, weightBounds: { default: [0, 0.15], A3: [0, 1.5] } } },
+      { prices },
+    );
+    expect(out.ok).toBe(false);
+    expect(out.messages.map((m) => [m.path, m.message])).toEqual([
+      ['constraints.weightBounds.A3[1]', 'the upper bound must be at most 100 % (the portfolio is long-only)'],
+    ]);
+    expect(describeMessage(out.messages[0])).toBe(
+      'Upper bound of A3: the upper bound must be at most 100 % (the portfolio is long-only)',
+    );
+    const illiquid = checkDraft({ ...base, constraints: { longOnly: true, illiquidMax: 1.5 } }, { prices });
+    expect(illiquid.messages.map(describeMessage)).toEqual([
+      'Cap on illiquid assets together: the cap on illiquid assets together must be at most 100 %',
+    ]);
+    const window = checkDraft({ ...base, backtest: { estimationWindow: 2 } }, { prices });
+    expect(window.messages.map(describeMessage)).toEqual([
+      'Estimation window (walk-forward): the estimation window (walk-forward) must be at least 3 return periods',
+    ]);
+    for (const m of [...out.messages, ...illiquid.messages, ...window.messages]) {
+      expect(describeMessage(m)).not.toMatch(/constraints\.|backtest\.|\b0\.\d|1\.5|<=|>=/);
+    }
+  });
+
+  it('offers the one change that computes when an asset is priced monthly and the returns are daily', () => {
+    // Month-end prices for A9 only (about 21 weekdays apart), daily for the rest.
+    const days = Array.from({ length: 400 }, (_, i) => new Date(Date.UTC(2020, 0, 1 + i)).toISOString().slice(0, 10));
+    const monthEnd = (d: string) => d.slice(8) === '28';
+    const mixed: PriceTable = {
+      dates: days,
+      assets,
+      closes: assets.map((a, j) =>
+        Float64Array.from(days, (d, t) => (a === 'A9' && !monthEnd(d) ? Number.NaN : 100 + t + j)),
+      ),
+    };
+    const daily = checkDraft({ ...base, returns: { frequency: 'daily' } }, { prices: mixed });
+    const note = messagesAt(daily.messages, 'returns.frequency');
+    expect(note).toHaveLength(1);
+    expect(note[0].message).toBe(
+      'A9 is priced monthly, so the returns cannot be daily: use monthly returns or leave it out',
+    );
+    expect(note[0].fix).toEqual({ label: 'Use monthly returns', path: ['returns', 'frequency'], value: 'monthly' });
+    expect(checkDraft({ ...base, returns: { frequency: 'monthly' } }, { prices: mixed }).ok).toBe(true);
   });
 
   it('explains a cap below 1/N long-only: 10 assets capped at 8% add to 80%, not 100% (arithmetic of the budget)', () => {

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { InputError, formatInputError } from '../../../shared-core/errors.js';
 import { zeros, type Matrix } from '../../../shared-core/linalg/matrix.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
+import { defaultEstimationWindow } from '../../../shared-core/scenario/backtest-spec.js';
 import { parseScenario, type Scenario, type ScenarioInput } from '../../../shared-core/scenario/schema.js';
 import {
   runBacktest,
@@ -150,6 +151,28 @@ describe('runBacktest (scenario-level walk-forward)', () => {
     expect(run.stress.shocks[0].byCandidate['iv-a'].portfolioReturn).toBeLessThan(0);
     expect(run.candidates[0].stability!.draws).toBe(25);
     expect(run.candidates[0].stability!.weights.A01.p5).toBeLessThanOrEqual(run.candidates[0].today.weights[0]);
+  });
+
+  it('without a window: the usual one for the frequency, never more than half the history, and says so', async () => {
+    // 36 monthly, 104 weekly, 252 daily (common practice, from memory), capped at half the returns.
+    expect(defaultEstimationWindow('monthly', 98)).toBe(36);
+    expect(defaultEstimationWindow('monthly', 50)).toBe(25);
+    expect(defaultEstimationWindow('daily', 3000)).toBe(252);
+    expect(defaultEstimationWindow('weekly', 150)).toBe(75);
+    expect(defaultEstimationWindow('daily', 4)).toBe(3);
+    const seen: SolveRequest[] = [];
+    const spy: EstimateAndSolveFn = (r) => {
+      seen.push(r);
+      return inverseVolatility(r);
+    };
+    const run = await runBacktest(scenario({ backtest: { rebalance: 'quarterly' } }), prices, {
+      estimateAndSolve: spy,
+    });
+    // 500 daily prices give 499 returns: half of them, 249, is below the usual 252.
+    expect(run.settings).toMatchObject({ estimationWindow: 249, windowFromHistory: true, historyReturns: 499 });
+    expect(seen[0].returns.rows).toBe(249);
+    const given = await runBacktest(scenario(), prices, { estimateAndSolve: inverseVolatility });
+    expect(given.settings).toMatchObject({ estimationWindow: 120, windowFromHistory: false });
   });
 
   it('refuses bad settings with the JSON path, before any work is done', async () => {
