@@ -60,6 +60,8 @@ function parts(path: string): string[] {
 /** The label and unit of the field at a JSON path (the most specific one known). */
 export function fieldWords(path: string): FieldWords {
   if (SIMPLE[path]) return SIMPLE[path];
+  const dotted = path.replace(/\[(\d+)\]/g, '.$1');
+  if (SIMPLE[dotted]) return SIMPLE[dotted];
   const p = parts(path);
   if (p[0] === 'constraints' && p[1] === 'weightBounds' && p.length >= 3) {
     const asset = p[2];
