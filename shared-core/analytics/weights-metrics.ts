@@ -1,5 +1,4 @@
 import type { Matrix } from '../linalg/matrix.js';
-import type { CandidateMetrics } from '../optimise/result.js';
 import {
   diversificationRatio,
   effectiveBets,
@@ -13,11 +12,21 @@ import {
  * memo prints for the current holdings and the comparison's current column shows, from one
  * function. Turnover is 0: the weights are the reference themselves.
  */
+/** The shape of a solved candidate's metrics (optimise/result.ts `CandidateMetrics`). */
+export interface WeightsMetrics {
+  volatility: number;
+  diversificationRatio: number;
+  effectiveBets: number;
+  effectiveHoldings: number;
+  riskContributions: Record<string, number>;
+  turnover: number;
+}
+
 export function metricsFor(
   weights: Readonly<Record<string, number>>,
   assets: readonly string[],
   covariance: Matrix,
-): CandidateMetrics {
+): WeightsMetrics {
   const w = Float64Array.from(assets, (a) => weights[a] ?? 0);
   const rc = riskContributions(w, covariance);
   return {

@@ -1,4 +1,4 @@
-import type { Frequency } from '../estimators/types.js';
+import type { Frequency } from '../scenario/frequency.js';
 import type { PriceTable } from '../prices/price-table.js';
 import { coarser, dayNumber, pricingFrequency } from './calendar.js';
 

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import type { Frequency } from '../estimators/types.js';
+import type { Frequency } from './frequency.js';
 import { isoDate } from './iso-date.js';
 
 /** Walk-forward settings of a scenario (`holdfast backtest`). */

@@ -2,7 +2,7 @@ import { metricsFor } from '../../shared-core/analytics/weights-metrics.js';
 import { InputError } from '../../shared-core/errors.js';
 import type { CovarianceEstimate } from '../../shared-core/estimators/types.js';
 import type { Matrix } from '../../shared-core/linalg/matrix.js';
-import type { CandidateMetrics, CandidateResult, OptimalCandidate } from '../../shared-core/optimise/result.js';
+import type { CandidateResult, OptimalCandidate } from '../../shared-core/optimise/result.js';
 import type { ReturnsResult } from '../../shared-core/returns/build-returns.js';
 import type { Scenario } from '../../shared-core/scenario/schema.js';
 import type { MemoData, MemoInput, MemoPosition, MemoStability, MemoStress, MemoWalkForward } from './memo-input.js';

@@ -14,7 +14,7 @@ import { describeInBrowser, launchApp, type AppSession } from './harness.js';
  * cap in the editor, check its six columns against `holdfast solve` on the same scenario, save a
  * revision, reload, and see bad edits explained while the last good comparison stays.
  */
-const EXPECTED = ['lw-maxdiv', 'erc-lw', 'md-oas', 'erc-oas', 'md-ewma', 'erc-ewma'];
+const EXPECTED = ['lw-maxdiv', 'lw-erc', 'oas-maxdiv', 'oas-erc', 'ewma-maxdiv', 'ewma-erc'];
 
 async function columns(page: Page): Promise<string[]> {
   return page

@@ -75,8 +75,8 @@ export const CandidateTable = memo(function CandidateTable(props: CandidateTable
     <div className="table-scroll comparison-scroll">
       <table className="grid comparison" data-testid="comparison-table">
         <caption>
-          {candidates.length === 1 ? 'One candidate' : `${candidates.length} candidates, one column each`}; weights in per cent of the portfolio. Press a column's “Show”
-          button to draw it in the charts below.{' '}
+          {candidates.length === 1 ? 'One candidate' : `${candidates.length} candidates, one column each`}; weights in
+          per cent of the portfolio. Press a column's “Show” button to draw it in the charts below.{' '}
           {cm.metrics ? `Current figures ${cm.basis}.` : `Current figures: ${cm.reason}.`}
         </caption>
         <thead>
