@@ -144,7 +144,7 @@ export async function runBacktest(
   const warnings: string[] = [];
   if (scenario.window?.years !== undefined)
     warnings.push(
-      "the scenario's window years are not used by the backtest: each rebalance estimates on backtest.estimationWindow",
+      "the scenario's years of data do not limit the walk-forward: each rebalance estimates on the walk-forward's own estimation window",
     );
   const frequency = scenario.returns.frequency;
   const method = scenario.returns.method;

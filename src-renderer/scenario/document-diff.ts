@@ -1,4 +1,6 @@
 import { jsonPath } from '../../shared-core/scenario/json-path.js';
+import { fieldWords } from './field-words.js';
+import { percentInputText } from './format.js';
 
 /**
  * What differs between two scenario documents, as JSON paths with the values before and after:
@@ -29,9 +31,18 @@ export function diffDocuments(before: unknown, after: unknown, path: (string | n
   return [{ path: jsonPath(path), before, after }];
 }
 
-/** A value as one short line: numbers as they are, lists joined, absent as "not set". */
-export function showValue(value: unknown): string {
+/**
+ * A value as one short line in its field's unit: a share of the portfolio in per cent ("15 %",
+ * a bound pair "0 % to 15 %"), other numbers as they are, lists joined, absent as "not set".
+ */
+export function showValue(value: unknown, path = ''): string {
   if (value === undefined) return 'not set';
+  if (fieldWords(path).unit === 'percent') {
+    const pct = (v: unknown) => (typeof v === 'number' ? `${percentInputText(v)} %` : String(v));
+    if (typeof value === 'number') return pct(value);
+    if (Array.isArray(value) && value.length === 2 && value.every((v) => typeof v === 'number'))
+      return `${pct(value[0])} to ${pct(value[1])}`;
+  }
   if (Array.isArray(value) && value.every((v) => typeof v !== 'object')) return `[${value.join(', ')}]`;
   const text = JSON.stringify(value);
   return text.length > 80 ? `${text.slice(0, 77)}…` : text;

@@ -252,8 +252,9 @@ describeInBrowser('a new user, from an empty store to a printed memo, on the def
     let checked = 0;
     for (const [asset, w] of Object.entries(recommended.weights)) {
       if (w < 0.0005) continue;
-      const printed = `${formatPercent1(w)}%`;
-      const row = lines.find((l) => l.includes(asset) && l.includes(printed));
+      // The allocation table prints weights in per cent without the sign, one column each.
+      const printed = formatPercent1(w);
+      const row = lines.find((l) => l.split(/\s+/).includes(asset) && l.split(/\s+/).includes(printed));
       expect(row, `${asset} at ${printed} in the memo`).toBeDefined();
       checked++;
     }

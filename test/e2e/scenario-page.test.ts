@@ -171,7 +171,7 @@ describeInBrowser('scenario page in Chromium', () => {
     await cap.fill('3');
     await settled(page, 'kept');
     const problems = await page.getByTestId('input-problems').textContent();
-    expect(problems).toContain('constraints.weightBounds.default: the per-asset upper bounds add to');
+    expect(problems).toContain('Every asset between: the per-asset upper bounds add to');
     expect(problems).toContain('below the 100% invested; long-only with 24 assets needs caps of at least 1/24 = 4.2%');
     await expect
       .poll(() => page.locator('.bound-pair .field-error').first().textContent())
@@ -190,7 +190,7 @@ describeInBrowser('scenario page in Chromium', () => {
     await settled(page, 'kept');
     const problems = await page.getByTestId('input-problems').textContent();
     expect(problems).toMatch(
-      /window\.from: no prices from 2030-01-01 to 2031-06-30; the prices of these assets run from \d{4}-\d\d-\d\d to \d{4}-\d\d-\d\d/,
+      /From \(date\): no prices from 2030-01-01 to 2031-06-30; the prices of these assets run from \d{4}-\d\d-\d\d to \d{4}-\d\d-\d\d/,
     );
     expect(await weightsOnScreen(page)).toEqual(built);
     await app.screenshot('scenario-page-bad-window');
@@ -239,7 +239,7 @@ describeInBrowser('scenario page in Chromium', () => {
     const panel = page.getByTestId('beside-panel');
     await expect
       .poll(() => panel.textContent(), { timeout: 60_000 })
-      .toContain('constraints.weightBounds.default: [0, 0.15] → [0, 0.12]');
+      .toContain('Every asset between: 0 % to 15 % → 0 % to 12 %');
     await expect.poll(() => panel.locator('tbody tr').count(), { timeout: 60_000 }).toBe(6);
     await app.screenshot('scenario-page-beside');
   });

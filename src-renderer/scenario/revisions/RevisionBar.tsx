@@ -8,6 +8,7 @@ import { errorText } from '../../app/notes.js';
 import { api } from '../../bridge.js';
 import type { Comparison } from '../../worker/comparison.js';
 import { diffDocuments, showValue } from '../document-diff.js';
+import { fieldWords } from '../field-words.js';
 import { formatDateTime, formatPercent, formatRatio } from '../format.js';
 import { useRecompute } from '../use-recompute.js';
 
@@ -95,7 +96,7 @@ export function RevisionBar(props: {
           <select value={pick} onChange={(e) => setPick(e.target.value === '' ? '' : Number(e.target.value))}>
             {props.revisions.map((r) => (
               <option key={r.number} value={r.number}>
-                revision {r.number} · {r.author} · {formatDateTime(r.savedAt)}
+                revision {r.number} · {r.author} · {shortNote(r.note)}
               </option>
             ))}
           </select>
@@ -256,7 +257,7 @@ export function BesidePanel(props: {
             <ul className="change-list">
               {changes.slice(0, 40).map((c) => (
                 <li key={c.path}>
-                  <span className="code">{c.path}</span>: {showValue(c.before)} → {showValue(c.after)}
+                  {fieldWords(c.path).label}: {showValue(c.before, c.path)} → {showValue(c.after, c.path)}
                 </li>
               ))}
               {changes.length > 40 ? <li className="faint">and {changes.length - 40} more</li> : null}
@@ -307,4 +308,11 @@ export function BesidePanel(props: {
       ) : null}
     </aside>
   );
+}
+
+/** A revision's note for the picker: its first sentence, at most 60 characters, marked when shortened. */
+function shortNote(note: string): string {
+  const first = note.split(/(?<=\.)\s/)[0].trim();
+  if (!first) return 'no note';
+  return first.length > 60 ? `${first.slice(0, 59).trimEnd()}…` : first;
 }

@@ -25,6 +25,7 @@ describe('differences between two scenario documents', () => {
   it('shows values in one short line', () => {
     expect(showValue(undefined)).toBe('not set');
     expect(showValue([0, 0.15])).toBe('[0, 0.15]');
+    expect(showValue([0, 0.15], 'constraints.weightBounds.default')).toBe('0 % to 15 %');
     expect(showValue('x'.repeat(100)).length).toBe(78);
   });
 });
