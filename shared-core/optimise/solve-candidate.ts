@@ -311,6 +311,11 @@ function solveOnce(p: CandidateProblem): CandidateSolve {
       flags.push(`the limits cut the ${method} rule: the weights are the nearest ones that meet every limit`);
       break;
     }
+    default: {
+      // A method defined in shared-core/methods/ without its computation here fails the typecheck.
+      const unsolved: never = method;
+      return fail('error', `no computation for the objective ${String(unsolved)}`);
+    }
   }
 
   const q = qp as QpResult | null;
