@@ -3,7 +3,7 @@ import { packageVersion } from '../service/app-info.js';
 import { commandHelp, parseOptions } from './args.js';
 import { EXIT, UsageError, type CliIO } from './command.js';
 import { commands } from './commands/index.js';
-import { StorageError } from '../store/storage-error.js';
+import { StorageError, asStorageError } from '../store/storage-error.js';
 
 function overview(): string {
   const width = Math.max(...commands.map((c) => c.name.length)) + 2;
@@ -55,8 +55,15 @@ export async function runCli(argv: readonly string[], io: CliIO): Promise<number
       return EXIT.badInput;
     }
     // The disk or the lock, not the input: one message naming the file and what to do.
-    if (error instanceof StorageError) {
-      io.stderr(`holdfast ${command.name}: ${error.message}\n`);
+    // Also a file the command writes itself (a memo, a household file) on a full or read-only disk.
+    const storage =
+      error instanceof StorageError
+        ? error
+        : typeof (error as NodeJS.ErrnoException).path === 'string'
+          ? asStorageError(error, (error as NodeJS.ErrnoException).path!)
+          : undefined;
+    if (storage) {
+      io.stderr(`holdfast ${command.name}: ${storage.message}\n`);
       return EXIT.failure;
     }
     io.stderr(`holdfast ${command.name}: internal error: ${(error as Error).stack ?? String(error)}\n`);

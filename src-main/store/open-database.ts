@@ -11,6 +11,7 @@ import {
   statSync,
 } from 'node:fs';
 import { dirname } from 'node:path';
+import { removeSeal } from './backup-digest.js';
 import { StoreOpenError } from './errors.js';
 import { withNativeBinding } from './native-binding.js';
 import { LATEST_SCHEMA_VERSION, STORE_APPLICATION_ID, migrate } from './migrations.js';
@@ -202,7 +203,10 @@ export function openDatabase(
     }
     db.pragma('foreign_keys = ON');
     db.pragma(`busy_timeout = ${timeout}`);
-    if (!readOnly) migrate(db, options.migrateTo);
+    if (!readOnly) {
+      migrate(db, options.migrateTo);
+      removeSeal(db); // a backup opened as a store: its seal would be stale at the first change
+    }
     return readOnly ? { db, readOnly } : { db };
   } catch (error) {
     db.close();

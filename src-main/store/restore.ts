@@ -1,6 +1,7 @@
 import Database from 'better-sqlite3';
 import { chmodSync, copyFileSync, existsSync, linkSync, renameSync, rmSync } from 'node:fs';
 import { resolve } from 'node:path';
+import { removeSeal } from './backup-digest.js';
 import { StoreOpenError } from './errors.js';
 import { assertOpenable, openReadOnly, readStoreHeader } from './open-database.js';
 import { withNativeBinding } from './native-binding.js';
@@ -55,6 +56,7 @@ export async function restoreStore(fromPath: string, storePath: string, now = ne
     const copy = new Database(staging, withNativeBinding({ fileMustExist: true }));
     try {
       refuseDamage(copy, staging);
+      removeSeal(copy); // a live store changes; its seal would soon be stale
       copy.pragma('journal_mode = WAL');
     } finally {
       copy.close();

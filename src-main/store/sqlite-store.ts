@@ -1,4 +1,4 @@
-import type Database from 'better-sqlite3';
+import Database from 'better-sqlite3';
 import { chmodSync } from 'node:fs';
 import { InputError, formatInputError } from '../../shared-core/errors.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
@@ -12,6 +12,8 @@ import { ASSET_ID, ASSET_ID_RULE } from '../../shared-core/prices/asset-id.js';
 import { alignSeries } from './price-table-reader.js';
 import { seriesChecksum, type SeriesRowValues } from './series-checksum.js';
 import { verifyDatabase } from './verify-store.js';
+import { sealBackup } from './backup-digest.js';
+import { withNativeBinding } from './native-binding.js';
 import type { ReadOnlyReason } from './storage-error.js';
 import { announceWriter } from './writer-note.js';
 import { float64s, int32s, mergeSeries, toBlob, type SeriesArrays } from './series-codec.js';
@@ -851,6 +853,12 @@ export class SqliteStore implements Store {
   async backup(destination: string): Promise<void> {
     await this.db.backup(destination);
     chmodSync(destination, 0o600);
+    const copy = new Database(destination, withNativeBinding({ fileMustExist: true }));
+    try {
+      sealBackup(copy);
+    } finally {
+      copy.close();
+    }
   }
 }
 

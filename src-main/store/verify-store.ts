@@ -1,4 +1,5 @@
 import type Database from 'better-sqlite3';
+import { contentDigest, storedDigest } from './backup-digest.js';
 import { sha256Hex } from './canonical-json.js';
 import { seriesChecksum, type SeriesRowValues } from './series-checksum.js';
 
@@ -19,7 +20,8 @@ const MAX_STRUCTURE_MESSAGES = 10;
  * point at one another (`foreign_key_check`), and the values against the checksum kept beside
  * each: every price and exchange-rate series (SHA-256 of its row, from schema 5), every scenario
  * revision (SHA-256 of its canonical document, its `hash`) and every memo (SHA-256 of its PDF).
- * Reads only; a part that cannot be read at all is named as damaged.
+ * A backup also carries a seal over all its rows (backup-digest.ts), checked last. Reads only; a
+ * part that cannot be read at all is named as damaged.
  */
 export function verifyDatabase(db: Database.Database): StoreVerdict {
   const schemaVersion = db.pragma('user_version', { simple: true }) as number;
@@ -123,6 +125,14 @@ export function verifyDatabase(db: Database.Database): StoreVerdict {
           );
       }
     });
+
+  attempt('the backup seal', () => {
+    const seal = storedDigest(db);
+    if (seal !== undefined && seal !== contentDigest(db))
+      problems.push(
+        'the backup as a whole: its contents do not match the seal it was written with (a record was changed after the backup was made)',
+      );
+  });
 
   return { schemaVersion, problems, verified, unverified };
 }

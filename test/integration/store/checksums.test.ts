@@ -1,3 +1,4 @@
+import Database from 'better-sqlite3';
 import { existsSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -25,7 +26,11 @@ async function storeWithBackup(): Promise<{ dir: string; store: string; backup: 
     ],
     universe: { name: 'Core' },
   });
-  const h = store.createHousehold({ name: 'Invented household', baseCurrency: 'EUR' });
+  const h = store.createHousehold({
+    name: 'Invented household',
+    baseCurrency: 'EUR',
+    notes: 'Prefers low turnover',
+  });
   const s = store.createScenario({ householdId: h.id, name: 'Balanced', universe: 'Core' });
   const doc = {
     format: 'holdfast-scenario@1',
@@ -70,13 +75,14 @@ describe('checksums: restore and holdfast check name what is damaged (issue 16)'
     const r = await runCliInProcess(['restore', '--from', 'b.hfstore', '--store', 's.hfstore'], dir);
     expect(r.code).toBe(2);
     expect(r.stderr).toBe(
-      "holdfast restore: b.hfstore: is damaged, so it was not restored and the store was left as it was: prices of asset 'EQ1': the stored values do not match their checksum\n",
+      "holdfast restore: b.hfstore: is damaged, so it was not restored and the store was left as it was: prices of asset 'EQ1': the stored values do not match their checksum; " +
+        'the backup as a whole: its contents do not match the seal it was written with (a record was changed after the backup was made)\n',
     );
     expect(sha256Hex(readFileSync(store))).toBe(before);
     expect(readdirSync(dir).sort()).toEqual(['b.hfstore', 's.hfstore']);
     const check = await runCliInProcess(['check', '--store', 'b.hfstore'], dir);
     expect(check.code).toBe(1);
-    expect(check.stderr).toMatch(/^b\.hfstore: damaged; 1 problem:\n {2}prices of asset 'EQ1': the stored values/);
+    expect(check.stderr).toMatch(/^b\.hfstore: damaged; 2 problems:\n {2}prices of asset 'EQ1': the stored values/);
   });
 
   it('names a damaged exchange-rate series, scenario revision and memo each as the user knows them', async () => {
@@ -90,7 +96,23 @@ describe('checksums: restore and holdfast check name what is damaged (issue 16)'
       expect.stringMatching(
         /^memo 1 'Memo' of scenario 'Balanced', printed \d{4}-\d\d-\d\d: the PDF does not match its checksum$/,
       ),
+      expect.stringMatching(/^the backup as a whole: /),
     ]);
+  });
+
+  it('a backup is sealed as a whole: a changed household note is caught too, and the restored store carries no seal', async () => {
+    const { dir, backup } = await storeWithBackup();
+    const copy = join(dir, 'copy.hfstore');
+    writeFileSync(copy, readFileSync(backup));
+    damage(backup, Buffer.from('Prefers low turnover'), Buffer.from('Prefers LOW turnover'));
+    expect(checkStoreFile(backup).problems).toEqual([
+      'the backup as a whole: its contents do not match the seal it was written with (a record was changed after the backup was made)',
+    ]);
+    expect((await runCliInProcess(['restore', '--from', 'copy.hfstore', '--store', 's.hfstore'], dir)).code).toBe(0);
+    expect(checkStoreFile(join(dir, 's.hfstore')).problems).toEqual([]);
+    const raw = new Database(join(dir, 's.hfstore'), { readonly: true });
+    expect(raw.prepare("SELECT count(*) FROM meta WHERE key = 'backup_digest'").pluck().get()).toBe(0);
+    raw.close();
   });
 
   it('holdfast check reads only: no file is created beside the store or the backup, and the bytes stay the same', async () => {
