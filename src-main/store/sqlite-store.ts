@@ -1,5 +1,5 @@
 import Database from 'better-sqlite3';
-import { chmodSync } from 'node:fs';
+import { chmodSync, rmSync } from 'node:fs';
 import { InputError, formatInputError } from '../../shared-core/errors.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import { isIsoDate } from '../../shared-core/scenario/iso-date.js';
@@ -14,7 +14,7 @@ import { seriesChecksum, type SeriesRowValues } from './series-checksum.js';
 import { verifyDatabase } from './verify-store.js';
 import { sealBackup } from './backup-digest.js';
 import { withNativeBinding } from './native-binding.js';
-import type { ReadOnlyReason } from './storage-error.js';
+import { asStorageError, type ReadOnlyReason } from './storage-error.js';
 import { announceWriter } from './writer-note.js';
 import { float64s, int32s, mergeSeries, toBlob, type SeriesArrays } from './series-codec.js';
 import type {
@@ -851,13 +851,20 @@ export class SqliteStore implements Store {
   }
 
   async backup(destination: string): Promise<void> {
-    await this.db.backup(destination);
-    chmodSync(destination, 0o600);
-    const copy = new Database(destination, withNativeBinding({ fileMustExist: true }));
     try {
-      sealBackup(copy);
-    } finally {
-      copy.close();
+      await this.db.backup(destination);
+      chmodSync(destination, 0o600);
+      const copy = new Database(destination, withNativeBinding({ fileMustExist: true }));
+      try {
+        sealBackup(copy);
+      } finally {
+        copy.close();
+      }
+    } catch (error) {
+      // A disk that filled up (or failed) part way: no half backup is left to be trusted later.
+      for (const f of [destination, `${destination}-wal`, `${destination}-shm`, `${destination}-journal`])
+        rmSync(f, { force: true });
+      throw asStorageError(error, destination) ?? error;
     }
   }
 }

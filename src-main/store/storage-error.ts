@@ -72,7 +72,9 @@ export function asStorageError(error: unknown, file: string, readOnly?: ReadOnly
               : 'the file cannot be written',
       },
     );
-  if (code === 'SQLITE_FULL' || code === 'ENOSPC' || code === 'EDQUOT')
+  // SHMSIZE: SQLite could not grow the -shm file it keeps beside the store, which on a full disk
+  // is the first write of all.
+  if (code === 'SQLITE_FULL' || code === 'SQLITE_IOERR_SHMSIZE' || code === 'ENOSPC' || code === 'EDQUOT')
     return new StorageError(
       'disk-full',
       file,
