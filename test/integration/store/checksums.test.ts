@@ -3,6 +3,7 @@ import { existsSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { sha256Hex } from '../../../src-main/store/canonical-json.js';
+import { LATEST_SCHEMA_VERSION } from '../../../src-main/store/migrations.js';
 import { checkStoreFile, openStore } from '../../../src-main/store/store.js';
 import { runCliInProcess } from '../../support/run-cli-in-process.js';
 import { useTempDir } from './temp-dir.js';
@@ -61,7 +62,7 @@ describe('checksums: restore and holdfast check name what is damaged (issue 16)'
     const check = await runCliInProcess(['check', '--store', 'b.hfstore'], dir);
     expect(check).toMatchObject({ code: 0, stderr: '' });
     expect(check.stdout).toBe(
-      'b.hfstore: sound (store schema 5; 2 price series, 1 scenario revisions and 1 memos checked against their checksums)\n',
+      `b.hfstore: sound (store schema ${LATEST_SCHEMA_VERSION}; 2 price series, 1 scenario revisions and 1 memos checked against their checksums)\n`,
     );
     const restore = await runCliInProcess(['restore', '--from', 'b.hfstore', '--store', 's.hfstore'], dir);
     expect(restore.code).toBe(0);
