@@ -14,6 +14,11 @@ export interface ReviewColumn {
   text(row: ReviewRow): string;
   /** What the column sorts by; null sorts last whichever the direction. */
   sortValue(row: ReviewRow): number | string | null;
+  /**
+   * On the screen, a column printed under another's figure (by key) to keep the table within
+   * the page, or 'reasons' when the status column's list of reasons already says it.
+   */
+  onScreen?: { under: string; before?: string; after?: string } | 'reasons';
 }
 
 const pctOr = (v: number | undefined) => (v === undefined ? DASH : formatPct(v));
@@ -52,6 +57,7 @@ export const reviewColumns: readonly ReviewColumn[] = [
     numeric: false,
     text: (r) => (r.followed ? `${r.followed.scenario} r${r.followed.revision}: ${r.followed.candidate}` : DASH),
     sortValue: (r) => (r.followed ? r.followed.scenario.toLowerCase() : null),
+    onScreen: { under: 'household' },
   },
   {
     key: 'drift',
@@ -69,6 +75,7 @@ export const reviewColumns: readonly ReviewColumn[] = [
         ? `${r.figures.drift.largest.asset} ${formatSignedPct(r.figures.drift.largest.gap)}`
         : DASH,
     sortValue: (r) => (r.figures?.drift.largest ? Math.abs(r.figures.drift.largest.gap) : null),
+    onScreen: { under: 'drift', before: 'largest ' },
   },
   {
     key: 'volatility',
@@ -87,6 +94,7 @@ export const reviewColumns: readonly ReviewColumn[] = [
     text: (r) => change(r.figures?.currentRisk.now.volatility, r.figures?.currentRisk.then.volatility, true),
     sortValue: (r) =>
       r.figures ? Math.abs(r.figures.currentRisk.now.volatility - r.figures.currentRisk.then.volatility) : null,
+    onScreen: { under: 'volatility', after: ' since saved' },
   },
   {
     key: 'diversificationRatio',
@@ -108,6 +116,7 @@ export const reviewColumns: readonly ReviewColumn[] = [
       r.figures
         ? Math.abs(r.figures.currentRisk.now.diversificationRatio - r.figures.currentRisk.then.diversificationRatio)
         : null,
+    onScreen: { under: 'diversificationRatio', after: ' since saved' },
   },
   {
     key: 'breaches',
@@ -116,6 +125,7 @@ export const reviewColumns: readonly ReviewColumn[] = [
     text: (r) =>
       r.figures ? (r.figures.breaches.length ? r.figures.breaches.map((b) => b.text).join('; ') : 'none') : DASH,
     sortValue: (r) => (r.figures ? r.figures.breaches.length : null),
+    onScreen: 'reasons',
   },
   {
     key: 'memo',
@@ -162,6 +172,7 @@ export const resolveColumns: readonly ReviewColumn[] = [
     },
     sortValue: (r) =>
       r.figures?.resolved?.status === 'optimal' ? r.figures.resolved.diversificationRatioChange : null,
+    onScreen: { under: 'optimumMoved', before: 'DR ' },
   },
 ];
 

@@ -1,5 +1,6 @@
 import { useEffect, useRef } from 'react';
 import { api } from '../bridge.js';
+import { BookPage } from '../book/BookPage.js';
 import { HouseholdPage } from '../households/HouseholdPage.js';
 import { HouseholdsPage } from '../households/HouseholdsPage.js';
 import { NewHouseholdPage } from '../households/NewHouseholdPage.js';
@@ -21,6 +22,7 @@ const SECTIONS = [
     route: { page: 'households' },
     pages: ['households', 'household-new', 'household', 'scenario'],
   },
+  { label: 'Book review', route: { page: 'book' }, pages: ['book'] },
   { label: 'Price library', route: { page: 'library' }, pages: ['library', 'import'] },
   { label: 'Settings', route: { page: 'settings' }, pages: ['settings'] },
 ] as const satisfies readonly { label: string; route: Route; pages: readonly Route['page'][] }[];
@@ -112,6 +114,8 @@ function Page({ route }: { route: Route }) {
   switch (route.page) {
     case 'households':
       return <HouseholdsPage />;
+    case 'book':
+      return <BookPage />;
     case 'household-new':
       return <NewHouseholdPage />;
     case 'household':

@@ -14,7 +14,8 @@ export function Trail({ route }: { route: Route }) {
     () => (scenarioId ? api['scenarios.get']({ scenarioId }) : Promise.resolve(undefined)),
     [scenarioId],
   );
-  if (route.page === 'households' || route.page === 'library' || route.page === 'settings') return null;
+  if (route.page === 'households' || route.page === 'book' || route.page === 'library' || route.page === 'settings')
+    return null;
   return (
     <nav className="trail" aria-label="You are here">
       {route.page === 'import' ? (

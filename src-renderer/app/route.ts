@@ -4,6 +4,7 @@
  */
 export type Route =
   | { page: 'households' }
+  | { page: 'book' }
   | { page: 'household-new' }
   | { page: 'household'; householdId: string }
   | { page: 'scenario'; householdId: string; scenarioId: string }
@@ -29,6 +30,7 @@ export function parseRoute(hash: string): Route {
     return { page: 'library', ...(a ? { universeId: a } : {}), ...(b ? { assetId: b } : {}) };
   }
   if (head === 'settings') return { page: 'settings' };
+  if (head === 'review') return { page: 'book' };
   return { page: 'households' };
 }
 
@@ -37,6 +39,8 @@ export function href(route: Route): string {
   switch (route.page) {
     case 'households':
       return '#/households';
+    case 'book':
+      return '#/review';
     case 'household-new':
       return '#/households/new';
     case 'household':
