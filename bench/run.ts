@@ -8,6 +8,7 @@ import { estimatorsSuite } from './estimators.js';
 import { backtestSuite } from './backtest.js';
 import { scenarioRecomputeSuite } from './scenario-recompute.js';
 import { solveSuite } from './solve.js';
+import { reviewSuite } from './review.js';
 
 /** Every benchmark suite; a suite is one module in bench/ plus one line here. */
 const suites: BenchSuite[] = [
@@ -20,6 +21,7 @@ const suites: BenchSuite[] = [
   backtestSuite,
   scenarioRecomputeSuite,
   solveSuite,
+  reviewSuite,
 ];
 
 const only = process.argv.slice(2);
