@@ -58,9 +58,16 @@ async function memoInput(
   // from the page as from the command line; a request may also ask for them (--backtest), and for
   // the weight bands.
   const asked = request.walkForward ?? (scenario.backtest ? {} : undefined);
-  const backtest = asked
+  const walked = asked
     ? await walkForward(inputs, { stabilityDraws: asked.stabilityDraws, signal: request.signal })
     : undefined;
+  // Asked for, a walk-forward that cannot run is refused; by default the memo goes without it.
+  if (walked?.status === 'not-solved' && request.walkForward)
+    throw new InputError(
+      `no walk-forward: ${walked.candidates.map((c) => `candidate '${c.id}' is ${c.status}${c.message ? ` (${c.message})` : ''}`).join('; ')}`,
+      { file: inputs.names.scenario, path: 'candidates' },
+    );
+  const backtest = walked?.status === 'done' ? walked.run : undefined;
   return buildMemoInput({
     scenario,
     revision,

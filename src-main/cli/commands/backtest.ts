@@ -1,13 +1,11 @@
-import { InputError, formatInputError } from '../../../shared-core/errors.js';
-import type { PriceTable } from '../../../shared-core/prices/price-table.js';
-import { parseScenarioText, type Scenario } from '../../../shared-core/scenario/schema.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { DEFAULT_DRAWS } from '../../../shared-core/stability/weight-bands.js';
 import { BACKTEST_CAUTIONS, backtestJsonText } from '../../../shared-core/walkforward/backtest-json.js';
-import { estimateAndSolve } from '../../../shared-core/walkforward/estimate-and-solve.js';
-import { runBacktest, type BacktestPhase, type BacktestRun } from '../../../shared-core/walkforward/run-backtest.js';
+import type { BacktestPhase, BacktestRun } from '../../../shared-core/walkforward/run-backtest.js';
+import { walkForward, type WalkForwardOutcome } from '../../app/walk-forward.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
-import { readInputFile, readPriceFile, withExchangeRates } from '../files.js';
+import { scenarioOptions } from '../scenario-options.js';
+import { exitCodeOf } from './solve.js';
 
 /**
  * `holdfast backtest`: every candidate of a scenario walked forward over a price file, with
@@ -23,28 +21,13 @@ export async function runBacktestCommand(options: OptionValues, io: CliIO): Prom
   if (seed !== undefined && !Number.isInteger(seed))
     throw new UsageError(`option '--seed' needs a whole number, got '${seed}'`);
 
-  const warn = (w: string) => io.stderr(`holdfast backtest: warning: ${w}\n`);
-  let prices = readPriceFile(io.cwd, options.prices as string, warn).table;
-  const scenarioFile = readInputFile(io.cwd, options.scenario as string);
-  const parsed = parseScenarioText(scenarioFile.text);
-  if (!parsed.ok) {
-    for (const e of parsed.errors) io.stderr(`holdfast backtest: ${formatInputError(e.inFile(scenarioFile.path))}\n`);
-    return EXIT.badInput;
-  }
-  const scenario: Scenario = parsed.scenario;
-  let fx: PriceTable | undefined;
-  if (options.fx !== undefined)
-    ({ prices, fx } = withExchangeRates(io.cwd, prices, scenario, options.fx as string, warn));
-
-  const progress = progressPrinter(io, scenario.candidates.length);
-  let run: BacktestRun;
+  const inputs = await scenarioOptions('backtest', options, io);
+  const progress = progressPrinter(io, inputs.scenario.candidates.length);
+  let outcome: WalkForwardOutcome;
   try {
-    run = await runBacktest(scenario, prices, {
-      estimateAndSolve,
-      ...(fx ? { fx } : {}),
+    outcome = await walkForward(inputs, {
       onProgress: progress,
-      shouldCancel: () => io.signal.aborted,
-      pause: () => new Promise((resolve) => setImmediate(resolve)),
+      signal: io.signal,
       ...(options.stability ? { stabilityDraws: draws ?? DEFAULT_DRAWS } : {}),
       ...(seed !== undefined ? { seed } : {}),
     });
@@ -53,9 +36,15 @@ export async function runBacktestCommand(options: OptionValues, io: CliIO): Prom
       io.stderr('holdfast backtest: interrupted; nothing written\n');
       return EXIT.interrupted;
     }
-    if (error instanceof InputError && error.location.file === undefined) throw error.inFile(scenarioFile.path);
     throw error;
   }
+  if (outcome.status === 'not-solved') {
+    // As `solve` exits: 3 when a mandate cannot be met, 1 when a solve failed otherwise.
+    for (const c of outcome.candidates)
+      io.stderr(`holdfast backtest: ${c.id}: ${c.status}${c.message ? `: ${c.message}` : ''}; not walked forward\n`);
+    return exitCodeOf(outcome.candidates);
+  }
+  const run = outcome.run;
   for (const w of run.warnings) io.stderr(`holdfast backtest: warning: ${w}\n`);
   io.stdout(options.json ? backtestJsonText(run) + '\n' : report(run));
   return EXIT.ok;

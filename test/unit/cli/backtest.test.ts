@@ -174,3 +174,47 @@ describe('holdfast backtest', () => {
     expect(err.join('')).toMatch(/interrupted; nothing written/);
   });
 });
+
+describe('backtest exits as solve does (issue 16)', () => {
+  const variant = (name: string, change: (s: typeof scenario) => object) =>
+    writeFileSync(join(dir, name), JSON.stringify(change(JSON.parse(JSON.stringify(scenario)) as typeof scenario)));
+  const both = async (file: string) => {
+    const runs = [];
+    for (const command of ['solve', 'backtest']) {
+      const { cli, out, err } = io();
+      const code = await runCli([command, '--prices', 'prices.csv', '--scenario', file, '--json'], cli);
+      runs.push({ code, out: out.join(''), err: err.join('').replace(/^holdfast \w+: /gm, '') });
+    }
+    return runs;
+  };
+
+  it('a mandate that cannot be met (floors adding to 150 %) exits 3 and walks nothing forward, never a 0.0 % row', async () => {
+    variant('floors.json', (s) => ({ ...s, constraints: { weightBounds: { default: [0.3, 0.6] } } }));
+    const [solve, backtest] = await both('floors.json');
+    expect(solve.code).toBe(3);
+    expect(backtest.code).toBe(3);
+    expect(backtest.out).toBe('');
+    expect(backtest.err).toMatch(/mv-lw: infeasible: .*not walked forward/);
+  });
+
+  it('an unknown group member exits 2 with the same located message as solve, nothing on stdout', async () => {
+    variant('group.json', (s) => ({
+      ...s,
+      constraints: { ...s.constraints, groups: [{ name: 'Core', members: ['A01', 'NOPE'], max: 0.8 }] },
+    }));
+    const [solve, backtest] = await both('group.json');
+    expect(solve.code).toBe(2);
+    expect(backtest.code).toBe(2);
+    expect(backtest.out).toBe('');
+    expect(solve.err).toContain("group.json: constraints.groups[0].members[1]: unknown asset 'NOPE'");
+    expect(backtest.err).toBe(solve.err);
+  });
+
+  it('current naming an unknown asset is refused at its JSON path, by solve and backtest alike', async () => {
+    variant('current.json', (s) => ({ ...s, current: { A01: 0.5, NOPE: 0.5 } }));
+    const [solve, backtest] = await both('current.json');
+    expect([solve.code, backtest.code]).toEqual([2, 2]);
+    expect(solve.err).toContain("current.json: current.NOPE: unknown asset 'NOPE'");
+    expect(backtest.err).toBe(solve.err);
+  });
+});
