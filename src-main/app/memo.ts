@@ -64,7 +64,7 @@ async function memoInput(
   // Asked for, a walk-forward that cannot run is refused; by default the memo goes without it.
   if (walked?.status === 'not-solved' && request.walkForward)
     throw new InputError(
-      `no walk-forward: ${walked.candidates.map((c) => `candidate '${c.id}' is ${c.status}${c.message ? ` (${c.message})` : ''}`).join('; ')}`,
+      `no walk-forward: ${walked.candidates.map((c) => `candidate '${c.id}' is ${c.status}${'message' in c && c.message ? ` (${c.message})` : ''}`).join('; ')}`,
       { file: inputs.names.scenario, path: 'candidates' },
     );
   const backtest = walked?.status === 'done' ? walked.run : undefined;

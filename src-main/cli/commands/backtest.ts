@@ -41,7 +41,9 @@ export async function runBacktestCommand(options: OptionValues, io: CliIO): Prom
   if (outcome.status === 'not-solved') {
     // As `solve` exits: 3 when a mandate cannot be met, 1 when a solve failed otherwise.
     for (const c of outcome.candidates)
-      io.stderr(`holdfast backtest: ${c.id}: ${c.status}${c.message ? `: ${c.message}` : ''}; not walked forward\n`);
+      io.stderr(
+        `holdfast backtest: ${c.id}: ${c.status}${'message' in c && c.message ? `: ${c.message}` : ''}; not walked forward\n`,
+      );
     return exitCodeOf(outcome.candidates);
   }
   const run = outcome.run;
