@@ -106,11 +106,6 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
   const assets = returns.assets;
   const known = new Set(assets);
   checkAssets(scenario.constraints, known, 'constraints');
-  // The current weights are the turnover reference and the memo's "from": an asset outside the
-  // run would be dropped from both without a word.
-  for (const key of Object.keys(scenario.current ?? {}))
-    if (!known.has(key))
-      throw new InputError(`unknown asset '${key}' (not among the scenario's assets)`, { path: `current.${key}` });
   scenario.candidates.forEach((c, i) => {
     checkAssets(c.constraints, known, `candidates[${i}].constraints`);
     if (c.objective.method === 'max-sharpe') {

@@ -1,3 +1,4 @@
+import { InputError } from '../../shared-core/errors.js';
 import { runScenario, type ScenarioRun } from '../../shared-core/run/run-scenario.js';
 import { locate, type ScenarioInputs } from './scenario-inputs.js';
 
@@ -13,6 +14,15 @@ export interface RunOptions {
  */
 export function runScenarioInputs(inputs: ScenarioInputs, options: RunOptions = {}): ScenarioRun {
   const { signal } = options;
+  // The current weights are the turnover reference and the memo's "from": an asset outside the
+  // scenario would be dropped from both without a word.
+  const known = new Set(inputs.scenario.assets ?? inputs.prices.assets);
+  for (const key of Object.keys(inputs.scenario.current ?? {}))
+    if (!known.has(key))
+      throw new InputError(`unknown asset '${key}' (not among the scenario's assets)`, {
+        file: inputs.names.scenario,
+        path: `current.${key}`,
+      });
   try {
     return runScenario(inputs.scenario, inputs.prices, {
       ...(inputs.locate ? { locate: inputs.locate } : {}),
