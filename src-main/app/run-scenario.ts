@@ -14,15 +14,19 @@ export interface RunOptions {
  */
 export function runScenarioInputs(inputs: ScenarioInputs, options: RunOptions = {}): ScenarioRun {
   const { signal } = options;
-  // The current weights are the turnover reference and the memo's "from": an asset outside the
-  // scenario would be dropped from both without a word.
-  const known = new Set(inputs.scenario.assets ?? inputs.prices.assets);
-  for (const key of Object.keys(inputs.scenario.current ?? {}))
-    if (!known.has(key))
-      throw new InputError(`unknown asset '${key}' (not among the scenario's assets)`, {
-        file: inputs.names.scenario,
-        path: `current.${key}`,
-      });
+  // The current weights are the turnover reference and the memo's "from". A held asset the
+  // scenario leaves out is sold (the mandate counts it in the turnover); an asset with no prices
+  // at all is a mistake that would otherwise pass without a word. The store form checks its
+  // `current` against the store's assets (stored-scenario.ts).
+  if (!inputs.fromStore) {
+    const known = new Set([...inputs.prices.assets, ...(inputs.scenario.assets ?? [])]);
+    for (const key of Object.keys(inputs.scenario.current ?? {}))
+      if (!known.has(key))
+        throw new InputError(`unknown asset '${key}' (not in the price file)`, {
+          file: inputs.names.scenario,
+          path: `current.${key}`,
+        });
+  }
   try {
     return runScenario(inputs.scenario, inputs.prices, {
       ...(inputs.locate ? { locate: inputs.locate } : {}),

@@ -53,6 +53,9 @@ export function storedScenarioInputs(store: Store, householdName: string, scenar
     assetInfo[id] = info;
   }
   const scenario: Scenario = { ...doc, assetInfo };
+  for (const key of Object.keys(doc.current ?? {}))
+    if (!store.getAsset(key))
+      throw new InputError(`unknown asset '${key}' (not in the store)`, { path: `current.${key}` });
   if (!doc.current) {
     const current = holdingWeights(store, household, doc.baseCurrency, new Set(assets));
     if (current) scenario.current = current;

@@ -131,8 +131,10 @@ describeInBrowser('scenario page in Chromium', () => {
     const revisions = await app.served.service['scenarios.revisions']({ scenarioId });
     const latest = await app.served.service['scenarios.revision']({ scenarioId, revision: revisions[0].number });
     expect(revisions[0].note).toBe('Three estimates, two objectives, 15% cap');
-    const document = latest.document as { assets: string[] };
-    const prices = await app.served.service['prices.table']({ assets: document.assets });
+    const document = latest.document as { assets: string[]; current?: Record<string, number> };
+    // The price file holds every asset the scenario names, the held ones it leaves out (sold) too.
+    const held = Object.keys(document.current ?? {}).filter((a) => !document.assets.includes(a));
+    const prices = await app.served.service['prices.table']({ assets: [...document.assets, ...held] });
     const pricesFile = join(dir, 'prices.csv');
     const scenarioFile = join(dir, 'scenario.json');
     writeFileSync(pricesFile, widePriceCsv(priceTableFromWire(prices.table), 6));

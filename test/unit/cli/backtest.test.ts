@@ -217,4 +217,11 @@ describe('backtest exits as solve does (issue 16)', () => {
     expect(solve.err).toContain("current.json: current.NOPE: unknown asset 'NOPE'");
     expect(backtest.err).toBe(solve.err);
   });
+
+  it('a held asset the scenario leaves out is sold, not refused (it has prices)', async () => {
+    variant('sold.json', (s) => ({ ...s, assets: ['A01', 'A02', 'A03'], current: { A01: 0.5, A04: 0.5 } }));
+    const [solve] = await both('sold.json');
+    expect(solve.err).toBe('');
+    expect(solve.code).toBe(0);
+  });
 });
