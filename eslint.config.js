@@ -19,6 +19,7 @@ const SHARED_CORE_LAYERS = [
   { name: 'walk-forward', members: ['walkforward'] },
   { name: 'run', members: ['run'] },
   { name: 'how figures are written', members: ['present'] },
+  { name: 'the trade list', members: ['trades'] },
   { name: 'the book review', members: ['review'] },
   { name: 'the core seen from outside', members: ['contract', 'demo'] },
 ];

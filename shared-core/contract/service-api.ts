@@ -3,6 +3,7 @@ import type { ReviewRow } from '../review/review-row.js';
 import type { PriceTable } from '../prices/price-table.js';
 import { liquidityTags, type ScenarioInput } from '../scenario/schema.js';
 import { isoDate } from '../scenario/iso-date.js';
+import { DEFAULT_LOT } from '../trades/trade-list.js';
 import { method } from './define.js';
 
 /**
@@ -637,7 +638,7 @@ export const serviceApi = {
       /** The memo's date (never the clock inside the PDF); today when absent. */
       date: isoDate.optional(),
       /** Trades are rounded to multiples of this amount in the base currency. */
-      lot: z.number().positive().default(1000),
+      lot: z.number().positive().default(DEFAULT_LOT),
       /** The candidate the memo recommends; the revision's `recommended` when absent. */
       recommended: z.string().min(1).optional(),
       /** The advisor's own reasons, printed before the figures. */

@@ -1,8 +1,7 @@
 import { InputError } from '../../shared-core/errors.js';
 import { isSolved, type CandidateResult, type OptimalCandidate } from '../../shared-core/optimise/result.js';
-import { decimalsForLot } from '../../shared-core/present/format.js';
+import { tradeList, type TradePlan } from '../../shared-core/trades/trade-list.js';
 import type { MemoInput } from './memo-input.js';
-import { planTrades, type TradePlan } from './trades.js';
 
 /**
  * What the memo's pages read from the input, worked out once: printed asset names, the display
@@ -70,7 +69,7 @@ export function buildView(input: MemoInput): MemoView {
         path: 'household.holdings.positions',
       });
     current = Object.fromEntries(assets.map((a) => [a, (amounts[a] ?? 0) / total]));
-    trades = planTrades(assets, amounts, recommended.weights, input.lot, decimalsForLot(input.lot));
+    trades = tradeList({ assets, held: amounts, weights: recommended.weights, lot: input.lot });
   } else if (input.scenario.document.current) {
     current = Object.fromEntries(assets.map((a) => [a, input.scenario.document.current?.[a] ?? 0]));
   }

@@ -1,37 +1,21 @@
 import type { Holdings } from '../../shared-core/contract/service-api.js';
+import { DEFAULT_LOT, tradeList, type TradePlan } from '../../shared-core/trades/trade-list.js';
 
 /**
- * The trades that take a household from its holdings to a candidate's weights, in the base
- * currency: target amount = weight x total value of the holdings; trade = target - held. The
- * service values each holding in the base currency with the exchange rates the store holds; a
- * holding it could not value stops the list with a sentence saying which and why.
+ * The screen's trade list: the household's holdings, valued in the base currency by the service,
+ * planned by the one trade list the memo prints too (shared-core/trades), rounded to the same lot.
+ * A holding the service could not value stops the list with a sentence saying which and why.
  */
-export interface TradeLine {
-  asset: string;
-  held: number;
-  target: number;
-  /** Positive: buy; negative: sell. */
-  trade: number;
-  heldWeight: number;
-  targetWeight: number;
-}
-
-export type TradeList =
+export type HoldingsTrades =
   | {
       ok: true;
+      plan: TradePlan;
       currency: string;
-      total: number;
       asOf: string | null;
-      lines: TradeLine[];
-      bought: number;
-      sold: number;
       /** The exchange rates used, in words. */
       rates: string[];
     }
   | { ok: false; reason: string };
-
-/** Trades smaller than this, in currency units, are left out as rounding (common practice). */
-export const MIN_TRADE = 1;
 
 /** Each holding's value in the base currency, or the sentence naming what could not be valued. */
 export function baseAmounts(
@@ -52,34 +36,22 @@ export function baseAmounts(
   return { ok: true, amounts };
 }
 
-export function tradeList(weights: Readonly<Record<string, number>>, holdings: Holdings): TradeList {
+/** Trades from the holdings to `weights`, in the order of the weights' assets (the estimate's, as in the memo). */
+export function tradesFromHoldings(
+  weights: Readonly<Record<string, number>>,
+  holdings: Holdings,
+  lot: number = DEFAULT_LOT,
+): HoldingsTrades {
   const converted = baseAmounts(holdings);
   if (!converted.ok) return converted;
-  const held = converted.amounts;
-  const total = [...held.values()].reduce((s, v) => s + v, 0);
-  if (!(total > 0)) return { ok: false, reason: 'the holdings add up to zero, so weights cannot become amounts' };
-  const assets = [...new Set([...Object.keys(weights), ...held.keys()])];
-  const lines: TradeLine[] = [];
-  for (const asset of assets) {
-    const h = held.get(asset) ?? 0;
-    const w = weights[asset] ?? 0;
-    const target = w * total;
-    const trade = target - h;
-    if (Math.abs(trade) < MIN_TRADE) continue;
-    lines.push({ asset, held: h, target, trade, heldWeight: h / total, targetWeight: w });
-  }
-  // Sells first, then buys, each by size: the order a dealer works a list.
-  lines.sort((a, b) => Math.sign(a.trade) - Math.sign(b.trade) || Math.abs(b.trade) - Math.abs(a.trade));
-  const bought = lines.reduce((s, l) => s + Math.max(0, l.trade), 0);
-  const sold = lines.reduce((s, l) => s + Math.max(0, -l.trade), 0);
+  const held = Object.fromEntries(converted.amounts);
+  if (!(Object.values(held).reduce((s, v) => s + v, 0) > 0))
+    return { ok: false, reason: 'the holdings add up to zero, so weights cannot become amounts' };
   return {
     ok: true,
+    plan: tradeList({ assets: Object.keys(weights), held, weights, lot }),
     currency: holdings.baseCurrency,
-    total,
     asOf: holdings.asOf,
-    lines,
-    bought,
-    sold,
     rates: holdings.rates,
   };
 }

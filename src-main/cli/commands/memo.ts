@@ -4,6 +4,7 @@ import { InputError } from '../../../shared-core/errors.js';
 import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { DEFAULT_DRAWS } from '../../../shared-core/stability/weight-bands.js';
+import { DEFAULT_LOT } from '../../../shared-core/trades/trade-list.js';
 import { memoFromFiles, memoFromStore, type MemoRequest } from '../../app/memo.js';
 import { scenarioFromFiles } from '../../app/scenario-inputs.js';
 import { memoHash } from '../../memo/memo-hash.js';
@@ -23,7 +24,7 @@ import { existingStore } from './store-access.js';
 export async function runMemo(options: OptionValues, io: CliIO): Promise<number> {
   const date = (options.date as string | undefined) ?? new Date().toISOString().slice(0, 10);
   if (!isIsoDate(date)) throw new UsageError(`--date needs a date YYYY-MM-DD, got '${date}'`);
-  const lot = (options.lot as number | undefined) ?? 1000;
+  const lot = (options.lot as number | undefined) ?? DEFAULT_LOT;
   if (!(lot > 0)) throw new UsageError(`--lot must be a positive amount, got ${lot}`);
   const storeForm = options.store !== undefined;
   if (storeForm) {

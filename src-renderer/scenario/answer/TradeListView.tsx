@@ -1,9 +1,9 @@
 import { memo } from 'react';
 import type { Holdings } from '../../../shared-core/contract/service-api.js';
 import { formatCurrency, formatDate, formatPercent } from '../format.js';
-import { tradeList } from '../trade-list.js';
+import { tradesFromHoldings } from '../trade-list.js';
 
-/** The trades from the household's holdings to one candidate, in the base currency. */
+/** The trades from the household's holdings to one candidate, in the base currency, rounded to the memo's lot. */
 export const TradeListView = memo(function TradeListView(props: {
   candidateId: string;
   weights: Readonly<Record<string, number>>;
@@ -13,7 +13,7 @@ export const TradeListView = memo(function TradeListView(props: {
 }) {
   if (!props.holdings)
     return <p className="faint">The household has no holdings on file, so there is no trade list.</p>;
-  const list = tradeList(props.weights, props.holdings);
+  const list = tradesFromHoldings(props.weights, props.holdings);
   if (!list.ok)
     return (
       <p className="note warning" role="note">
@@ -21,12 +21,14 @@ export const TradeListView = memo(function TradeListView(props: {
       </p>
     );
   const { currency, locale } = { currency: list.currency, locale: props.locale };
+  const { plan } = list;
+  const lines = plan.rows.filter((l) => l.trade !== 0);
   return (
     <div className="trade-list" data-testid="trade-list">
       <table className="grid">
         <caption>
           Trades from the holdings{list.asOf ? ` of ${formatDate(list.asOf, locale)}` : ''} to {props.candidateId},
-          total {formatCurrency(list.total, currency, locale)}
+          total {formatCurrency(plan.total, currency, locale)}, in lots of {formatCurrency(plan.lot, currency, locale)}
           {list.rates.length > 0 ? `; ${list.rates.join('; ')}` : ''}
         </caption>
         <thead>
@@ -48,17 +50,17 @@ export const TradeListView = memo(function TradeListView(props: {
           </tr>
         </thead>
         <tbody>
-          {list.lines.map((l) => (
+          {lines.map((l) => (
             <tr key={l.asset}>
               <th scope="row">
                 <span className="code">{l.asset}</span> <span className="faint">{props.names.get(l.asset) ?? ''}</span>
               </th>
-              <td>{l.trade > 0 ? 'buy' : l.target < 1 ? 'sell all' : 'sell'}</td>
+              <td>{l.trade > 0 ? 'buy' : l.after === 0 ? 'sell all' : 'sell'}</td>
               <td className="num">{formatCurrency(Math.abs(l.trade), currency, locale)}</td>
-              <td className="num">{formatCurrency(l.held, currency, locale)}</td>
-              <td className="num">{formatCurrency(l.target, currency, locale)}</td>
+              <td className="num">{formatCurrency(l.current, currency, locale)}</td>
+              <td className="num">{formatCurrency(l.after, currency, locale)}</td>
               <td className="num">
-                {formatPercent(l.heldWeight, locale)} → {formatPercent(l.targetWeight, locale)}
+                {formatPercent(l.current / plan.total, locale)} → {formatPercent(props.weights[l.asset] ?? 0, locale)}
               </td>
             </tr>
           ))}
@@ -67,7 +69,8 @@ export const TradeListView = memo(function TradeListView(props: {
           <tr>
             <th scope="row">Together</th>
             <td colSpan={2} className="num">
-              buys {formatCurrency(list.bought, currency, locale)}, sells {formatCurrency(list.sold, currency, locale)}
+              buys {formatCurrency(plan.buys, currency, locale)}, sells {formatCurrency(plan.sells, currency, locale)},
+              cash left from rounding {formatCurrency(plan.residual, currency, locale)}
             </td>
             <td colSpan={3} className="faint">
               Amounts at holdings values; dealing prices and costs will differ.
