@@ -42,6 +42,10 @@ interface MethodDefinition<M extends string, S extends MethodSchema<M>> {
   memoWords: (spec: z.output<S>, figures: MethodFigures) => string;
   /** The paper or practice it comes from, as cited beside its formula. */
   source: string;
+  /** What it computes, in plain-text notation (the methods page, docs/methods.md, prints it). */
+  formula: string;
+  /** When an adviser would choose it, and when not (the methods page). */
+  whenToUse: string;
 }
 
 export interface EstimatorDefinition<

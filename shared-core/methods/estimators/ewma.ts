@@ -37,4 +37,8 @@ export const ewma = defineEstimator({
         ? `EWMA, lambda ${spec.lambda}`
         : 'EWMA',
   source: 'RiskMetrics Technical Document (J.P. Morgan/Reuters, 1996)',
+  formula:
+    "S = sum_t w_t r_t r_t', zero mean, w_t proportional to lambda^(T-t) and summing to 1; lambda from the half-life h by lambda^h = 1/2. Default lambda 0.94 for daily returns, 0.97 for weekly and monthly.",
+  whenToUse:
+    'When recent periods should count more than old ones, for instance after a change of regime. A short half-life follows the market quickly but is noisy and raises turnover; it needs enough periods for the weights it gives (about three half-lives at least).',
 });

@@ -29,4 +29,8 @@ export const equalRiskContribution = defineObjective({
   },
   source:
     'Maillard, Roncalli and Teiletche (2010), J. Portfolio Management 36(4); solved as in Spinu (2013), SSRN "An algorithm for computing risk parity weights"',
+  formula:
+    "w_i (Sigma w)_i / (w' Sigma w) = b_i for every asset, budgets b summing to 1 (equal when absent); solved from y = argmin 1/2 y' Sigma y - sum_i b_i ln y_i, w = y / sum y.",
+  whenToUse:
+    'When every asset (or each budgeted asset) should carry its share of risk; volatility lies between minimum variance and equal weight. Every asset is held, so it does not prune a universe.',
 });

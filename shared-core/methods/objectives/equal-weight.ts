@@ -14,4 +14,7 @@ export const equalWeight = defineObjective({
   },
   source:
     'common practice: weight 1 / N each (DeMiguel, Garlappi and Uppal 2009, Review of Financial Studies 22, as a benchmark)',
+  formula: 'w_i = 1 / N; where that breaks a limit, the nearest weights (least squares) that meet every limit.',
+  whenToUse:
+    'The benchmark any optimised candidate should beat out of sample (DeMiguel, Garlappi and Uppal 2009); needs no estimate at all.',
 });

@@ -13,4 +13,7 @@ export const inverseVolatility = defineObjective({
     unit: 'distance from the inverse-volatility weights (square root of the summed squared weight differences)',
   },
   source: 'common practice: weights proportional to 1 / volatility',
+  formula:
+    'w_i proportional to 1 / sigma_i; where that breaks a limit, the nearest weights (least squares) that meet every limit.',
+  whenToUse: 'A simple, transparent rule that ignores correlations; a benchmark beside the optimised candidates.',
 });

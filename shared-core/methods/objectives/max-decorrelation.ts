@@ -18,4 +18,7 @@ export const maxDecorrelation = defineObjective({
     threshold: 'Threshold',
   },
   source: 'Christoffersen, Errunza, Jacobs and Jin (2012), Review of Financial Studies 25',
+  formula: "minimise w' C w, C the correlation matrix: minimum variance as if every asset had the same volatility.",
+  whenToUse:
+    'When correlations are trusted more than volatilities, or assets of very different volatility should not be ranked by it.',
 });

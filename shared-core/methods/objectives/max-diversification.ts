@@ -15,4 +15,8 @@ export const maxDiversification = defineObjective({
     threshold: 'Threshold',
   },
   source: 'Choueifaty and Coignard (2008), "Toward maximum diversification", J. Portfolio Management 35(1)',
+  formula:
+    "maximise DR(w) = w'sigma / sqrt(w' Sigma w), sigma the assets' volatilities; solved as one quadratic programme in y = k w: minimise y' Sigma y subject to sigma'y = 1 and every limit written homogeneously (Charnes and Cooper 1962).",
+  whenToUse:
+    'When the aim is to spread risk over independent sources without a view on returns. It tends to hold the least correlated assets and can leave out whole groups unless bands keep them in.',
 });

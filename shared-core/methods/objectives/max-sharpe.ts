@@ -30,4 +30,8 @@ export const maxSharpe = defineObjective({
   },
   source:
     'Sharpe (1966), "Mutual fund performance", J. Business 39; the tangency portfolio of Tobin (1958), Review of Economic Studies 25',
+  formula:
+    "maximise (w' mu - rf) / sqrt(w' Sigma w), mu the scenario's annualised expectedReturns and rf the risk-free rate (0 when absent).",
+  whenToUse:
+    "Only with expected returns the adviser can defend: the weights follow small changes in mu closely. Every asset needs an entry in the scenario's expectedReturns, or the candidate fails with a message naming the missing ones.",
 });

@@ -15,4 +15,7 @@ export const minVariance = defineObjective({
     threshold: 'Threshold',
   },
   source: 'Markowitz (1952), "Portfolio selection", J. Finance 7: the minimum-variance portfolio',
+  formula: "minimise w' Sigma w subject to the limits (unconstrained, w proportional to Sigma^-1 1).",
+  whenToUse:
+    'When the lowest volatility within the mandate is the aim. It concentrates in the lowest-volatility assets (short bonds, money market) unless caps and bands spread it.',
 });
