@@ -31,7 +31,7 @@ const price = z.number().superRefine((value, ctx) => {
   if (why) ctx.addIssue({ code: 'custom', message: why });
 });
 
-const fileSchema = z.strictObject({
+export const householdFileSchema = z.strictObject({
   format: z.literal(HOUSEHOLD_FILE_FORMAT),
   exportedAt: timestamp,
   household: z.strictObject({
@@ -98,7 +98,7 @@ const fileSchema = z.strictObject({
   checksum: z.string(),
 });
 
-export type HouseholdFile = z.infer<typeof fileSchema>;
+export type HouseholdFile = z.infer<typeof householdFileSchema>;
 
 /** The household file of one household of the store, as JSON text. */
 export function exportHousehold(store: Store, name: string, now = new Date()): string {
@@ -190,7 +190,7 @@ export function importHousehold(store: Store, text: string, file: string): House
   } catch (error) {
     throw error instanceof InputError ? error.inFile(file) : error;
   }
-  const parsed = fileSchema.safeParse(value, { reportInput: true });
+  const parsed = householdFileSchema.safeParse(value, { reportInput: true });
   if (!parsed.success)
     throw issueToInputError(parsed.error.issues[0] as unknown as Parameters<typeof issueToInputError>[0]).inFile(file);
   const doc = parsed.data;
