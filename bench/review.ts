@@ -16,7 +16,14 @@ import { median, type BenchFigure, type BenchSuite } from './harness.js';
 const here = dirname(fileURLToPath(import.meta.url));
 const cli = join(here, '../src-main/cli/main.js');
 const peerScript = join(here, '../../test/reference/review/review_reference.py');
-const BOOK: Partial<BookSettings> = { seed: 11, households: 50, assets: 80, perHousehold: [25, 60], months: 120 };
+/** The book both review figures use (and the book screen's, bench/book-screen.ts). */
+export const REVIEW_BOOK: Partial<BookSettings> = {
+  seed: 11,
+  households: 50,
+  assets: 80,
+  perHousehold: [25, 60],
+  months: 120,
+};
 
 function timed(command: string, args: readonly string[]): { ms: number; maxRssMb: number } {
   const t0 = performance.now();
@@ -32,9 +39,9 @@ export const reviewSuite: BenchSuite = {
     const dir = mkdtempSync(join(tmpdir(), 'holdfast-bench-review-'));
     try {
       const store = join(dir, 'book.hfstore');
-      createBookStore(store, BOOK).store.close();
+      createBookStore(store, REVIEW_BOOK).store.close();
       const input = join(dir, 'book.json');
-      writeFileSync(input, JSON.stringify(generateBook(BOOK)));
+      writeFileSync(input, JSON.stringify(generateBook(REVIEW_BOOK)));
       const peerAvailable = spawnSync('/usr/bin/python3', ['-c', 'import numpy, cvxopt']).status === 0;
       const figures: BenchFigure[] = [];
       for (const [label, extra, runs, targetMs] of [

@@ -9,6 +9,7 @@ import { backtestSuite } from './backtest.js';
 import { scenarioRecomputeSuite } from './scenario-recompute.js';
 import { solveSuite } from './solve.js';
 import { reviewSuite } from './review.js';
+import { bookScreenSuite } from './book-screen.js';
 
 /** Every benchmark suite; a suite is one module in bench/ plus one line here. */
 const suites: BenchSuite[] = [
@@ -22,6 +23,7 @@ const suites: BenchSuite[] = [
   scenarioRecomputeSuite,
   solveSuite,
   reviewSuite,
+  bookScreenSuite,
 ];
 
 const only = process.argv.slice(2);

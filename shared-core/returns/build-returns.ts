@@ -163,6 +163,12 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
   }
   if (coarsened.length > 0) warnings.push(`estimating ${frequency}: ${coarsened.join(', ')} priced ${frequency}`);
 
+  // The week or month of each row in the window, read once: the sampling and the coverage count
+  // ask for it per row and per asset.
+  const periods = new Int32Array(frequency === 'daily' ? 0 : dates.length);
+  if (frequency !== 'daily')
+    for (let r = lo; r < hi; r++) periods[r] = frequency === 'weekly' ? weekIndex(days[r]) : monthIndex(dates[r]);
+
   // The common window: from the latest first price to the earliest last price.
   let commonLo = firsts[0];
   let commonHi = lasts[0];
@@ -226,7 +232,7 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
           if (!Number.isFinite(column[candidates[slot]])) missingAt[a]++;
       }
   } else {
-    const periodOf = (r: number) => (frequency === 'weekly' ? weekIndex(days[r]) : monthIndex(dates[r]));
+    const periodOf = (r: number) => periods[r];
     const stale: string[] = [];
     for (let k = 0; k < candidates.length;) {
       const period = periodOf(candidates[k]);
@@ -306,7 +312,7 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
   const out = returns.data;
   const lowest = new Float64Array(n);
   const highest = new Float64Array(n);
-  convertedReturns(table, cols, ids, points, pairs, options, maxFill, fail, warnings, out, lowest, highest);
+  convertedReturns(table, days, cols, ids, points, pairs, options, maxFill, fail, warnings, out, lowest, highest);
 
   if (t < minObservations) {
     const starter = firsts.indexOf(commonLo);
@@ -357,7 +363,7 @@ export function buildReturns(table: PriceTable, options: BuildReturnsOptions): R
   }
   // Daily: every used date is a sample point, where every asset is priced, so an asset's unused
   // priced dates are its priced dates less the used ones.
-  const periodOf = (r: number) => (frequency === 'weekly' ? weekIndex(days[r]) : monthIndex(dates[r]));
+  const periodOf = (r: number) => periods[r];
   const usedPeriods = frequency === 'daily' ? undefined : new Set([...used].map(periodOf));
   const coverage: AssetCoverage[] = ids.map((asset, a) => {
     let dropped = 0;
@@ -452,10 +458,12 @@ function pricedRows(column: Float64Array, lo: number, hi: number): number[] {
  * levels in the base currency where an asset is priced in another one, with each asset's least
  * and greatest return. An FX rate may be carried forward over at most maxFill days; a rate
  * missing on a needed date is an error naming the asset, the currency and the date (the first
- * such asset, then its first such date).
+ * such asset, then its first such date). `days` holds the day number of every row in the window,
+ * which every sample point's rows are.
  */
 function convertedReturns(
   table: PriceTable,
+  days: Int32Array,
   cols: readonly number[],
   ids: readonly string[],
   points: readonly SamplePoint[],
@@ -511,7 +519,7 @@ function convertedReturns(
       for (let k = 0; k < p; k++) {
         if (!needed[k]) continue;
         const date = table.dates[rows[k]];
-        const rate = rateOn(fxDays, options.fx.closes[f], dayNumber(date), maxFill);
+        const rate = rateOn(fxDays, options.fx.closes[f], days[rows[k]], maxFill);
         if (rate === undefined)
           throw fail(
             `no ${currency} rate in ${base} for ${ids[a]} on ${date} (none within ${maxFill} days before)`,
