@@ -24,6 +24,23 @@ const SHARED_CORE_LAYERS = [
   { name: 'the core seen from outside', members: ['contract', 'demo'] },
 ];
 
+/**
+ * src-main's layers, lowest first, by the same rule: the store and the file readers at the bottom,
+ * the memo's pages, the use cases (app/) above them, and the commands, the service, the local web
+ * host, the desktop shell and the generated docs on top. A use case never imports a command or the service; every
+ * layer may import shared-core.
+ */
+const SRC_MAIN_LAYERS = [
+  { name: 'the store', members: ['store'] },
+  { name: 'files', members: ['io'] },
+  { name: "the memo's pages", members: ['memo'] },
+  { name: 'use cases', members: ['app'] },
+  { name: 'the demonstration store', members: ['demo'] },
+  { name: 'the service API', members: ['service'] },
+  { name: 'the local web host', members: ['web-host'] },
+  { name: 'the command line, the desktop shell and the generated docs', members: ['cli', 'shell', 'docs'] },
+];
+
 /** Deepest folder level under a layer's folder that the rules are written out for. */
 const MAX_DEPTH = 5;
 
@@ -40,61 +57,60 @@ const runtimePattern = {
     'shared-core runs anywhere (main process, Web Worker, command line): it imports only itself, zod and ml-matrix',
 };
 
-function checkEveryMemberListed() {
-  const listed = new Set(SHARED_CORE_LAYERS.flatMap((l) => l.members));
-  const entries = readdirSync(fileURLToPath(import.meta.resolve('./shared-core/')), { withFileTypes: true });
+function checkEveryMemberListed(root, layers) {
+  const listed = new Set(layers.flatMap((l) => l.members));
+  const entries = readdirSync(fileURLToPath(import.meta.resolve(`./${root}/`)), { withFileTypes: true });
   const unlisted = entries
     .filter((e) => e.isDirectory() || /\.tsx?$/.test(e.name))
     .map((e) => e.name)
     .filter((name) => !listed.has(name));
   if (unlisted.length > 0)
     throw new Error(
-      `eslint.config.js: shared-core/${unlisted.join(', shared-core/')} belongs to no layer: add it to SHARED_CORE_LAYERS`,
+      `eslint.config.js: ${root}/${unlisted.join(`, ${root}/`)} belongs to no layer: add it to its layer list`,
     );
 }
 
-/** One block per member and folder depth: an import path's `../` count says where it lands. */
-function sharedCoreLayerBlocks() {
-  checkEveryMemberListed();
+/**
+ * One block per member and folder depth: an import path's `../` count says where it lands.
+ * `outside` lists what every member may import outside `root` (as the rest of a path from the
+ * repository root), `extra` adds the root's own patterns and paths, and `dynamic` checks
+ * `import()` as well (shared-core refuses it outright).
+ */
+function layerBlocks(root, layers, { outside = [], extra = () => ({}), dynamic = false }) {
+  checkEveryMemberListed(root, layers);
   const blocks = [];
-  SHARED_CORE_LAYERS.forEach((layer, rank) => {
-    const below = SHARED_CORE_LAYERS.slice(0, rank).flatMap((l) => l.members);
+  layers.forEach((layer, rank) => {
+    const below = layers.slice(0, rank).flatMap((l) => l.members);
     const message = (member) =>
-      `shared-core/${member} (layer "${layer.name}") imports only ${below.length ? below.join(', ') : 'nothing outside itself'}: layers import downwards (DEVELOPERS.md)`;
+      `${root}/${member} (layer "${layer.name}") imports only ${below.length ? below.join(', ') : 'nothing outside itself'}${outside.length ? ` and ${outside.join(', ')}` : ''}: layers import downwards (DEVELOPERS.md)`;
     for (const member of layer.members) {
-      const allowed = [...below, member].map(target).join('|');
-      if (member.endsWith('.ts')) {
-        blocks.push({
-          files: [`shared-core/${member}`],
-          rules: {
-            'no-restricted-imports': [
-              'error',
-              {
-                patterns: [
-                  runtimePattern,
-                  { regex: `^\\.\\./|^\\./(?!(${allowed}))`, caseSensitive: true, message: message(member) },
-                ],
-              },
-            ],
-          },
-        });
-        continue;
+      const allowed = [...below, member].map(target);
+      const files = member.endsWith('.ts')
+        ? [{ glob: `${root}/${member}`, depth: 0 }]
+        : Array.from({ length: MAX_DEPTH }, (_, i) => ({
+            glob: `${root}/${member}/${'*/'.repeat(i)}${sources}`,
+            depth: i + 1,
+          }));
+      const { patterns = [], paths } = extra(member);
+      for (const { glob, depth } of files) {
+        const reach = [...allowed, ...outside.map((o) => `${up(1)}${o}/`)].join('|');
+        const regex = depth === 0 ? `^\\.\\./|^\\./(?!(${reach}))` : `^${up(depth)}(?!(${reach}))`;
+        const rules = {
+          'no-restricted-imports': [
+            'error',
+            {
+              patterns: [...patterns, { regex, caseSensitive: true, message: message(member) }],
+              ...(paths ? { paths } : {}),
+            },
+          ],
+        };
+        if (dynamic)
+          rules['no-restricted-syntax'] = [
+            'error',
+            { selector: `ImportExpression[source.value=/${regex.replaceAll('/', '\\/')}/]`, message: message(member) },
+          ];
+        blocks.push({ files: [glob], rules });
       }
-      for (let depth = 1; depth <= MAX_DEPTH; depth++)
-        blocks.push({
-          files: [`shared-core/${member}/${'*/'.repeat(depth - 1)}${sources}`],
-          rules: {
-            'no-restricted-imports': [
-              'error',
-              {
-                patterns: [
-                  runtimePattern,
-                  { regex: `^${up(depth)}(?!(${allowed}))`, caseSensitive: true, message: message(member) },
-                ],
-              },
-            ],
-          },
-        });
     }
   });
   return blocks;
@@ -163,16 +179,14 @@ export default tseslint.config(
       ],
     },
   },
-  ...sharedCoreLayerBlocks(),
+  ...layerBlocks('shared-core', SHARED_CORE_LAYERS, { extra: () => ({ patterns: [runtimePattern] }) }),
   ...rendererBlocks(),
-  {
-    files: ['src-main/**/*.ts'],
-    ignores: ['src-main/store/**'],
-    rules: {
-      'no-restricted-imports': [
-        'error',
-        { paths: [{ name: 'better-sqlite3', message: 'only src-main/store opens SQLite: go through the store' }] },
-      ],
-    },
-  },
+  ...layerBlocks('src-main', SRC_MAIN_LAYERS, {
+    outside: ['shared-core'],
+    dynamic: true,
+    extra: (member) =>
+      member === 'store'
+        ? {}
+        : { paths: [{ name: 'better-sqlite3', message: 'only src-main/store opens SQLite: go through the store' }] },
+  }),
 );

@@ -1,8 +1,8 @@
 import { InputError } from '../../shared-core/errors.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import { parseScenarioText, type Scenario } from '../../shared-core/scenario/schema.js';
-import { readInputFile, readPriceFile } from '../cli/files.js';
-import type { PriceTableFile } from '../io/read-price-table.js';
+import { readInputFile } from '../io/read-input-file.js';
+import { readNamedPriceTable, type PriceTableFile } from '../io/read-price-table.js';
 import type { Store } from '../store/store.js';
 import { storedScenarioInputs, type StoredScenarioInputs } from './stored-scenario.js';
 
@@ -51,10 +51,10 @@ export function scenarioFromFiles(
     throw first;
   }
   const scenario = parsed.scenario;
-  const prices = readPriceFile(cwd, files.prices, warn);
+  const prices = readNamedPriceTable(cwd, files.prices, warn);
   const read = { names: { scenario: scenarioFile.path, prices: prices.path }, fromStore: false, locate: prices.locate };
   if (files.fx === undefined) return { scenario, prices: prices.table, ...read };
-  const fx = readPriceFile(cwd, files.fx, warn);
+  const fx = readNamedPriceTable(cwd, files.fx, warn);
   return {
     scenario,
     prices: { ...prices.table, currencies: prices.table.assets.map((a) => scenario.assetInfo?.[a]?.currency) },

@@ -1,3 +1,4 @@
+import { resolve } from 'node:path';
 import { InputError, type InputLocation } from '../../shared-core/errors.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import { isoFromDay } from '../store/days.js';
@@ -28,6 +29,20 @@ export type ReadPriceTableOptions = Omit<ReadPriceFileOptions, 'signal' | 'onPro
 
 export function readPriceTable(path: string, options: ReadPriceTableOptions = {}): PriceTableFile {
   return priceTableOf(readPriceFileSync(path, options));
+}
+
+/**
+ * A price file named by the user, relative to `cwd`: errors name it as given, with line and
+ * column; flagged moves go to `warn`, one line each.
+ */
+export function readNamedPriceTable(
+  cwd: string,
+  path: string,
+  warn?: (line: string) => void,
+): { path: string; table: PriceTable; locate: PriceTableFile['locate'] } {
+  const read = readPriceTable(resolve(cwd, path), { file: path });
+  for (const w of read.warnings) warn?.(w);
+  return { path, table: read.table, locate: read.locate };
 }
 
 /** The same from a price file's text already in memory (tests, generated files). */

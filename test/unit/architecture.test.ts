@@ -26,6 +26,29 @@ async function findings(path: string, code: string): Promise<string[]> {
 
 const importing = (spec: string) => `import * as probe from '${spec}';\nexport const used = probe;\n`;
 
+/** The one finding of a layer rule on a forbidden import. */
+async function expectRefusedAsUpward(path: string, spec: string): Promise<void> {
+  const found = await findings(path, importing(spec));
+  expect(found).toHaveLength(1);
+  expect(found[0]).toMatch(/^no-restricted-imports: .*layers import downwards/);
+}
+
+/** Every folder under `top` has a layer rule (a folder left out fails the lint configuration itself). */
+async function expectEveryFolderLayered(top: string): Promise<void> {
+  const folders = readdirSync(join(root, top), { withFileTypes: true }).filter((e) => e.isDirectory());
+  expect(folders.length).toBeGreaterThan(5);
+  for (const folder of folders) {
+    const config = (await eslint.calculateConfigForFile(join(root, top, folder.name, 'probe.ts'))) as {
+      rules: Record<string, [number, { patterns: { message: string }[] }]>;
+    };
+    const messages = config.rules['no-restricted-imports'][1].patterns.map((p) => p.message);
+    expect(
+      messages.some((m) => m.includes('layers import downwards')),
+      folder.name,
+    ).toBe(true);
+  }
+}
+
 describe('shared-core imports downwards only (document, then estimators / optimiser / walk-forward, then the run)', () => {
   it.each([
     ['shared-core/scenario/probe.ts', '../estimators/registry.js', 'the document does not import the estimators'],
@@ -43,11 +66,7 @@ describe('shared-core imports downwards only (document, then estimators / optimi
     ],
     ['shared-core/linalg/probe.ts', '../methods/define.js', 'arithmetic and method definitions are independent'],
     ['shared-core/errors.ts', './linalg/matrix.js', 'the errors import nothing of the core'],
-  ])('%s importing %s is refused: %s', async (path, spec) => {
-    const found = await findings(path, importing(spec));
-    expect(found).toHaveLength(1);
-    expect(found[0]).toMatch(/^no-restricted-imports: .*layers import downwards/);
-  });
+  ])('%s importing %s is refused: %s', (path, spec) => expectRefusedAsUpward(path, spec));
 
   it('allows the imports the layers permit, at any depth and within a folder', async () => {
     for (const [path, spec] of [
@@ -67,24 +86,12 @@ describe('shared-core imports downwards only (document, then estimators / optimi
       expect(await findings(path, importing(spec)), `${path} importing ${spec}`).toEqual([]);
   });
 
-  it('places every folder of shared-core in a layer (a folder left out fails the lint configuration itself)', async () => {
-    const folders = readdirSync(join(root, 'shared-core'), { withFileTypes: true }).filter((e) => e.isDirectory());
-    expect(folders.length).toBeGreaterThan(5);
-    for (const folder of folders) {
-      const config = (await eslint.calculateConfigForFile(join(root, 'shared-core', folder.name, 'probe.ts'))) as {
-        rules: Record<string, [number, { patterns: { message: string }[] }]>;
-      };
-      const messages = config.rules['no-restricted-imports'][1].patterns.map((p) => p.message);
-      expect(
-        messages.some((m) => m.includes('layers import downwards')),
-        folder.name,
-      ).toBe(true);
-    }
-  });
+  it('places every folder of shared-core in a layer (a folder left out fails the lint configuration itself)', () =>
+    expectEveryFolderLayered('shared-core'));
 });
 
 describe('shared-core runs anywhere: no Node, DOM, Electron or React', () => {
-  it.each(['node:fs', 'fs', 'react', 'electron', 'better-sqlite3', '../../src-main/cli/files.js'])(
+  it.each(['node:fs', 'fs', 'react', 'electron', 'better-sqlite3', '../../src-main/io/read-input-file.js'])(
     'a core module importing %s is refused',
     async (spec) => {
       const found = await findings('shared-core/linalg/probe.ts', importing(spec));
@@ -111,12 +118,53 @@ describe('shared-core runs anywhere: no Node, DOM, Electron or React', () => {
   });
 });
 
+describe('src-main imports downwards only (store and files, then the use cases, then the commands, service and hosts)', () => {
+  it.each([
+    ['src-main/app/probe.ts', '../cli/args.js', 'a use case does not import the command line'],
+    ['src-main/app/probe.ts', '../service/index.js', 'a use case does not import the service'],
+    ['src-main/io/probe.ts', '../app/scenario-inputs.js', 'the file readers do not import the use cases'],
+    ['src-main/store/probe.ts', '../io/read-input-file.js', 'the store does not import the file readers'],
+    ['src-main/memo/probe.ts', '../app/memo.js', "the memo's pages do not import the use cases"],
+    ['src-main/service/probe.ts', '../cli/run-cli.js', 'the service does not import the command line'],
+    ['src-main/cli/probe.ts', '../shell/menu.js', 'siblings of one layer stay independent'],
+    ['src-main/cli/commands/probe.ts', '../../shell/menu.js', 'a sub-folder counts its own depth'],
+    ['src-main/app/probe.ts', '../../src-renderer/main.js', 'nothing outside src-main but shared-core'],
+  ])('%s importing %s is refused: %s', (path, spec) => expectRefusedAsUpward(path, spec));
+
+  it('sees a dynamic import() too: a command loads what it may, a use case cannot load the service', async () => {
+    const loading = (spec: string) => `export const load = () => import('${spec}');\n`;
+    expect(await findings('src-main/app/probe.ts', loading('../service/index.js'))).toEqual([
+      expect.stringMatching(/^no-restricted-syntax: .*layers import downwards/),
+    ]);
+    expect(await findings('src-main/cli/commands/probe.ts', loading('../../web-host/serve-store.js'))).toEqual([]);
+  });
+
+  it('allows the imports the layers permit, at any depth and within a folder', async () => {
+    for (const [path, spec] of [
+      ['src-main/app/probe.ts', '../io/read-input-file.js'],
+      ['src-main/app/probe.ts', '../store/store.js'],
+      ['src-main/app/probe.ts', '../memo/build-memo-input.js'],
+      ['src-main/app/probe.ts', './memo.js'],
+      ['src-main/app/probe.ts', '../../shared-core/errors.js'],
+      ['src-main/cli/commands/probe.ts', '../../app/memo.js'],
+      ['src-main/cli/commands/probe.ts', '../command.js'],
+      ['src-main/cli/commands/probe.ts', '../../../shared-core/errors.js'],
+      ['src-main/service/probe.ts', '../app/memo.js'],
+      ['src-main/shell/probe.ts', '../web-host/security-headers.js'],
+      ['src-main/io/probe.ts', 'node:fs'],
+    ])
+      expect(await findings(path, importing(spec)), `${path} importing ${spec}`).toEqual([]);
+  });
+
+  it('places every folder of src-main in a layer', () => expectEveryFolderLayered('src-main'));
+});
+
 describe('the renderer and the store', () => {
   it('the renderer reaches the main process only through the service API, never by importing it', async () => {
     for (const [path, spec] of [
       ['src-renderer/scenario/probe.tsx', '../../src-main/service/households.js'],
       ['src-renderer/scenario/probe.tsx', 'node:fs'],
-      ['src-renderer/probe.ts', '../src-main/cli/files.js'],
+      ['src-renderer/probe.ts', '../src-main/io/read-input-file.js'],
       ['src-renderer/worker/probe.ts', 'better-sqlite3'],
     ])
       expect(await findings(path, importing(spec)), `${path} importing ${spec}`).toHaveLength(1);

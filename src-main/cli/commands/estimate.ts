@@ -7,9 +7,8 @@ import { toRows } from '../../../shared-core/linalg/matrix.js';
 import { buildReturns, type ReturnMethod, type ReturnsResult } from '../../../shared-core/returns/build-returns.js';
 import { estimatorSpecSchema, type EstimatorSpec } from '../../../shared-core/scenario/estimator-spec.js';
 import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
+import { readNamedPriceTable, type PriceTableFile } from '../../io/read-price-table.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
-import { readPriceFile } from '../files.js';
-import type { PriceTableFile } from '../../io/read-price-table.js';
 
 /**
  * `holdfast estimate`: the covariance of a price file's returns by one estimator, annualised,
@@ -35,7 +34,9 @@ export async function runEstimate(options: OptionValues, io: CliIO): Promise<num
   const desmoothed = options.desmooth === undefined ? undefined : String(options.desmooth).split(',');
   if (desmoothed?.some((id) => id === '')) throw new UsageError(`--desmooth needs asset ids separated by commas`);
 
-  const file = readPriceFile(io.cwd, String(options.prices), (w) => io.stderr(`holdfast estimate: warning: ${w}\n`));
+  const file = readNamedPriceTable(io.cwd, String(options.prices), (w) =>
+    io.stderr(`holdfast estimate: warning: ${w}\n`),
+  );
   const inFile = (error: unknown) => (error instanceof InputError ? error.inFile(file.path) : error);
   const table = file.table;
   for (const id of desmoothed ?? [])

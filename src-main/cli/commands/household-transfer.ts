@@ -2,8 +2,8 @@ import { existsSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { InputError } from '../../../shared-core/errors.js';
 import { exportHousehold, importHousehold } from '../../io/household-file.js';
+import { readInputFile } from '../../io/read-input-file.js';
 import { EXIT, type CliIO, type OptionValues } from '../command.js';
-import { readInputFile } from '../files.js';
 import { existingStore, storeAt } from './store-access.js';
 
 /**

@@ -11,8 +11,8 @@ import { memoHash } from '../../memo/memo-hash.js';
 import type { MemoInput } from '../../memo/memo-input.js';
 import { parseHoldingsText } from '../../memo/memo-sources.js';
 import { sha256Hex } from '../../store/canonical-json.js';
+import { readInputFile } from '../../io/read-input-file.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
-import { readInputFile } from '../files.js';
 import { existingStore } from './store-access.js';
 
 /**

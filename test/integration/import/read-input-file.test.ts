@@ -2,7 +2,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { readInputFile } from '../../../src-main/cli/files.js';
+import { readInputFile } from '../../../src-main/io/read-input-file.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'holdfast-files-'));
 
