@@ -24,31 +24,36 @@ export function correlationDistance(correlation: ArrayLike<number>, n: number): 
   return d;
 }
 
-/** Average-linkage clustering of a symmetric distance matrix (O(N^3); N is a universe, not a market). */
+/**
+ * Average-linkage clustering of a symmetric distance matrix. Each active slot keeps its nearest
+ * active slot after it and that distance, so a step looks at one entry per slot instead of every
+ * pair (O(N^2) per step was 28 ms of a 300-asset comparison per estimate, three times over); only
+ * the slots whose nearest neighbour was merged, or that the merged cluster comes nearer to, are
+ * looked at again. The pair chosen is the one a scan of every pair, rows then columns in
+ * increasing order, would choose (the first of the smallest distances), so ties resolve as
+ * before.
+ */
 export function averageLinkage(distance: ArrayLike<number>, n: number): Dendrogram {
   if (n === 0) return { merges: [], order: [] };
   // Working distances between active clusters, indexed by slot; slot i starts as leaf i.
   const d = Float64Array.from(distance as ArrayLike<number>);
-  const active = new Array<boolean>(n).fill(true);
+  const active = new Uint8Array(n).fill(1);
   const slotId = Array.from({ length: n }, (_, i) => i);
-  const size = new Array<number>(n).fill(1);
+  const size = new Float64Array(n).fill(1);
+  // nearest[i]: the first active slot j > i at the smallest d[i][j] (-1 when none); gap[i] that distance.
+  const nearest = new Int32Array(n).fill(-1);
+  const gap = new Float64Array(n).fill(Infinity);
+  for (let i = 0; i < n; i++) nearestAfter(d, n, i, active, nearest, gap);
   const merges: Dendrogram['merges'] = [];
   for (let step = 0; step < n - 1; step++) {
     let best = Infinity;
     let a = -1;
-    let b = -1;
-    for (let i = 0; i < n; i++) {
-      if (!active[i]) continue;
-      for (let j = i + 1; j < n; j++) {
-        if (!active[j]) continue;
-        const v = d[i * n + j];
-        if (v < best) {
-          best = v;
-          a = i;
-          b = j;
-        }
+    for (let i = 0; i < n; i++)
+      if (active[i] && nearest[i] >= 0 && gap[i] < best) {
+        best = gap[i];
+        a = i;
       }
-    }
+    const b = nearest[a];
     const idA = slotId[a];
     const idB = slotId[b];
     const merged = size[a] + size[b];
@@ -60,11 +65,45 @@ export function averageLinkage(distance: ArrayLike<number>, n: number): Dendrogr
       d[a * n + k] = v;
       d[k * n + a] = v;
     }
-    active[b] = false;
+    active[b] = 0;
     size[a] = merged;
     slotId[a] = n + step;
+    // Slot a's distances all changed; slots before b lose b; slots before a see a at a new distance.
+    nearestAfter(d, n, a, active, nearest, gap);
+    for (let k = 0; k < b; k++) {
+      if (!active[k] || k === a) continue;
+      if (nearest[k] === a || nearest[k] === b) nearestAfter(d, n, k, active, nearest, gap);
+      else if (k < a) {
+        const v = d[k * n + a];
+        if (v < gap[k] || (v === gap[k] && a < nearest[k])) {
+          gap[k] = v;
+          nearest[k] = a;
+        }
+      }
+    }
   }
   return { merges, order: leaves(merges, n) };
+}
+
+/** The first active slot after i at the smallest distance from i, into nearest[i] and gap[i]. */
+function nearestAfter(
+  d: Float64Array,
+  n: number,
+  i: number,
+  active: Uint8Array,
+  nearest: Int32Array,
+  gap: Float64Array,
+): void {
+  let best = Infinity;
+  let at = -1;
+  const row = i * n;
+  for (let j = i + 1; j < n; j++)
+    if (active[j] && d[row + j] < best) {
+      best = d[row + j];
+      at = j;
+    }
+  nearest[i] = at;
+  gap[i] = best;
 }
 
 function leaves(merges: Dendrogram['merges'], n: number): number[] {
