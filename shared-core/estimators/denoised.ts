@@ -1,7 +1,7 @@
 import { symmetricEigen } from '../linalg/symmetric-eigen.js';
 import type { EstimatorSpec } from '../scenario/estimator-spec.js';
 import { diagnose } from './diagnostics.js';
-import { centred, checkReturns, checkVariances, scatter } from './moments.js';
+import { centredScatter, checkReturns, checkVariances } from './moments.js';
 import { periodsPerYear } from './periods.js';
 import type { Estimator } from './types.js';
 
@@ -21,7 +21,7 @@ export const denoisedCovariance: Estimator<Extract<EstimatorSpec, { method: 'den
   checkReturns(returns, 2, 'denoised');
   const t = returns.rows;
   const n = returns.cols;
-  const s = scatter(centred(returns), t - 1);
+  const s = centredScatter(returns, t - 1, context).s;
   const sd = checkVariances(s, 'denoised').map(Math.sqrt);
   for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) s.data[i * n + j] /= sd[i] * sd[j];
   const { values, vectors } = symmetricEigen(s);

@@ -2,7 +2,7 @@ import { InputError } from '../errors.js';
 import type { Matrix } from '../linalg/matrix.js';
 import type { EstimatorSpec, ShrinkageTarget } from '../scenario/estimator-spec.js';
 import { diagnose } from './diagnostics.js';
-import { centred, checkReturns, checkVariances, scatter, sumOfSquares, trace } from './moments.js';
+import { centredScatter, checkReturns, checkVariances, sumOfSquares, trace } from './moments.js';
 import { periodsPerYear } from './periods.js';
 import type { Estimator } from './types.js';
 
@@ -20,9 +20,8 @@ export const ledoitWolfCovariance: Estimator<Extract<EstimatorSpec, { method: 'l
 ) => {
   checkReturns(returns, 2, 'ledoit-wolf');
   const target: ShrinkageTarget = spec.target ?? 'scaled-identity';
-  const x = centred(returns);
-  const t = x.rows;
-  const s = scatter(x, t);
+  const t = returns.rows;
+  const { x, s } = centredScatter(returns, t, context);
   const shrinkage =
     target === 'scaled-identity'
       ? shrinkTowardsScaledIdentity(x, s)

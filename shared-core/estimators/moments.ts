@@ -1,6 +1,7 @@
 import { InputError } from '../errors.js';
 import { crossProduct } from '../linalg/cross-product.js';
 import { zeros, type Matrix } from '../linalg/matrix.js';
+import type { CentredMoments, EstimateContext } from './types.js';
 
 /** Checks the T x N return matrix every estimator receives: finite values, enough rows. */
 export function checkReturns(returns: Matrix, minRows: number, method: string): void {
@@ -34,12 +35,24 @@ export function centred(x: Matrix): Matrix {
   return out;
 }
 
-/** X'X / divisor of already centred data: the sample covariance with the divisor given (T or T - 1). */
-export function scatter(centredX: Matrix, divisor: number): Matrix {
-  const s = crossProduct(centredX);
+/** The de-meaned returns and their cross product. */
+export function centredMoments(returns: Matrix): CentredMoments {
+  const x = centred(returns);
+  return { centred: x, crossProduct: crossProduct(x) };
+}
+
+/**
+ * The de-meaned returns x and the sample covariance s = x'x / divisor (divisor T or T - 1), the
+ * cross product taken from the run's memo where the context has one; s is the caller's to change.
+ */
+export function centredScatter(returns: Matrix, divisor: number, context?: EstimateContext): { x: Matrix; s: Matrix } {
+  const m = context?.centredMoments ? context.centredMoments(returns) : centredMoments(returns);
+  const n = m.crossProduct.cols;
+  const s = zeros(n, n);
   const inv = 1 / divisor;
-  for (let k = 0; k < s.data.length; k++) s.data[k] *= inv;
-  return s;
+  const c = m.crossProduct.data;
+  for (let k = 0; k < c.length; k++) s.data[k] = c[k] * inv;
+  return { x: m.centred, s };
 }
 
 /** Zero-variance columns make correlations undefined: a clear error naming the asset's column. */

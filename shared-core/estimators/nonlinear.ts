@@ -1,9 +1,9 @@
 import type { Matrix } from '../linalg/matrix.js';
 import type { EstimatorSpec } from '../scenario/estimator-spec.js';
 import { periodsPerYear } from './periods.js';
-import type { Estimator } from './types.js';
+import type { EstimateContext, Estimator } from './types.js';
 import { symmetricEigen } from '../linalg/symmetric-eigen.js';
-import { centred, checkReturns, scatter } from './moments.js';
+import { centredScatter, checkReturns } from './moments.js';
 
 export interface NonlinearShrinkage {
   /** Covariance of per-period returns, N x N. */
@@ -26,12 +26,12 @@ export interface NonlinearShrinkage {
  * de-meaned, so the effective sample size is n = T - 1. When N > n the N - n null eigenvalues
  * all get the value the paper gives for the point mass at zero.
  */
-export function nonlinearShrinkage(returns: Matrix): NonlinearShrinkage {
+export function nonlinearShrinkage(returns: Matrix, context?: EstimateContext): NonlinearShrinkage {
   checkReturns(returns, 3, 'nonlinear');
   const t = returns.rows;
   const p = returns.cols;
   const n = t - 1;
-  const s = scatter(centred(returns), n);
+  const s = centredScatter(returns, n, context).s;
   const { values, vectors } = symmetricEigen(s);
   const m = Math.min(p, n);
   const h = n ** (-1 / 3);
@@ -162,7 +162,7 @@ export const nonlinearCovariance: Estimator<Extract<EstimatorSpec, { method: 'no
   _spec,
   context,
 ) => {
-  const fit = nonlinearShrinkage(returns);
+  const fit = nonlinearShrinkage(returns, context);
   return {
     method: 'nonlinear',
     covariance: fit.covariance,

@@ -1,6 +1,6 @@
 import type { EstimatorSpec } from '../scenario/estimator-spec.js';
 import { diagnose } from './diagnostics.js';
-import { centred, checkReturns, scatter, sumOfSquares, trace } from './moments.js';
+import { centredScatter, checkReturns, sumOfSquares, trace } from './moments.js';
 import { periodsPerYear } from './periods.js';
 import type { Estimator } from './types.js';
 
@@ -14,7 +14,7 @@ export const oasCovariance: Estimator<Extract<EstimatorSpec, { method: 'oas' }>>
   checkReturns(returns, 2, 'oas');
   const t = returns.rows;
   const n = returns.cols;
-  const s = scatter(centred(returns), t);
+  const s = centredScatter(returns, t, context).s;
   const mu = trace(s) / n;
   const alpha = sumOfSquares(s) / (n * n);
   const num = alpha + mu * mu;

@@ -1,6 +1,6 @@
 import type { EstimatorSpec } from '../scenario/estimator-spec.js';
 import { diagnose } from './diagnostics.js';
-import { centred, checkReturns, scatter } from './moments.js';
+import { centredScatter, checkReturns } from './moments.js';
 import { periodsPerYear } from './periods.js';
 import type { Estimator } from './types.js';
 
@@ -8,7 +8,7 @@ import type { Estimator } from './types.js';
 export const sampleCovariance: Estimator<Extract<EstimatorSpec, { method: 'sample' }>> = (returns, _spec, context) => {
   checkReturns(returns, 2, 'sample');
   const t = returns.rows;
-  const covariance = scatter(centred(returns), t - 1);
+  const covariance = centredScatter(returns, t - 1, context).s;
   return {
     method: 'sample',
     covariance,

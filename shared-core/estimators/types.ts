@@ -14,6 +14,19 @@ export interface EstimateContext {
    * EXACT_CONDITION_LIMIT assets and a Lanczos bound above.
    */
   tridiagonalise?: (m: Matrix) => TridiagonalForm;
+  /**
+   * The de-meaned returns and their cross product X'X (moments.ts `centredMoments`), memoised by
+   * the run: the estimators built on the sample covariance (sample, ledoit-wolf, oas, denoised,
+   * nonlinear) then share the one O(N^2 T) product a scenario's returns need.
+   */
+  centredMoments?: (returns: Matrix) => CentredMoments;
+}
+
+export interface CentredMoments {
+  /** The returns less their column means, T x N. */
+  centred: Matrix;
+  /** centred' centred, N x N. Read only: every estimator scales a copy. */
+  crossProduct: Matrix;
 }
 
 export interface EstimateDiagnostics {

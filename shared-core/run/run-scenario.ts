@@ -4,7 +4,8 @@
  */
 import { InputError } from '../errors.js';
 import { annualised, estimateCovariance } from '../estimators/registry.js';
-import type { CovarianceEstimate, EstimateContext } from '../estimators/types.js';
+import { centredMoments } from '../estimators/moments.js';
+import type { CentredMoments, CovarianceEstimate, EstimateContext } from '../estimators/types.js';
 import type { Matrix } from '../linalg/matrix.js';
 import { tridiagonalForm, type TridiagonalForm } from '../linalg/tridiagonal-form.js';
 import type { QpWarmStart } from '../optimise/qp/index.js';
@@ -129,10 +130,17 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
     if (!form) forms.set(m, (form = tridiagonalForm(m)));
     return form;
   };
+  // One cross product of the de-meaned returns serves every estimator built on the sample covariance.
+  let moments: { of: Matrix; value: CentredMoments } | undefined;
+  const momentsOnce = (x: Matrix): CentredMoments => {
+    if (moments?.of !== x) moments = { of: x, value: centredMoments(x) };
+    return moments.value;
+  };
   const context: EstimateContext = {
     frequency: returns.frequency,
     periodsPerYear: scenario.periodsPerYear,
     tridiagonalise: reduceOnce,
+    centredMoments: momentsOnce,
   };
   const estimateKey = (c: Scenario['candidates'][number]) =>
     `${JSON.stringify(c.estimator)}|${scenario.periodsPerYear ?? ''}`;

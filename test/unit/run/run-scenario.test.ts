@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { conditionNumber } from '../../../shared-core/linalg/condition.js';
 import { effectiveBets } from '../../../shared-core/analytics/risk.js';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
+import { estimateCovariance } from '../../../shared-core/estimators/registry.js';
 import { createRunCache } from '../../../shared-core/run/run-cache.js';
 import { runScenario } from '../../../shared-core/run/run-scenario.js';
 import { parseScenario } from '../../../shared-core/scenario/schema.js';
@@ -52,6 +53,25 @@ describe('runScenario: one tridiagonal reduction per estimate', () => {
       const w = assets.map((a) => c.weights[a]);
       expect(c.metrics.effectiveBets).toBeCloseTo(effectiveBets(w, covariance), 12);
       expect(estimate.diagnostics.conditionNumber).toBeCloseTo(conditionNumber(estimate.covariance).value, 8);
+    }
+  });
+});
+
+describe('runScenario: one cross product of the de-meaned returns for every estimator built on it', () => {
+  it('gives each estimate bit for bit as the estimator alone computes it', () => {
+    const methods = ['sample', 'ledoit-wolf', 'oas', 'denoised', 'nonlinear', 'ewma'] as const;
+    const parsed = parseScenario({
+      format: 'holdfast-scenario@1',
+      name: 'Shared moments',
+      baseCurrency: 'EUR',
+      constraints: { longOnly: true },
+      candidates: methods.map((m) => ({ id: m, estimator: { method: m }, objective: { method: 'min-variance' } })),
+    });
+    if (!parsed.ok) throw new Error(parsed.errors[0].message);
+    const run = runScenario(parsed.scenario, prices(15, 200));
+    for (const m of methods) {
+      const alone = estimateCovariance(run.returns.returns, { method: m }, { frequency: run.returns.frequency });
+      expect(Array.from(run.estimates[m].estimate.covariance.data)).toEqual(Array.from(alone.covariance.data));
     }
   });
 });
