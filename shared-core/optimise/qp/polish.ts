@@ -16,7 +16,7 @@ export interface Polished {
   active: QpWarmStart;
 }
 
-export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next: QpWarmStart } | null {
+export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next: QpWarmStart; changes: number } | null {
   const n = p.q.length;
   const me = p.A.length;
   const mi = p.G.length;
@@ -97,33 +97,33 @@ export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next:
   }
   const Gx = new Float64Array(mi);
   rowsTimes(packedRows(p.G), x, Gx);
-  let changed = false;
+  let changes = 0;
   for (let j = 0; j < mi; j++) {
     if (z[j] < -tol * dualScale) {
       rowIn[j] = 0;
-      changed = true;
+      changes++;
     } else if (z[j] < 0) z[j] = 0;
     if (!rowIn[j] && Gx[j] - p.h[j] > tol * (1 + Math.abs(p.h[j]))) {
       rowIn[j] = 1;
-      changed = true;
+      changes++;
     }
   }
   for (let i = 0; i < n; i++) {
     if (zl[i] < -tol * dualScale) {
       lowerIn[i] = 0;
-      changed = true;
+      changes++;
     } else if (zl[i] < 0) zl[i] = 0;
     if (zu[i] < -tol * dualScale) {
       upperIn[i] = 0;
-      changed = true;
+      changes++;
     } else if (zu[i] < 0) zu[i] = 0;
     if (fixed[i] === 0 && x[i] < p.lb[i] - tol * (1 + Math.abs(p.lb[i]))) {
       lowerIn[i] = 1;
-      changed = true;
+      changes++;
     }
     if (fixed[i] === 0 && x[i] > p.ub[i] + tol * (1 + Math.abs(p.ub[i]))) {
       upperIn[i] = 1;
-      changed = true;
+      changes++;
     }
   }
   const members = (flags: Uint8Array): number[] => {
@@ -131,7 +131,8 @@ export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next:
     for (let i = 0; i < flags.length; i++) if (flags[i]) out.push(i);
     return out;
   };
-  if (changed) return { next: { activeRows: members(rowIn), atLower: members(lowerIn), atUpper: members(upperIn) } };
+  if (changes > 0)
+    return { next: { activeRows: members(rowIn), atLower: members(lowerIn), atUpper: members(upperIn) }, changes };
   let objective = 0;
   for (let i = 0; i < n; i++) objective += x[i] * (0.5 * Px[i] + p.q[i]);
   const solution: QpSolution = { x, y, z, zl, zu, objective };
@@ -149,19 +150,30 @@ export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next:
  * Polishing with a few active-set corrections: each failed solve names the constraints to add
  * (violated) and to drop (wrong-signed multiplier), which repairs an identification spoilt by a
  * weakly active constraint. Repeated, this is a primal-dual active-set method (Hintermueller, Ito
- * and Kunisch 2002, SIAM J. Optimization 13), which screening runs from a rough guess. `solves`
- * counts the linear solves made, successful or not.
+ * and Kunisch 2002, SIAM J. Optimization 13), which screening runs from a rough guess. Where it
+ * converges it does so fast, the number of constraints changed falling several-fold per round;
+ * on an ill-conditioned problem it may crawl or cycle. With `stall`, it gives up once that many
+ * rounds in a row have not halved the fewest changes of a round before them (screening then
+ * solves the full problem, which a crawling method only delays). `solves` counts the linear
+ * solves made, successful or not.
  */
 export function polish(
   p: QpProblem,
   guess: QpWarmStart,
   rounds: number = QP_TOLERANCES.polishRounds,
+  stall = Infinity,
 ): { polished: Polished | null; solves: number } {
   let current = guess;
+  let fewest = Infinity;
+  let stalled = 0;
   for (let k = 0; k < rounds; k++) {
     const out = polishOnce(p, current);
     if (out === null) return { polished: null, solves: k + 1 };
     if ('solution' in out) return { polished: out, solves: k + 1 };
+    if (out.changes <= fewest / 2) {
+      fewest = out.changes;
+      stalled = 0;
+    } else if (++stalled >= stall) return { polished: null, solves: k + 1 };
     current = out.next;
   }
   return { polished: null, solves: rounds };

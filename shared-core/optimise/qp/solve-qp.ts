@@ -108,7 +108,7 @@ function screened(problem: QpProblem, options: SolveQpOptions): Screened | null 
     // corrections (a primal-dual active-set method) usually finish from here in a few solves on
     // the free variables alone, where another interior point would factor the working set at
     // every iteration.
-    const pol = polish(problem, guess, QP_TOLERANCES.screenPolishRounds);
+    const pol = polish(problem, guess, QP_TOLERANCES.screenPolishRounds, QP_TOLERANCES.screenPolishStall);
     iterations += pol.solves;
     if (pol.polished && pol.polished.residual <= QP_TOLERANCES.optimality)
       return { polished: pol.polished, iterations };
