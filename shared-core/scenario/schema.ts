@@ -7,6 +7,7 @@ import { isoDate } from './iso-date.js';
 import { issueToInputError } from './json-path.js';
 import { parseJsonText } from './json-text.js';
 import { objectiveMethods, objectiveSpecSchema } from './objective-spec.js';
+import { canonicalAssetClass } from './asset-class.js';
 
 /**
  * `holdfast-scenario@1`: the public, versioned interchange format of a scenario, and the one
@@ -56,7 +57,8 @@ export const liquidityTags = ['daily', 'monthly', 'illiquid'] as const;
 /** What the scenario knows of each asset beyond its prices (the store fills it from its tags). */
 export const assetInfoSchema = z.strictObject({
   name: z.string().optional(),
-  assetClass: z.string().optional(),
+  /** Kept in its one spelling (asset-class.ts), whatever the file wrote. */
+  assetClass: z.string().overwrite(canonicalAssetClass).optional(),
   region: z.string().optional(),
   currency: z
     .string()

@@ -13,6 +13,8 @@ export interface HistoricalWindow {
   name: string;
   kind: 'worst-month' | 'worst-drawdown';
   basis: string;
+  /** Whether the basis is the universe or a group band (`group`) or an asset class. */
+  basisKind: AssetSet['kind'];
   /** Close the window starts from and close it ends at. */
   from: string;
   to: string;
@@ -71,9 +73,10 @@ export function worstWindows(prices: PriceTable, bases: readonly AssetSet[]): Hi
     }
     if (worst)
       out.push({
-        name: `Worst month of ${basis.name}`,
+        name: `Worst month of ${basis.label}`,
         kind: 'worst-month',
         basis: basis.name,
+        basisKind: basis.kind,
         from: dates[worst.from],
         to: dates[worst.to],
         basisReturn: worst.ret,
@@ -81,9 +84,10 @@ export function worstWindows(prices: PriceTable, bases: readonly AssetSet[]): Hi
     const dd = maxDrawdown(r, dates.slice(1), dates[0]);
     if (dd.depth > 0)
       out.push({
-        name: `Largest drawdown of ${basis.name}`,
+        name: `Largest drawdown of ${basis.label}`,
         kind: 'worst-drawdown',
         basis: basis.name,
+        basisKind: basis.kind,
         from: dd.peakDate,
         to: dd.troughDate,
         basisReturn: -dd.depth,

@@ -1,4 +1,5 @@
 import { InputError } from '../errors.js';
+import { canonicalAssetClass } from '../scenario/asset-class.js';
 import type { AssetInfo } from '../scenario/schema.js';
 
 /**
@@ -13,16 +14,22 @@ export function costRates(
 ): Float64Array {
   const rates = new Float64Array(assets.length);
   if (typeof costBps === 'number') return rates.fill(costBps / 10_000);
-  const classes = new Set(assets.map((a) => assetInfo[a]?.assetClass).filter((c): c is string => c !== undefined));
+  const classOf = (asset: string) => {
+    const c = assetInfo[asset]?.assetClass;
+    return c === undefined ? undefined : canonicalAssetClass(c);
+  };
+  const classes = new Set(assets.map(classOf).filter((c): c is string => c !== undefined));
+  // A class is named in any spelling ("Equity" for equity), as the document's classes are.
+  const byClass = new Map(Object.entries(costBps).map(([key, bps]) => [canonicalAssetClass(key), bps]));
   for (const key of Object.keys(costBps))
-    if (key !== 'default' && !classes.has(key))
+    if (key !== 'default' && !classes.has(canonicalAssetClass(key)))
       throw new InputError(
         `no asset has class '${key}'${classes.size ? `; classes are ${[...classes].join(', ')}` : ' (assetInfo gives no asset classes)'}`,
         { path: `backtest.costBps.${key}` },
       );
   assets.forEach((asset, i) => {
-    const assetClass = assetInfo[asset]?.assetClass;
-    const bps = assetClass !== undefined && assetClass in costBps ? costBps[assetClass] : costBps.default;
+    const assetClass = classOf(asset);
+    const bps = (assetClass !== undefined ? byClass.get(assetClass) : undefined) ?? costBps.default;
     if (bps === undefined)
       throw new InputError(
         `asset '${asset}'${assetClass ? ` (class '${assetClass}')` : ' (no asset class)'} has no cost rate; add 'default'`,

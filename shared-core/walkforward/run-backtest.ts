@@ -10,7 +10,7 @@ import type { Candidate, Scenario } from '../scenario/schema.js';
 import { drain, drainAsync, throwIfCancelled, type CancelCheck } from '../stability/cancel.js';
 import { weightStabilitySteps, type WeightStability } from '../stability/weight-bands.js';
 import { stressViews, type StressViews } from '../stress/stress-views.js';
-import { assetSets, resolveTarget, type AssetSet } from '../stress/targets.js';
+import { assetSets, distinctBases, resolveTarget, type AssetSet } from '../stress/targets.js';
 import { costRates } from './costs.js';
 import { walkForwardSteps } from './engine.js';
 import { walkForwardMetrics, type WalkForwardMetrics } from './metrics.js';
@@ -340,7 +340,12 @@ export async function runBacktest(
     if (options.pause) await options.pause();
   }
 
-  const universe: AssetSet = { name: 'the equal-weight universe', kind: 'group', members: assets };
+  const universe: AssetSet = {
+    name: 'the equal-weight universe',
+    kind: 'group',
+    members: assets,
+    label: 'the equal-weight universe',
+  };
   // Historical windows come from the common history (every asset priced), so each window can
   // be replayed on every weight.
   const common = table.dates.findIndex((_, t) => table.closes.every((c) => Number.isFinite(c[t])));
@@ -354,7 +359,7 @@ export async function runBacktest(
     candidates: results
       .filter((r) => r.today.status === 'optimal')
       .map((r) => ({ id: r.id, weights: r.today.weights, covariance: r.today.covariance })),
-    bases: [universe, ...sets.filter((s) => s.kind !== 'asset')],
+    bases: distinctBases([universe, ...sets.filter((s) => s.kind !== 'asset')]),
     sets,
     ...(scenario.stress ? { spec: scenario.stress } : {}),
     returnsMethod: method,

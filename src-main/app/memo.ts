@@ -12,6 +12,7 @@ import { runScenarioInputs } from './run-scenario.js';
 import { convertsCurrency, scenarioFromStore, type ScenarioInputs } from './scenario-inputs.js';
 import { valueHoldings } from './value-holdings.js';
 import { walkForward } from './walk-forward.js';
+import { notWalkedWords } from '../../shared-core/run/walk-forward.js';
 
 /** What the adviser chooses about a memo; the figures come from the scenario's inputs. */
 export interface MemoRequest {
@@ -63,10 +64,10 @@ async function memoInput(
     : undefined;
   // Asked for, a walk-forward that cannot run is refused; by default the memo goes without it.
   if (walked?.status === 'not-solved' && request.walkForward)
-    throw new InputError(
-      `no walk-forward: ${walked.candidates.map((c) => `candidate '${c.id}' is ${c.status}${'message' in c && c.message ? ` (${c.message})` : ''}`).join('; ')}`,
-      { file: inputs.names.scenario, path: 'candidates' },
-    );
+    throw new InputError(`no walk-forward: ${notWalkedWords(walked.candidates)}`, {
+      file: inputs.names.scenario,
+      path: 'candidates',
+    });
   const backtest = walked?.status === 'done' ? walked.run : undefined;
   return buildMemoInput({
     scenario,

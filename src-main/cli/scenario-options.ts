@@ -9,6 +9,11 @@ import { UsageError, type CliIO, type OptionValues } from './command.js';
  * the price files' flagged moves go to standard error, prefixed with the command's name.
  */
 export async function scenarioOptions(command: string, options: OptionValues, io: CliIO): Promise<ScenarioInputs> {
+  if (
+    (options.store === undefined) !== (options.household === undefined) ||
+    (options.store !== undefined) === (options.prices !== undefined)
+  )
+    throw new UsageError(`'${command}' needs --prices FILE.csv, or --store FILE with --household NAME`);
   if (options.store !== undefined) {
     if (options.fx !== undefined)
       throw new UsageError('--fx is for the file form: the store form reads the stored exchange rates');

@@ -62,19 +62,24 @@ export function memoSectionsFromBacktest(
     name: x.name,
     description: `${x.target} ${x.shock < 0 ? 'falls' : 'rises'} ${formatPct(Math.abs(x.shock))}`,
   }));
-  const windows = run.stress.historical.map((h) => ({
-    name: `${h.name}`,
-    description: `${h.from} to ${h.to}, ${h.basis} ${formatPct(h.basisReturn)}`,
+  // A client reads the universe and the scenario's own group bands; the asset classes as well
+  // would double the table (they stay on the scenario page and in `holdfast backtest`). A
+  // scenario without group bands shows its classes.
+  const banded = run.stress.historical.filter((h) => h.basisKind !== 'asset-class');
+  const historical = new Set(banded.map((h) => h.basis)).size > 1 ? banded : run.stress.historical;
+  const windows = historical.map((h) => ({
+    name: h.name,
+    description: `${h.from} to ${h.to}; the basis itself ${formatPct(h.basisReturn)}`,
   }));
   const stress: MemoStress | undefined =
     shocks.length + windows.length > 0
       ? {
-          method: `historical windows replay the prices of the period on today's weights; a shock moves its target and, by ${run.stress.method}, the other assets`,
+          method: `historical windows (the worst month and the largest drawdown of each basis, held in equal weights) replay the prices of the period on today's weights; a shock moves its target and, by ${run.stress.method}, the other assets`,
           shocks: [...windows, ...shocks],
           rows: run.candidates.map((c) => ({
             candidateId: c.id,
             impacts: [
-              ...run.stress.historical.map((h) => h.portfolioReturns[c.id] ?? NaN),
+              ...historical.map((h) => h.portfolioReturns[c.id] ?? NaN),
               ...run.stress.shocks.map((x) => x.byCandidate[c.id]?.portfolioReturn ?? NaN),
             ],
           })),

@@ -36,6 +36,7 @@ import {
   objectiveWords,
 } from './plain-words.js';
 import { reasonsTable } from './reasons-table.js';
+import { assetClassWords } from '../../shared-core/scenario/asset-class.js';
 
 /** The cautions every memo carries, word for word (the brief's rule; tests look for them). */
 export const CAUTIONS = [
@@ -282,7 +283,11 @@ function trades(w: PageWriter, v: MemoView, title: string): void {
   const tradeOf = new Map(plan?.rows.map((r) => [r.asset, r]) ?? []);
   const rows: TableRow[] = v.shown.map((a) => {
     const target = rc.weights[a] ?? 0;
-    const cells = [v.name(a), (info[a]?.assetClass ?? '\u2013').replace(/-/g, ' '), info[a]?.currency ?? ccy];
+    const cells = [
+      v.name(a),
+      info[a]?.assetClass ? assetClassWords(info[a].assetClass) : '\u2013',
+      info[a]?.currency ?? ccy,
+    ];
     if (current)
       cells.push(formatPercent1(current[a] ?? 0), formatPercent1(target), formatWeightChange(current[a] ?? 0, target));
     else cells.push(formatPercent1(target));

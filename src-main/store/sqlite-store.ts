@@ -17,6 +17,7 @@ import { withNativeBinding } from './native-binding.js';
 import { asStorageError, type ReadOnlyReason } from './storage-error.js';
 import { announceWriter } from './writer-note.js';
 import { float64s, int32s, mergeSeries, toBlob, type SeriesArrays } from './series-codec.js';
+import { canonicalAssetClass } from '../../shared-core/scenario/asset-class.js';
 import type {
   AssetInput,
   AssetRecord,
@@ -183,7 +184,7 @@ export class SqliteStore implements Store {
     ).run({
       id: a.id,
       name: a.displayName,
-      cls: a.assetClass ?? null,
+      cls: a.assetClass ? canonicalAssetClass(a.assetClass) : null,
       region: a.region ?? null,
       currency: a.currency ?? null,
       liq: a.liquidity.tag,
@@ -197,7 +198,8 @@ export class SqliteStore implements Store {
   private static asset(r: AssetRow): AssetRecord {
     const liquidity = r.lock_up_days === null ? { tag: r.liquidity } : { tag: r.liquidity, lockUpDays: r.lock_up_days };
     const out: AssetRecord = { id: r.id, displayName: r.display_name, liquidity };
-    if (r.asset_class !== null) out.assetClass = r.asset_class;
+    // Stores written before classes had one spelling are read in it.
+    if (r.asset_class !== null) out.assetClass = canonicalAssetClass(r.asset_class);
     if (r.region !== null) out.region = r.region;
     if (r.currency !== null) out.currency = r.currency;
     if (r.notes !== null) out.notes = r.notes;

@@ -28,6 +28,7 @@ import { ReasonsSection } from './reasons/ReasonsSection.js';
 import { BesidePanel, RevisionBar } from './revisions/RevisionBar.js';
 import { fillStoreGaps } from './store-gaps.js';
 import { useRecompute } from './use-recompute.js';
+import { keptWalkForwardSettings } from './walkforward/kept-settings.js';
 import { WalkForwardSection } from './walkforward/WalkForwardSection.js';
 import { checkDraft, describeMessage, type FieldMessage } from './validate-draft.js';
 import { describeField, inFieldWords } from './field-words.js';
@@ -402,6 +403,11 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
     (id: string | undefined) => commit(setField(stateRef.current, ['recommended'], id)),
     [commit],
   );
+  // A walk-forward run on the defaults keeps its settings in the draft, so the saved revision's
+  // memo prints it as `holdfast memo` prints it.
+  const keepWalkForward = useCallback(() => {
+    if (stateRef.current.doc.backtest === undefined) applyFix(['backtest'], keptWalkForwardSettings());
+  }, [applyFix]);
   const names = useMemo(() => new Map(boot.catalogue.map((a) => [a.id, a.name])), [boot.catalogue]);
   const messages = useMemo(() => [...check.messages, ...(problem?.messages ?? [])], [check, problem]);
   // The same function while the candidates keep their ids, so the reasons and the walk-forward
@@ -529,6 +535,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
                   prices={pricesNow}
                   fx={prices?.fx}
                   colourIndex={colourIndex}
+                  onRan={keepWalkForward}
                 />
               </ReasonsSection>
             </>

@@ -18,9 +18,12 @@ function isPlainObject(v: unknown): v is Record<string, unknown> {
 
 export function diffDocuments(before: unknown, after: unknown, path: (string | number)[] = []): DocumentChange[] {
   if (Object.is(before, after)) return [];
-  if (isPlainObject(before) && isPlainObject(after)) {
-    const keys = [...new Set([...Object.keys(before), ...Object.keys(after)])].sort();
-    return keys.flatMap((k) => diffDocuments(before[k], after[k], [...path, k]));
+  // A section added or removed reads field by field, in the fields' own words, not as JSON.
+  const a = before === undefined && isPlainObject(after) ? {} : before;
+  const b = after === undefined && isPlainObject(before) ? {} : after;
+  if (isPlainObject(a) && isPlainObject(b)) {
+    const keys = [...new Set([...Object.keys(a), ...Object.keys(b)])].sort();
+    return keys.flatMap((k) => diffDocuments(a[k], b[k], [...path, k]));
   }
   // Arrays of scalars (asset lists, a bound pair) read best whole; arrays of objects by element.
   if (Array.isArray(before) && Array.isArray(after) && [...before, ...after].some(isPlainObject)) {

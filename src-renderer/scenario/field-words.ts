@@ -86,6 +86,11 @@ export function fieldWords(path: string): FieldWords {
   }
   if (p[0] === 'candidates' && p[1] !== undefined) {
     const rest = p.slice(2).join('.');
+    // A candidate's own limits read as the scenario's, in their unit, naming the candidate.
+    if (p[2] === 'constraints') {
+      const inner = fieldWords(rest);
+      return { ...inner, label: `${inner.label} (candidate ${Number(p[1]) + 1})` };
+    }
     const what = rest.startsWith('estimator') ? 'risk estimate' : rest.startsWith('objective') ? 'objective' : '';
     return { label: `Candidate ${Number(p[1]) + 1}${what ? `, ${what}` : ''}` };
   }

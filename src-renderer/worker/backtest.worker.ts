@@ -1,12 +1,13 @@
 import { InputError } from '../../shared-core/errors.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
+import { notWalkedWords, walkForwardScenario } from '../../shared-core/run/walk-forward.js';
 import type { Scenario } from '../../shared-core/scenario/schema.js';
-import { estimateAndSolve } from '../../shared-core/walkforward/estimate-and-solve.js';
-import { runBacktest, type BacktestPhase, type BacktestRun } from '../../shared-core/walkforward/run-backtest.js';
+import type { BacktestPhase, BacktestRun } from '../../shared-core/walkforward/run-backtest.js';
 
 /**
- * The walk-forward worker: the shared core's backtest of every candidate, with progress after
- * each step. It is long work, so it runs on request, not on every edit; cancelling terminates it.
+ * The walk-forward worker: shared-core's walk-forward of a scenario (the same function as
+ * `holdfast backtest` and the memo), with progress after each step. It is long work, so it runs
+ * on request, not on every edit; cancelling terminates it.
  */
 export type ToBacktest = { type: 'run'; requestId: number; scenario: Scenario; prices: PriceTable; fx?: PriceTable };
 export type FromBacktest =
@@ -23,8 +24,7 @@ scope.onmessage = (event) => {
   const { requestId, scenario, prices, fx } = event.data;
   const t0 = performance.now();
   let last = 0;
-  runBacktest(scenario, prices, {
-    estimateAndSolve,
+  walkForwardScenario(scenario, prices, {
     ...(fx ? { fx } : {}),
     pause: () => new Promise((resolve) => setTimeout(resolve, 0)),
     onProgress: (phase, candidateId, done, total) => {
@@ -34,7 +34,12 @@ scope.onmessage = (event) => {
       scope.postMessage({ type: 'progress', requestId, phase, candidateId, done, total });
     },
   }).then(
-    (run) => scope.postMessage({ type: 'done', requestId, run, ms: performance.now() - t0 }),
+    (outcome) =>
+      scope.postMessage(
+        outcome.status === 'done'
+          ? { type: 'done', requestId, run: outcome.run, ms: performance.now() - t0 }
+          : { type: 'failed', requestId, message: notWalkedWords(outcome.candidates) },
+      ),
     (error: unknown) =>
       scope.postMessage({
         type: 'failed',

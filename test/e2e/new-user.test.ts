@@ -1,11 +1,13 @@
-import { execFileSync } from 'node:child_process';
+import { execFileSync, spawnSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, it } from 'vitest';
-import { formatPercent1 } from '../../shared-core/present/format.js';
+import { formatPct, formatPercent1, formatRatio2 } from '../../shared-core/present/format.js';
+import type { BacktestJson } from '../../shared-core/walkforward/backtest-json.js';
+import { SECTION_TITLES } from '../../src-main/memo/render-memo.js';
 import { openStore } from '../../src-main/store/store.js';
 import { ARTIFACTS, describeInBrowser, launchApp, type AppSession } from './harness.js';
 
@@ -64,6 +66,16 @@ describeInBrowser('a new user, from an empty store to a printed memo, on the def
   let storePath: string;
   let csvPath: string;
   const shot = (name: string) => app.screenshot(`new-user-${name}`);
+  const scenarioId = () => /scenarios\/(\d+)$/.exec(page.url())![1];
+  /** A command of the built command line on the same stored scenario, its JSON read back. */
+  const onStore = (command: 'solve' | 'backtest'): unknown => {
+    const args = ['--store', storePath, '--household', HOUSEHOLD, '--scenario', SCENARIO, '--json'];
+    const run = spawnSync(process.execPath, [join(root, 'dist/src-main/cli/main.js'), command, ...args], {
+      encoding: 'utf8',
+    });
+    expect(run.status, run.stderr).toBe(0);
+    return JSON.parse(run.stdout);
+  };
 
   beforeAll(async () => {
     dir = mkdtempSync(join(tmpdir(), 'holdfast-new-user-'));
@@ -191,6 +203,14 @@ describeInBrowser('a new user, from an empty store to a printed memo, on the def
     expect(await section.innerText()).toContain('trailing 36-period window (chosen from the history');
     await section.scrollIntoViewIfNeeded();
     await shot('10-walk-forward');
+    // The run keeps its settings in the draft, so the revision saved next carries them (and its memo
+    // the walk-forward), and keeping them does not date the figures just shown.
+    await expect
+      .poll(async () => (await app.served.service['scenarios.get']({ scenarioId: scenarioId() })).draft?.document, {
+        timeout: 20_000,
+      })
+      .toMatchObject({ backtest: { rebalance: 'monthly', costBps: 10 } });
+    expect(await section.getByText('before your latest edits').count()).toBe(0);
   }, 240_000);
 
   it('5. saves with the initials kept in the settings (not asked again)', async () => {
@@ -229,23 +249,9 @@ describeInBrowser('a new user, from an empty store to a printed memo, on the def
     for (const f of readdirSync(dir).filter((f) => /^page-\d+\.png$/.test(f)))
       renameSync(join(dir, f), join(ARTIFACTS, `new-user-memo-${Number(/\d+/.exec(f)![0])}.png`));
 
-    const solved = JSON.parse(
-      execFileSync(
-        process.execPath,
-        [
-          join(root, 'dist/src-main/cli/main.js'),
-          'solve',
-          '--store',
-          storePath,
-          '--household',
-          HOUSEHOLD,
-          '--scenario',
-          SCENARIO,
-          '--json',
-        ],
-        { encoding: 'utf8' },
-      ),
-    ) as { candidates: { id: string; status: string; weights: Record<string, number> }[] };
+    const solved = onStore('solve') as {
+      candidates: { id: string; status: string; weights: Record<string, number> }[];
+    };
     const recommended = solved.candidates.find((c) => c.id === 'lw-maxdiv')!;
     expect(recommended.status).toBe('optimal');
     const lines = text.split('\n');
@@ -259,6 +265,27 @@ describeInBrowser('a new user, from an empty store to a printed memo, on the def
       checked++;
     }
     expect(checked).toBeGreaterThan(1);
+
+    // The walk-forward the page ran is in the memo, with the figures of `holdfast backtest` on the
+    // same stored scenario (the same use case, shared-core/run/walk-forward.ts).
+    expect(text).toContain(SECTION_TITLES.walkForward);
+    const walked = onStore('backtest') as BacktestJson;
+    // Lines wrap where the page is narrow: read the text as one run of words.
+    const flat = text.replace(/\s+/g, ' ');
+    expect(flat).toContain(`from ${walked.settings.startDate} to ${walked.settings.endDate}`);
+    expect(flat).toContain(`a ${walked.settings.estimationWindow}-period trailing window`);
+    for (const c of walked.candidates) {
+      const m = c.metrics;
+      const figures = [
+        formatPct(m.annualisedReturn),
+        formatPct(m.volatility),
+        formatRatio2(m.sharpeRatio),
+        formatPct(-Math.abs(m.maxDrawdown.depth)),
+        formatPct(m.turnoverPerYear),
+      ];
+      // One row of the table: the figures side by side, in its columns' order.
+      expect(flat, `${c.id} in the walk-forward table`).toContain(figures.join(' '));
+    }
     expect(text).toContain(HOUSEHOLD);
     expect(text).toContain('Past performance does not guarantee future results.');
   }, 300_000);

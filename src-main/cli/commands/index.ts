@@ -289,13 +289,15 @@ const backtestCommand: Command = {
   name: 'backtest',
   summary: 'walk every candidate forward out of sample, with costs, stress views and stability',
   options: [
-    { name: 'prices', kind: 'string', valueName: 'FILE.csv', required: true, description: 'wide price file' },
+    { name: 'prices', kind: 'string', valueName: 'FILE.csv', description: 'wide price file (file form)' },
+    { name: 'store', kind: 'string', valueName: 'FILE', description: 'the store (store form, with --household)' },
+    { name: 'household', kind: 'string', valueName: 'NAME', description: 'household in the store (store form)' },
     {
       name: 'scenario',
       kind: 'string',
-      valueName: 'FILE.json',
+      valueName: 'FILE.json|NAME',
       required: true,
-      description: 'holdfast-scenario@1 document',
+      description: 'holdfast-scenario@1 document, or a saved scenario name (store form)',
     },
     fxOption,
     { name: 'json', kind: 'boolean', description: 'print one JSON object on standard output' },
@@ -313,7 +315,9 @@ const backtestCommand: Command = {
     'monthly, 104 weekly or 252 daily returns and never more than half of them), expanding,\n' +
     'rebalance (monthly, quarterly, yearly, drift), driftBand, costBps (one figure or per asset\n' +
     'class), cashRate and from; its\n' +
-    '"stress" block holds user-defined shocks. Exit 0 on success, 2 on bad input, 130 when interrupted.',
+    '"stress" block holds user-defined shocks. Store form: --store FILE --household NAME --scenario NAME\n' +
+    'walks the newest saved revision on the stored prices, as the app and `memo --store` do.\n' +
+    'Exit 0 on success, 2 on bad input, 3 when a mandate cannot be met, 130 when interrupted.',
   load: () => import('./backtest.js').then((m) => m.runBacktestCommand),
 };
 

@@ -3,7 +3,7 @@ import type { ScenarioRun } from '../../../shared-core/run/run-scenario.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { runScenarioInputs } from '../../app/run-scenario.js';
 import type { ScenarioInputs } from '../../app/scenario-inputs.js';
-import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
+import { EXIT, type CliIO, type OptionValues } from '../command.js';
 import { scenarioOptions } from '../scenario-options.js';
 
 /** 0 when every candidate is optimal, 3 when any is infeasible, 1 when one failed otherwise. */
@@ -75,10 +75,5 @@ export async function runSolve(inputs: ScenarioInputs, options: OptionValues, io
  * anything is written, so bad input leaves standard output empty.
  */
 export async function runSolveCommand(options: OptionValues, io: CliIO): Promise<number> {
-  if (
-    (options.store === undefined) !== (options.household === undefined) ||
-    (options.store !== undefined) === (options.prices !== undefined)
-  )
-    throw new UsageError("'solve' needs --prices FILE.csv, or --store FILE with --household NAME");
   return runSolve(await scenarioOptions('solve', options, io), options, io);
 }

@@ -5,12 +5,14 @@ import type { BacktestRun } from '../../../shared-core/walkforward/run-backtest.
 import type { FromBacktest, ToBacktest } from '../../worker/backtest.worker.js';
 import { describeField } from '../field-words.js';
 import { formatDuration } from '../format.js';
+import { walkForwardInputsKey } from './kept-settings.js';
 import { WalkForwardView } from './WalkForwardView.js';
 
 /**
  * The walk-forward part of the reasons: run on request (it re-estimates and re-solves every
  * candidate at every rebalance), with a progress bar and cancel; its result belongs to the
- * inputs it ran on, so an edit marks it as out of date rather than hiding it.
+ * inputs it ran on, so an edit marks it as out of date rather than hiding it. A finished run
+ * calls `onRan`, for the page to keep its settings in the draft (and so in the memo).
  */
 type State =
   | { kind: 'idle' }
@@ -24,6 +26,7 @@ export const WalkForwardSection = memo(function WalkForwardSection(props: {
   /** Exchange rates into the base currency for assets priced in another currency. */
   fx?: PriceTable;
   colourIndex: (id: string) => number;
+  onRan?: () => void;
 }) {
   const [state, setState] = useState<State>({ kind: 'idle' });
   const [shown, setShown] = useState<{ run: BacktestRun; ms: number; scenario: Scenario } | null>(null);
@@ -51,6 +54,7 @@ export const WalkForwardSection = memo(function WalkForwardSection(props: {
         setShown({ run: m.run, ms: m.ms, scenario });
         w.terminate();
         worker.current = null;
+        props.onRan?.();
       } else {
         setState({ kind: 'failed', message: m.path ? describeField(m.path, m.message) : m.message });
         w.terminate();
@@ -65,7 +69,11 @@ export const WalkForwardSection = memo(function WalkForwardSection(props: {
     worker.current = null;
     setState({ kind: 'idle' });
   };
-  const outdated = shown !== null && props.scenario !== null && shown.scenario !== props.scenario;
+  const outdated =
+    shown !== null &&
+    props.scenario !== null &&
+    shown.scenario !== props.scenario &&
+    walkForwardInputsKey(shown.scenario) !== walkForwardInputsKey(props.scenario);
   return (
     <section className="walkforward-section" aria-labelledby="walkforward-title">
       <h3 id="walkforward-title">Out of sample: walk-forward test and stress</h3>

@@ -55,8 +55,9 @@ describe('solve inputs from the store', () => {
     expect(inputs.prices.dates).toEqual(['2025-01-03', '2025-01-06']);
     expect(inputs.scenario.current!.EQ1).toBeCloseTo(0.5, 14);
     expect(inputs.scenario.current!.US1).toBeCloseTo(0.5, 14);
+    // The asset was stored as 'Equity'; the store keeps asset classes in their one spelling.
     expect(inputs.scenario.assetInfo).toEqual({
-      EQ1: { name: 'EQ1', liquidity: 'daily', assetClass: 'Equity', region: 'Europe', currency: 'EUR' },
+      EQ1: { name: 'EQ1', liquidity: 'daily', assetClass: 'equity', region: 'Europe', currency: 'EUR' },
       US1: { name: 'US1', liquidity: 'illiquid', currency: 'USD' },
     });
     s.close();

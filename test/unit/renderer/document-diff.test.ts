@@ -18,6 +18,18 @@ describe('differences between two scenario documents', () => {
     ]);
   });
 
+  it('reads a section added or removed field by field, never as JSON', () => {
+    const added = diffDocuments({ name: 'a' }, { name: 'a', backtest: { rebalance: 'monthly', costBps: 10 } });
+    expect(added).toEqual([
+      { path: 'backtest.costBps', before: undefined, after: 10 },
+      { path: 'backtest.rebalance', before: undefined, after: 'monthly' },
+    ]);
+    expect(diffDocuments({ backtest: { cashRate: 0.01 } }, {})).toEqual([
+      { path: 'backtest.cashRate', before: 0.01, after: undefined },
+    ]);
+    expect(showValue(0.01, 'backtest.cashRate')).toBe('1 %');
+  });
+
   it('finds nothing between equal documents', () => {
     expect(diffDocuments({ a: [1, 2], b: { c: 'd' } }, { b: { c: 'd' }, a: [1, 2] })).toEqual([]);
   });

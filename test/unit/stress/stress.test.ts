@@ -5,7 +5,7 @@ import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import { portfolioMove, propagateShock } from '../../../shared-core/stress/conditional-shock.js';
 import { replay, worstWindows } from '../../../shared-core/stress/historical.js';
 import { stressViews } from '../../../shared-core/stress/stress-views.js';
-import { assetSets, exposureOf, resolveTarget } from '../../../shared-core/stress/targets.js';
+import { assetSets, distinctBases, exposureOf, resolveTarget } from '../../../shared-core/stress/targets.js';
 
 // Bivariate normal: E[r_2 | r_1 = s] = rho sigma_2 / sigma_1 s (Anderson 2003, An Introduction
 // to Multivariate Statistical Analysis, 3rd ed., Theorem 2.5.1).
@@ -63,7 +63,7 @@ describe('historical stress windows', () => {
     assets: ['X', 'Y'],
     closes: [Float64Array.from([100, 110, 88, 92.4]), Float64Array.from([50, 50, 55, 49.5])],
   };
-  const universe = { name: 'the universe', kind: 'group' as const, members: ['X', 'Y'] };
+  const universe = { name: 'the universe', kind: 'group' as const, members: ['X', 'Y'], label: 'the universe' };
 
   it('finds the worst calendar month and the largest drawdown of the basis (hand-computed)', () => {
     const windows = worstWindows(prices, [universe]);
@@ -136,4 +136,47 @@ describe('historical stress windows', () => {
     }
     expect(Array.from(exposureOf(sets[2], ['X', 'Y']))).toEqual([1, 0]);
   });
+
+  it('counts an asset class once whatever its spelling, and tells a group from a class of the same name', () => {
+    const assets = ['X', 'Y', 'Z'];
+    const sets = assetSets(assets, [{ name: 'Equity', members: ['X', 'Y', 'Z'] }], {
+      X: { assetClass: 'Equity' },
+      Y: { assetClass: ' equity' },
+      Z: { assetClass: 'Real assets' },
+    });
+    expect(sets.filter((s) => s.kind === 'asset-class').map((s) => [s.name, s.members, s.label])).toEqual([
+      ['equity', ['X', 'Y'], 'the equity class'],
+      ['real-assets', ['Z'], 'the real assets class'],
+    ]);
+    expect(sets.find((s) => s.kind === 'group')?.label).toBe('the Equity group');
+    // A shock names a class in any spelling; a group of that exact name comes first.
+    expect(resolveTarget('EQUITY', sets, 'stress.shocks[0].target').members).toEqual(['X', 'Y']);
+    expect(resolveTarget('Equity', sets, 'stress.shocks[0].target').kind).toBe('group');
+    const rows = worstWindows(prices3(), distinctBases(sets.filter((s) => s.kind !== 'asset')));
+    const names = rows.map((r) => r.name);
+    expect(names).toContain('Worst month of the Equity group');
+    expect(names).toContain('Worst month of the equity class');
+    expect(new Set(names.map((n) => n.toLowerCase())).size).toBe(names.length);
+  });
+
+  it('replays a set once when a class holds the same assets as a group', () => {
+    const sets = assetSets(['X', 'Y'], [{ name: 'Growth', members: ['Y', 'X'] }], {
+      X: { assetClass: 'growth' },
+      Y: { assetClass: 'Growth' },
+    });
+    expect(distinctBases(sets.filter((s) => s.kind !== 'asset')).map((s) => s.label)).toEqual(['the Growth group']);
+  });
 });
+
+/** Three assets over two months, for the rows' names. */
+function prices3(): PriceTable {
+  return {
+    dates: ['2024-01-30', '2024-01-31', '2024-02-01', '2024-02-02'],
+    assets: ['X', 'Y', 'Z'],
+    closes: [
+      Float64Array.from([100, 110, 88, 92.4]),
+      Float64Array.from([50, 50, 55, 49.5]),
+      Float64Array.from([20, 21, 19, 18]),
+    ],
+  };
+}
