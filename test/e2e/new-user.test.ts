@@ -10,6 +10,7 @@ import type { BacktestJson } from '../../shared-core/walkforward/backtest-json.j
 import { SECTION_TITLES } from '../../src-main/memo/render-memo.js';
 import { openStore } from '../../src-main/store/store.js';
 import { ARTIFACTS, describeInBrowser, launchApp, type AppSession } from './harness.js';
+import { printMemo } from './memo-steps.js';
 
 /**
  * The whole job as a new advisor does it, on an empty store and the tool's own defaults: import
@@ -226,14 +227,8 @@ describeInBrowser('a new user, from an empty store to a printed memo, on the def
   });
 
   it('6-7. prints the memo, and its weights are those of holdfast solve on the same store', async () => {
+    expect(await printMemo(page)).toBe('Printed the memo of revision 2; it is listed below.');
     const section = page.getByTestId('memo-section');
-    await section.scrollIntoViewIfNeeded();
-    const print = section.getByRole('button', { name: 'Print memo' });
-    await expect.poll(() => print.isDisabled(), { timeout: 20_000 }).toBe(false);
-    await print.click();
-    await expect
-      .poll(() => section.getByTestId('memo-outcome').textContent(), { timeout: 180_000 })
-      .toBe('Printed the memo of revision 2; it is listed below.');
     await shot('12-memo-printed');
     const [download] = await Promise.all([
       page.waitForEvent('download', { timeout: 30_000 }),

@@ -4,6 +4,7 @@ import { fileURLToPath } from 'node:url';
 import type { Locator, Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { ARTIFACTS, describeInBrowser, launchApp, type AppSession } from './harness.js';
+import { printMemo } from './memo-steps.js';
 
 /**
  * The README's five-minute tour, walked on the demonstration store as `npm start` opens it. Each
@@ -85,14 +86,7 @@ describeInBrowser('the README tour, on the demonstration store', () => {
   }, 300_000);
 
   it('4. the memo printed from the saved revision, listed for the file', async () => {
-    const section = page.getByTestId('memo-section');
-    await section.scrollIntoViewIfNeeded();
-    const print = section.getByRole('button', { name: 'Print memo' });
-    await expect.poll(() => print.isDisabled(), { timeout: 20_000 }).toBe(false);
-    await print.click();
-    await expect
-      .poll(() => section.getByTestId('memo-outcome').textContent(), { timeout: 180_000 })
-      .toMatch(/^Printed the memo of revision \d+; it is listed below\.$/);
+    expect(await printMemo(page)).toMatch(/^Printed the memo of revision \d+; it is listed below\.$/);
     await picture('tour-4-memo', page.getByRole('heading', { name: '4. The memo for the file' }));
   }, 240_000);
 
