@@ -16,11 +16,11 @@ import { printMemo } from './memo-steps.js';
  */
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
 const IMAGES = join(root, 'docs', 'images');
-/** The words of the pictured screen with every figure masked: what decides whether a picture is stale. */
+/** The page's words with every figure, duration and month masked: what decides whether a picture is stale. */
 const wordsOf = (text: string) =>
   `${text
     .replace(/\b(Jan|Feb|Mar|Apr|May|Jun|Jul|Aug|Sep|Oct|Nov|Dec)\b|\b[AP]M\b/g, '~')
-    .replace(/\d+/g, '#')
+    .replace(/\d+(?:[.,:]\d+)*(?:\s*(?:ms|s)\b)?/g, '#')
     .replace(/[ \t]+/g, ' ')
     .trim()}\n`;
 
