@@ -8,33 +8,56 @@ import {
 } from './risk.js';
 
 /**
- * The figures of given weights under an annualised covariance (in `assets` order): what the
- * memo prints for the current holdings and the comparison's current column shows, from one
- * function. Turnover is 0: the weights are the reference themselves.
+ * The figures of a portfolio under an annualised covariance: a solved candidate's
+ * (optimise/result.ts), the current holdings' in the memo and in the comparison's current column.
  */
-/** The shape of a solved candidate's metrics (optimise/result.ts `CandidateMetrics`). */
-export interface WeightsMetrics {
+export interface CandidateMetrics {
+  /** Annualised volatility. */
   volatility: number;
   diversificationRatio: number;
   effectiveBets: number;
   effectiveHoldings: number;
+  /** Euler risk contributions, summing to 1. */
   riskContributions: Record<string, number>;
+  /** Sum of |w - current|; 0 without current holdings. */
   turnover: number;
 }
 
-export function metricsFor(
-  weights: Readonly<Record<string, number>>,
+/**
+ * The figures of weights `w` in `assets` order, with the turnover already known. `effectiveBets`
+ * may be given instead of computed (NaN when the caller fills it in later from a spectrum it
+ * already holds).
+ */
+export function metricsOfWeights(
+  w: Float64Array,
   assets: readonly string[],
   covariance: Matrix,
-): WeightsMetrics {
-  const w = Float64Array.from(assets, (a) => weights[a] ?? 0);
+  known: { turnover: number; effectiveBets?: number },
+): CandidateMetrics {
   const rc = riskContributions(w, covariance);
   return {
     volatility: portfolioVolatility(w, covariance),
     diversificationRatio: diversificationRatio(w, covariance),
-    effectiveBets: effectiveBets(w, covariance),
+    effectiveBets: known.effectiveBets ?? effectiveBets(w, covariance),
     effectiveHoldings: effectiveHoldings(w),
     riskContributions: Object.fromEntries(assets.map((a, i) => [a, rc[i]])),
-    turnover: 0,
+    turnover: known.turnover,
   };
+}
+
+/**
+ * The figures of given weights (by asset) under an annualised covariance in `assets` order, from
+ * one function. Turnover is 0: the weights are the reference themselves.
+ */
+export function metricsFor(
+  weights: Readonly<Record<string, number>>,
+  assets: readonly string[],
+  covariance: Matrix,
+): CandidateMetrics {
+  return metricsOfWeights(
+    Float64Array.from(assets, (a) => weights[a] ?? 0),
+    assets,
+    covariance,
+    { turnover: 0 },
+  );
 }

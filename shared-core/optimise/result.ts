@@ -2,19 +2,11 @@
  * The result of solving one candidate: the shape `holdfast solve --json` prints, the app shows
  * and the memo prints. A status union, never a bare array of weights.
  */
-export type SolveStatus = 'optimal' | 'infeasible' | 'iteration-limit' | 'error';
+import type { CandidateMetrics } from '../analytics/weights-metrics.js';
 
-export interface CandidateMetrics {
-  /** Annualised volatility. */
-  volatility: number;
-  diversificationRatio: number;
-  effectiveBets: number;
-  effectiveHoldings: number;
-  /** Euler risk contributions, summing to 1. */
-  riskContributions: Record<string, number>;
-  /** Sum of |w - current|; 0 without current holdings. */
-  turnover: number;
-}
+export type { CandidateMetrics };
+
+export type SolveStatus = 'optimal' | 'infeasible' | 'iteration-limit' | 'error';
 
 export interface SolverReport {
   iterations: number;

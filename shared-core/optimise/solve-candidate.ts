@@ -3,15 +3,8 @@
  * metrics and explanations. The one function the command line, the app's worker, the memo and
  * walk-forward call, so the figures they show cannot disagree.
  */
-import {
-  assetVolatilities,
-  correlationMatrix,
-  diversificationRatio,
-  effectiveBets,
-  effectiveHoldings,
-  portfolioVolatility,
-  riskContributions,
-} from '../analytics/risk.js';
+import { assetVolatilities, correlationMatrix, effectiveBets } from '../analytics/risk.js';
+import { metricsOfWeights } from '../analytics/weights-metrics.js';
 import { conditionNumber } from '../linalg/condition.js';
 import type { TridiagonalForm } from '../linalg/tridiagonal-form.js';
 import { allFinite, identity, multiplyVector, type Matrix } from '../linalg/matrix.js';
@@ -83,20 +76,11 @@ const pctText = (v: number): string => `${Number((v * 100).toFixed(2))}%`;
 
 /** Every metric but the effective bets (NaN here), which wait for the spectrum: see solveOnce. */
 function metricsOf(w: Float64Array, p: CandidateProblem, m: LinearMandate): CandidateMetrics {
-  const S = p.covariance;
-  const rc = riskContributions(w, S);
   let turnover = 0;
   const inside = new Set(p.assets);
   for (let i = 0; i < w.length; i++) turnover += Math.abs(w[i] - m.current[i]);
   for (const [a, v] of Object.entries(p.current ?? {})) if (!inside.has(a)) turnover += Math.abs(v);
-  return {
-    volatility: portfolioVolatility(w, S),
-    diversificationRatio: diversificationRatio(w, S),
-    effectiveBets: NaN,
-    effectiveHoldings: effectiveHoldings(w),
-    riskContributions: Object.fromEntries(p.assets.map((a, i) => [a, rc[i]])),
-    turnover: p.current ? turnover : 0,
-  };
+  return metricsOfWeights(w, p.assets, p.covariance, { turnover: p.current ? turnover : 0, effectiveBets: NaN });
 }
 
 function covarianceProblem(p: CandidateProblem): string | null {

@@ -610,6 +610,16 @@ function located(error: UndecodableBytes, reader: PriceFileReader, file: string)
   return new InputError(error.message, { file, ...reader.position });
 }
 
+/** Decodes one chunk of the file into the reader (an empty chunk ends it); bytes that are no text are placed where they stand. */
+function pushChunk(reader: PriceFileReader, decoder: ChunkDecoder, bytes: Buffer, file: string): void {
+  try {
+    reader.push(decoder.decode(bytes, bytes.length === 0));
+  } catch (error) {
+    if (error instanceof UndecodableBytes) throw located(error, reader, file);
+    throw error;
+  }
+}
+
 /** Reads a price file from disk, in chunks, yielding to the event loop between them (the import). */
 export async function readPriceFile(path: string, options: ReadPriceFileOptions = {}): Promise<ParsedPriceFile> {
   const file = options.file ?? path;
@@ -633,12 +643,7 @@ export async function readPriceFile(path: string, options: ReadPriceFileOptions 
       if (options.signal?.aborted) throw new CancelledError();
       const { bytesRead: n } = await handle.read(buffer, 0, CHUNK_BYTES, null);
       bytesRead += n;
-      try {
-        reader.push(decoder.decode(buffer.subarray(0, n), n === 0));
-      } catch (error) {
-        if (error instanceof UndecodableBytes) throw located(error, reader, file);
-        throw error;
-      }
+      pushChunk(reader, decoder, buffer.subarray(0, n), file);
       options.onProgress?.({ bytesRead, totalBytes, rows: reader.dataRows });
       if (n === 0) break;
     }
@@ -672,12 +677,7 @@ export function readPriceFileSync(
     for (;;) {
       const n = readSync(fd, buffer, 0, CHUNK_BYTES, null);
       bytesRead += n;
-      try {
-        reader.push(decoder.decode(buffer.subarray(0, n), n === 0));
-      } catch (error) {
-        if (error instanceof UndecodableBytes) throw located(error, reader, file);
-        throw error;
-      }
+      pushChunk(reader, decoder, buffer.subarray(0, n), file);
       if (n === 0) break;
     }
   } finally {

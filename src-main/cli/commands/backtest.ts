@@ -5,6 +5,7 @@ import type { BacktestPhase, BacktestRun } from '../../../shared-core/walkforwar
 import { walkForward, type WalkForwardOutcome } from '../../app/walk-forward.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
 import { scenarioOptions } from '../scenario-options.js';
+import { textTable } from '../text-table.js';
 import { exitCodeOf } from './solve.js';
 
 /**
@@ -72,20 +73,13 @@ const pct = (v: number | null | undefined, digits = 1): string =>
 const num = (v: number | null | undefined, digits = 2): string =>
   v === null || v === undefined || !Number.isFinite(v) ? 'n/a' : v.toFixed(digits);
 
-function table(header: string[], rows: string[][]): string[] {
-  const widths = header.map((h, j) => Math.max(h.length, ...rows.map((r) => r[j].length)));
-  const line = (cells: string[]) =>
-    cells.map((c, j) => (j === 0 ? c.padEnd(widths[j]) : c.padStart(widths[j]))).join('  ');
-  return [line(header), ...rows.map(line)];
-}
-
 function report(run: BacktestRun): string {
   const s = run.settings;
   const lines = [
     `Walk-forward ${s.startDate} to ${s.endDate}: ${s.rebalance} rebalancing${s.rebalance === 'drift' ? ` (band ${pct(s.driftBand)})` : ''}, ` +
       `${s.expanding ? 'expanding' : `trailing ${s.estimationWindow}-period`} estimation window, cash rate ${pct(s.cashRate, 2)}`,
     '',
-    ...table(
+    ...textTable(
       [
         'candidate',
         'return',
@@ -126,7 +120,7 @@ function report(run: BacktestRun): string {
       `Differences from ${run.reference} (${Math.round(c0.level * 100)}% interval, ${c0.method}, ${c0.draws} draws):`,
     );
     lines.push(
-      ...table(
+      ...textTable(
         ['candidate', 'Sharpe diff', 'interval', 'p', 'p (HAC)', 'vol diff', 'interval'],
         run.comparisons.map((c) => [
           c.a,
@@ -145,7 +139,7 @@ function report(run: BacktestRun): string {
   if (run.stress.historical.length || run.stress.shocks.length) {
     lines.push('', "Stress views on today's weights:");
     lines.push(
-      ...table(
+      ...textTable(
         ['view', 'window', ...ids],
         [
           ...run.stress.historical.map((h) => [
@@ -169,7 +163,7 @@ function report(run: BacktestRun): string {
         `Weight stability of ${c.id} (${c.stability.method}, ${c.stability.draws} draws, seed ${c.stability.seed}):`,
       );
       lines.push(
-        ...table(
+        ...textTable(
           ['asset', 'today', '5%', 'median', '95%'],
           run.assets.map((a, i) => [
             a,

@@ -1,9 +1,10 @@
-import { existsSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, rmSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { InputError } from '../../../shared-core/errors.js';
 import { exportHousehold, importHousehold } from '../../io/household-file.js';
 import { readInputFile } from '../../io/read-input-file.js';
 import { EXIT, type CliIO, type OptionValues } from '../command.js';
+import { writeOutputFile } from '../write-output.js';
 import { existingStore, storeAt } from './store-access.js';
 
 /**
@@ -25,14 +26,7 @@ export async function runExportHousehold(options: OptionValues, io: CliIO): Prom
   } finally {
     store.close();
   }
-  const partial = `${out}.partial-${process.pid}`;
-  try {
-    writeFileSync(partial, text, { flag: 'wx', mode: 0o600 });
-    renameSync(partial, out);
-  } catch (error) {
-    rmSync(partial, { force: true });
-    throw error;
-  }
+  writeOutputFile(io.cwd, outName, text);
   io.stdout(`household '${options.household as string}' written to ${outName}\n`);
   return EXIT.ok;
 }

@@ -1,5 +1,3 @@
-import { renameSync, rmSync, writeFileSync } from 'node:fs';
-import { resolve } from 'node:path';
 import { InputError } from '../../../shared-core/errors.js';
 import { isIsoDate } from '../../../shared-core/scenario/iso-date.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
@@ -13,6 +11,7 @@ import { parseHoldingsText } from '../../memo/memo-sources.js';
 import { sha256Hex } from '../../store/canonical-json.js';
 import { readInputFile } from '../../io/read-input-file.js';
 import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
+import { writeOutputFile } from '../write-output.js';
 import { existingStore } from './store-access.js';
 
 /**
@@ -81,15 +80,7 @@ export async function runMemo(options: OptionValues, io: CliIO): Promise<number>
       return EXIT.interrupted;
     }
     const out = options.out as string;
-    const full = resolve(io.cwd, out);
-    const temporary = `${full}.partial`;
-    try {
-      writeFileSync(temporary, pdf);
-      renameSync(temporary, full);
-    } catch (error) {
-      rmSync(temporary, { force: true });
-      throw new InputError(`cannot write: ${(error as Error).message}`, { file: out });
-    }
+    writeOutputFile(io.cwd, out, pdf);
     const kept = keep?.(pdf);
     io.stdout(
       `wrote ${out}: ${pdf.length} bytes, memo hash ${memoHash(input)}, pdf sha256 ${sha256Hex(pdf)}` +

@@ -1,4 +1,4 @@
-import { mkdirSync, existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -280,7 +280,7 @@ describe('holdfast memo on the invented demo household (holdfast demo files)', (
     expect(await runCli(argv, io)).toBe(2);
     expect(io.err).toMatch(/^holdfast memo: broken\.json:4:1: /);
     expect(existsSync(join(dir, 'never.pdf'))).toBe(false);
-    expect(existsSync(join(dir, 'never.pdf.partial'))).toBe(false);
+    expect(readdirSync(dir).filter((f) => f.startsWith('never.pdf'))).toEqual([]);
 
     const io2 = fakeIo(dir);
     writeFileSync(join(dir, 'holdings.json'), '{"positions":[{"asset":"NOPE","amount":5}]}');

@@ -104,38 +104,9 @@ describe('holdfast backtest', () => {
   it('is deterministic: the same files and seed give the same JSON', async () => {
     const a = io();
     const b = io();
-    await runCli(
-      [
-        'backtest',
-        '--prices',
-        'prices.csv',
-        '--scenario',
-        'scenario.json',
-        '--json',
-        '--stability',
-        '--draws',
-        '20',
-        '--seed',
-        '3',
-      ],
-      a.cli,
-    );
-    await runCli(
-      [
-        'backtest',
-        '--prices',
-        'prices.csv',
-        '--scenario',
-        'scenario.json',
-        '--json',
-        '--stability',
-        '--draws',
-        '20',
-        '--seed',
-        '3',
-      ],
-      b.cli,
-    );
+    const argv = ['backtest', '--prices', 'prices.csv', '--scenario', 'scenario.json', '--json', '--stability'];
+    await runCli([...argv, '--draws', '20', '--seed', '3'], a.cli);
+    await runCli([...argv, '--draws', '20', '--seed', '3'], b.cli);
     expect(a.out.join('')).toBe(b.out.join(''));
     const doc = JSON.parse(a.out.join(''));
     expect(doc.candidates[0].stability.draws).toBe(20);
