@@ -4,6 +4,7 @@ import type { PriceTable } from '../prices/price-table.js';
 import { liquidityTags, type ScenarioInput } from '../scenario/schema.js';
 import { isoDate } from '../scenario/iso-date.js';
 import { DEFAULT_LOT } from '../trades/trade-list.js';
+import { householdMandateSchema, NO_MANDATE } from '../scenario/household-mandate.js';
 import { method } from './define.js';
 
 /**
@@ -40,6 +41,8 @@ export const householdSchema = z.object({
   /** The firm's own client reference (free text). */
   reference: z.string(),
   notes: z.string(),
+  /** The standing limits a new scenario starts from; each null while none is set. */
+  mandate: householdMandateSchema,
   /** From the audit log; null for a household written before the log recorded it. */
   createdAt: instant.nullable(),
   updatedAt: instant.nullable(),
@@ -52,6 +55,7 @@ export const householdFieldsSchema = z.strictObject({
   baseCurrency: currencyCode,
   reference: z.string().trim().max(60, 'at most 60 characters').default(''),
   notes: z.string().max(4000, 'at most 4000 characters').default(''),
+  mandate: householdMandateSchema.default(NO_MANDATE),
 });
 export type HouseholdFields = z.input<typeof householdFieldsSchema>;
 
@@ -434,7 +438,7 @@ export const serviceApi = {
   'households.get': method('One household.', z.strictObject({ householdId: id }), householdSummarySchema),
   'households.create': method('Creates a household.', householdFieldsSchema, householdSummarySchema),
   'households.update': method(
-    "Changes a household's name, base currency, reference or notes.",
+    "Changes a household's name, base currency, reference, notes or mandate.",
     z.strictObject({ householdId: id, fields: householdFieldsSchema }),
     householdSummarySchema,
   ),

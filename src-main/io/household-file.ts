@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { householdMandateSchema } from '../../shared-core/scenario/household-mandate.js';
 import { InputError } from '../../shared-core/errors.js';
 import { issueToInputError } from '../../shared-core/scenario/json-path.js';
 import { parseJsonText } from '../../shared-core/scenario/json-text.js';
@@ -39,6 +40,8 @@ export const householdFileSchema = z.strictObject({
     baseCurrency: currency,
     reference: z.string().optional(),
     notes: z.string().optional(),
+    /** Since the mandate was kept with the household; a file without it has none. */
+    mandate: householdMandateSchema.optional(),
   }),
   holdings: z.array(z.strictObject({ assetId, amount: z.number().finite(), currency, asOf: iso })),
   assets: z.array(
@@ -132,7 +135,13 @@ export function exportHousehold(store: Store, name: string, now = new Date()): s
   const body: Omit<HouseholdFile, 'checksum'> = {
     format: HOUSEHOLD_FILE_FORMAT,
     exportedAt: now.toISOString(),
-    household: { name: h.name, baseCurrency: h.baseCurrency, reference: h.reference, notes: h.notes },
+    household: {
+      name: h.name,
+      baseCurrency: h.baseCurrency,
+      reference: h.reference,
+      notes: h.notes,
+      ...(h.mandate ? { mandate: h.mandate } : {}),
+    },
     holdings: store.holdings(h.id),
     assets: ids.map((id) => store.getAsset(id)!),
     universes: universes.map((u) => ({ name: u.name, description: u.description, members: u.members })),

@@ -9,6 +9,7 @@ import type {
 } from '../../shared-core/contract/service-api.js';
 import type { AssetRecord, HouseholdRecord, MemoInfo, RevisionInfo, Store, UniverseRecord } from '../store/store.js';
 import { valueHoldings } from '../app/value-holdings.js';
+import { NO_MANDATE } from '../../shared-core/scenario/household-mandate.js';
 
 /** Store records to the wire shapes of the service API (one function per record). */
 
@@ -86,6 +87,7 @@ export function householdOut(store: Store, record: HouseholdRecord): Household {
     baseCurrency: record.baseCurrency,
     reference: record.reference ?? '',
     notes: record.notes ?? '',
+    mandate: record.mandate ?? NO_MANDATE,
     ...householdTimes(store, record.id),
   };
 }

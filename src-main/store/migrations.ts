@@ -164,6 +164,16 @@ const migrations: readonly ((db: Database.Database) => void)[] = [
       ) STRICT;
     `);
   },
+  // 7: a household's mandate: the cap per asset and the cap on illiquid assets together that a
+  // new scenario starts from (null: none set, as for every household stored before).
+  (db) => {
+    db.exec(`
+      ALTER TABLE households ADD COLUMN mandate_asset_cap REAL
+        CHECK (mandate_asset_cap IS NULL OR (mandate_asset_cap > 0 AND mandate_asset_cap <= 1));
+      ALTER TABLE households ADD COLUMN mandate_illiquid_max REAL
+        CHECK (mandate_illiquid_max IS NULL OR (mandate_illiquid_max >= 0 AND mandate_illiquid_max <= 1));
+    `);
+  },
   // Add the next migration here: one function per schema version, never edit one that shipped.
 ];
 

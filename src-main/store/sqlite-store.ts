@@ -4,6 +4,7 @@ import { InputError, formatInputError } from '../../shared-core/errors.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import { isIsoDate } from '../../shared-core/scenario/iso-date.js';
 import { parseScenario, type Scenario } from '../../shared-core/scenario/schema.js';
+import { hasMandate, householdMandateSchema } from '../../shared-core/scenario/household-mandate.js';
 import { canonicalJson, sha256Hex } from './canonical-json.js';
 import { dayFromIso, isoFromDay } from './days.js';
 import { diffDocuments } from './document-diff.js';
@@ -462,11 +463,16 @@ export class SqliteStore implements Store {
     return this.transaction(() => {
       if (this.getHousehold(input.name)) throw new InputError(`a household named '${input.name}' exists already`);
       const id = Number(
-        this.sql('INSERT INTO households (name, base_currency, reference, notes) VALUES (?, ?, ?, ?)').run(
+        this.sql(
+          `INSERT INTO households (name, base_currency, reference, notes, mandate_asset_cap, mandate_illiquid_max)
+             VALUES (?, ?, ?, ?, ?, ?)`,
+        ).run(
           input.name,
           input.baseCurrency,
           input.reference ?? null,
           input.notes ?? null,
+          input.mandate?.assetCap ?? null,
+          input.mandate?.illiquidMax ?? null,
         ).lastInsertRowid,
       );
       this.audit('create', 'household', id, undefined, input.name);
@@ -480,11 +486,16 @@ export class SqliteStore implements Store {
       if (!old) throw new NotFoundError(`no household with id ${id}`);
       const next = { ...old, ...Object.fromEntries(Object.entries(changes).filter(([, v]) => v !== undefined)) };
       checkHousehold(next);
-      this.sql('UPDATE households SET name = ?, base_currency = ?, reference = ?, notes = ? WHERE id = ?').run(
+      this.sql(
+        `UPDATE households SET name = ?, base_currency = ?, reference = ?, notes = ?, mandate_asset_cap = ?,
+           mandate_illiquid_max = ? WHERE id = ?`,
+      ).run(
         next.name,
         next.baseCurrency,
         next.reference ?? null,
         next.notes ?? null,
+        next.mandate?.assetCap ?? null,
+        next.mandate?.illiquidMax ?? null,
         id,
       );
       this.audit('update', 'household', id, undefined, Object.keys(changes).join(', '));
@@ -496,11 +507,22 @@ export class SqliteStore implements Store {
     const r = this.sql(`SELECT * FROM households WHERE ${typeof idOrName === 'number' ? 'id' : 'name'} = ?`).get(
       idOrName,
     ) as
-      { id: number; name: string; base_currency: string; reference: string | null; notes: string | null } | undefined;
+      | {
+          id: number;
+          name: string;
+          base_currency: string;
+          reference: string | null;
+          notes: string | null;
+          mandate_asset_cap: number | null;
+          mandate_illiquid_max: number | null;
+        }
+      | undefined;
     if (!r) return undefined;
     const out: HouseholdRecord = { id: r.id, name: r.name, baseCurrency: r.base_currency };
     if (r.reference !== null) out.reference = r.reference;
     if (r.notes !== null) out.notes = r.notes;
+    const mandate = { assetCap: r.mandate_asset_cap, illiquidMax: r.mandate_illiquid_max };
+    if (hasMandate(mandate)) out.mandate = mandate;
     return out;
   }
 
@@ -931,4 +953,11 @@ function checkHousehold(h: HouseholdInput): void {
   if (!h.name.trim()) throw new InputError('a household needs a name', { path: 'name' });
   if (!CURRENCY.test(h.baseCurrency))
     throw new InputError(`'${h.baseCurrency}' is not an ISO 4217 code such as EUR`, { path: 'baseCurrency' });
+  if (h.mandate) {
+    const parsed = householdMandateSchema.safeParse(h.mandate);
+    if (!parsed.success) {
+      const issue = parsed.error.issues[0];
+      throw new InputError(issue.message, { path: ['mandate', ...issue.path].join('.') });
+    }
+  }
 }

@@ -12,6 +12,7 @@
  * by a newer Holdfast, is a `StoreOpenError` and the file is left untouched.
  */
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
+import type { HouseholdMandate } from '../../shared-core/scenario/household-mandate.js';
 import type { Scenario } from '../../shared-core/scenario/schema.js';
 import type { ReadOnlyReason } from './storage-error.js';
 
@@ -126,6 +127,8 @@ export interface HouseholdRecord {
   baseCurrency: string;
   reference?: string;
   notes?: string;
+  /** The standing limits; absent while none is set. */
+  mandate?: HouseholdMandate;
 }
 export type HouseholdInput = Omit<HouseholdRecord, 'id'>;
 

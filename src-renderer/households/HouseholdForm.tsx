@@ -1,11 +1,13 @@
-import { useId, useState, type FormEvent } from 'react';
+import { useCallback, useId, useState, type FormEvent } from 'react';
 import { householdFieldsSchema, type HouseholdFields } from '../../shared-core/contract/service-api.js';
+import { NO_MANDATE, type HouseholdMandate } from '../../shared-core/scenario/household-mandate.js';
 import { errorText } from '../app/notes.js';
+import { PercentField } from '../scenario/brief/fields.js';
 
 /** Currencies offered first; any ISO 4217 code can be typed. */
 export const COMMON_CURRENCIES = ['EUR', 'USD', 'GBP', 'CHF', 'SEK', 'NOK', 'DKK', 'JPY', 'CAD', 'AUD', 'SGD', 'HKD'];
 
-type FieldName = 'name' | 'baseCurrency' | 'reference' | 'notes';
+type FieldName = 'name' | 'baseCurrency' | 'reference' | 'notes' | 'mandate.assetCap' | 'mandate.illiquidMax';
 
 /** Each field's reason, from the same schema the service checks with. */
 function reasons(fields: HouseholdFields): Partial<Record<FieldName, string>> {
@@ -13,7 +15,7 @@ function reasons(fields: HouseholdFields): Partial<Record<FieldName, string>> {
   if (parsed.success) return {};
   const out: Partial<Record<FieldName, string>> = {};
   for (const issue of parsed.error.issues) {
-    const key = issue.path[0] as FieldName;
+    const key = issue.path.join('.') as FieldName;
     out[key] ??= issue.message;
   }
   return out;
@@ -35,8 +37,21 @@ export function HouseholdForm({
   const [busy, setBusy] = useState(false);
   const [failure, setFailure] = useState<string>();
   const id = useId();
-  const why = reasons(fields);
+  // What a percent field holds that is not a number yet (it never reaches `fields`).
+  const [typing, setTyping] = useState<Partial<Record<FieldName, string>>>({});
+  const onTyping = useCallback(
+    (path: string, message: string | null) => setTyping((t) => ({ ...t, [path]: message ?? undefined })),
+    [],
+  );
+  const why = { ...reasons(fields), ...Object.fromEntries(Object.entries(typing).filter(([, m]) => m)) };
   const valid = Object.keys(why).length === 0;
+  const mandate = fields.mandate ?? NO_MANDATE;
+  const setLimit = (key: keyof HouseholdMandate, value: number | undefined) => {
+    setFields((f) => ({ ...f, mandate: { ...NO_MANDATE, ...f.mandate, [key]: value ?? null } }));
+    setTouched((t) => ({ ...t, [`mandate.${key}`]: true }));
+  };
+  const limitMessages = (key: FieldName) =>
+    why[key] ? [{ path: key, message: why[key], source: typing[key] ? ('typing' as const) : ('schema' as const) }] : [];
 
   const set = (key: FieldName, value: string) => {
     setFields((f) => ({ ...f, [key]: key === 'baseCurrency' ? value.toUpperCase() : value }));
@@ -45,7 +60,14 @@ export function HouseholdForm({
 
   const submit = async (event: FormEvent) => {
     event.preventDefault();
-    setTouched({ name: true, baseCurrency: true, reference: true, notes: true });
+    setTouched({
+      name: true,
+      baseCurrency: true,
+      reference: true,
+      notes: true,
+      'mandate.assetCap': true,
+      'mandate.illiquidMax': true,
+    });
     if (!valid) return;
     setBusy(true);
     setFailure(undefined);
@@ -134,6 +156,35 @@ export function HouseholdForm({
         />
         {reason('notes')}
       </div>
+      <fieldset className="mandate-fields">
+        <legend>Mandate</legend>
+        <p className="hint">
+          The standing limits a new scenario starts from; each can be tightened per scenario. Leave a field empty where
+          the mandate sets no such limit: a new scenario then takes the stated default and says so.
+        </p>
+        <PercentField
+          label="Cap per asset"
+          path="mandate.assetCap"
+          value={mandate.assetCap ?? undefined}
+          decimals={1}
+          placeholder="none"
+          hint="the most any one asset may weigh"
+          messages={limitMessages('mandate.assetCap')}
+          onTyping={onTyping}
+          onChange={(v) => setLimit('assetCap', v)}
+        />
+        <PercentField
+          label="Cap on illiquid assets together"
+          path="mandate.illiquidMax"
+          value={mandate.illiquidMax ?? undefined}
+          decimals={1}
+          placeholder="none"
+          hint="assets with a lock-up or without daily dealing"
+          messages={limitMessages('mandate.illiquidMax')}
+          onTyping={onTyping}
+          onChange={(v) => setLimit('illiquidMax', v)}
+        />
+      </fieldset>
       {failure ? (
         <div className="note error" role="alert">
           {failure}

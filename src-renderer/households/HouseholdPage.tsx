@@ -6,6 +6,8 @@ import { useLoad } from '../app/use-load.js';
 import { HoldingsPanel } from './HoldingsPanel.js';
 import { HouseholdForm } from './HouseholdForm.js';
 import { ScenariosPanel } from './ScenariosPanel.js';
+import { hasMandate } from '../../shared-core/scenario/household-mandate.js';
+import { mandateInWords } from './starter-scenario.js';
 
 /** One household: who they are, what they hold now, and the scenarios built for them. */
 export function HouseholdPage({ householdId }: { householdId: string }) {
@@ -26,6 +28,11 @@ export function HouseholdPage({ householdId }: { householdId: string }) {
             <span className="code">{h.baseCurrency}</span>
             {h.updatedAt ? ` · last changed ${formatInstant(h.updatedAt)}` : ''}
           </p>
+          <p className="muted" data-testid="household-mandate">
+            {hasMandate(h.mandate)
+              ? `Mandate: ${mandateInWords(h.mandate)}.`
+              : 'No mandate on file: a new scenario starts from stated defaults (edit the details to set one).'}
+          </p>
         </div>
         {!editing ? (
           <button type="button" onClick={() => setEditing(true)}>
@@ -36,7 +43,13 @@ export function HouseholdPage({ householdId }: { householdId: string }) {
       {editing ? (
         <section className="section" aria-label="Edit the household">
           <HouseholdForm
-            initial={{ name: h.name, baseCurrency: h.baseCurrency, reference: h.reference, notes: h.notes }}
+            initial={{
+              name: h.name,
+              baseCurrency: h.baseCurrency,
+              reference: h.reference,
+              notes: h.notes,
+              mandate: h.mandate,
+            }}
             submitLabel="Save details"
             onSubmit={async (fields) => {
               await api['households.update']({ householdId, fields });

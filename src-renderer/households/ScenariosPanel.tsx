@@ -8,26 +8,7 @@ import { href, navigate } from '../app/route.js';
 import { useLoad } from '../app/use-load.js';
 import { formatPercent } from '../scenario/format.js';
 import { priceTableFromWire } from '../../shared-core/contract/service-api.js';
-import type { ScenarioInput } from '../../shared-core/scenario/schema.js';
-import {
-  shareOutsideUniverse,
-  starterScenario,
-  STATED_DEFAULTS_TEXT,
-  type HouseholdMandate,
-} from './starter-scenario.js';
-
-/** The household's mandate: the limits of its most recently saved scenario, if it has one. */
-async function householdMandate(householdId: string): Promise<HouseholdMandate | undefined> {
-  const list = await api['scenarios.list']({ householdId });
-  const newest = list
-    .filter((s) => s.latestRevision !== null)
-    .sort((a, b) => (b.latestRevision!.savedAt < a.latestRevision!.savedAt ? -1 : 1))[0];
-  if (!newest) return undefined;
-  const detail = await api['scenarios.get']({ scenarioId: newest.id });
-  const constraints = (detail.document as ScenarioInput | null)?.constraints;
-  if (!constraints) return undefined;
-  return { source: `${newest.name}, revision ${newest.latestRevision!.number}`, constraints };
-}
+import { shareOutsideUniverse, starterScenario, startingLimits } from './starter-scenario.js';
 
 /** A household's scenarios, each with its revision history; a new one starts from a universe. */
 export function ScenariosPanel({ household }: { household: HouseholdSummary }) {
@@ -229,19 +210,17 @@ function NewScenarioForm({ household, onCancel }: { household: HouseholdSummary;
     setFailure(undefined);
     try {
       const priced = universe.data.members.filter((m) => m.asset.fx === null).map((m) => m.asset.id);
-      const [prices, mandate] = await Promise.all([
+      const prices =
         priced.length > 0
-          ? api['prices.table']({ assets: priced }).then((r) => priceTableFromWire(r.table))
-          : Promise.resolve(undefined),
-        householdMandate(household.id),
-      ]);
+          ? await api['prices.table']({ assets: priced }).then((r) => priceTableFromWire(r.table))
+          : undefined;
       const { document, origin } = starterScenario({
         name: name.trim(),
         baseCurrency: household.baseCurrency,
         members: universe.data.members,
         holdings: holdings.data,
         prices,
-        mandate,
+        mandate: household.mandate,
       });
       const created = await api['scenarios.create']({
         householdId: household.id,
@@ -328,9 +307,8 @@ function NewScenarioForm({ household, onCancel }: { household: HouseholdSummary;
       </div>
       <p className="hint">
         Starts with the universe's assets, five years of log returns at the frequency the coarsest of them is priced at,
-        the household's mandate (the limits of its newest scenario) or else stated defaults ({STATED_DEFAULTS_TEXT}
-        ), the current holdings as the turnover reference and one candidate (Ledoit-Wolf, maximum diversification);
-        change all of it in the scenario.
+        the current holdings as the turnover reference and one candidate (Ledoit-Wolf, maximum diversification); change
+        all of it in the scenario. {startingLimits(household.mandate).origin}
       </p>
       {failure ? (
         <div className="note error" role="alert">

@@ -1,41 +1,59 @@
 import type { Holdings, UniverseMember } from '../../shared-core/contract/service-api.js';
 import type { PriceTable } from '../../shared-core/prices/price-table.js';
-import { listInWords } from '../../shared-core/present/format.js';
+import { formatPercent1, listInWords } from '../../shared-core/present/format.js';
 import { coarsestPricing } from '../../shared-core/returns/coarsest-pricing.js';
+import { hasMandate, mandateConstraints, type HouseholdMandate } from '../../shared-core/scenario/household-mandate.js';
 import { SCENARIO_FORMAT, type ScenarioInput } from '../../shared-core/scenario/schema.js';
 import { candidateId, candidateLabel } from '../scenario/candidate-grid.js';
 
 /**
- * The limits a new scenario starts from when the household has no mandate on file (no earlier
- * scenario): long-only, no asset above 100 %, illiquid assets at most 10 % together (a prudent
- * common-practice figure, from memory). The page says so beside the limits.
+ * The limits a new scenario starts from where the household's mandate sets none: long-only, no
+ * asset above 100 %, illiquid assets at most 10 % together (a prudent common-practice figure, from
+ * memory). The first revision's note says which limits are these defaults; the page shows it.
  */
 export const STATED_DEFAULTS: NonNullable<ScenarioInput['constraints']> = { longOnly: true, illiquidMax: 0.1 };
 
 export const STATED_DEFAULTS_TEXT =
   'long-only, no asset above 100 %, illiquid assets at most 10 % together, no turnover limit';
 
-/** The household's mandate: the limits of its newest scenario, and where they come from. */
-export interface HouseholdMandate {
-  /** "Annual review 2025, revision 3". */
-  source: string;
-  constraints: NonNullable<ScenarioInput['constraints']>;
+const percentText = (weight: number) => `${formatPercent1(weight)} %`;
+const capWords = (cap: number) => `no asset above ${percentText(cap)}`;
+const illiquidWords = (cap: number) => `illiquid assets at most ${percentText(cap)} together`;
+
+/** The limits a mandate sets, in words ("no asset above 15.0 %, illiquid assets at most 5.0 % together"). */
+export function mandateInWords(mandate: HouseholdMandate): string {
+  return [
+    mandate.assetCap !== null ? capWords(mandate.assetCap) : null,
+    mandate.illiquidMax !== null ? illiquidWords(mandate.illiquidMax) : null,
+  ]
+    .filter((w) => w !== null)
+    .join(', ');
 }
 
-/** The mandate's limits restricted to `assets`: own bounds and band members outside them dropped. */
-export function mandateFor(mandate: HouseholdMandate, assets: readonly string[]): ScenarioInput['constraints'] {
-  const inScope = new Set(assets);
-  const c = mandate.constraints;
-  const bounds = c.weightBounds
-    ? Object.fromEntries(Object.entries(c.weightBounds).filter(([a]) => a === 'default' || inScope.has(a)))
-    : undefined;
-  const groups = (c.groups ?? [])
-    .map((g) => ({ ...g, members: g.members.filter((m) => inScope.has(m)) }))
-    .filter((g) => g.members.length > 0);
+/**
+ * The new scenario's limits and where they come from, in words: the household's mandate where
+ * it sets a limit, the stated default where it sets none.
+ */
+export function startingLimits(mandate: HouseholdMandate | undefined): {
+  constraints: NonNullable<ScenarioInput['constraints']>;
+  origin: string;
+} {
+  if (!hasMandate(mandate))
+    return {
+      constraints: { ...STATED_DEFAULTS },
+      origin: `The household has no mandate on file, so the limits are stated defaults: ${STATED_DEFAULTS_TEXT}.`,
+    };
+  const defaults = [
+    mandate.assetCap === null ? 'no asset above 100 %' : null,
+    mandate.illiquidMax === null ? illiquidWords(STATED_DEFAULTS.illiquidMax!) : null,
+  ].filter((w) => w !== null);
   return {
-    ...c,
-    ...(bounds && Object.keys(bounds).length > 0 ? { weightBounds: bounds } : { weightBounds: undefined }),
-    ...(groups.length > 0 ? { groups } : { groups: undefined }),
+    constraints: { ...STATED_DEFAULTS, ...mandateConstraints(mandate) },
+    origin:
+      `Limits from the household's mandate: long-only, ${mandateInWords(mandate)}.` +
+      (defaults.length > 0
+        ? ` The mandate sets no other cap, so these are stated defaults: ${defaults.join(', ')}.`
+        : ''),
   };
 }
 
@@ -59,6 +77,7 @@ export function starterScenario(input: {
   holdings: Holdings | undefined;
   /** The universe's prices, for the frequency; absent: daily. */
   prices?: PriceTable;
+  /** The household's mandate as stored (each limit null where none is set). */
   mandate?: HouseholdMandate;
 }): Starter {
   const assets = input.members.filter((m) => m.asset.fx === null).map((m) => m.asset.id);
@@ -70,6 +89,7 @@ export function starterScenario(input: {
   const pricing = input.prices ? coarsestPricing(input.prices, assets) : { frequency: 'daily' as const, assets: [] };
   const estimator = { method: 'ledoit-wolf' } as const;
   const objective = { method: 'max-diversification' } as const;
+  const limits = startingLimits(input.mandate);
   const document: ScenarioInput = {
     format: SCENARIO_FORMAT,
     name: input.name,
@@ -77,20 +97,17 @@ export function starterScenario(input: {
     assets,
     window: { years: 5 },
     returns: { frequency: pricing.frequency, method: 'log', maxFillDays: 5 },
-    constraints: input.mandate ? mandateFor(input.mandate, assets) : { ...STATED_DEFAULTS },
+    constraints: limits.constraints,
     ...(current ? { current } : {}),
     candidates: [
       { id: candidateId(estimator, objective), label: candidateLabel(estimator, objective), estimator, objective },
     ],
   };
-  const limits = input.mandate
-    ? `Limits from the household's mandate (${input.mandate.source}).`
-    : `The household has no mandate on file, so the limits are stated defaults: ${STATED_DEFAULTS_TEXT}.`;
   const frequency =
     pricing.frequency === 'daily'
       ? 'Daily returns: every asset is priced daily.'
       : `${pricing.frequency === 'monthly' ? 'Monthly' : 'Weekly'} returns, because ${listInWords(pricing.assets.slice(0, 3))}${pricing.assets.length > 3 ? ` and ${pricing.assets.length - 3} more` : ''} ${pricing.assets.length === 1 ? 'is' : 'are'} priced ${pricing.frequency}.`;
-  return { document, origin: `${limits} ${frequency}` };
+  return { document, origin: `${limits.origin} ${frequency}` };
 }
 
 /** The share of the household's holdings that a universe leaves out (it cannot be traded there). */

@@ -1,4 +1,5 @@
 import { createContext, useContext, useEffect, useId, useRef, useState, type ReactNode } from 'react';
+import './fields.css';
 
 /**
  * Bumped by the page on undo, redo and loading a document: a field then shows the document's

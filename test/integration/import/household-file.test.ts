@@ -73,6 +73,32 @@ describe('household file holdfast-household@1', () => {
     b.close();
   });
 
+  it("carries the household's mandate, reads a file written before the mandate, and places a bad cap", () => {
+    const a = sourceStore();
+    const before = exportHousehold(a, 'Invented household B');
+    expect(JSON.parse(before).household).not.toHaveProperty('mandate');
+    const ha = a.getHousehold('Invented household B')!;
+    a.updateHousehold(ha.id, { mandate: { assetCap: 0.15, illiquidMax: 0.05 } });
+    const text = exportHousehold(a, 'Invented household B');
+    const b = openStore(join(tempDir(), 'b.hfstore'));
+    importHousehold(b, text, 'hh.json');
+    expect(b.getHousehold('Invented household B')!.mandate).toEqual({ assetCap: 0.15, illiquidMax: 0.05 });
+    const c = openStore(join(tempDir(), 'c.hfstore'));
+    importHousehold(c, before, 'old.json');
+    expect(c.getHousehold('Invented household B')!.mandate).toBeUndefined();
+    const bad = JSON.parse(text);
+    bad.household.mandate.assetCap = 1.5;
+    const d = openStore(join(tempDir(), 'd.hfstore'));
+    expect(() => importHousehold(d, JSON.stringify(bad), 'hh.json')).toThrow(
+      expect.objectContaining({
+        location: expect.objectContaining({ file: 'hh.json', path: 'household.mandate.assetCap' }),
+        message: expect.stringContaining('the cap per asset must be at most 100 %'),
+      }),
+    );
+    expect(d.listHouseholds()).toEqual([]);
+    for (const s of [a, b, c, d]) s.close();
+  });
+
   it('keeps the importing store’s prices where they differ, and reports each', () => {
     const a = sourceStore();
     const text = exportHousehold(a, 'Invented household B');

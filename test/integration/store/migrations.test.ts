@@ -103,6 +103,28 @@ describe('store schema migrations (PRAGMA user_version)', () => {
     damaged.close();
   });
 
+  it('version 7 gives every household a mandate slot, empty for the households stored before it', () => {
+    const path = join(tempDir(), 'v6.hfstore');
+    const old = new Database(path);
+    migrate(old, 6);
+    seedAt(old, 6);
+    old.close();
+    const store = openStore(path);
+    const h = store.getHousehold('H')!;
+    expect(h.mandate).toBeUndefined();
+    const set = store.updateHousehold(h.id, { mandate: { assetCap: 0.2, illiquidMax: 0.1 } });
+    expect(set.mandate).toEqual({ assetCap: 0.2, illiquidMax: 0.1 });
+    expect(() => store.updateHousehold(h.id, { mandate: { assetCap: 1.2, illiquidMax: null } })).toThrow(
+      'the cap per asset must be at most 100 %',
+    );
+    expect(store.getHousehold('H')!.mandate).toEqual({ assetCap: 0.2, illiquidMax: 0.1 });
+    store.close();
+    // The schema refuses an out-of-range cap even from a writer that skips the store's check.
+    const raw = new Database(path);
+    expect(() => raw.prepare('UPDATE households SET mandate_asset_cap = 1.5').run()).toThrow(/CHECK constraint/);
+    raw.close();
+  });
+
   it('refuses a store from a newer Holdfast with a clear message and leaves the file byte for byte unchanged', () => {
     const path = join(tempDir(), 'newer.hfstore');
     openStore(path).close();

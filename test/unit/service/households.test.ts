@@ -39,6 +39,34 @@ describe('service: households and their holdings', () => {
     expect(await h.call('households.list', {})).toHaveLength(1);
   });
 
+  it("keeps a mandate with the household, and refuses a cap above 100 % in the field's own words", async () => {
+    const h = service();
+    const plain = await h.call('households.create', { name: 'Invented M', baseCurrency: 'EUR' });
+    expect(plain.mandate).toEqual({ assetCap: null, illiquidMax: null });
+    const edited = await h.call('households.update', {
+      householdId: plain.id,
+      fields: { name: 'Invented M', baseCurrency: 'EUR', mandate: { assetCap: 0.15, illiquidMax: 0.05 } },
+    });
+    expect(edited.mandate).toEqual({ assetCap: 0.15, illiquidMax: 0.05 });
+    expect((await h.call('households.get', { householdId: plain.id })).mandate).toEqual(edited.mandate);
+    const tooHigh = await h.reply('households.create', {
+      name: 'Invented N',
+      baseCurrency: 'EUR',
+      mandate: { assetCap: 1.5, illiquidMax: null },
+    });
+    expect(tooHigh).toMatchObject({
+      ok: false,
+      error: { code: 'bad-request', message: expect.stringContaining('the cap per asset must be at most 100 %') },
+    });
+    expect(JSON.stringify(tooHigh)).not.toMatch(/\b1\.5\b|\[0, /);
+    // Cleared again: both limits off, so a new scenario starts from the stated defaults.
+    const cleared = await h.call('households.update', {
+      householdId: plain.id,
+      fields: { name: 'Invented M', baseCurrency: 'EUR' },
+    });
+    expect(cleared.mandate).toEqual({ assetCap: null, illiquidMax: null });
+  });
+
   it('answers not-found for a household id that does not exist', async () => {
     const h = service();
     expect(await h.reply('households.get', { householdId: '99' })).toMatchObject({
