@@ -102,7 +102,7 @@ export function HouseholdForm({
             aria-invalid={invalid('name')}
             aria-describedby={described('name')}
             autoComplete="off"
-            size={34}
+            size={40}
           />
           {reason('name')}
         </div>

@@ -285,6 +285,37 @@ describeInBrowser('a new user, from an empty store to a printed memo, on the def
     expect(text).toContain('Past performance does not guarantee future results.');
   }, 300_000);
 
+  it("8. sets the household's mandate, refused above 100 % in the field's words, and a new scenario starts from it", async () => {
+    await page.getByRole('link', { name: 'Households' }).first().click();
+    await page.getByRole('link', { name: HOUSEHOLD }).click();
+    expect(await page.getByTestId('household-mandate').innerText()).toContain('No mandate on file');
+    await page.getByRole('button', { name: 'Edit details' }).click();
+    const cap = page.getByLabel('Cap per asset');
+    await cap.fill('150');
+    await page.getByText('the cap per asset must be at most 100 %').waitFor();
+    await shot('14-household-mandate-refused');
+    await cap.fill('30');
+    await page.getByLabel('Cap on illiquid assets together').fill('5');
+    await page.getByRole('button', { name: 'Save details' }).click();
+    await expect
+      .poll(() => page.getByTestId('household-mandate').innerText())
+      .toBe('Mandate: no asset above 30.0 %, illiquid assets at most 5.0 % together.');
+    await page.getByRole('button', { name: 'New scenario' }).click();
+    await page.getByLabel('Scenario name').fill('Second, on the mandate');
+    await shot('15-scenario-new-on-mandate');
+    await page.getByRole('button', { name: 'Create scenario' }).click();
+    await page.waitForURL(/#\/households\/\d+\/scenarios\/\d+$/);
+    const started = await page.getByTestId('starting-note').innerText();
+    expect(started).toContain(
+      "Limits from the household's mandate: long-only, no asset above 30.0 %, illiquid assets at most 5.0 % together.",
+    );
+    expect(started).not.toContain('stated default');
+    expect(await page.getByLabel('Default cap per asset').inputValue()).toBe('30');
+    expect(await page.getByLabel('Cap on illiquid assets together').inputValue()).toBe('5');
+    await page.getByTestId('comparison-table').waitFor({ timeout: 60_000 });
+    await shot('16-scenario-on-mandate');
+  }, 120_000);
+
   it('logged no error, asked no other origin (no favicon 404), and the settings keep the initials', async () => {
     await page.getByRole('link', { name: 'Settings' }).click();
     await expect.poll(() => page.getByLabel('Your initials').inputValue()).toBe('NU');

@@ -84,44 +84,80 @@ function useNoteId(): string {
   return `note-${useId().replace(/:/g, '')}`;
 }
 
+/** A field's frame: its label (hidden where a column header says it), the control, its note. */
+function FieldFrame({
+  kind,
+  label,
+  compact,
+  inputId,
+  noteId,
+  messages,
+  hint,
+  children,
+}: Pick<FieldProps, 'label' | 'compact' | 'messages' | 'hint'> & {
+  kind: string;
+  inputId: string;
+  noteId: string;
+  children: ReactNode;
+}) {
+  return (
+    <span className={`sfield ${kind}${compact ? ' compact' : ''}`}>
+      <label htmlFor={inputId} className={compact ? 'visually-hidden' : undefined}>
+        {label}
+      </label>
+      {children}
+      <FieldNote id={noteId} messages={messages} hint={hint} />
+    </span>
+  );
+}
+
 const SHOW_PERCENT = {
   1: (v: number | undefined) => percentInputText(v, 1),
   2: (v: number | undefined) => percentInputText(v, 2),
 };
+const numberText = (value: number | undefined) => (value === undefined ? '' : String(value));
+
+/** What a typed text means: a number, or the reason it is not one. */
+type Parsed = { value: number } | { message: string };
+
+const parsePercent = (text: string): Parsed => {
+  const value = parsePercentInput(text);
+  return value === null ? { message: `'${text}' is not a number; type a percentage such as 15 or 12.5` } : { value };
+};
+const parseNumber = (text: string): Parsed => {
+  const cleaned = text.trim().replace(',', '.');
+  return /^[-+]?(\d+(\.\d*)?|\.\d+)$/.test(cleaned)
+    ? { value: Number(cleaned) }
+    : { message: `'${text}' is not a number` };
+};
+
+export interface NumberFieldProps extends FieldProps {
+  value: number | undefined;
+  onChange: (value: number | undefined) => void;
+  onTyping: (path: string, message: string | null) => void;
+  placeholder?: string;
+  disabled?: boolean;
+}
 
 /**
- * A weight or rate typed as per cent. Text that is not a number is reported (through `onTyping`)
- * and kept in the field, so the advisor sees what they typed beside the reason.
+ * A number typed as text, with its unit beside it. Text that is not a number is reported
+ * (through `onTyping`) and kept in the field, so the advisor sees what they typed beside the
+ * reason; an empty field removes the value unless `optional` is false.
  */
-export function PercentField(
-  props: FieldProps & {
-    value: number | undefined;
-    onChange: (value: number | undefined) => void;
-    onTyping: (path: string, message: string | null) => void;
-    placeholder?: string;
-    /** Empty means "no limit" (the key is removed). */
+function TypedNumberField(
+  props: NumberFieldProps & {
+    kind: 'percent-field' | 'number-field';
+    unit?: string;
+    show: (value: number | undefined) => string;
+    parse: (text: string) => Parsed;
     optional?: boolean;
-    disabled?: boolean;
-    /** Decimals of a per cent the field shows for a value it did not type (default 2). */
-    decimals?: 1 | 2;
   },
 ) {
-  const {
-    label,
-    path,
-    messages,
-    hint,
-    value,
-    onChange,
-    onTyping,
-    placeholder,
-    optional = true,
-    compact,
-    disabled,
-  } = props;
-  const { text, setText, emitted, input } = useFieldText(value, SHOW_PERCENT[props.decimals ?? 2], path, onTyping);
+  const { label, path, messages, hint, value, onChange, onTyping, placeholder, unit, compact, disabled } = props;
+  const { text, setText, emitted, input } = useFieldText(value, props.show, path, onTyping);
   const noteId = useNoteId();
   const inputId = `${noteId}-in`;
+  const optional = props.optional ?? true;
   const change = (next: string) => {
     setText(next);
     if (next.trim() === '') {
@@ -132,21 +168,18 @@ export function PercentField(
       }
       return;
     }
-    const parsed = parsePercentInput(next);
-    if (parsed === null) {
-      onTyping(path, `'${next}' is not a number; type a percentage such as 15 or 12.5`);
+    const parsed = props.parse(next);
+    if ('message' in parsed) {
+      onTyping(path, parsed.message);
       return;
     }
     onTyping(path, null);
-    emitted.current = parsed;
-    onChange(parsed);
+    emitted.current = parsed.value;
+    onChange(parsed.value);
   };
   const invalid = messages.length > 0;
   return (
-    <span className={`sfield percent-field${compact ? ' compact' : ''}`}>
-      <label htmlFor={inputId} className={compact ? 'visually-hidden' : undefined}>
-        {label}
-      </label>
+    <FieldFrame {...{ label, compact, messages, hint, inputId, noteId }} kind={props.kind}>
       <span className="input-with-unit">
         <input
           ref={input}
@@ -161,76 +194,39 @@ export function PercentField(
           data-path={path}
           onChange={(e) => change(e.target.value)}
         />
-        <span className="unit" aria-hidden="true">
-          %
-        </span>
-      </span>
-      <FieldNote id={noteId} messages={messages} hint={hint} />
-    </span>
-  );
-}
-
-const numberText = (value: number | undefined) => (value === undefined ? '' : String(value));
-
-/** A plain number (years, half-life, lambda). */
-export function NumberField(
-  props: FieldProps & {
-    value: number | undefined;
-    onChange: (value: number | undefined) => void;
-    onTyping: (path: string, message: string | null) => void;
-    placeholder?: string;
-    unit?: string;
-  },
-) {
-  const { label, path, messages, hint, value, onChange, onTyping, placeholder, unit, compact } = props;
-  const { text, setText, emitted, input } = useFieldText(value, numberText, path, onTyping);
-  const noteId = useNoteId();
-  const inputId = `${noteId}-in`;
-  const change = (next: string) => {
-    setText(next);
-    const cleaned = next.trim().replace(',', '.');
-    if (cleaned === '') {
-      onTyping(path, null);
-      emitted.current = undefined;
-      onChange(undefined);
-      return;
-    }
-    if (!/^[-+]?(\d+(\.\d*)?|\.\d+)$/.test(cleaned)) {
-      onTyping(path, `'${next}' is not a number`);
-      return;
-    }
-    onTyping(path, null);
-    emitted.current = Number(cleaned);
-    onChange(Number(cleaned));
-  };
-  const invalid = messages.length > 0;
-  return (
-    <span className={`sfield number-field${compact ? ' compact' : ''}`}>
-      <label htmlFor={inputId} className={compact ? 'visually-hidden' : undefined}>
-        {label}
-      </label>
-      <span className="input-with-unit">
-        <input
-          ref={input}
-          id={inputId}
-          type="text"
-          inputMode="decimal"
-          value={text}
-          placeholder={placeholder}
-          aria-invalid={invalid || undefined}
-          aria-describedby={invalid || hint ? noteId : undefined}
-          data-path={path}
-          onChange={(e) => change(e.target.value)}
-        />
         {unit ? (
           <span className="unit" aria-hidden="true">
             {unit}
           </span>
         ) : null}
       </span>
-      <FieldNote id={noteId} messages={messages} hint={hint} />
-    </span>
+    </FieldFrame>
   );
+}
+
+/** A weight or rate typed as per cent; the document keeps the fraction. */
+export function PercentField(
+  props: NumberFieldProps & {
+    /** Empty means "no limit" (the key is removed); false: a value is needed. */
+    optional?: boolean;
+    /** Decimals of a per cent the field shows for a value it did not type (default 2). */
+    decimals?: 1 | 2;
+  },
+) {
+  return (
+    <TypedNumberField
+      {...props}
+      kind="percent-field"
+      unit="%"
+      show={SHOW_PERCENT[props.decimals ?? 2]}
+      parse={parsePercent}
+    />
+  );
+}
+
+/** A plain number (years, half-life, lambda, basis points) with its unit. */
+export function NumberField(props: NumberFieldProps & { unit?: string }) {
+  return <TypedNumberField {...props} kind="number-field" show={numberText} parse={parseNumber} />;
 }
 
 /** Free text the schema checks (dates YYYY-MM-DD, names). */
@@ -246,10 +242,7 @@ export function TextField(
   const inputId = `${noteId}-in`;
   const invalid = messages.length > 0;
   return (
-    <span className={`sfield text-field${compact ? ' compact' : ''}`}>
-      <label htmlFor={inputId} className={compact ? 'visually-hidden' : undefined}>
-        {label}
-      </label>
+    <FieldFrame {...{ label, compact, messages, hint, inputId, noteId }} kind="text-field">
       <input
         id={inputId}
         type="text"
@@ -260,8 +253,7 @@ export function TextField(
         data-path={path}
         onChange={(e) => onChange(e.target.value === '' ? undefined : e.target.value)}
       />
-      <FieldNote id={noteId} messages={messages} hint={hint} />
-    </span>
+    </FieldFrame>
   );
 }
 
@@ -276,10 +268,7 @@ export function SelectField<T extends string>(
   const noteId = useNoteId();
   const inputId = `${noteId}-in`;
   return (
-    <span className={`sfield select-field${compact ? ' compact' : ''}`}>
-      <label htmlFor={inputId} className={compact ? 'visually-hidden' : undefined}>
-        {label}
-      </label>
+    <FieldFrame {...{ label, compact, messages, hint, inputId, noteId }} kind="select-field">
       <select
         id={inputId}
         value={value}
@@ -293,7 +282,6 @@ export function SelectField<T extends string>(
           </option>
         ))}
       </select>
-      <FieldNote id={noteId} messages={messages} hint={hint} />
-    </span>
+    </FieldFrame>
   );
 }
