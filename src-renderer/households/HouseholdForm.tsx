@@ -9,6 +9,16 @@ export const COMMON_CURRENCIES = ['EUR', 'USD', 'GBP', 'CHF', 'SEK', 'NOK', 'DKK
 
 type FieldName = 'name' | 'baseCurrency' | 'reference' | 'notes' | 'mandate.assetCap' | 'mandate.illiquidMax';
 
+/** The mandate's fields, labelled as the scenario's limits are (the messages use the same words). */
+const MANDATE_FIELDS: readonly { key: keyof HouseholdMandate; label: string; hint: string }[] = [
+  { key: 'assetCap', label: 'Cap per asset', hint: 'the most any one asset may weigh' },
+  {
+    key: 'illiquidMax',
+    label: 'Cap on illiquid assets together',
+    hint: 'assets with a lock-up or without daily dealing',
+  },
+];
+
 /** Each field's reason, from the same schema the service checks with. */
 function reasons(fields: HouseholdFields): Partial<Record<FieldName, string>> {
   const parsed = householdFieldsSchema.safeParse(fields);
@@ -162,28 +172,20 @@ export function HouseholdForm({
           The standing limits a new scenario starts from; each can be tightened per scenario. Leave a field empty where
           the mandate sets no such limit: a new scenario then takes the stated default and says so.
         </p>
-        <PercentField
-          label="Cap per asset"
-          path="mandate.assetCap"
-          value={mandate.assetCap ?? undefined}
-          decimals={1}
-          placeholder="none"
-          hint="the most any one asset may weigh"
-          messages={limitMessages('mandate.assetCap')}
-          onTyping={onTyping}
-          onChange={(v) => setLimit('assetCap', v)}
-        />
-        <PercentField
-          label="Cap on illiquid assets together"
-          path="mandate.illiquidMax"
-          value={mandate.illiquidMax ?? undefined}
-          decimals={1}
-          placeholder="none"
-          hint="assets with a lock-up or without daily dealing"
-          messages={limitMessages('mandate.illiquidMax')}
-          onTyping={onTyping}
-          onChange={(v) => setLimit('illiquidMax', v)}
-        />
+        {MANDATE_FIELDS.map(({ key, label, hint }) => (
+          <PercentField
+            key={key}
+            label={label}
+            path={`mandate.${key}`}
+            value={mandate[key] ?? undefined}
+            decimals={1}
+            placeholder="none"
+            hint={hint}
+            messages={limitMessages(`mandate.${key}`)}
+            onTyping={onTyping}
+            onChange={(v) => setLimit(key, v)}
+          />
+        ))}
       </fieldset>
       {failure ? (
         <div className="note error" role="alert">
