@@ -55,7 +55,8 @@ export const reviewSuite: BenchSuite = {
           const o = timed(process.execPath, [cli, 'review', '--store', store, '--json', ...extra]);
           ours.push(o.ms);
           rss.push(o.maxRssMb);
-          if (peerAvailable) peer.push(timed('/usr/bin/python3', [peerScript, input, join(dir, 'out.json')]).ms);
+          if (peerAvailable)
+            peer.push(timed('/usr/bin/python3', [peerScript, input, join(dir, 'out.json'), '--on-target-too']).ms);
         }
         figures.push({
           label,
