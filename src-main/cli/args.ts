@@ -46,7 +46,9 @@ export function commandHelp(command: CommandSpec): string {
   for (const o of command.options) {
     const value =
       o.kind === 'boolean' ? '' : ` ${o.valueName ?? (o.choices ? o.choices.join('|') : o.kind.toUpperCase())}`;
-    lines.push(`  --${o.name}${value}${o.required ? '' : ' (optional)'}`.padEnd(44) + o.description);
+    const flag = `  --${o.name}${value}${o.required ? '' : ' (optional)'}`;
+    // A flag too long for the column (a list of choices) puts its description on the next line.
+    lines.push(flag.length < 44 ? flag.padEnd(44) + o.description : `${flag}\n${' '.repeat(44)}${o.description}`);
   }
   if (command.details) lines.push('', command.details);
   return lines.join('\n') + '\n';

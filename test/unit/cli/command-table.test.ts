@@ -9,6 +9,7 @@ import {
   HOUSEHOLD_FILE_FORMAT,
   commands,
 } from '../../../src-main/cli/commands/index.js';
+import { commandHelp } from '../../../src-main/cli/args.js';
 
 // The command table answers --help and bad options without loading any command's module; the
 // values it writes out must stay those of the modules they come from.
@@ -17,6 +18,16 @@ describe('command table', () => {
     expect(DEFAULT_DEMO_SEED).toBe(demoSeed);
     expect(DEFAULT_DRAWS).toBe(draws);
     expect(HOUSEHOLD_FILE_FORMAT).toBe(householdFormat);
+  });
+
+  it('--help keeps every option apart from its description, a long list of choices on its own line', () => {
+    for (const command of commands) {
+      const help = commandHelp(command);
+      for (const o of command.options) {
+        const at = help.indexOf(o.description, help.indexOf(`  --${o.name}`));
+        expect(help.slice(at - 2, at), `${command.name} --${o.name}`).toBe('  ');
+      }
+    }
   });
 
   it('imports nothing at run time but the method definitions, and loads each implementation on demand', () => {
