@@ -1,4 +1,5 @@
-import { InputError, formatInputError } from '../../shared-core/errors.js';
+import { InputError } from '../../shared-core/errors.js';
+import { formatFieldError } from '../../shared-core/present/field-words.js';
 import { packageVersion } from '../service/app-info.js';
 import { commandHelp, parseOptions } from './args.js';
 import { EXIT, UsageError, type CliIO } from './command.js';
@@ -51,7 +52,7 @@ export async function runCli(argv: readonly string[], io: CliIO): Promise<number
       return EXIT.badInput;
     }
     if (error instanceof InputError) {
-      io.stderr(`holdfast ${command.name}: ${formatInputError(error)}\n`);
+      io.stderr(`holdfast ${command.name}: ${formatFieldError(error)}\n`);
       return EXIT.badInput;
     }
     // The disk or the lock, not the input: one message naming the file and what to do.

@@ -1,4 +1,4 @@
-import { formatInputError } from '../../shared-core/errors.js';
+import { formatFieldError } from '../../shared-core/present/field-words.js';
 import { scenarioFromFiles, type ScenarioInputs } from '../app/scenario-inputs.js';
 import { UsageError, type CliIO, type OptionValues } from './command.js';
 
@@ -36,7 +36,7 @@ export async function scenarioOptions(command: string, options: OptionValues, io
       scenario: options.scenario as string,
       ...(options.fx !== undefined ? { fx: options.fx as string } : {}),
     },
-    (e) => io.stderr(`holdfast ${command}: ${formatInputError(e)}\n`),
+    (e) => io.stderr(`holdfast ${command}: ${formatFieldError(e)}\n`),
     (w) => io.stderr(`holdfast ${command}: warning: ${w}\n`),
   );
 }

@@ -1,6 +1,6 @@
 import type { ReactNode } from 'react';
 import { ServiceCallError } from '../bridge.js';
-import { describeField } from '../scenario/field-words.js';
+import { describeField } from '../../shared-core/present/field-words.js';
 
 /** Request fields of the service that a person typed, by the label of their field. */
 const REQUEST_FIELDS: Record<string, string> = {

@@ -99,7 +99,7 @@ export function CoveragePicture({
               onClick={onSelect ? () => onSelect(a.asset) : undefined}
               style={onSelect ? { cursor: 'pointer' } : undefined}
             >
-              <title>{`${a.asset}: ${a.observations} prices${a.firstDate ? `, ${a.firstDate} to ${a.lastDate}` : ''}${a.gaps.length ? `, ${a.gaps.length} gap(s)` : ''}`}</title>
+              <title>{`${a.asset}: ${a.observations} prices${a.firstDate ? `, ${formatDate(a.firstDate)} to ${formatDate(a.lastDate ?? a.firstDate)}` : ''}${a.gaps.length ? `, ${a.gaps.length} gap(s)` : ''}`}</title>
               {isSelected ? <rect x={0} y={y} width={WIDTH} height={ROW} fill={PAPER_DEEP} /> : null}
               <text
                 x={LABEL - 8}

@@ -117,12 +117,14 @@ export function ImportReportView({ report }: { report: ImportReport }) {
                     {a.suspiciousMoves.length ? (
                       <span
                         className="flag"
-                        title={a.suspiciousMoves.map((m) => `${m.date} ${formatSignedPercent(m.move)}`).join('\n')}
+                        title={a.suspiciousMoves
+                          .map((m) => `${formatDate(m.date)} ${formatSignedPercent(m.move)}`)
+                          .join('\n')}
                       >
                         {a.suspiciousMoves.length}:{' '}
                         {a.suspiciousMoves
                           .slice(0, 2)
-                          .map((m) => `${m.date} ${formatSignedPercent(m.move)}`)
+                          .map((m) => `${formatDate(m.date)} ${formatSignedPercent(m.move)}`)
                           .join(', ')}
                         {a.suspiciousMoves.length > 2 ? ', …' : ''}
                       </span>
@@ -133,7 +135,9 @@ export function ImportReportView({ report }: { report: ImportReport }) {
                   <td className="num">{a.newDates.toLocaleString()}</td>
                   <td
                     className="num"
-                    title={a.changes.map((c) => `${c.date}: stored ${c.stored}, file ${c.incoming}`).join('\n')}
+                    title={a.changes
+                      .map((c) => `${formatDate(c.date)}: stored ${c.stored}, file ${c.incoming}`)
+                      .join('\n')}
                   >
                     {a.changedValues ? <span className="flag">{a.changedValues.toLocaleString()}</span> : '0'}
                   </td>

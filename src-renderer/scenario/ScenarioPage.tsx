@@ -31,7 +31,7 @@ import { useRecompute } from './use-recompute.js';
 import { keptWalkForwardSettings } from './walkforward/kept-settings.js';
 import { WalkForwardSection } from './walkforward/WalkForwardSection.js';
 import { checkDraft, describeMessage, type FieldMessage } from './validate-draft.js';
-import { describeField, inFieldWords } from './field-words.js';
+import { describeField, inFieldWords } from '../../shared-core/present/field-words.js';
 import './scenario.css';
 
 /**

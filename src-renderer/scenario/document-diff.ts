@@ -1,5 +1,5 @@
 import { jsonPath } from '../../shared-core/scenario/json-path.js';
-import { fieldWords } from './field-words.js';
+import { fieldWords } from '../../shared-core/present/field-words.js';
 import { percentInputText } from './format.js';
 
 /**

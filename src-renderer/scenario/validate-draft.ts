@@ -2,8 +2,8 @@ import type { PriceTable } from '../../shared-core/prices/price-table.js';
 import { parseScenario, type Scenario, type ScenarioInput } from '../../shared-core/scenario/schema.js';
 import { coarsestPricing } from '../../shared-core/returns/coarsest-pricing.js';
 import { isCoarser } from '../../shared-core/returns/calendar.js';
-import { describeField, inFieldWords } from './field-words.js';
-import { formatPercent } from './format.js';
+import { describeField, inFieldWords } from '../../shared-core/present/field-words.js';
+import { formatDate, formatPercent } from './format.js';
 
 /**
  * Everything wrong with a draft, each message tied to the JSON path of the field that caused it
@@ -15,7 +15,7 @@ import { formatPercent } from './format.js';
 export interface FieldMessage {
   /** JSON path as the schema names it: `constraints.weightBounds.default` (never shown). */
   path: string;
-  /** In the field's own words and units (field-words.ts). */
+  /** In the field's own words and units (shared-core/present/field-words.ts). */
   message: string;
   source: 'typing' | 'schema' | 'check';
   /** The one change that resolves it, offered as a button. */
@@ -157,8 +157,12 @@ function checkWindow(
 ): { path: string; message: string } | null {
   const from = scenario.window?.from;
   const to = scenario.window?.to;
+  // Dates in the reader's locale, as everywhere on screen.
   if (from !== undefined && to !== undefined && from > to)
-    return { path: 'window.from', message: `the window starts (${from}) after it ends (${to})` };
+    return {
+      path: 'window.from',
+      message: `the window starts (${formatDate(from)}) after it ends (${formatDate(to)})`,
+    };
   const columns = assets.map((a) => prices.closes[prices.assets.indexOf(a)]).filter((c) => c !== undefined);
   if (columns.length === 0) return null;
   let first: string | undefined;
@@ -172,10 +176,10 @@ function checkWindow(
   });
   if (first === undefined) return { path: 'assets', message: 'the store holds no prices for these assets' };
   if (inside >= MIN_WINDOW_PRICES) return null;
-  const range = `${from ?? 'the start'} to ${to ?? 'the end'}`;
+  const range = `${from !== undefined ? formatDate(from) : 'the start'} to ${to !== undefined ? formatDate(to) : 'the end'}`;
   return {
     path: from !== undefined ? 'window.from' : 'window.to',
-    message: `${inside === 0 ? 'no prices' : `only ${inside} price dates`} from ${range}; the prices of these assets run from ${first} to ${last}`,
+    message: `${inside === 0 ? 'no prices' : `only ${inside} price dates`} from ${range}; the prices of these assets run from ${formatDate(first)} to ${formatDate(last!)}`,
   };
 }
 

@@ -8,7 +8,7 @@ import { errorText } from '../../app/notes.js';
 import { api } from '../../bridge.js';
 import type { Comparison } from '../../worker/comparison.js';
 import { diffDocuments, showValue } from '../document-diff.js';
-import { fieldWords } from '../field-words.js';
+import { fieldWords } from '../../../shared-core/present/field-words.js';
 import { formatDateTime, formatPercent, formatRatio } from '../format.js';
 import { useRecompute } from '../use-recompute.js';
 

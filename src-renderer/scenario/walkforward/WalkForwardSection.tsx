@@ -3,7 +3,7 @@ import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import type { Scenario } from '../../../shared-core/scenario/schema.js';
 import type { BacktestRun } from '../../../shared-core/walkforward/run-backtest.js';
 import type { FromBacktest, ToBacktest } from '../../worker/backtest.worker.js';
-import { describeField } from '../field-words.js';
+import { describeField } from '../../../shared-core/present/field-words.js';
 import { formatDuration } from '../format.js';
 import { walkForwardInputsKey } from './kept-settings.js';
 import { WalkForwardView } from './WalkForwardView.js';

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import type { PriceTable } from '../../../shared-core/prices/price-table.js';
 import type { ScenarioInput } from '../../../shared-core/scenario/schema.js';
 import { checkDraft, describeMessage, messagesAt } from '../../../src-renderer/scenario/validate-draft.js';
+import { formatDay } from '../../../shared-core/present/format.js';
 
 const assets = Array.from({ length: 10 }, (_, i) => `A${i}`);
 const dates = Array.from({ length: 40 }, (_, i) => `2024-01-${String(i + 1).padStart(2, '0')}`).filter((d) =>
@@ -109,13 +110,14 @@ describe('draft checks beside each field', () => {
   });
 
   it('names a window with no prices and where the prices are', () => {
+    const day = (iso: string) => formatDay(iso, undefined);
     const out = checkDraft({ ...base, window: { from: '2030-01-01', to: '2031-01-01' } }, { prices });
     expect(out.ok).toBe(false);
     expect(messagesAt(out.messages, 'window')).toEqual([
       {
         path: 'window.from',
-        message:
-          'no prices from 2030-01-01 to 2031-01-01; the prices of these assets run from 2024-01-01 to 2024-01-31',
+        // Days in the reader's locale, as the rest of the screen shows them.
+        message: `no prices from ${day('2030-01-01')} to ${day('2031-01-01')}; the prices of these assets run from ${day('2024-01-01')} to ${day('2024-01-31')}`,
         source: 'check',
       },
     ]);

@@ -1,4 +1,5 @@
-import { formatPercent1, PLAIN } from '../../shared-core/present/format.js';
+import { formatInputError, InputError } from '../errors.js';
+import { formatDay, formatPercent1, PLAIN } from './format.js';
 
 /**
  * A field of the scenario in the words of the editor: the label the advisor sees beside it, and
@@ -104,23 +105,30 @@ export function fieldWords(path: string): FieldWords {
   return SIMPLE['(document)'];
 }
 
-function limitText(value: number, unit: string | undefined): string {
-  if (unit === 'percent') return `${formatPercent1(value, PLAIN, 2).replace(/\.?0+$/, '')} %`;
+function limitText(value: number, unit: string | undefined, inFile: boolean): string {
+  if (unit === 'percent')
+    return `${formatPercent1(value, PLAIN, 2).replace(/\.?0+$/, '')} %${inFile ? ` (${value} in the file)` : ''}`;
   return unit ? `${value} ${unit}` : String(value);
 }
 
 /**
  * A schema or check message rewritten in the field's own unit: the bound of a "too big" or "too
- * small" number as per cent for a share of the portfolio, the type errors in plain words.
+ * small" number as per cent for a share of the portfolio, the type errors in plain words, days in
+ * the reader's locale. `inFile`: for the command line, which names the file's own values and
+ * keeps ISO 8601 days.
  */
-export function inFieldWords(path: string, message: string): string {
+export function inFieldWords(
+  path: string,
+  message: string,
+  options: { inFile?: boolean; locale?: string } = {},
+): string {
   const { unit } = fieldWords(path);
   const the = `the ${fieldWords(path).label.replace(/^[A-Z]/, (c) => c.toLowerCase())}`;
   const limit = /^Too (big|small): expected (?:number|int) to be (<=|<|>=|>)\s*(-?[\d.e+-]+)/.exec(message);
   if (limit) {
     const [, , op, raw] = limit;
     const words = { '<=': 'at most', '<': 'below', '>=': 'at least', '>': 'above' }[op as '<=' | '<' | '>=' | '>'];
-    return `${the} must be ${words} ${limitText(Number(raw), unit)}`;
+    return `${the} must be ${words} ${limitText(Number(raw), unit, options.inFile === true)}`;
   }
   if (/^Invalid input: expected int/.test(message) || /expected int, received number/.test(message))
     return `${the} must be a whole number`;
@@ -128,10 +136,24 @@ export function inFieldWords(path: string, message: string): string {
   if (/^Invalid input: expected string/.test(message)) return `${the} must be text`;
   if (/^Too small: expected (string|array) to have >=1/.test(message)) return `${the} cannot be empty`;
   if (message === 'lower bound above upper bound') return 'the lower bound is above the upper bound';
-  return message;
+  // The core writes days in ISO 8601, as files do; a screen shows them in the reader's locale.
+  return options.inFile ? message : message.replace(/\b\d{4}-\d{2}-\d{2}\b/g, (day) => formatDay(day, options.locale));
 }
 
 /** One line for a summary list: "Upper bound of GOLD: the upper bound must be at most 100 %". */
 export function describeField(path: string, message: string): string {
   return `${fieldWords(path).label}: ${inFieldWords(path, message)}`;
+}
+
+/**
+ * A located input error as the command line prints it: where it is (file, line, column and JSON
+ * path, as formatInputError writes them), then the message in the words the screens use for that
+ * field of the scenario, with a share of the portfolio in per cent and the file's fraction beside
+ * it ("the default cap per asset must be at most 100 % (1 in the file)"). A path the scenario's
+ * words do not know (another file's) keeps its message.
+ */
+export function formatFieldError(error: InputError): string {
+  const { path } = error.location;
+  if (path === undefined || fieldWords(path) === SIMPLE['(document)']) return formatInputError(error);
+  return formatInputError(new InputError(inFieldWords(path, error.message, { inFile: true }), error.location));
 }
