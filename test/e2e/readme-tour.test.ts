@@ -20,7 +20,7 @@ const IMAGES = join(root, 'docs', 'images');
 const wordsOf = (text: string) =>
   `${text
     .replace(/\b(Jan|Feb|Mar|Apr|May|Jun|Jul|Aug|Sep|Oct|Nov|Dec)\b|\b[AP]M\b/g, '~')
-    .replace(/\d+(?:[.,:]\d+)*(?:\s*(?:ms|s)\b)?/g, '#')
+    .replace(/[−+]?\d+(?:[.,:]\d+)*(?:\s*(?:ms|s)\b)?/g, '#')
     .replace(/[ \t]+/g, ' ')
     .trim()}\n`;
 
