@@ -5,7 +5,8 @@ import type { z } from 'zod';
  * words on screen and in the memo, and the paper it comes from. The scenario document builds its
  * union of options from these (scenario/estimator-spec.ts, objective-spec.ts), the command line
  * its choices, the editor its lists and the memo its sentences; the computation sits in the layer
- * above the document (estimators/registry.ts, optimise/).
+ * above the document, one file per method in a table typed by these definitions
+ * (estimators/registry.ts, optimise/objectives/index.ts).
  *
  * The options schema is a function of zod's namespace, given to it by the document, rather than
  * a schema built at import: these files then import nothing at run time, so the command line's

@@ -11,7 +11,8 @@ import { minVariance } from './objectives/min-variance.js';
 
 /**
  * Every objective's definition, in the order the editor lists them. A new objective is one file
- * in objectives/ and a line here; its computation sits in optimise/ (see DEVELOPERS.md).
+ * in objectives/ and a line here; the compiler then asks for its computation in the layer above
+ * the document (shared-core/optimise/objectives/index.ts).
  */
 export const objectiveDefinitions = [
   maxDiversification,

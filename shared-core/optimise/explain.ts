@@ -15,14 +15,17 @@
  * its own, which it meets exactly. Minimum variance (first-order conditions, common practice): every held
  * asset has beta 1 to the portfolio, an excluded asset at least 1, a capped one at most 1.
  */
-import type { ObjectiveSpec } from '../scenario/objective-spec.js';
+import type { AssetAt, AssetWords, PortfolioFigures } from './objectives/computation.js';
 import type { AssetExplanation, BindingConstraint } from './result.js';
 import type { LinearMandate } from './mandate.js';
 import type { Sensitivity } from './formulate.js';
 
-const pct = (v: number, digits = 1): string => `${(v * 100).toFixed(digits)}%`;
-const num = (v: number, digits = 2): string => v.toFixed(digits);
-const AT_LIMIT = 1e-9;
+export const pct = (v: number, digits = 1): string => `${(v * 100).toFixed(digits)}%`;
+export const num = (v: number, digits = 2): string => v.toFixed(digits);
+/** A percentage with at most two decimals and no trailing zeros: "2.5%". */
+export const pctText = (v: number): string => `${Number((v * 100).toFixed(2))}%`;
+/** A weight this close to a limit is at it. */
+export const AT_LIMIT = 1e-9;
 
 export interface AssetFigures {
   weights: Float64Array;
@@ -33,8 +36,6 @@ export interface AssetFigures {
   riskShares: Float64Array;
   budgets?: Float64Array;
   expected?: Float64Array;
-  /** Annualised risk-free rate of the Sharpe ratio (max-sharpe's option), when given. */
-  riskFreeRate?: number;
   /** Correlation-matrix product C w and w'Cw for maximum decorrelation. */
   corrW?: Float64Array;
   ruleWeights?: Float64Array;
@@ -47,9 +48,9 @@ export interface AssetFigures {
 }
 
 /** Figures this close to their threshold count as on it (the optimum meets it to solver accuracy). */
-const SAME_FIGURE = 1e-6;
+export const SAME_FIGURE = 1e-6;
 /** An asset's own threshold this far from 1/DR is told (half a unit of the two decimals shown). */
-const MOVED_THRESHOLD = 0.005;
+export const MOVED_THRESHOLD = 0.005;
 
 /** Assets that sit in a binding band, turnover or gross-exposure limit (their first-order condition moves). */
 function assetsInBindingRows(m: LinearMandate, binding: Sensitivity[]): Map<number, string> {
@@ -72,8 +73,13 @@ function assetsInBindingRows(m: LinearMandate, binding: Sensitivity[]): Map<numb
   return out;
 }
 
+/**
+ * Each asset's reason for its weight: where it sits against its limits (shared by every
+ * objective), then its objective's sentence and figures (`explainer`, from the objective's
+ * computation in objectives/).
+ */
 export function explainAssets(
-  objective: ObjectiveSpec,
+  explainer: (fig: AssetFigures, portfolio: PortfolioFigures) => (i: number, at: AssetAt) => AssetWords,
   m: LinearMandate,
   fig: AssetFigures,
   binding: Sensitivity[],
@@ -85,17 +91,8 @@ export function explainAssets(
   const dr = wsig / fig.portfolioVol;
   const variance = fig.portfolioVol * fig.portfolioVol;
   const inBand = assetsInBindingRows(m, binding);
-  // Portfolio-wide figures, the same for every asset: computed once, with the sums the per-asset
-  // text used to make for each asset.
-  const portfolioFigures = {
-    withoutDr: `1/DR = ${num(1 / dr)} without them`,
-    wcw: 0,
-    muP: 0,
-  };
-  if (objective.method === 'max-decorrelation' && fig.corrW)
-    for (let k = 0; k < n; k++) portfolioFigures.wcw += w[k] * fig.corrW[k];
-  if (objective.method === 'max-sharpe')
-    for (let k = 0; k < n; k++) portfolioFigures.muP += w[k] * (fig.expected ? fig.expected[k] : 0);
+  // Portfolio-wide figures, the same for every asset: computed once.
+  const words = explainer(fig, { n, dr, variance, withoutDr: `1/DR = ${num(1 / dr)} without them` });
   const out: AssetExplanation[] = [];
   for (let i = 0; i < n; i++) {
     const asset = m.assets[i];
@@ -104,134 +101,30 @@ export function explainAssets(
     const atLower = Number.isFinite(m.lb[i]) && w[i] <= m.lb[i] + AT_LIMIT;
     const out0 = atLower && m.lb[i] === 0;
     const capWord = m.upperSource[i] === 'liquidity-cap' ? 'liquidity cap' : 'cap';
+    const band = inBand.get(i);
     const reason = atUpper
       ? 'at-upper-bound'
       : out0
         ? 'excluded'
         : atLower
           ? 'at-lower-bound'
-          : inBand.has(i)
+          : band !== undefined
             ? 'group-limit'
             : 'held';
-    const base = { asset, weight: w[i], reason, ...(inBand.has(i) ? { limitBinding: inBand.get(i) } : {}) };
-    const tail = reason === 'group-limit' ? `, away from it because ${inBand.get(i)}` : '';
+    const base = { asset, weight: w[i], reason, ...(band !== undefined ? { limitBinding: band } : {}) };
+    const tail = reason === 'group-limit' ? `, away from it because ${band}` : '';
     // Left out although its own figure says it would be held: some other limit keeps it out.
-    const keptOut = inBand.has(i)
-      ? `, but ${inBand.get(i)} and keeps it out`
-      : ', but the limits that bind elsewhere in the mandate keep it out';
-    switch (objective.method) {
-      case 'max-diversification': {
-        const t = 1 / dr;
-        const own = fig.ownThresholds?.[i];
-        if (own !== undefined && Number.isFinite(own) && Math.abs(own - t) > MOVED_THRESHOLD) {
-          // Binding limits move this asset's threshold away from 1/DR (formulate.ts ratioThresholds):
-          // say its own, which its correlation meets exactly as the optimality conditions require.
-          const without = portfolioFigures.withoutDr;
-          const c = `correlation ${num(rho)} with the portfolio`;
-          const text =
-            reason === 'at-upper-bound'
-              ? `held at its ${capWord} of ${pct(w[i])}: ${c}, at or below its threshold of ${num(own)} once the binding limits are counted (${without}); it would be held more without the ${capWord}`
-              : reason === 'excluded'
-                ? own < -1
-                  ? `left out: ${c}; once the binding limits are counted, an asset of its volatility (${pct(fig.vols[i])}) would need a correlation below ${num(own)}, which no asset can have (${without})`
-                  : `left out: ${c}, at or above its threshold of ${num(own)} once the binding limits are counted (${without})${inBand.has(i) ? `; ${inBand.get(i)}` : ''}; under these limits an asset this correlated and this volatile adds less diversification than it costs`
-                : reason === 'at-lower-bound'
-                  ? `held at its floor of ${pct(w[i])}: ${c}, at or above its threshold of ${num(own)} once the binding limits are counted (${without}); it would be held less without the floor`
-                  : `held at ${pct(w[i])}: ${c}, equal to its threshold once the binding limits are counted (${without})${tail}`;
-          out.push({ ...base, text, correlationWithPortfolio: rho, measure: rho, threshold: own });
-          break;
-        }
-        const c = `correlation ${num(rho)} with the portfolio, threshold 1/DR = ${num(t)}`;
-        const text =
-          reason === 'at-upper-bound'
-            ? `held at its ${capWord} of ${pct(w[i])}: ${c}; below the threshold, it would be held more without the ${capWord}`
-            : reason === 'excluded'
-              ? rho >= t - SAME_FIGURE
-                ? `left out: ${c}; an asset this correlated with the portfolio adds less diversification than it costs`
-                : `left out: ${c}; below the threshold it would be held${keptOut}`
-              : reason === 'at-lower-bound'
-                ? `held at its floor of ${pct(w[i])}: ${c}; above the threshold, it would be held less without the floor`
-                : `held at ${pct(w[i])}: ${c}${tail}`;
-        out.push({ ...base, text, correlationWithPortfolio: rho, measure: rho, threshold: t });
-        break;
-      }
-      case 'min-variance':
-      case 'max-decorrelation': {
-        const dec = objective.method === 'max-decorrelation' && fig.corrW;
-        const wcw = portfolioFigures.wcw;
-        const beta = dec ? fig.corrW![i] / wcw : fig.sigmaW[i] / variance;
-        const what = dec ? 'beta to the portfolio on the correlation matrix' : 'beta to the portfolio';
-        const own = fig.ownThresholds?.[i];
-        if (own !== undefined && Number.isFinite(own) && Math.abs(own - 1) > MOVED_THRESHOLD) {
-          // Binding limits move this asset's threshold away from 1 (formulate.ts directThresholds).
-          const b = `${what} ${num(beta)}`;
-          const without = '1 without them';
-          const text =
-            reason === 'at-upper-bound'
-              ? `held at its ${capWord} of ${pct(w[i])}: ${b}, at or below its threshold of ${num(own)} once the binding limits are counted (${without}); it would be held more without the ${capWord}`
-              : reason === 'excluded'
-                ? `left out: ${b}, at or above its threshold of ${num(own)} once the binding limits are counted (${without})${inBand.has(i) ? `; ${inBand.get(i)}` : ''}; under these limits adding it would not lower risk`
-                : reason === 'at-lower-bound'
-                  ? `held at its floor of ${pct(w[i])}: ${b}, at or above its threshold of ${num(own)} once the binding limits are counted (${without}); it would be held less without the floor`
-                  : `held at ${pct(w[i])}: ${b}, equal to its threshold once the binding limits are counted (${without})${tail}`;
-          out.push({ ...base, text, correlationWithPortfolio: rho, measure: beta, threshold: own });
-          break;
-        }
-        const text =
-          reason === 'at-upper-bound'
-            ? `held at its ${capWord} of ${pct(w[i])}: ${what} ${num(beta)}, below 1, so it would be held more without the ${capWord}`
-            : reason === 'excluded'
-              ? beta >= 1 - SAME_FIGURE
-                ? `left out: ${what} ${num(beta)}, at least 1, so adding it would not lower risk`
-                : `left out: ${what} ${num(beta)}, below 1, so it would lower risk${keptOut}`
-              : reason === 'at-lower-bound'
-                ? `held at its floor of ${pct(w[i])}: ${what} ${num(beta)}, above 1`
-                : `held at ${pct(w[i])}: ${what} ${num(beta)}; at the minimum every freely held asset has beta 1${tail}`;
-        out.push({ ...base, text, correlationWithPortfolio: rho, measure: beta, threshold: 1 });
-        break;
-      }
-      case 'equal-risk-contribution': {
-        const b = fig.budgets ? fig.budgets[i] : 1 / n;
-        const text = `held at ${pct(w[i])}: risk contribution ${pct(fig.riskShares[i])} against a budget of ${pct(b)}${
-          reason === 'held'
-            ? ''
-            : reason === 'group-limit'
-              ? tail
-              : ` (at its ${reason === 'at-upper-bound' ? capWord : 'floor'})`
-        }`;
-        out.push({ ...base, text, correlationWithPortfolio: rho, measure: fig.riskShares[i], threshold: b });
-        break;
-      }
-      case 'max-sharpe': {
-        const mu = fig.expected ? fig.expected[i] : 0;
-        const muP = portfolioFigures.muP;
-        // Held assets earn rf + beta_i (mu_P - rf), beta_i = (Sigma w)_i / w'Sigma w (first-order
-        // conditions of the tangency portfolio).
-        const beta = fig.sigmaW[i] / variance;
-        const rf = fig.riskFreeRate;
-        const need = rf === undefined ? beta * muP : rf + beta * (muP - rf);
-        const c = `expected return ${pct(mu, 2)} against ${pct(need, 2)} asked by its beta to the portfolio`;
-        const text =
-          reason === 'at-upper-bound'
-            ? `held at its ${capWord} of ${pct(w[i])}: ${c}; it would be held more without the ${capWord}`
-            : reason === 'excluded'
-              ? mu <= need + SAME_FIGURE
-                ? `left out: ${c}; it does not pay for the risk it adds`
-                : `left out: ${c}; it would pay for its risk${keptOut}`
-              : `held at ${pct(w[i])}: ${c}${tail}`;
-        out.push({ ...base, text, correlationWithPortfolio: rho, measure: mu, threshold: need });
-        break;
-      }
-      default: {
-        const r = fig.ruleWeights ? fig.ruleWeights[i] : w[i];
-        const moved = Math.abs(r - w[i]) > AT_LIMIT;
-        const rule = objective.method === 'equal-weight' ? 'equal weight' : 'inverse-volatility weight';
-        const text = moved
-          ? `held at ${pct(w[i])} instead of its ${rule} of ${pct(r)}: the nearest weights that meet the limits`
-          : `held at its ${rule} of ${pct(w[i])}${objective.method === 'inverse-volatility' ? ` (volatility ${pct(fig.vols[i])})` : ''}`;
-        out.push({ ...base, text, correlationWithPortfolio: rho });
-      }
-    }
+    const keptOut =
+      band !== undefined
+        ? `, but ${band} and keeps it out`
+        : ', but the limits that bind elsewhere in the mandate keep it out';
+    const { text, measure, threshold } = words(i, { reason, rho, capWord, band, tail, keptOut });
+    out.push({
+      ...base,
+      text,
+      correlationWithPortfolio: rho,
+      ...(measure !== undefined ? { measure, threshold } : {}),
+    });
   }
   return out;
 }

@@ -203,6 +203,9 @@ export function buildMandate(
   return { assets, variables, equalities, inequalities, lb: LB, ub: UB, upperSource, current: cur, longOnly };
 }
 
+/** A rule's weights count as feasible when no limit is broken by more than this. */
+export const RULE_FEASIBILITY = 1e-12;
+
 /** Largest violation of the mandate by weights w (turnover and gross exposure evaluated directly). */
 export function mandateViolation(m: LinearMandate, w: ArrayLike<number>): number {
   const n = m.assets.length;

@@ -10,6 +10,7 @@ import type { Matrix } from '../linalg/matrix.js';
 import { tridiagonalForm, type TridiagonalForm } from '../linalg/tridiagonal-form.js';
 import type { QpWarmStart } from '../optimise/qp/index.js';
 import type { CandidateResult } from '../optimise/result.js';
+import { objectiveComputation } from '../optimise/objectives/index.js';
 import { solveCandidateDetailed } from '../optimise/solve-candidate.js';
 import type { PriceTable } from '../prices/price-table.js';
 import { buildReturns, type BuildReturnsOptions, type ReturnsResult } from '../returns/build-returns.js';
@@ -109,17 +110,11 @@ export function runScenario(scenario: Scenario, prices: PriceTable, options: Run
   checkAssets(scenario.constraints, known, 'constraints');
   scenario.candidates.forEach((c, i) => {
     checkAssets(c.constraints, known, `candidates[${i}].constraints`);
-    if (c.objective.method === 'max-sharpe') {
-      const missing = assets.filter((a) => scenario.expectedReturns?.[a] === undefined);
-      if (missing.length > 0)
-        throw new InputError(`max-sharpe needs expectedReturns for ${missing.join(', ')}`, {
-          path: scenario.expectedReturns ? 'expectedReturns' : `candidates[${i}].objective`,
-        });
-    }
-    if (c.objective.method === 'equal-risk-contribution' && c.objective.budgets)
-      for (const key of Object.keys(c.objective.budgets))
-        if (!known.has(key))
-          throw new InputError(`unknown asset '${key}'`, { path: `candidates[${i}].objective.budgets.${key}` });
+    objectiveComputation(c.objective).checkInputs?.(c.objective, {
+      assets,
+      expectedReturns: scenario.expectedReturns,
+      path: `candidates[${i}].objective`,
+    });
   });
 
   // One reduction per estimate serves its exact condition number and the effective bets of every

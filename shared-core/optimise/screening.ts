@@ -1,0 +1,42 @@
+import type { Matrix } from '../linalg/matrix.js';
+import type { LinearMandate } from './mandate.js';
+import { addDot, QP_TOLERANCES } from './qp/index.js';
+
+/**
+ * Which assets to try first when screening: the least correlated with the inverse-volatility
+ * portfolio (maximum diversification) or with the lowest covariance with it (minimum variance).
+ * Lower is more promising. Undefined below QP_TOLERANCES.screenFrom assets.
+ */
+export function screeningScore(S: Matrix, vols: Float64Array, correlation: boolean): Float64Array | undefined {
+  const n = vols.length;
+  if (n < QP_TOLERANCES.screenFrom) return undefined;
+  const w = new Float64Array(n);
+  for (let i = 0; i < n; i++) w[i] = 1 / vols[i];
+  // Sigma w, every w_i non-zero: linalg multiplyVector's dense sums, in the solver's own dot
+  // product, which the interior point's residuals then find optimised (qp/kernels.ts).
+  const score = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const v = addDot(0, S.data, i * n, w, n);
+    score[i] = correlation ? v / vols[i] : v;
+  }
+  return score;
+}
+
+/** The assets a screened solve starts from, and the order it adds the others in. */
+export function screenPlan(m: LinearMandate, score: Float64Array) {
+  const n = m.assets.length;
+  if (m.variables !== n) return null; // turnover or gross exposure: no screening
+  const candidates: number[] = [];
+  for (let i = 0; i < n; i++) if (m.lb[i] === 0) candidates.push(i);
+  const order = [...candidates].sort((a, b) => score[a] - score[b]);
+  let minCap = 1;
+  for (let i = 0; i < n; i++) minCap = Math.min(minCap, m.ub[i]);
+  const size = Math.min(
+    n,
+    Math.max(QP_TOLERANCES.screenInitial, Math.ceil(QP_TOLERANCES.screenPerCap / Math.max(minCap, 1e-3))),
+  );
+  // Members of a band with a minimum stay in: the band needs them.
+  const keep = new Set(order.slice(0, size));
+  for (const r of m.inequalities) if (r.kind === 'group-min') for (const i of r.row.idx) keep.add(i);
+  return { candidates, keep: [...keep], order };
+}
