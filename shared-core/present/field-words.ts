@@ -92,9 +92,12 @@ export function fieldWords(path: string): FieldWords {
       const inner = fieldWords(rest);
       return { ...inner, label: `${inner.label} (candidate ${Number(p[1]) + 1})` };
     }
+    if (rest === 'objective.riskFreeRate')
+      return { label: `Risk-free rate (candidate ${Number(p[1]) + 1})`, unit: 'percent' };
     const what = rest.startsWith('estimator') ? 'risk estimate' : rest.startsWith('objective') ? 'objective' : '';
     return { label: `Candidate ${Number(p[1]) + 1}${what ? `, ${what}` : ''}` };
   }
+  if (p[0] === 'objectives' && p[2] === 'riskFreeRate') return { label: 'Risk-free rate, annualised', unit: 'percent' };
   if (p[0] === 'stress') return { label: 'Stress shocks' };
   if (p[0] === 'backtest' && p[1] === 'costBps') return { label: `Costs for ${p[2] ?? 'an asset class'}`, unit: 'bp' };
   // Parents: the nearest known field above.

@@ -17,9 +17,9 @@ export const householdMandateSchema = z.strictObject({
     .default(null),
   /** The most the illiquid assets (a lock-up, no daily dealing) may weigh together. */
   illiquidMax: z
-    .number({ message: 'the cap on illiquid assets must be a number of per cent' })
-    .min(0, 'the cap on illiquid assets must be at least 0 %')
-    .max(1, 'the cap on illiquid assets must be at most 100 %')
+    .number({ message: 'the cap on illiquid assets together must be a number of per cent' })
+    .min(0, 'the cap on illiquid assets together must be at least 0 %')
+    .max(1, 'the cap on illiquid assets together must be at most 100 %')
     .nullable()
     .default(null),
 });

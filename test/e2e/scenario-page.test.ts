@@ -7,7 +7,7 @@ import { priceTableFromWire } from '../../shared-core/contract/service-api.js';
 import { widePriceCsv } from '../../shared-core/demo/index.js';
 import type { CliIO } from '../../src-main/cli/command.js';
 import { runCli } from '../../src-main/cli/run-cli.js';
-import { describeInBrowser, launchApp, type AppSession } from './harness.js';
+import { ARTIFACTS, describeInBrowser, launchApp, type AppSession } from './harness.js';
 
 /**
  * The scenario page in Chromium on the demonstration store: build a 3 x 2 comparison with a 15%
@@ -275,6 +275,27 @@ describeInBrowser('scenario page in Chromium', () => {
     await page.getByTestId('walkforward-growth').scrollIntoViewIfNeeded();
     await app.screenshot('scenario-page-walkforward');
   }, 240_000);
+
+  it('a maximum Sharpe ratio objective asks for its annualised risk-free rate in per cent', async () => {
+    expect(await page.getByLabel('Risk-free rate, annualised').count()).toBe(0);
+    await page.getByLabel('Objective to add').selectOption('max-sharpe');
+    await page.getByRole('button', { name: 'Add objective' }).click();
+    const rate = page.getByLabel('Risk-free rate, annualised');
+    await rate.fill('2');
+    const head = page.locator('.objective-head').filter({ has: rate });
+    await expect.poll(() => head.locator('.objective-name').innerText()).toMatch(/risk-free rate 2\.00\s?%/);
+    await rate.fill('two');
+    await head
+      .locator('.field-error')
+      .getByText("'two' is not a number; type a percentage such as 15 or 12.5")
+      .waitFor();
+    // The grid alone: the whole page is too tall to read the field in.
+    await page
+      .locator('fieldset.candidate-grid')
+      .screenshot({ path: join(ARTIFACTS, 'scenario-page-risk-free-rate.png') });
+    await page.getByRole('button', { name: /^Remove Maximum Sharpe ratio/ }).click();
+    expect(await rate.count()).toBe(0);
+  });
 
   it('the page logged no console error and asked no other origin', () => {
     expect(app.consoleErrors).toEqual([]);

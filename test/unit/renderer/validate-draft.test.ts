@@ -123,6 +123,21 @@ describe('draft checks beside each field', () => {
     ]);
   });
 
+  it("states a risk-free rate out of range in the rate's words and per cent, and a typed one at its field", () => {
+    const sharpe = (riskFreeRate: number): ScenarioInput => ({
+      ...base,
+      expectedReturns: Object.fromEntries(assets.map((a) => [a, 0.05])),
+      candidates: [{ id: 'ms', estimator: { method: 'sample' }, objective: { method: 'max-sharpe', riskFreeRate } }],
+    });
+    expect(checkDraft(sharpe(0.02), { prices }).ok).toBe(true);
+    const out = checkDraft(sharpe(1.5), { prices });
+    expect(out.messages.map(describeMessage)).toEqual([
+      'Risk-free rate (candidate 1): the risk-free rate (candidate 1) must be below 100 %',
+    ]);
+    const typed = checkDraft(base, { prices, typing: { 'objectives[0].riskFreeRate': "'two' is not a number" } });
+    expect(typed.messages.map(describeMessage)).toEqual(["Risk-free rate, annualised: 'two' is not a number"]);
+  });
+
   it('asks for expected returns when maximum Sharpe ratio is among the objectives', () => {
     const out = checkDraft(
       {
