@@ -16,6 +16,14 @@
  */
 import { allFinite } from '../../linalg/matrix.js';
 import { throwIfCancelled, type CancelCheck } from '../../stability/cancel.js';
+import {
+  auxiliaryWorkspace,
+  factorEliminated,
+  planAuxiliaries,
+  solveEliminated,
+  type AuxiliaryFactor,
+  type AuxiliaryPlan,
+} from './auxiliary-elimination.js';
 import { choleskyInPlace, choleskySolveInPlace } from './dense-factor.js';
 import {
   addDot,
@@ -215,9 +223,14 @@ interface State {
   rp: Float64Array;
   /** Residuals of the inequality rows, R x + s - hR. */
   ri: Float64Array;
-  /** The normal matrix and its Cholesky factor. */
+  /** The normal matrix and its Cholesky factor (empty when auxiliaries are eliminated). */
   H: Float64Array;
   Hf: Float64Array;
+  /**
+   * Auxiliary variables (turnover, gross exposure) eliminated from the normal matrix
+   * (auxiliary-elimination.ts): the plan, its factor and the row weights z/s.
+   */
+  eliminated: { plan: AuxiliaryPlan; factor: AuxiliaryFactor; w: Float64Array } | null;
   /** H^-1 a_r for each equality row r, the Schur complement A H^-1 A' and its factor. */
   M: Float64Array[];
   Sm: Float64Array;
@@ -261,14 +274,28 @@ function factorNormal(st: State, maxDiag: number): boolean {
   return factored;
 }
 
+/** v = H^-1 v with the iteration's factor. */
+function solveNormal(st: State, v: Float64Array): void {
+  if (st.eliminated) solveEliminated(st.eliminated.plan, st.eliminated.factor, v);
+  else choleskySolveInPlace(st.Hf, st.n, v);
+}
+
+/** The normal matrix's factor with the auxiliaries eliminated; false when it does not factor. */
+function factorWithoutAuxiliaries(st: State): boolean {
+  const e = st.eliminated!;
+  for (let r = 0; r < e.w.length; r++) e.w[r] = st.z[r] / st.s[r];
+  if (!allFinite(e.w)) return false;
+  return factorEliminated(e.plan, e.factor, e.w);
+}
+
 /** Schur complement of the equality rows, S = A H^-1 A', factored into Sf. */
 function factorSchur(st: State): boolean {
-  const { n, me, A, M, Sm, Sf } = st;
+  const { me, A, M, Sm, Sf } = st;
   for (let r = 0; r < me; r++) {
     const col = M[r];
     col.fill(0);
     addRowTimes(A, r, 1, col);
-    choleskySolveInPlace(st.Hf, n, col);
+    solveNormal(st, col);
   }
   for (let a = 0; a < me; a++) for (let c = 0; c < me; c++) Sm[a * me + c] = rowTimes(A, a, M[c]);
   let sMax = 0;
@@ -290,9 +317,9 @@ function factorSchur(st: State): boolean {
 
 /** dx, dy of the reduced Newton system for right-hand side st.f. */
 function solveNewton(st: State, dx: Float64Array, dy: Float64Array): void {
-  const { n, me, M } = st;
+  const { me, M } = st;
   dx.set(st.f);
-  choleskySolveInPlace(st.Hf, n, dx);
+  solveNormal(st, dx);
   rowsPlus(st.A, dx, st.rp, dy);
   if (me > 0) choleskySolveInPlace(st.Sf, me, dy);
   for (let r = 0; r < me; r++) stepBy(dx, M[r], -dy[r]); // dx - dy_r M_r, as dx + (-dy_r) M_r
@@ -361,6 +388,8 @@ function startingState(p: QpProblem, L: readonly number[], U: readonly number[])
   const s = new Float64Array(m);
   rowsTimes(R, x, s);
   for (let r = 0; r < m; r++) s[r] = Math.max(hR[r] - s[r], 1);
+  const plan = planAuxiliaries(p.P.data, n, R);
+  const dim = plan ? 0 : n * n;
   return {
     n,
     me,
@@ -375,8 +404,9 @@ function startingState(p: QpProblem, L: readonly number[], U: readonly number[])
     rd: new Float64Array(n),
     rp: new Float64Array(me),
     ri: new Float64Array(m),
-    H: new Float64Array(n * n),
-    Hf: new Float64Array(n * n),
+    H: new Float64Array(dim),
+    Hf: new Float64Array(dim),
+    eliminated: plan ? { plan, factor: auxiliaryWorkspace(plan), w: new Float64Array(m) } : null,
     M: Array.from({ length: me }, () => new Float64Array(n)),
     Sm: new Float64Array(me * me),
     Sf: new Float64Array(me * me),
@@ -436,8 +466,13 @@ export function interiorPoint(p: QpProblem, options: InteriorPointOptions): Inte
       }
     } else if (primalRes < bestPrimal) bestPrimal = primalRes;
 
-    const maxDiag = normalMatrix(st);
-    if (!Number.isFinite(maxDiag) || !factorNormal(st, maxDiag) || !factorSchur(st)) {
+    let factored: boolean;
+    if (st.eliminated) factored = factorWithoutAuxiliaries(st);
+    else {
+      const maxDiag = normalMatrix(st);
+      factored = Number.isFinite(maxDiag) && factorNormal(st, maxDiag);
+    }
+    if (!factored || !factorSchur(st)) {
       status = 'breakdown';
       break;
     }
