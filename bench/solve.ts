@@ -21,14 +21,19 @@ import { csvOf, inventedPrices, TRADING_DAYS, type UniverseShape } from './solve
  *    time, the whole process's time and peak memory, and the script's time and peak memory.
  *    Target: at most half the script's time (the median of the paired ratios).
  * 2. Live recompute for the editor: 6 candidates (3 estimators x 2 objectives), in-process.
- * `BENCH_SOLVE_SIZES=500,1500` limits the sizes (N = 3000 takes minutes, most of it the script's);
- * `BENCH_SOLVE_CASES=2` keeps the first cases of each size (issue 4's universe and its most-held
- * twin); `BENCH_SOLVE_LIVE=0` leaves out the live recompute.
+ * `BENCH_SOLVE_SIZES=500,1500` limits the sizes (N = 3000 takes minutes, most of it the script's;
+ * an empty list runs the live recompute alone); `BENCH_SOLVE_CASES=2` keeps the first cases of
+ * each size (issue 4's universe and its most-held twin); `BENCH_SOLVE_SEEDS=1,2,3` sets the
+ * universes' seeds (default two at N = 500, one above); `BENCH_SOLVE_LIVE=0` leaves out the live
+ * recompute. Where a case runs at more than one size, the growth of time with N (the exponent of
+ * a least-squares line through log time against log N) is printed for both sides.
  */
 const T = TRADING_DAYS;
 
 interface Case {
   n: number;
+  /** The universe's seed (solve-universes.ts). */
+  seed: number;
   shape: UniverseShape;
   objective: 'max-diversification' | 'min-variance';
   cap: number;
@@ -41,21 +46,44 @@ interface Case {
 /** The caps of issue 4's bench (few held, not binding at most-held optima) and 1.5/N (binding). */
 const CAP: Record<number, number> = { 500: 0.02, 1500: 0.01, 3000: 0.005 };
 
-function casesFor(n: number): Case[] {
-  const cap = CAP[n];
+function casesFor(n: number, seed: number): Case[] {
+  const cap = CAP[n] ?? 2.5 / n;
   const base: Case[] = [
-    { n, shape: 'few-held', objective: 'max-diversification', cap },
-    { n, shape: 'most-held', objective: 'max-diversification', cap },
+    { n, seed, shape: 'few-held', objective: 'max-diversification', cap },
+    { n, seed, shape: 'most-held', objective: 'max-diversification', cap },
   ];
   if (n >= 3000) return base;
   return [
     ...base,
-    { n, shape: 'most-held', objective: 'max-diversification', cap: 1.5 / n },
-    { n, shape: 'most-held', objective: 'min-variance', cap },
-    { n, shape: 'few-held', objective: 'min-variance', cap },
-    { n, shape: 'most-held', objective: 'max-diversification', cap, groups: true },
-    { n, shape: 'most-held', objective: 'min-variance', cap, turnover: 0.3 },
+    { n, seed, shape: 'most-held', objective: 'max-diversification', cap: 1.5 / n },
+    { n, seed, shape: 'most-held', objective: 'min-variance', cap },
+    { n, seed, shape: 'few-held', objective: 'min-variance', cap },
+    { n, seed, shape: 'most-held', objective: 'max-diversification', cap, groups: true },
+    { n, seed, shape: 'most-held', objective: 'min-variance', cap, turnover: 0.3 },
   ];
+}
+
+/** The universes' seeds: two at N = 500, one above (N = 1500 and 3000 take minutes a case). */
+const seedsFor = (n: number): number[] =>
+  process.env.BENCH_SOLVE_SEEDS ? process.env.BENCH_SOLVE_SEEDS.split(',').map(Number) : n <= 500 ? [1, 2] : [1];
+
+/** The case without its size and seed, to follow it across sizes. */
+const caseKey = (c: Case) =>
+  `${c.shape} ${c.objective} cap ${c.cap * c.n}/N${c.groups ? ' groups' : ''}${c.turnover ?? ''}`;
+
+/** Slope of the least-squares line through (log N, log ms). */
+function growthExponent(points: readonly { n: number; ms: number }[]): number {
+  const xs = points.map((p) => Math.log(p.n));
+  const ys = points.map((p) => Math.log(p.ms));
+  const mx = xs.reduce((a, b) => a + b, 0) / xs.length;
+  const my = ys.reduce((a, b) => a + b, 0) / ys.length;
+  let sxy = 0;
+  let sxx = 0;
+  xs.forEach((x, k) => {
+    sxy += (x - mx) * (ys[k] - my);
+    sxx += (x - mx) * (x - mx);
+  });
+  return sxy / sxx;
 }
 
 /**
@@ -70,7 +98,7 @@ function describe(c: Case): string {
     ...(c.groups ? ['5 group bands 15-25%'] : []),
     ...(c.turnover !== undefined ? [`turnover <= ${c.turnover * 100}%`] : []),
   ];
-  return `${c.objective} N=${c.n} ${c.shape} ${limits.join(', ')}`;
+  return `${c.objective} N=${c.n} ${c.shape} seed ${c.seed} ${limits.join(', ')}`;
 }
 
 function groupsOf(assets: readonly string[]): { name: string; members: string[]; min: number; max: number }[] {
@@ -105,10 +133,16 @@ function timed(
   return { ms, stdout: r.stdout, stderr: r.stderr, ok: r.status === 0, peakMb: peak ? Number(peak[1]) / 1024 : NaN };
 }
 
-function wholeProcess(c: Case, peerScript: string, missing: string | null): BenchFigure {
+interface Measured {
+  figure: BenchFigure;
+  ours: number;
+  peer?: number;
+}
+
+function wholeProcess(c: Case, peerScript: string, missing: string | null): Measured {
   const dir = mkdtempSync(join(tmpdir(), 'holdfast-bench-solve-'));
   const prices = join(dir, 'prices.csv');
-  const table = inventedPrices(c.n, c.n, c.shape);
+  const table = inventedPrices(c.n, c.n * 1000 + c.seed, c.shape);
   writeFileSync(prices, csvOf(table));
   const current = c.turnover !== undefined ? Object.fromEntries(table.assets.map((a) => [a, 1 / c.n])) : undefined;
   const groups = c.groups ? groupsOf(table.assets) : undefined;
@@ -171,7 +205,7 @@ function wholeProcess(c: Case, peerScript: string, missing: string | null): Benc
   // Each of our runs against the peer's run right after it: less exposed to the host's drift.
   const paired = peer.length ? median(ours.map((ms, k) => ms / peer[k])) : undefined;
   const memory = `peak ${ourPeak.toFixed(0)} MB${missing ? '' : ` (peer ${peerPeak.toFixed(0)} MB)`}`;
-  return {
+  const figure: BenchFigure = {
     label: `holdfast solve ${describe(c)} T=${T} (whole process)`,
     medianMs: ourMedian,
     ...(peerMedian !== undefined
@@ -181,6 +215,7 @@ function wholeProcess(c: Case, peerScript: string, missing: string | null): Benc
       missing ? `; ${missing}` : `; median of the ${ours.length} paired ratios ${paired!.toFixed(2)}`
     }`,
   };
+  return { figure, ours: ourMedian, ...(peerMedian !== undefined ? { peer: peerMedian } : {}) };
 }
 
 /** The page's six candidates on a universe: three estimators, maximum diversification and minimum variance. */
@@ -263,20 +298,40 @@ export const solveSuite: BenchSuite = {
             await liveRecompute(),
             await liveComparison(100, 'few-held', 150),
             await liveComparison(100, 'most-held', 150),
+            await liveComparison(300, 'few-held', 1000),
             await liveComparison(300, 'most-held', 1000),
           ];
     for (const f of figures) process.stderr.write(`  (done) ${formatFigure(f)}\n`);
     const limit = Number(process.env.BENCH_SOLVE_CASES) || Infinity;
-    const sizes = (process.env.BENCH_SOLVE_SIZES ?? '500,1500,3000').split(',').map(Number);
+    const sizes = (process.env.BENCH_SOLVE_SIZES ?? '500,1500,3000').split(',').filter(Boolean).map(Number);
     const missing = peerAvailable();
     const peerScript = join(mkdtempSync(join(tmpdir(), 'holdfast-bench-peer-')), 'peer.py');
     writeFileSync(peerScript, PEER_SCRIPT);
+    // Per case (seed 1), the medians at each size, for the growth with N.
+    const growth = new Map<string, { n: number; ours: number; peer?: number; figure: BenchFigure }[]>();
     for (const n of sizes)
-      for (const c of casesFor(n).slice(0, limit)) {
-        const figure = wholeProcess(c, peerScript, missing);
-        process.stderr.write(`  (done) ${formatFigure(figure)}\n`);
-        figures.push(figure);
-      }
+      for (const seed of seedsFor(n))
+        for (const c of casesFor(n, seed).slice(0, limit)) {
+          const m = wholeProcess(c, peerScript, missing);
+          process.stderr.write(`  (done) ${formatFigure(m.figure)}\n`);
+          figures.push(m.figure);
+          if (seed === seedsFor(n)[0]) {
+            const points = growth.get(caseKey(c)) ?? [];
+            points.push({ n, ours: m.ours, peer: m.peer, figure: m.figure });
+            growth.set(caseKey(c), points);
+          }
+        }
+    for (const points of growth.values()) {
+      if (points.length < 2) continue;
+      const ours = growthExponent(points.map((p) => ({ n: p.n, ms: p.ours })));
+      const peer = points.every((p) => p.peer !== undefined)
+        ? growthExponent(points.map((p) => ({ n: p.n, ms: p.peer! })))
+        : undefined;
+      const last = points[points.length - 1].figure;
+      last.notes += `; time grows as N^${ours.toFixed(2)} over N = ${points.map((p) => p.n).join(', ')}${
+        peer !== undefined ? ` (script N^${peer.toFixed(2)})` : ''
+      }`;
+    }
     return figures;
   },
 };
