@@ -5,7 +5,7 @@
  * linear algebra (one Cholesky on the free variables, iterative refinement) is equality-kkt.ts.
  */
 import { allFinite } from '../../linalg/matrix.js';
-import { solveEqualityKkt } from './equality-kkt.js';
+import { solveEqualityKktSubstituted } from './substitute-auxiliaries.js';
 import { addRowsTimes, packedRows, rowsTimes } from './kernels.js';
 import { kktResidual, symmetricTimes } from './kkt.js';
 import { QP_TOLERANCES, type QpProblem, type QpSolution, type QpWarmStart } from './types.js';
@@ -59,7 +59,7 @@ export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next:
     start[j + 1] = col.length;
   }
   const C = { start, col: Int32Array.from(col), val: Float64Array.from(val) };
-  const sol = solveEqualityKkt({ P: p.P.data, n, free, C }, rhs, s);
+  const sol = solveEqualityKktSubstituted({ P: p.P.data, n, free, C }, rhs, s);
   if (!sol) return null;
   if (!allFinite(sol)) return null;
   for (let a = 0; a < k; a++) x[free[a]] = sol[a];

@@ -5,10 +5,12 @@ import {
   planAuxiliaries,
   solveEliminated,
 } from '../../../shared-core/optimise/qp/auxiliary-elimination.js';
+import { solveEqualityKkt } from '../../../shared-core/optimise/qp/equality-kkt.js';
 import { packedRows } from '../../../shared-core/optimise/qp/kernels.js';
 import { kktResidual } from '../../../shared-core/optimise/qp/kkt.js';
 import { solveQp, type QpProblem, type SparseRow } from '../../../shared-core/optimise/qp/index.js';
 import { seededRng } from '../../../shared-core/stability/rng.js';
+import { solveEqualityKktSubstituted } from '../../../shared-core/optimise/qp/substitute-auxiliaries.js';
 import { randomCovariance } from './random-problems.js';
 
 /**
@@ -141,5 +143,20 @@ describe('the normal matrix with auxiliary variables eliminated (block eliminati
       if (gross !== undefined)
         expect(x.slice(0, n).reduce((s, v) => s + Math.abs(v), 0)).toBeLessThanOrEqual(gross + 1e-9);
     }
+  });
+
+  it('polishing substitutes an auxiliary on its active link row and gets the same solution and multipliers as the whole system', () => {
+    // Active set: the budget, for each asset the link row its auxiliary sits on, the turnover sum.
+    const n = 15;
+    const p = withAuxiliaries(n, 5, { turnover: 0.3 });
+    const rng = seededRng(9);
+    const rows = [p.A[0], ...Array.from({ length: n }, (_, i) => p.G[2 * i + (rng.next() < 0.5 ? 0 : 1)]), p.G[2 * n]];
+    const s = Float64Array.from(rows, (r) => (r === p.A[0] ? 1 : p.h[p.G.indexOf(r)]));
+    const e = { P: p.P.data, n: 2 * n, free: Int32Array.from({ length: 2 * n }, (_, i) => i), C: packedRows(rows) };
+    const rhs = Float64Array.from({ length: 2 * n }, () => rng.next() - 0.5);
+    const whole = solveEqualityKkt(e, rhs, s)!;
+    const substituted = solveEqualityKktSubstituted(e, rhs, s)!;
+    const scale = Math.max(...whole.map(Math.abs));
+    whole.forEach((v, k) => expect(Math.abs(substituted[k] - v)).toBeLessThan(1e-12 * scale));
   });
 });
