@@ -13,7 +13,12 @@ export function parseJsonText(text: string): unknown {
     const line = before.split('\n').length;
     const column = offset - before.lastIndexOf('\n');
     const found = offset < text.length ? `'${text[offset]}'` : 'end of text';
-    throw new InputError(`not valid JSON (${(error as Error).message.split(',')[0]}): unexpected ${found}`, {
+    // V8's words without its position or its echo of the text ("Expected ',' or '}' after
+    // property value"): the line and column say where, and the words may themselves hold commas.
+    const words = (error as Error).message
+      .replace(/\s*(in JSON )?at position \d+[\s\S]*$/, '')
+      .replace(/, "[\s\S]*" is not valid JSON$/, '');
+    throw new InputError(`not valid JSON (${words}): unexpected ${found}`, {
       line,
       column,
     });
