@@ -192,7 +192,8 @@ describeInBrowser('scenario page in Chromium', () => {
     await settled(page, 'kept');
     const problems = await page.getByTestId('input-problems').textContent();
     expect(problems).toMatch(
-      /From \(date\): no prices from 2030-01-01 to 2031-06-30; the prices of these assets run from \d{4}-\d\d-\d\d to \d{4}-\d\d-\d\d/,
+      // Dates on screen are in the browser's locale (en-US here), never ISO.
+      /From \(date\): no prices from Jan 1, 2030 to Jun 30, 2031; the prices of these assets run from [A-Z][a-z]{2} \d{1,2}, \d{4} to [A-Z][a-z]{2} \d{1,2}, \d{4}/,
     );
     expect(await weightsOnScreen(page)).toEqual(built);
     await app.screenshot('scenario-page-bad-window');
