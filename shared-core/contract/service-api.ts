@@ -443,8 +443,8 @@ export const serviceApi = {
     householdSummarySchema,
   ),
   'holdings.get': method(
-    "A household's current holdings: market values in currency, as of a date.",
-    z.strictObject({ householdId: id }),
+    "A household's current holdings: market values in currency, as of a date, valued in `baseCurrency` (a scenario's) or else the household's own.",
+    z.strictObject({ householdId: id, baseCurrency: currencyCode.optional() }),
     holdingsSchema,
   ),
   'holdings.set': method(

@@ -42,9 +42,9 @@ export function householdMethods(store: Store): Part {
       refuseDuplicateName(fields.name, record.id);
       return householdSummaryOut(store, store.updateHousehold(record.id, fields));
     },
-    async 'holdings.get'({ householdId }) {
+    async 'holdings.get'({ householdId, baseCurrency }) {
       const record = household(householdId);
-      return valueHoldings(store, record, record.baseCurrency, store.holdings(record.id));
+      return valueHoldings(store, record, baseCurrency ?? record.baseCurrency, store.holdings(record.id));
     },
     async 'holdings.set'({ householdId, asOf, positions }) {
       const record = household(householdId);

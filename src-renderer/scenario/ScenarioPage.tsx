@@ -81,11 +81,18 @@ interface Boot {
   openedDraft: boolean;
 }
 
+/**
+ * The holdings valued in the scenario's base currency, as the memo and `holdfast solve --store`
+ * value them (app/value-holdings.ts), so the trade list and the current weights agree with both.
+ */
+function valuedHoldings(householdId: string, baseCurrency: string): Promise<Holdings | null> {
+  return api['holdings.get']({ householdId, baseCurrency }).catch(() => null);
+}
+
 async function loadBoot(householdId: string, scenarioId: string): Promise<Boot> {
-  const [detail, household, holdings, catalogue, settings, revisions] = await Promise.all([
+  const [detail, household, catalogue, settings, revisions] = await Promise.all([
     api['scenarios.get']({ scenarioId }),
     api['households.get']({ householdId }),
-    api['holdings.get']({ householdId }).catch(() => null),
     api['assets.list']({}),
     api['settings.get']({}).catch(() => ({ preparedBy: null })),
     api['scenarios.revisions']({ scenarioId }),
@@ -94,6 +101,7 @@ async function loadBoot(householdId: string, scenarioId: string): Promise<Boot> 
   const openedDraft = detail.scenario.hasDraft && draft !== null && typeof draft === 'object';
   const initial = (openedDraft ? draft : detail.document) as ScenarioInput | null;
   if (!initial) throw new Error('the scenario has neither a saved revision nor a readable draft');
+  const holdings = await valuedHoldings(householdId, initial.baseCurrency ?? household.baseCurrency);
   return { detail, household, holdings, catalogue, preparedBy: settings.preparedBy, revisions, initial, openedDraft };
 }
 
@@ -205,6 +213,16 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
     };
   }, [assetKey, baseCurrency, boot.catalogue]);
   const pricesNow = prices && prices.key === assetKey ? prices.table : undefined;
+  // The holdings follow the draft's base currency: the trade list is told in it.
+  const [holdings, setHoldings] = useState<Holdings | null>(boot.holdings);
+  useEffect(() => {
+    if (holdings === null || holdings.baseCurrency === baseCurrency) return;
+    let live = true;
+    void valuedHoldings(boot.household.id, baseCurrency).then((h) => live && setHoldings(h));
+    return () => {
+      live = false;
+    };
+  }, [baseCurrency, holdings, boot.household.id]);
 
   // ---- checks as typed ----
   const check = useMemo(() => checkDraft(doc, { prices: pricesNow, typing }), [doc, pricesNow, typing]);
@@ -272,14 +290,9 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
   const first = useRef(true);
   useEffect(() => {
     if (!check.ok || !pricesNow) return;
-    recompute.request(
-      fillStoreGaps(check.scenario, boot.catalogue, boot.holdings),
-      pricesNow,
-      first.current,
-      prices?.fx,
-    );
+    recompute.request(fillStoreGaps(check.scenario, boot.catalogue, holdings), pricesNow, first.current, prices?.fx);
     first.current = false;
-  }, [check, pricesNow]);
+  }, [check, pricesNow, holdings]);
   // Time from the last keystroke to the comparison on screen, after the browser has painted it.
   // Registered in a layout effect, before the browser paints this commit: the frame callback runs
   // in the frame that paints the new comparison, and a task queued from it runs once that frame's
@@ -502,7 +515,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
                 messages={messages}
                 onTyping={onTyping}
                 catalogue={boot.catalogue}
-                holdings={boot.holdings}
+                holdings={holdings}
                 locale={locale}
               />
             </EditorEpoch.Provider>
@@ -517,7 +530,7 @@ function ScenarioWorkspace({ boot, scenarioId }: { boot: Boot; scenarioId: strin
                 focused={focus}
                 onFocus={setFocus}
                 onRecommend={recommend}
-                holdings={boot.holdings}
+                holdings={holdings}
                 names={names}
                 locale={locale}
                 stale={stale}

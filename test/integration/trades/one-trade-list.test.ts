@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { dispatch } from '../../../shared-core/contract/dispatch.js';
 import { serviceApi, type Holdings } from '../../../shared-core/contract/service-api.js';
+import type { ScenarioInput } from '../../../shared-core/scenario/schema.js';
 import { isSolved } from '../../../shared-core/optimise/result.js';
 import { DEFAULT_LOT } from '../../../shared-core/trades/trade-list.js';
 import { memoFromStore } from '../../../src-main/app/memo.js';
@@ -65,5 +66,36 @@ describe('one trade list on the screen and in the memo', () => {
     expect(plan.residual).toBe(plan.sells - plan.buys);
     // ... and the rounding moved some trade away from the exact one (target - held).
     expect(plan.rows.some((r) => r.after !== 0 && Math.abs(r.trade - (r.target - r.current)) >= 1)).toBe(true);
+  }, 120_000);
+
+  it("is told in the scenario's base currency when it differs from the household's", async () => {
+    // The demo household keeps euro; the same scenario saved in US dollars. The page asks for the
+    // holdings in the scenario's currency (ScenarioPage), as the memo values them.
+    const household = store.getHousehold(householdId)!;
+    const document = store.getRevision(scenarioId)!.document as ScenarioInput;
+    const record = store.createScenario({ householdId, name: 'In dollars' });
+    store.saveRevision(record.id, { ...document, name: 'In dollars', baseCurrency: 'USD' }, { author: 'QA' });
+    const memo = await memoFromStore(store, 'demo.sqlite', household.name, 'In dollars', {
+      date: '2026-01-15',
+      lot: DEFAULT_LOT,
+      preparedBy: 'QA',
+    });
+    const view = buildView(memo.input);
+    const got = await dispatch(serviceApi, service, 'holdings.get', {
+      householdId: String(householdId),
+      baseCurrency: 'USD',
+    });
+    if (!got.ok) throw new Error(got.error.message);
+    const recommended = memo.input.run.candidates.find((c) => c.id === memo.input.recommended)!;
+    if (!isSolved(recommended)) throw new Error('the demo recommendation is solved');
+    const screen = tradesFromHoldings(recommended.weights, got.result as Holdings);
+    if (!screen.ok) throw new Error(screen.reason);
+    expect(screen.currency).toBe('USD');
+    expect(screen.plan).toEqual(view.trades);
+    // In the household's own currency the totals differ: the question the page must not mix up.
+    const euro = await dispatch(serviceApi, service, 'holdings.get', { householdId: String(householdId) });
+    if (!euro.ok) throw new Error(euro.error.message);
+    expect((euro.result as Holdings).baseCurrency).toBe('EUR');
+    expect((euro.result as Holdings).total).not.toBeCloseTo((got.result as Holdings).total!, 0);
   }, 120_000);
 });
