@@ -41,7 +41,7 @@ describeInBrowser('the README tour, on the demonstration store', () => {
       await page.evaluate(() => {
         let text = document.body.innerText;
         for (const id of ['draft-status', 'recompute-status'])
-          for (const el of document.querySelectorAll<HTMLElement>(`[data-testid=${id}]`))
+          for (const el of Array.from(document.querySelectorAll<HTMLElement>(`[data-testid=${id}]`)))
             text = text.replace(el.innerText, '');
         return text;
       }),
