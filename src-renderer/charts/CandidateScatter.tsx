@@ -1,3 +1,4 @@
+import { DataTable, percentColumn } from '../app/DataTable.js';
 import { memo, useMemo } from 'react';
 import { formatPercent, formatRatio } from '../scenario/format.js';
 import { ChartFigure } from './EChart.js';
@@ -80,31 +81,32 @@ export const CandidateScatter = memo(function CandidateScatter(props: {
       seriesById
       height={300}
       table={
-        <table className="grid">
-          <caption>Volatility and diversification ratio by candidate</caption>
-          <thead>
-            <tr>
-              <th scope="col">Candidate</th>
-              <th scope="col" className="num">
-                Volatility
-              </th>
-              <th scope="col" className="num">
-                Diversification ratio
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {props.points.map((p) => (
-              <tr key={p.id}>
-                <th scope="row">
+        <DataTable
+          caption="Volatility and diversification ratio by candidate"
+          rows={props.points}
+          rowKey={(p) => p.id}
+          empty="No candidate has figures yet."
+          columns={[
+            {
+              key: 'candidate',
+              head: 'Candidate',
+              rowHead: true,
+              cell: (p) => (
+                <>
                   {p.id} <span className="faint">{p.label}</span>
-                </th>
-                <td className="num">{formatPercent(p.volatility, props.locale)}</td>
-                <td className="num">{formatRatio(p.diversificationRatio, props.locale)}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+                </>
+              ),
+            },
+            percentColumn('vol', 'Volatility', (p: ScatterPoint) => p.volatility, props.locale),
+            {
+              key: 'dr',
+              head: 'Diversification ratio',
+              num: true,
+              sortBy: (p) => p.diversificationRatio,
+              cell: (p) => formatRatio(p.diversificationRatio, props.locale),
+            },
+          ]}
+        />
       }
     />
   );

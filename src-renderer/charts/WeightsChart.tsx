@@ -1,3 +1,4 @@
+import { DataTable, percentColumn } from '../app/DataTable.js';
 import { memo, useMemo } from 'react';
 import { formatPercent } from '../scenario/format.js';
 import { ChartFigure } from './EChart.js';
@@ -101,35 +102,28 @@ export const WeightsChart = memo(function WeightsChart(props: {
       seriesById
       height={Math.max(220, 18 * sorted.length + 70)}
       table={
-        <table className="grid">
-          <caption>Weights of {props.candidateLabel}, sorted by proposed weight</caption>
-          <thead>
-            <tr>
-              <th scope="col">Asset</th>
-              <th scope="col" className="num">
-                Current
-              </th>
-              <th scope="col" className="num">
-                Proposed
-              </th>
-              <th scope="col" className="num">
-                Change
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {sorted.map((r) => (
-              <tr key={r.asset}>
-                <th scope="row">
+        <DataTable
+          caption={`Weights of ${props.candidateLabel}, sorted by proposed weight`}
+          rows={sorted}
+          rowKey={(r) => r.asset}
+          empty="No weights."
+          columns={[
+            {
+              key: 'asset',
+              head: 'Asset',
+              rowHead: true,
+              sortBy: (r) => r.asset,
+              cell: (r) => (
+                <>
                   {r.asset} <span className="faint">{r.name}</span>
-                </th>
-                <td className="num">{formatPercent(r.current, props.locale)}</td>
-                <td className="num">{formatPercent(r.target, props.locale)}</td>
-                <td className="num">{formatPercent(r.target - r.current, props.locale)}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+                </>
+              ),
+            },
+            percentColumn('current', 'Current', (r: WeightRow) => r.current, props.locale),
+            percentColumn('target', 'Proposed', (r: WeightRow) => r.target, props.locale),
+            percentColumn('change', 'Change', (r: WeightRow) => r.target - r.current, props.locale),
+          ]}
+        />
       }
     />
   );
@@ -181,29 +175,17 @@ export const RiskContributionChart = memo(function RiskContributionChart(props: 
       seriesById
       height={Math.max(220, 18 * ordered.length + 70)}
       table={
-        <table className="grid">
-          <caption>Risk contributions of {props.candidateLabel}</caption>
-          <thead>
-            <tr>
-              <th scope="col">Asset</th>
-              <th scope="col" className="num">
-                Weight
-              </th>
-              <th scope="col" className="num">
-                Share of risk
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {ordered.map((r) => (
-              <tr key={r.asset}>
-                <th scope="row">{r.asset}</th>
-                <td className="num">{formatPercent(r.weight, props.locale)}</td>
-                <td className="num">{formatPercent(r.contribution, props.locale)}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <DataTable
+          caption={`Risk contributions of ${props.candidateLabel}`}
+          rows={ordered}
+          rowKey={(r) => r.asset}
+          empty="No risk contributions."
+          columns={[
+            { key: 'asset', head: 'Asset', rowHead: true, sortBy: (r) => r.asset, cell: (r) => r.asset },
+            percentColumn('weight', 'Weight', (r: RiskRow) => r.weight, props.locale),
+            percentColumn('share', 'Share of risk', (r: RiskRow) => r.contribution, props.locale),
+          ]}
+        />
       }
     />
   );

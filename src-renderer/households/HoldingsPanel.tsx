@@ -1,3 +1,4 @@
+import { DataTable } from '../app/DataTable.js';
 import { useId, useMemo, useState } from 'react';
 import type { Asset, Holdings } from '../../shared-core/contract/service-api.js';
 import { isIsoDate } from '../../shared-core/scenario/iso-date.js';
@@ -57,44 +58,36 @@ function HoldingsTable({ holdings, names }: { holdings: Holdings; names: Map<str
   const sorted = [...holdings.positions].sort((a, b) => (b.valueInBase ?? b.amount) - (a.valueInBase ?? a.amount));
   return (
     <>
-      <table className="grid">
-        <caption>
-          Market values as of {holdings.asOf ? formatDate(holdings.asOf) : 'an unknown date'}; weights of the total in{' '}
-          {holdings.baseCurrency}.
-        </caption>
-        <thead>
-          <tr>
-            <th scope="col">Asset</th>
-            <th scope="col">Name</th>
-            <th scope="col" className="num">
-              Amount
-            </th>
-            <th scope="col" className="num">
-              In {holdings.baseCurrency}
-            </th>
-            <th scope="col" className="num">
-              Weight
-            </th>
-          </tr>
-        </thead>
-        <tbody>
-          {sorted.map((p) => (
-            <tr key={p.asset}>
-              <td className="code">{p.asset}</td>
-              <td>{names.get(p.asset) ?? ''}</td>
-              <td className="num">{formatCurrency(p.amount, p.currency)}</td>
-              <td className="num">
-                {p.valueInBase !== null ? (
-                  formatCurrency(p.valueInBase, holdings.baseCurrency)
-                ) : (
-                  <span className="flag">no rate</span>
-                )}
-              </td>
-              <td className="num">{formatPercent(p.weight)}</td>
-            </tr>
-          ))}
-        </tbody>
-        <tfoot>
+      <DataTable
+        caption={`Market values as of ${holdings.asOf ? formatDate(holdings.asOf) : 'an unknown date'}; weights of the total in ${holdings.baseCurrency}.`}
+        rows={sorted}
+        rowKey={(p) => p.asset}
+        empty="No holdings on file."
+        columns={[
+          { key: 'asset', head: 'Asset', className: 'code', sortBy: (p) => p.asset, cell: (p) => p.asset },
+          { key: 'name', head: 'Name', cell: (p) => names.get(p.asset) ?? '' },
+          { key: 'amount', head: 'Amount', num: true, cell: (p) => formatCurrency(p.amount, p.currency) },
+          {
+            key: 'base',
+            head: `In ${holdings.baseCurrency}`,
+            num: true,
+            sortBy: (p) => p.valueInBase ?? 0,
+            cell: (p) =>
+              p.valueInBase !== null ? (
+                formatCurrency(p.valueInBase, holdings.baseCurrency)
+              ) : (
+                <span className="flag">no rate</span>
+              ),
+          },
+          {
+            key: 'weight',
+            head: 'Weight',
+            num: true,
+            sortBy: (p) => p.weight ?? 0,
+            cell: (p) => formatPercent(p.weight),
+          },
+        ]}
+        foot={
           <tr>
             <th scope="row" colSpan={3}>
               Total, {holdings.positions.length} positions
@@ -104,8 +97,8 @@ function HoldingsTable({ holdings, names }: { holdings: Holdings; names: Map<str
             </td>
             <td className="num">{holdings.total !== null ? formatPercent(1) : '\u2013'}</td>
           </tr>
-        </tfoot>
-      </table>
+        }
+      />
       {holdings.rates.length ? <p className="faint">Exchange rates: {holdings.rates.join('; ')}.</p> : null}
     </>
   );

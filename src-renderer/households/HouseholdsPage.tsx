@@ -1,4 +1,6 @@
 import { api } from '../bridge.js';
+import { DataTable } from '../app/DataTable.js';
+import { countOf } from '../../shared-core/present/format.js';
 import { ErrorNote, Loading } from '../app/notes.js';
 import { href } from '../app/route.js';
 import { useLoad } from '../app/use-load.js';
@@ -29,50 +31,44 @@ export function HouseholdsPage() {
         </div>
       ) : null}
       {households.data && households.data.length > 0 ? (
-        <table className="grid">
-          <caption>
-            {households.data.length} household{households.data.length === 1 ? '' : 's'}; totals in each household's base
-            currency at the stored exchange rates.
-          </caption>
-          <thead>
-            <tr>
-              <th scope="col">Household</th>
-              <th scope="col">Reference</th>
-              <th scope="col">Base</th>
-              <th scope="col" className="num">
-                Holdings
-              </th>
-              <th scope="col" className="num">
-                As of
-              </th>
-              <th scope="col" className="num">
-                Scenarios
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {households.data.map((h) => (
-              <tr key={h.id}>
-                <th scope="row">
-                  <a href={href({ page: 'household', householdId: h.id })}>{h.name}</a>
-                </th>
-                <td>{h.reference || <span className="faint">none</span>}</td>
-                <td className="code">{h.baseCurrency}</td>
-                <td className="num">
-                  {h.holdingsTotal !== null ? (
-                    formatCurrency(h.holdingsTotal, h.baseCurrency)
-                  ) : h.holdingsAsOf ? (
-                    <span className="flag">no exchange rate</span>
-                  ) : (
-                    <span className="faint">none on file</span>
-                  )}
-                </td>
-                <td className="num">{h.holdingsAsOf ? formatDate(h.holdingsAsOf) : '\u2013'}</td>
-                <td className="num">{h.scenarioCount}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <DataTable
+          caption={`${countOf(households.data.length, 'household')}; totals in each household's base currency at the stored exchange rates.`}
+          rows={households.data}
+          rowKey={(h) => h.id}
+          empty="No household yet."
+          columns={[
+            {
+              key: 'name',
+              head: 'Household',
+              rowHead: true,
+              sortBy: (h) => h.name,
+              cell: (h) => <a href={href({ page: 'household', householdId: h.id })}>{h.name}</a>,
+            },
+            { key: 'ref', head: 'Reference', cell: (h) => h.reference || <span className="faint">none</span> },
+            { key: 'base', head: 'Base', className: 'code', cell: (h) => h.baseCurrency },
+            {
+              key: 'total',
+              head: 'Holdings',
+              num: true,
+              cell: (h) =>
+                h.holdingsTotal !== null ? (
+                  formatCurrency(h.holdingsTotal, h.baseCurrency)
+                ) : h.holdingsAsOf ? (
+                  <span className="flag">no exchange rate</span>
+                ) : (
+                  <span className="faint">none on file</span>
+                ),
+            },
+            {
+              key: 'asof',
+              head: 'As of',
+              num: true,
+              sortBy: (h) => h.holdingsAsOf ?? '',
+              cell: (h) => (h.holdingsAsOf ? formatDate(h.holdingsAsOf) : '\u2013'),
+            },
+            { key: 'n', head: 'Scenarios', num: true, sortBy: (h) => h.scenarioCount, cell: (h) => h.scenarioCount },
+          ]}
+        />
       ) : null}
     </>
   );

@@ -1,3 +1,4 @@
+import { DataTable } from '../app/DataTable.js';
 import { useId } from 'react';
 import type { Coverage } from '../../shared-core/contract/service-api.js';
 import { formatDate } from '../scenario/format.js';
@@ -182,42 +183,47 @@ export function CoveragePicture({
       </div>
       <details>
         <summary>The figures behind the picture</summary>
-        <table className="grid">
-          <thead>
-            <tr>
-              <th scope="col">Asset</th>
-              <th scope="col" className="num">
-                Prices
-              </th>
-              <th scope="col" className="num">
-                First
-              </th>
-              <th scope="col" className="num">
-                Last
-              </th>
-              <th scope="col">Gaps (weekdays without a price)</th>
-            </tr>
-          </thead>
-          <tbody>
-            {coverage.assets.map((a) => (
-              <tr key={a.asset}>
-                <td className="code">{a.asset}</td>
-                <td className="num">{a.observations.toLocaleString()}</td>
-                <td className="num">{a.firstDate ? formatDate(a.firstDate) : '\u2013'}</td>
-                <td className="num">{a.lastDate ? formatDate(a.lastDate) : '\u2013'}</td>
-                <td>
-                  {a.gaps.length === 0
-                    ? isSparse(a)
-                      ? 'none; priced monthly'
-                      : 'none'
-                    : a.gaps
-                        .map((g) => `${formatDate(g.after)} to ${formatDate(g.before)} (${g.missingWeekdays})`)
-                        .join('; ')}
-                </td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <DataTable
+          rows={coverage.assets}
+          rowKey={(a) => a.asset}
+          empty="No asset in this universe."
+          columns={[
+            { key: 'asset', head: 'Asset', className: 'code', sortBy: (a) => a.asset, cell: (a) => a.asset },
+            {
+              key: 'prices',
+              head: 'Prices',
+              num: true,
+              sortBy: (a) => a.observations,
+              cell: (a) => a.observations.toLocaleString(),
+            },
+            {
+              key: 'first',
+              head: 'First',
+              num: true,
+              sortBy: (a) => a.firstDate ?? '',
+              cell: (a) => (a.firstDate ? formatDate(a.firstDate) : '\u2013'),
+            },
+            {
+              key: 'last',
+              head: 'Last',
+              num: true,
+              sortBy: (a) => a.lastDate ?? '',
+              cell: (a) => (a.lastDate ? formatDate(a.lastDate) : '\u2013'),
+            },
+            {
+              key: 'gaps',
+              head: 'Gaps (weekdays without a price)',
+              cell: (a) =>
+                a.gaps.length === 0
+                  ? isSparse(a)
+                    ? 'none; priced monthly'
+                    : 'none'
+                  : a.gaps
+                      .map((g) => `${formatDate(g.after)} to ${formatDate(g.before)} (${g.missingWeekdays})`)
+                      .join('; '),
+            },
+          ]}
+        />
       </details>
     </figure>
   );

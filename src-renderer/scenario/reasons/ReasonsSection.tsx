@@ -1,3 +1,4 @@
+import { DataTable } from '../../app/DataTable.js';
 import { memo, type ReactNode } from 'react';
 import type { CandidateResult } from '../../../shared-core/optimise/result.js';
 import { candidateColour } from '../../../shared-core/present/palette.js';
@@ -77,61 +78,57 @@ function Reasons({ candidate, locale }: { candidate: CandidateResult; locale?: s
       <div className="reason-columns">
         <div>
           <h3>What each limit costs</h3>
-          {ex.binding.length === 0 ? (
-            <p className="faint">No limit binds: loosening any of them would not change {candidate.id}.</p>
-          ) : (
-            <table className="grid">
-              <caption>Binding limits of {candidate.id} and their shadow prices</caption>
-              <thead>
-                <tr>
-                  <th scope="col">Limit</th>
-                  <th scope="col" className="num">
-                    Shadow price
-                  </th>
-                  <th scope="col">In words</th>
-                </tr>
-              </thead>
-              <tbody>
-                {ex.binding.map((b, i) => (
-                  <tr key={i}>
-                    <th scope="row">{b.constraint}</th>
-                    <td className="num">
-                      {b.shadowPrice.toPrecision(3)} <span className="faint">{b.objectiveUnit}</span>
-                    </td>
-                    <td>{b.text}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          )}
+          <DataTable
+            caption={`Binding limits of ${candidate.id} and their shadow prices`}
+            rows={ex.binding}
+            rowKey={(b, i) => `${i}-${b.constraint}`}
+            empty={`No limit binds: loosening any of them would not change ${candidate.id}.`}
+            columns={[
+              { key: 'limit', head: 'Limit', rowHead: true, cell: (b) => b.constraint },
+              {
+                key: 'price',
+                head: 'Shadow price',
+                num: true,
+                sortBy: (b) => b.shadowPrice,
+                cell: (b) => (
+                  <>
+                    {b.shadowPrice.toPrecision(3)} <span className="faint">{b.objectiveUnit}</span>
+                  </>
+                ),
+              },
+              { key: 'words', head: 'In words', cell: (b) => b.text },
+            ]}
+          />
         </div>
         <div>
           <h3>
             Why each asset is in ({held.length}) or out ({out.length})
           </h3>
-          <table className="grid">
-            <caption>Each asset of {candidate.id}, held assets first</caption>
-            <thead>
-              <tr>
-                <th scope="col">Asset</th>
-                <th scope="col" className="num">
-                  Weight
-                </th>
-                <th scope="col">Reason</th>
-              </tr>
-            </thead>
-            <tbody>
-              {[...held, ...out].map((a) => (
-                <tr key={a.asset} data-asset={a.asset}>
-                  <th scope="row" className="code">
-                    {a.asset}
-                  </th>
-                  <td className="num">{formatPercent(a.weight, locale)}</td>
-                  <td>{a.text}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
+          <DataTable
+            caption={`Each asset of ${candidate.id}, held assets first`}
+            rows={[...held, ...out]}
+            rowKey={(a) => a.asset}
+            rowProps={(a) => ({ 'data-asset': a.asset })}
+            empty="No asset."
+            columns={[
+              {
+                key: 'asset',
+                head: 'Asset',
+                rowHead: true,
+                className: 'code',
+                sortBy: (a) => a.asset,
+                cell: (a) => a.asset,
+              },
+              {
+                key: 'weight',
+                head: 'Weight',
+                num: true,
+                sortBy: (a) => a.weight,
+                cell: (a) => formatPercent(a.weight, locale),
+              },
+              { key: 'reason', head: 'Reason', cell: (a) => a.text },
+            ]}
+          />
         </div>
       </div>
     </div>
