@@ -35,8 +35,19 @@ export function screenPlan(m: LinearMandate, score: Float64Array) {
     n,
     Math.max(QP_TOLERANCES.screenInitial, Math.ceil(QP_TOLERANCES.screenPerCap / Math.max(minCap, 1e-3))),
   );
-  // Members of a band with a minimum stay in: the band needs them.
+  // A band with a minimum needs members that can fill it: its best-scored members until their
+  // caps reach screenPerCap times the minimum (all of them when they cannot). Keeping every
+  // member put a universe split into bands past screenShare, to be solved whole.
   const keep = new Set(order.slice(0, size));
-  for (const r of m.inequalities) if (r.kind === 'group-min') for (const i of r.row.idx) keep.add(i);
+  for (const r of m.inequalities) {
+    if (r.kind !== 'group-min') continue;
+    const members = [...r.row.idx].sort((a, b) => score[a] - score[b]);
+    let room = 0;
+    for (const i of members) {
+      if (room >= QP_TOLERANCES.screenPerCap * r.limit) break;
+      keep.add(i);
+      room += m.ub[i];
+    }
+  }
   return { candidates, keep: [...keep], order };
 }

@@ -4,6 +4,9 @@ import { rowDot } from '../../../shared-core/optimise/qp/kkt.js';
 import { ewmaCovariance } from '../../../shared-core/estimators/ewma.js';
 import { phaseOne, QP_TOLERANCES, solveQp, type QpProblem } from '../../../shared-core/optimise/qp/index.js';
 import { polish } from '../../../shared-core/optimise/qp/polish.js';
+import { directForm } from '../../../shared-core/optimise/formulate.js';
+import { buildMandate } from '../../../shared-core/optimise/mandate.js';
+import { screenPlan, screeningScore } from '../../../shared-core/optimise/screening.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { seededRng } from '../../../shared-core/stability/rng.js';
 import { solveWithQuadprog } from './quadprog-reference.js';
@@ -224,5 +227,42 @@ describe('screening (solve on a working set, test the rest, polish on the full p
     if (full.status !== 'optimal' || screen.status !== 'optimal') return;
     for (let i = 0; i < n; i++) expect(Math.abs(screen.solution.x[i] - full.solution.x[i])).toBeLessThan(1e-9);
     expect(screen.kktResidual).toBeLessThan(QP_TOLERANCES.optimality);
+  });
+});
+
+describe('screening under group bands with a minimum (screening.ts screenPlan)', () => {
+  it('starts from the best-scored members that can fill each band, not all of them, and reaches the full solve’s optimum', () => {
+    const n = 200;
+    const S = randomCovariance(n, 21, 3, 0, 1);
+    for (let i = 0; i < n; i++) {
+      for (let j = 0; j < n; j++) S.data[i * n + j] *= 0.0005;
+      S.data[i * n + i] += 0.02 + (0.06 * ((i * 7919) % 101)) / 101;
+    }
+    const assets = Array.from({ length: n }, (_, i) => `A${i}`);
+    for (const min of [0.15, 0.3]) {
+      const groups = Array.from({ length: 5 }, (_, g) => ({
+        name: `G${g + 1}`,
+        members: assets.slice(g * 40, (g + 1) * 40),
+        min: g === 0 ? min : 0.1,
+        max: 0.4,
+      }));
+      const m = buildMandate(
+        assets,
+        { longOnly: true, weightBounds: { default: [0, 0.025] }, groups },
+        undefined,
+        undefined,
+      );
+      const form = directForm(m, S);
+      const vols = Float64Array.from({ length: n }, (_, i) => Math.sqrt(S.data[i * n + i]));
+      const plan = screenPlan(m, screeningScore(S, vols, false)!)!;
+      expect(plan.keep.length).toBeLessThan(QP_TOLERANCES.screenShare * n);
+      const full = solveQp(form.qp);
+      const screened = solveQp(form.qp, { screen: plan });
+      expect(screened.status).toBe('optimal');
+      expect(screened.path).toBe('screened');
+      if (full.status !== 'optimal' || screened.status !== 'optimal') return;
+      for (let i = 0; i < n; i++) expect(Math.abs(screened.solution.x[i] - full.solution.x[i])).toBeLessThan(1e-9);
+      expect(screened.kktResidual).toBeLessThan(QP_TOLERANCES.optimality);
+    }
   });
 });
