@@ -50,7 +50,12 @@ export function DataTable<R>(props: {
           {columns.map((c) => {
             const sorted = sort?.key === c.key ? (sort.descending ? 'descending' : 'ascending') : undefined;
             return (
-              <th key={c.key} scope="col" className={cls(c)} aria-sort={c.sortBy ? (sorted ?? 'none') : undefined}>
+              <th
+                key={c.key}
+                scope="col"
+                className={c.num ? 'num' : undefined}
+                aria-sort={c.sortBy ? (sorted ?? 'none') : undefined}
+              >
                 {c.sortBy ? (
                   <button
                     type="button"
