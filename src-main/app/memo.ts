@@ -117,6 +117,16 @@ export async function memoFromFiles(
     throw new InputError('the memo needs the household name: none was given and no holdings document has one', {
       path: 'householdName',
     });
+  // The current weights are the holdings' when the scenario states none, as the store form fills
+  // them (stored-scenario.ts): the turnover and the trades then start from the same holdings.
+  let run = inputs;
+  if (holdings && holdings.positions.length > 0 && !scenario.current) {
+    const total = holdings.positions.reduce((sum, p) => sum + p.amount, 0);
+    if (!(total > 0))
+      throw new InputError('the holdings add up to no positive value', { file: holdings.file, path: 'positions' });
+    const current = Object.fromEntries(holdings.positions.map((p) => [p.asset, p.amount / total]));
+    run = { ...inputs, scenario: { ...scenario, current } };
+  }
   const span = (table: typeof prices) => ({ from: table.dates[0], to: table.dates[table.dates.length - 1] });
   const data: MemoData = {
     sources: [
@@ -128,7 +138,7 @@ export async function memoFromFiles(
     flags: [],
   };
   return memoInput(
-    inputs,
+    run,
     { name, ...(holdings ? { holdings: { asOf: holdings.asOf, positions: holdings.positions } } : {}) },
     { number: 1, hash: sha256Hex(canonicalJson(scenario)) },
     data,
