@@ -144,7 +144,7 @@ export async function runBacktest(
   const warnings: string[] = [];
   if (scenario.window?.years !== undefined)
     warnings.push(
-      "the scenario's years of data do not limit the walk-forward: each rebalance estimates on the walk-forward's own estimation window",
+      `the comparison's last ${scenario.window.years} year${scenario.window.years === 1 ? '' : 's'} of data do not apply to the walk-forward: each rebalance is estimated on the walk-forward's own window`,
     );
   const frequency = scenario.returns.frequency;
   const method = scenario.returns.method;

@@ -67,7 +67,8 @@ export function pairedBarsOption(rows: readonly BarRow[], fill: string): ECharts
       type: 'category',
       inverse: true,
       data: rows.map((r) => r.label),
-      axisLabel,
+      // Every asset named, never every other one (ECharts thins crowded labels by default).
+      axisLabel: { ...axisLabel, interval: 0 },
       axisTick: { show: false },
       axisLine: { lineStyle: { color: RULE } },
     },
@@ -166,7 +167,8 @@ export function bandsOption(rows: readonly BandRow[]): EChartsOption {
       type: 'category',
       inverse: true,
       data: rows.map((r) => r.label),
-      axisLabel,
+      // Every asset named, never every other one (ECharts thins crowded labels by default).
+      axisLabel: { ...axisLabel, interval: 0 },
       axisTick: { show: false },
       axisLine: { lineStyle: { color: RULE } },
     },
@@ -346,7 +348,8 @@ export function growthOption(dates: readonly string[], series: readonly GrowthSe
   const lo = base ** Math.floor(Math.log(Math.min(...all)) / Math.log(base));
   const hi = base ** Math.ceil(Math.log(Math.max(...all)) / Math.log(base));
   return {
-    grid: { left: 8, right: 16, top: 16, bottom: 8, containLabel: true },
+    // Room on the right for half of the last date, which sits centred under the last point.
+    grid: { left: 8, right: 28, top: 16, bottom: 8, containLabel: true },
     xAxis: {
       type: 'category',
       data: [...dates],

@@ -124,4 +124,4 @@ export interface MemoData {
 }
 
 /** Bumped whenever the layout changes, so the memo hash changes with it. */
-export const MEMO_LAYOUT_VERSION = 'holdfast-memo@2';
+export const MEMO_LAYOUT_VERSION = 'holdfast-memo@3';

@@ -77,7 +77,7 @@ export function memoHeadings(input: MemoInput): string[] {
 }
 
 /** Height of a bar chart with one bar per asset. */
-const barsHeight = (n: number) => Math.max(90, 18 + n * 12);
+const barsHeight = (n: number) => Math.max(100, 18 + n * 12);
 
 /**
  * Writes the allocation memo. A pure function of `input` (and the embedded font): the PDF's
@@ -398,7 +398,7 @@ function risk(w: PageWriter, v: MemoView, title: string): void {
       ? `Most correlated: ${v.name(assets[hi[0]])} and ${v.name(assets[hi[1]])} (${fmtCorr(hi[2])}); least: ${v.name(assets[lo[0]])} and ${v.name(assets[lo[1]])} (${fmtCorr(lo[2])})`
       : 'Correlations of the estimate used';
   // Square cells: the chart is as wide as its labels plus the cells plus the colour scale.
-  const cells = Math.min(300, 24 * assets.length);
+  const cells = Math.min(300, 20 * assets.length);
   const side = cells + 95;
   const width = Math.min(CONTENT_WIDTH, cells + 170);
   w.chart(
@@ -604,7 +604,9 @@ function candidates(w: PageWriter, v: MemoView, title: string): void {
   w.heading(title);
   const infeasible = all.filter((c) => c.status !== 'optimal');
   const lead = [
-    `${countOf(all.length, 'candidate')} ${all.length === 1 ? 'was' : 'were'} solved on the same data, one column each; the recommended one is marked. Assets no candidate holds are left out.`,
+    all.length === 1
+      ? 'One candidate was solved, the recommended one. Assets it does not hold are left out.'
+      : `${countOf(all.length, 'candidate')} were solved on the same data, one column each; the recommended one is marked. Assets no candidate holds are left out.`,
   ];
   if (infeasible.length)
     lead.push(
@@ -714,7 +716,7 @@ function walkForward(w: PageWriter, v: MemoView, title: string): void {
     w.chart(
       renderChartSvg(growthOption(wf.growth.dates, series), CONTENT_WIDTH, 150),
       150,
-      `Growth of 1 after costs: ${ends[0][0]} ends highest at ${formatFixed(ends[0][1], 2)}`,
+      `Growth of 1 after costs: ${ends[0][0]} ends ${series.length > 1 ? 'highest ' : ''}at ${formatFixed(ends[0][1], 2)}`,
       'Log scale; each line in the colour of its candidate\u2019s swatch in the table above. Past performance does not guarantee future results.',
     );
   }

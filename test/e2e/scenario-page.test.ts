@@ -195,6 +195,7 @@ describeInBrowser('scenario page in Chromium', () => {
       // Dates on screen are in the browser's locale (en-US here), never ISO.
       /From \(date\): no prices from Jan 1, 2030 to Jun 30, 2031; the prices of these assets run from [A-Z][a-z]{2} \d{1,2}, \d{4} to [A-Z][a-z]{2} \d{1,2}, \d{4}/,
     );
+    expect(problems).not.toMatch(/\d{4}-\d\d-\d\d/);
     expect(await weightsOnScreen(page)).toEqual(built);
     await app.screenshot('scenario-page-bad-window');
     // Undo three times: back to the last years of data, and the comparison is fresh again.

@@ -315,6 +315,10 @@ export const MemoSection = memo(function MemoSection(props: {
               ) : null}
             </span>
           </div>
+          <p className="faint" data-testid="memo-walkforward-note">
+            The walk-forward test and its stresses are printed when the revision has walk-forward settings: running the
+            test above keeps them in the draft, and saving puts them in the revision.
+          </p>
           <p id={`${id}-caution`} className="memo-caution" data-testid="memo-caution">
             <strong>The memo carries these cautions:</strong> {CAUTIONS.join(' ')}
           </p>

@@ -20,6 +20,9 @@ export function growthFinding(run: BacktestRun): string {
     dd: c.metrics.maxDrawdown.depth,
   }));
   if (ends.length === 0) return 'No candidate was walked forward';
+  // One candidate has no "highest": say where it ended and how far it fell.
+  if (ends.length === 1)
+    return `${ends[0].id}: 1 grew to ${ends[0].end.toFixed(2)}, and fell ${formatPercent(ends[0].dd, 'en-GB')} at worst`;
   const top = [...ends].sort((a, b) => b.end - a.end)[0];
   const calm = [...ends].sort((a, b) => a.dd - b.dd)[0];
   const first = `${top.id} ends highest (1 grew to ${top.end.toFixed(2)})`;
@@ -231,7 +234,7 @@ function MetricsTable({ run, caption, testId }: { run: BacktestRun; caption: str
           {run.candidates.map((c) => (
             <th key={c.id} scope="col" className="num">
               {c.id}
-              {c.id === run.reference ? ' (reference)' : ''}
+              {c.id === run.reference && run.candidates.length > 1 ? ' (reference)' : ''}
             </th>
           ))}
         </tr>
@@ -247,65 +250,70 @@ function MetricsTable({ run, caption, testId }: { run: BacktestRun; caption: str
             ))}
           </tr>
         ))}
-        <tr>
-          <th scope="row">Sharpe ratio minus the reference’s [95% interval]</th>
-          {run.candidates.map((c) => {
-            const k = against.get(c.id);
-            return (
-              <td key={c.id} className="num">
-                {k
-                  ? interval(
-                      k.a === c.id
-                        ? k.sharpeRatio
-                        : {
-                            ...k.sharpeRatio,
-                            difference: -k.sharpeRatio.difference,
-                            lower: -k.sharpeRatio.upper,
-                            upper: -k.sharpeRatio.lower,
-                          },
-                      false,
-                    )
-                  : '\u2013'}
-              </td>
-            );
-          })}
-        </tr>
-        <tr>
-          <th scope="row" title={run.comparisons.find((k) => k.hacTest)?.hacTest?.method}>
-            Same Sharpe ratio as the reference? p-value robust to volatility clustering (Ledoit-Wolf)
-          </th>
-          {run.candidates.map((c) => {
-            const hac = against.get(c.id)?.hacTest;
-            return (
-              <td key={c.id} className="num" data-hac-p={hac ? hac.pValue : undefined}>
-                {hac ? hac.pValue.toFixed(3) : '\u2013'}
-              </td>
-            );
-          })}
-        </tr>
-        <tr>
-          <th scope="row">Volatility minus the reference’s [95% interval]</th>
-          {run.candidates.map((c) => {
-            const k = against.get(c.id);
-            return (
-              <td key={c.id} className="num">
-                {k
-                  ? interval(
-                      k.a === c.id
-                        ? k.volatility
-                        : {
-                            ...k.volatility,
-                            difference: -k.volatility.difference,
-                            lower: -k.volatility.upper,
-                            upper: -k.volatility.lower,
-                          },
-                      true,
-                    )
-                  : '\u2013'}
-              </td>
-            );
-          })}
-        </tr>
+        {/* Differences from the reference need a second candidate; one alone shows none. */}
+        {run.comparisons.length > 0 ? (
+          <>
+            <tr>
+              <th scope="row">Sharpe ratio minus the reference’s [95% interval]</th>
+              {run.candidates.map((c) => {
+                const k = against.get(c.id);
+                return (
+                  <td key={c.id} className="num">
+                    {k
+                      ? interval(
+                          k.a === c.id
+                            ? k.sharpeRatio
+                            : {
+                                ...k.sharpeRatio,
+                                difference: -k.sharpeRatio.difference,
+                                lower: -k.sharpeRatio.upper,
+                                upper: -k.sharpeRatio.lower,
+                              },
+                          false,
+                        )
+                      : '\u2013'}
+                  </td>
+                );
+              })}
+            </tr>
+            <tr>
+              <th scope="row" title={run.comparisons.find((k) => k.hacTest)?.hacTest?.method}>
+                Same Sharpe ratio as the reference? p-value robust to volatility clustering (Ledoit-Wolf)
+              </th>
+              {run.candidates.map((c) => {
+                const hac = against.get(c.id)?.hacTest;
+                return (
+                  <td key={c.id} className="num" data-hac-p={hac ? hac.pValue : undefined}>
+                    {hac ? hac.pValue.toFixed(3) : '\u2013'}
+                  </td>
+                );
+              })}
+            </tr>
+            <tr>
+              <th scope="row">Volatility minus the reference’s [95% interval]</th>
+              {run.candidates.map((c) => {
+                const k = against.get(c.id);
+                return (
+                  <td key={c.id} className="num">
+                    {k
+                      ? interval(
+                          k.a === c.id
+                            ? k.volatility
+                            : {
+                                ...k.volatility,
+                                difference: -k.volatility.difference,
+                                lower: -k.volatility.upper,
+                                upper: -k.volatility.lower,
+                              },
+                          true,
+                        )
+                      : '\u2013'}
+                  </td>
+                );
+              })}
+            </tr>
+          </>
+        ) : null}
       </tbody>
     </table>
   );
