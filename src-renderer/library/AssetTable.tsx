@@ -5,6 +5,7 @@ import { api } from '../bridge.js';
 import { errorText } from '../app/notes.js';
 import { href } from '../app/route.js';
 import { formatDate } from '../scenario/format.js';
+import { assetClassWords } from '../../shared-core/scenario/asset-class.js';
 
 const LIQUIDITY_WORDS: Record<(typeof liquidityTags)[number], string> = {
   daily: 'daily dealing',
@@ -82,7 +83,7 @@ export function AssetTable({
                   </a>
                 </td>
                 <td>{a.name}</td>
-                <td>{a.assetClass || <span className="faint">untagged</span>}</td>
+                <td>{a.assetClass ? assetClassWords(a.assetClass) : <span className="faint">untagged</span>}</td>
                 <td>{a.region || <span className="faint">untagged</span>}</td>
                 <td className="code">{a.currency ?? <span className="flag">unset</span>}</td>
                 <td style={{ whiteSpace: 'nowrap' }}>

@@ -6,6 +6,7 @@ import { weightsFromHoldings } from '../trade-list.js';
 import { messagesAt, type FieldMessage } from '../validate-draft.js';
 import type { BriefProps, Bound } from './brief-props.js';
 import { FieldNote, PercentField } from './fields.js';
+import { assetClassWords } from '../../../shared-core/scenario/asset-class.js';
 
 /** The messages a row shows, as one string, so a row re-renders only when its own change. */
 function messageKey(messages: readonly FieldMessage[], asset: string): string {
@@ -57,7 +58,7 @@ const AssetRow = memo(
         <th scope="row">
           <span className="code">{a}</span> <span className="faint">{props.name}</span>
         </th>
-        <td>{props.assetClass}</td>
+        <td>{assetClassWords(props.assetClass)}</td>
         <td>{props.liquidity}</td>
         <td className="num">
           <PercentField
