@@ -253,29 +253,12 @@ function MetricsTable({ run, caption, testId }: { run: BacktestRun; caption: str
         {/* Differences from the reference need a second candidate; one alone shows none. */}
         {run.comparisons.length > 0 ? (
           <>
-            <tr>
-              <th scope="row">Sharpe ratio minus the reference’s [95% interval]</th>
-              {run.candidates.map((c) => {
-                const k = against.get(c.id);
-                return (
-                  <td key={c.id} className="num">
-                    {k
-                      ? interval(
-                          k.a === c.id
-                            ? k.sharpeRatio
-                            : {
-                                ...k.sharpeRatio,
-                                difference: -k.sharpeRatio.difference,
-                                lower: -k.sharpeRatio.upper,
-                                upper: -k.sharpeRatio.lower,
-                              },
-                          false,
-                        )
-                      : '\u2013'}
-                  </td>
-                );
-              })}
-            </tr>
+            <DifferenceRow
+              label="Sharpe ratio minus the reference’s [95% interval]"
+              run={run}
+              against={against}
+              metric="sharpeRatio"
+            />
             <tr>
               <th scope="row" title={run.comparisons.find((k) => k.hacTest)?.hacTest?.method}>
                 Same Sharpe ratio as the reference? p-value robust to volatility clustering (Ledoit-Wolf)
@@ -289,33 +272,46 @@ function MetricsTable({ run, caption, testId }: { run: BacktestRun; caption: str
                 );
               })}
             </tr>
-            <tr>
-              <th scope="row">Volatility minus the reference’s [95% interval]</th>
-              {run.candidates.map((c) => {
-                const k = against.get(c.id);
-                return (
-                  <td key={c.id} className="num">
-                    {k
-                      ? interval(
-                          k.a === c.id
-                            ? k.volatility
-                            : {
-                                ...k.volatility,
-                                difference: -k.volatility.difference,
-                                lower: -k.volatility.upper,
-                                upper: -k.volatility.lower,
-                              },
-                          true,
-                        )
-                      : '\u2013'}
-                  </td>
-                );
-              })}
-            </tr>
+            <DifferenceRow
+              label="Volatility minus the reference’s [95% interval]"
+              run={run}
+              against={against}
+              metric="volatility"
+            />
           </>
         ) : null}
       </tbody>
     </table>
+  );
+}
+
+/** One difference from the reference per candidate, told from that candidate's side. */
+function DifferenceRow(props: {
+  label: string;
+  run: BacktestRun;
+  /** Each other candidate's comparison with the reference, by that candidate's id. */
+  against: ReadonlyMap<string, BacktestRun['comparisons'][number]>;
+  metric: 'sharpeRatio' | 'volatility';
+}) {
+  const { run, metric } = props;
+  return (
+    <tr>
+      <th scope="row">{props.label}</th>
+      {run.candidates.map((c) => {
+        const k = props.against.get(c.id);
+        const d = k?.[metric];
+        return (
+          <td key={c.id} className="num">
+            {k && d
+              ? interval(
+                  k.a === c.id ? d : { ...d, difference: -d.difference, lower: -d.upper, upper: -d.lower },
+                  metric === 'volatility',
+                )
+              : '\u2013'}
+          </td>
+        );
+      })}
+    </tr>
   );
 }
 
