@@ -1,5 +1,5 @@
 import { formatInputError, InputError } from '../errors.js';
-import { formatDay, formatPercent1, PLAIN } from './format.js';
+import { daysInLocale, formatPercent1, PLAIN } from './format.js';
 
 /**
  * A field of the scenario in the words of the editor: the label the advisor sees beside it, and
@@ -140,7 +140,7 @@ export function inFieldWords(
   if (/^Too small: expected (string|array) to have >=1/.test(message)) return `${the} cannot be empty`;
   if (message === 'lower bound above upper bound') return 'the lower bound is above the upper bound';
   // The core writes days in ISO 8601, as files do; a screen shows them in the reader's locale.
-  return options.inFile ? message : message.replace(/\b\d{4}-\d{2}-\d{2}\b/g, (day) => formatDay(day, options.locale));
+  return options.inFile ? message : daysInLocale(message, options.locale);
 }
 
 /** One line for a summary list: "Upper bound of GOLD: the upper bound must be at most 100 %". */

@@ -180,6 +180,11 @@ export function formatMoney(value: number, currency: string, decimals = 0, notat
  * day never shifts with the time zone. Screens show dates so; files and the memo keep ISO 8601.
  * Text that is not an ISO day is returned as it is.
  */
+/** The ISO 8601 days inside a sentence of the core's, in the reader's locale: screens only. */
+export function daysInLocale(text: string, locale: string | undefined): string {
+  return text.replace(/\b\d{4}-\d{2}-\d{2}\b/g, (day) => formatDay(day, locale));
+}
+
 export function formatDay(iso: string, locale: string | undefined): string {
   const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(iso);
   if (!match) return iso;

@@ -88,6 +88,10 @@ describeInBrowser('scenario page in Chromium', () => {
 
   it('opens on the demo scenario with its candidates side by side', async () => {
     expect((await columns(page)).length).toBe(6);
+    // The notes about the data say their days in the reader's locale, as the rest of the page.
+    const notes = await page.locator('.data-warnings').innerText();
+    expect(notes).toContain('HF-MACRO starts on Jan 31, 2018, after the window start Dec 31, 2017');
+    expect(notes).not.toMatch(/\d{4}-\d\d-\d\d/);
     await app.screenshot('scenario-page-demo');
   });
 

@@ -9,6 +9,7 @@ import { RiskContributionChart, sortByTarget, WeightsChart } from '../../charts/
 import { sameNumberRecord, sameNumbers, sameRows, sameStrings, useStable } from '../../charts/use-stable.js';
 import type { Comparison, EstimateView } from '../../worker/comparison.js';
 import { describeEstimator } from '../candidate-grid.js';
+import { daysInLocale } from '../../../shared-core/present/format.js';
 import { formatDate } from '../format.js';
 import { CandidateTable, solved } from './CandidateTable.js';
 import { currentFigures } from './current-figures.js';
@@ -172,7 +173,7 @@ export const AnswerSection = memo(function AnswerSection(props: AnswerProps) {
           <strong>About the data:</strong>
           <ul>
             {props.comparison.window.warnings.map((w, k) => (
-              <li key={k}>{w}</li>
+              <li key={k}>{daysInLocale(w, props.locale)}</li>
             ))}
           </ul>
         </div>

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../../shared-core/errors.js';
 import { describeField, fieldWords, formatFieldError } from '../../../shared-core/present/field-words.js';
-import { formatDay } from '../../../shared-core/present/format.js';
+import { daysInLocale, formatDay } from '../../../shared-core/present/format.js';
 import { parseScenario } from '../../../shared-core/scenario/schema.js';
 import { showValue } from '../../../src-renderer/scenario/document-diff.js';
 
@@ -61,5 +61,17 @@ describe('a field of the scenario in its own words', () => {
     expect(formatFieldError(new InputError(message, { file: 's.json', path: 'backtest.from' }))).toBe(
       `s.json: backtest.from: ${message}`,
     );
+  });
+});
+
+describe('days inside a sentence of the core', () => {
+  it("are shown in the reader's locale on screens, every one of them", () => {
+    expect(
+      daysInLocale(
+        'HF-LS starts on 2018-01-31, after the window start 2017-12-31: the common window starts there',
+        'en-US',
+      ),
+    ).toBe('HF-LS starts on Jan 31, 2018, after the window start Dec 31, 2017: the common window starts there');
+    expect(daysInLocale('no date here, 20180131 stays', 'en-US')).toBe('no date here, 20180131 stays');
   });
 });
