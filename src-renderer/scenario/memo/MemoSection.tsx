@@ -246,7 +246,7 @@ export const MemoSection = memo(function MemoSection(props: {
                 {!lot.ok ? lot.reason : reasonFor('lot')}
               </div>
             </div>
-            <div className="field">
+            <div className="field memo-candidate">
               <label htmlFor={`${id}-recommended`}>Candidate the memo recommends</label>
               <select
                 id={`${id}-recommended`}
