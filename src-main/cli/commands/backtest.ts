@@ -7,6 +7,7 @@ import { EXIT, UsageError, type CliIO, type OptionValues } from '../command.js';
 import { scenarioOptions } from '../scenario-options.js';
 import { textTable } from '../text-table.js';
 import { exitCodeOf } from './solve.js';
+import { formatFixed, formatPct, PLAIN } from '../../../shared-core/present/format.js';
 
 /**
  * `holdfast backtest`: every candidate of a scenario walked forward over a price file, with
@@ -68,10 +69,11 @@ function progressPrinter(io: CliIO, candidates: number) {
   };
 }
 
+// The memo's and the screens' formatter (present/format.ts), so a figure reads the same everywhere.
 const pct = (v: number | null | undefined, digits = 1): string =>
-  v === null || v === undefined || !Number.isFinite(v) ? 'n/a' : `${(v * 100).toFixed(digits)}%`;
+  v === null || v === undefined || !Number.isFinite(v) ? 'n/a' : formatPct(v, PLAIN, digits);
 const num = (v: number | null | undefined, digits = 2): string =>
-  v === null || v === undefined || !Number.isFinite(v) ? 'n/a' : v.toFixed(digits);
+  v === null || v === undefined || !Number.isFinite(v) ? 'n/a' : formatFixed(v, digits);
 
 function report(run: BacktestRun): string {
   const s = run.settings;

@@ -1,4 +1,5 @@
 import { isSolved, type CandidateResult } from '../../../shared-core/optimise/result.js';
+import { formatFixed, formatPct } from '../../../shared-core/present/format.js';
 import type { ScenarioRun } from '../../../shared-core/run/run-scenario.js';
 import { CancelledError } from '../../../shared-core/stability/cancel.js';
 import { runScenarioInputs } from '../../app/run-scenario.js';
@@ -30,7 +31,8 @@ export function solveJson(run: ScenarioRun): string {
   );
 }
 
-const pct = (v: number) => `${(v * 100).toFixed(1)}%`.padStart(7);
+// The memo's and the screens' formatter (present/format.ts), so a weight reads the same everywhere.
+const pct = (v: number) => formatPct(v).padStart(7);
 
 export function solveTable(run: ScenarioRun): string {
   const lines: string[] = [];
@@ -41,7 +43,7 @@ export function solveTable(run: ScenarioRun): string {
     if (isSolved(c)) {
       const m = c.metrics;
       lines.push(
-        `  volatility ${pct(m.volatility).trim()}, diversification ratio ${m.diversificationRatio.toFixed(3)}, effective bets ${m.effectiveBets.toFixed(2)}, effective holdings ${m.effectiveHoldings.toFixed(2)}, turnover ${pct(m.turnover).trim()}`,
+        `  volatility ${pct(m.volatility).trim()}, diversification ratio ${formatFixed(m.diversificationRatio, 3)}, effective bets ${formatFixed(m.effectiveBets, 2)}, effective holdings ${formatFixed(m.effectiveHoldings, 2)}, turnover ${pct(m.turnover).trim()}`,
       );
       for (const a of c.explanations?.assets ?? [])
         if (Math.abs(a.weight) > 5e-4) lines.push(`  ${a.asset.padEnd(14)}${pct(a.weight)}  ${a.text}`);
