@@ -31,6 +31,7 @@ const SHARED_CORE_LAYERS = [
  * layer may import shared-core.
  */
 const SRC_MAIN_LAYERS = [
+  { name: 'threads', members: ['threads'] },
   { name: 'the store', members: ['store'] },
   { name: 'files', members: ['io'] },
   { name: "the memo's pages", members: ['memo'] },

@@ -1,3 +1,4 @@
+import { inTwoShares, kernelTeam, sharedArray } from './kernel-team.js';
 import { zeros, type Matrix } from './matrix.js';
 
 /**
@@ -8,27 +9,57 @@ import { zeros, type Matrix } from './matrix.js';
  * sixteen local accumulators (register blocking: eight loads feed sixteen multiply-adds).
  * Periods are taken 512 at a time so a pass's panels stay in cache. Of the 2 x 4, 3 x 4 and
  * 4 x 4 blocks measured on this machine, 4 x 4 was fastest. Only the lower triangle is
- * computed (N(N+1)/2 T multiply-adds) and then mirrored.
+ * computed (N(N+1)/2 T multiply-adds) and then mirrored. With a kernel team (kernel-team.ts) the
+ * row panels split in two shares of equal work, each block summed as on one thread.
  */
 export function crossProduct(x: Matrix): Matrix {
   const t = x.rows;
   const n = x.cols;
-  const out = zeros(n, n);
-  // X packed once: its column panels serve as the row panels too (both are PANEL wide).
-  const packed = packPanels(x, PANEL);
   const panels = Math.ceil(n / PANEL);
+  const team = n * n * t < MIN_SHARED_WORK ? null : kernelTeam();
+  // X packed once: its column panels serve as the row panels too (both are PANEL wide).
+  const packed = sharedArray(team, panels * PANEL * t);
+  packPanels(x, PANEL, packed);
+  const out = sharedArray(team, n * n);
+  // Row panel I has I + 1 blocks: the first `split` panels hold half of the blocks.
+  const split = team ? Math.round(panels * Math.SQRT1_2) : panels;
+  inTwoShares(
+    team,
+    { kernel: CROSS_PRODUCT_SHARE, buffers: [packed, out], ints: [t, n, split, panels] },
+    () => crossProductPanels(packed, out, t, n, 0, split),
+    () => crossProductPanels(packed, out, t, n, split, panels),
+  );
+  mirrorLower(out, n);
+  return { rows: n, cols: n, data: out };
+}
+
+/** The kernel team's name for a share of the cross product (see crossProductShare). */
+export const CROSS_PRODUCT_SHARE = 'cross-product';
+
+/**
+ * Below N^2 T = 2^29 (N = 650 at T = 1260) the product stays on one thread: in a fresh process
+ * the second thread's share ran at half speed at N = 500 (its kernels not yet optimised, the
+ * garbage collector's threads on the same cores), and the hand-over saved nothing.
+ */
+const MIN_SHARED_WORK = 1 << 29;
+
+/** The helper's share: buffers [packed, out], ints [t, n, fromPanel, toPanel]. */
+export function crossProductShare(buffers: readonly Float64Array[], ints: readonly number[]): void {
+  crossProductPanels(buffers[0], buffers[1], ints[0], ints[1], ints[2], ints[3]);
+}
+
+/** The lower triangle's blocks of row panels [from, to) into `out`, periods PERIODS_PER_PASS at a time. */
+function crossProductPanels(packed: Float64Array, out: Float64Array, t: number, n: number, from: number, to: number) {
   for (let k0 = 0; k0 < t; k0 += PERIODS_PER_PASS) {
     const k1 = Math.min(t, k0 + PERIODS_PER_PASS);
-    for (let I = 0; I < panels; I++) {
+    for (let I = from; I < to; I++) {
       const i0 = I * PANEL;
       const iLast = Math.min(i0 + PANEL, n) - 1;
       const colPanels = Math.floor(iLast / PANEL) + 1;
       for (let J = 0; J < colPanels; J++)
-        block(packed, I * t * PANEL, J * t * PANEL, k0, k1, out.data, n, i0, J * PANEL, iLast);
+        block(packed, I * t * PANEL, J * t * PANEL, k0, k1, out, n, i0, J * PANEL, iLast);
     }
   }
-  mirrorLower(out.data, n);
-  return out;
 }
 
 /** Rows and columns per panel of the kernel (4 x 4 blocks), and the periods per pass (the panels of one pass stay in cache). */
@@ -147,16 +178,14 @@ function add(
   if (j0 + 3 <= i) out[o + 3] += v3;
 }
 
-/** Every column of X as panels of `width` columns, each stored period by period; zero padded. */
-function packPanels(x: Matrix, width: number): Float64Array {
+/** Every column of X as panels of `width` columns, each stored period by period, into zeroed `p`. */
+function packPanels(x: Matrix, width: number, p: Float64Array): void {
   const t = x.rows;
   const n = x.cols;
   const d = x.data;
-  const p = new Float64Array(Math.ceil(n / width) * width * t);
   // Row by row, so X is read in memory order.
   for (let k = 0; k < t; k++) {
     const row = k * n;
     for (let col = 0; col < n; col++) p[((col / width) | 0) * width * t + k * width + (col % width)] = d[row + col];
   }
-  return p;
 }

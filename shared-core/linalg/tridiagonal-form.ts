@@ -1,3 +1,4 @@
+import { inTwoShares, kernelTeam, sharedArray } from './kernel-team.js';
 import type { Matrix } from './matrix.js';
 
 /**
@@ -33,19 +34,21 @@ function passSplit(m: number): number {
  * from row i - 1, which is updated first. Each pass sums its two column ranges [0, passSplit(m))
  * and [passSplit(m), m) into accumulators of their own, added in a fixed order: that order is the
  * one every published figure (the command line's outputs, the fixtures) was computed in, so a
- * change to it would move their last digits. Only the upper triangle of `m` is read.
+ * change to it would move their last digits. Only the upper triangle of `m` is read. With a kernel
+ * team (kernel-team.ts) the second range is the helper thread's share of each pass.
  */
 export function tridiagonalForm(m: Matrix): TridiagonalForm {
   const n = m.rows;
   if (m.cols !== n) throw new RangeError(`expected a square matrix, got ${m.rows} x ${m.cols}`);
   // A[k][j] (k >= j) lives in w[j * n + k]: column j of the lower triangle is contiguous. It is
   // row j of the upper triangle of the symmetric input, so each column is one contiguous copy.
-  const w = new Float64Array(n * n);
+  const team = n > MIN_SHARED_PASS ? kernelTeam() : null;
+  const w = sharedArray(team, n * n);
   for (let j = 0; j < n; j++) w.set(m.data.subarray(j * n + j, j * n + n), j * n + j);
-  const u = new Float64Array(n);
-  const q = new Float64Array(n);
-  const v = new Float64Array(n);
-  const p2 = new Float64Array(n); // A v over the second column range of a pass
+  const u = sharedArray(team, n);
+  const q = sharedArray(team, n);
+  const v = sharedArray(team, n);
+  const p2 = sharedArray(team, n); // A v over the second column range of a pass
   const d = new Float64Array(n);
   const e = new Float64Array(n);
   const halfNorms = new Float64Array(n);
@@ -99,14 +102,43 @@ export function tridiagonalForm(m: Matrix): TridiagonalForm {
     }
     const split = passSplit(last);
     p.fill(0, 0, last);
-    p2.fill(0, 0, last);
-    fusedColumns(w, n, last, 0, split, u, q, v, p);
-    fusedColumns(w, n, last, split, last, u, q, v, p2);
+    const mine = () => fusedColumns(w, n, last, 0, split, u, q, v, p);
+    const theirs = () => passShare([w, u, q, v, p2], [n, last, split]);
+    if (last < MIN_SHARED_PASS) {
+      mine();
+      theirs();
+    } else
+      inTwoShares(
+        team,
+        { kernel: TRIDIAGONAL_PASS_SHARE, buffers: [w, u, q, v, p2], ints: [n, last, split] },
+        mine,
+        theirs,
+      );
     for (let k = split; k < last; k++) p[k] += p2[k];
     ready = true;
   }
   for (let j = 0; j < n; j++) d[j] = w[j * n + j];
   return { n, diagonal: d, offDiagonal: e, reflectors: w, halfNorms };
+}
+
+/** The kernel team's name for the second column range of a pass (see passShare). */
+export const TRIDIAGONAL_PASS_SHARE = 'tridiagonal-pass';
+
+/**
+ * Passes over fewer columns than this stay on one thread: a pass of m columns is about m^2 / 2
+ * multiply-adds, and below m = 512 the hand-over and the wake-up cost a tenth of its time or more.
+ */
+const MIN_SHARED_PASS = 512;
+
+/**
+ * A pass's second column range [split, m) into p2 (zeroed first): buffers [w, u, q, v, p2], ints
+ * [n, m, split].
+ */
+export function passShare(buffers: readonly Float64Array[], ints: readonly number[]): void {
+  const [w, u, q, v, p2] = buffers;
+  const [n, m, split] = ints;
+  p2.fill(0, 0, m);
+  fusedColumns(w, n, m, split, m, u, q, v, p2);
 }
 
 /**

@@ -12,6 +12,7 @@
  * again when it reaches code it had not run yet (measured on Node 20: the N = 500 bench's first
  * solve). The sums are the same, in the same order, as in one function.
  */
+import { inTwoShares, kernelTeam, type KernelTeam } from '../../linalg/kernel-team.js';
 import { maxAbs, subtractDot } from './kernels.js';
 
 /** a[rj + j] - sum_k a[rj + k]^2 over k < j, with two partial sums (even and odd k). */
@@ -122,10 +123,68 @@ function oneRowOfTwoColumns(
  * Node 20: two columns and two rows against one column were 1.27x as fast at n = 1500 and 1.22x
  * at n = 600; four rows against two, 1.20x (n = 300), 1.24x (600) and 1.20x (1500), with the
  * same sums in the same order (the same factor, bit for bit). Six rows were no faster than four.
+ *
+ * The columns go in blocks of CHOLESKY_BLOCK: the block's own rows first, then every row below
+ * it across the whole block. Each entry is still the same sum in the same order (a row's entries
+ * in a block need only its earlier entries and the block's pivot rows), so the factor is the one
+ * column pair at a time gives, bit for bit; but the rows below a block are independent of one
+ * another, and with a kernel team (linalg/kernel-team.ts) the helper thread takes half of them.
  */
 export function choleskyInPlace(a: Float64Array, n: number): boolean {
-  let j = 0;
-  for (; j + 1 < n; j += 2) {
+  const team = n >= MIN_SHARED_ORDER ? kernelTeam() : null;
+  if (!team) return choleskyBlocks(a, n, null);
+  const shared = team.shared(n * n);
+  shared.set(a.subarray(0, n * n));
+  const factored = choleskyBlocks(shared, n, team);
+  a.set(shared);
+  return factored;
+}
+
+/** Columns per block: 32 keeps a block's pivot rows (32 x n) in the second-level cache to n = 4000. */
+const CHOLESKY_BLOCK = 32;
+
+/**
+ * Below this order the factor stays on one thread: at n = 501 (the bench's N = 500 problems
+ * solved whole) the second thread's start cost as much as its shares saved over a solve.
+ */
+const MIN_SHARED_ORDER = 640;
+
+/** Below this many multiply-adds a block's rows below stay on one thread: the hand-over costs more. */
+const MIN_SHARED_ROWS_WORK = 1 << 18;
+
+/** The kernel team's name for a share of the rows below a block (see choleskyRowsShare). */
+export const CHOLESKY_ROWS_SHARE = 'cholesky-rows';
+
+/** The helper's share: buffers [a], ints [n, first column, end column, first row, end row]. */
+export function choleskyRowsShare(buffers: readonly Float64Array[], ints: readonly number[]): void {
+  rowsBelowBlock(buffers[0], ints[0], ints[1], ints[2], ints[3], ints[4]);
+}
+
+/** With a team, `a` is on its shared memory and the rows below a block may be split. */
+function choleskyBlocks(a: Float64Array, n: number, team: KernelTeam | null): boolean {
+  for (let j0 = 0; j0 < n; j0 += CHOLESKY_BLOCK) {
+    const j1 = Math.min(n, j0 + CHOLESKY_BLOCK);
+    if (!diagonalBlock(a, n, j0, j1)) return false;
+    const rows = n - j1;
+    if (rows === 0) break;
+    // Split on a multiple of four rows, so each share keeps the four-row kernel.
+    const mid = j1 + 4 * Math.floor(rows / 8);
+    if (!team || rows * (j1 - j0) * j1 < MIN_SHARED_ROWS_WORK) rowsBelowBlock(a, n, j0, j1, j1, n);
+    else
+      inTwoShares(
+        team,
+        { kernel: CHOLESKY_ROWS_SHARE, buffers: [a], ints: [n, j0, j1, j1, mid] },
+        () => rowsBelowBlock(a, n, j0, j1, mid, n),
+        () => rowsBelowBlock(a, n, j0, j1, j1, mid),
+      );
+  }
+  return true;
+}
+
+/** Columns [j0, j1) of L on rows [j0, j1): the block's pivots, two columns at a time. */
+function diagonalBlock(a: Float64Array, n: number, j0: number, j1: number): boolean {
+  let j = j0;
+  for (; j + 1 < j1; j += 2) {
     const rj = j * n;
     const d = pivotSquare(a, rj, j);
     if (!(d > 0) || !Number.isFinite(d)) return false;
@@ -139,16 +198,36 @@ export function choleskyInPlace(a: Float64Array, n: number): boolean {
     const l11 = Math.sqrt(d1);
     a[r1 + j + 1] = l11;
     let i = j + 2;
-    for (; i + 3 < n; i += 4) fourRowsOfTwoColumns(a, i * n, rj, j, n, ljj, l1j, l11);
-    for (; i < n; i++) oneRowOfTwoColumns(a, i * n, rj, j, n, ljj, l1j, l11);
+    for (; i + 3 < j1; i += 4) fourRowsOfTwoColumns(a, i * n, rj, j, n, ljj, l1j, l11);
+    for (; i < j1; i++) oneRowOfTwoColumns(a, i * n, rj, j, n, ljj, l1j, l11);
   }
-  if (j < n) {
+  if (j < j1) {
+    // The last column of an odd order: its pivot alone (no row below it).
     const rj = j * n;
     const d = pivotSquare(a, rj, j);
     if (!(d > 0) || !Number.isFinite(d)) return false;
     a[rj + j] = Math.sqrt(d);
   }
   return true;
+}
+
+/** Columns [j0, j1) of L (j1 - j0 even) on rows [r0, r1), below the block. */
+function rowsBelowBlock(a: Float64Array, n: number, j0: number, j1: number, r0: number, r1: number): void {
+  let i = r0;
+  for (; i + 3 < r1; i += 4) {
+    const ri = i * n;
+    for (let j = j0; j + 1 < j1; j += 2) {
+      const rj = j * n;
+      fourRowsOfTwoColumns(a, ri, rj, j, n, a[rj + j], a[rj + n + j], a[rj + n + j + 1]);
+    }
+  }
+  for (; i < r1; i++) {
+    const ri = i * n;
+    for (let j = j0; j + 1 < j1; j += 2) {
+      const rj = j * n;
+      oneRowOfTwoColumns(a, ri, rj, j, n, a[rj + j], a[rj + n + j], a[rj + n + j + 1]);
+    }
+  }
 }
 
 /** b[i] - sum_k l[k n + i] b[k] over k in (i, n): column i of L below the diagonal. */

@@ -1,9 +1,10 @@
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, readdirSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { csvOf, inventedPrices } from '../../../bench/solve-universes.js';
 import { runCliInProcess } from '../../support/run-cli-in-process.js';
 
 /**
@@ -59,6 +60,32 @@ describe.runIf(built)('the bundled command line (dist/src-main/cli/main.js)', ()
     const b = await inProcess(argv);
     expect(a.stderr).toBe(b.stderr);
     expect(a.code).toBe(b.code);
+    expect(withoutTimes(a.stdout)).toBe(withoutTimes(b.stdout));
+  });
+
+  it('solves a universe large enough for the second thread (N = 700) to the same JSON as the sources', async () => {
+    // The bundle's kernels split X'X, the eigen reduction and the Cholesky factors with a worker
+    // thread above their thresholds (shared-core/linalg/kernel-team.ts); the sources in-process
+    // have no team. The answers must agree bit for bit, so the JSON text does.
+    const table = inventedPrices(700, 700_003, 'most-held');
+    writeFileSync(join(dir, 'wide-prices.csv'), csvOf(table));
+    writeFileSync(
+      join(dir, 'wide-scenario.json'),
+      JSON.stringify({
+        format: 'holdfast-scenario@1',
+        name: 'Wide universe',
+        baseCurrency: 'EUR',
+        constraints: { longOnly: true, weightBounds: { default: [0, 0.002] } },
+        candidates: [
+          { id: 'wide', estimator: { method: 'ledoit-wolf' }, objective: { method: 'max-diversification' } },
+        ],
+      }),
+    );
+    const argv = ['solve', '--prices', 'wide-prices.csv', '--scenario', 'wide-scenario.json', '--json'];
+    const a = spawned(argv);
+    const b = await inProcess(argv);
+    expect(a.stderr).toBe(b.stderr);
+    expect(a.code).toBe(0);
     expect(withoutTimes(a.stdout)).toBe(withoutTimes(b.stdout));
   });
 

@@ -1,0 +1,48 @@
+import { receiveMessageOnPort, workerData, type MessagePort } from 'node:worker_threads';
+import { CONTROL, KERNELS, SHARES, SPIN, WARM_UP } from './kernel-protocol.js';
+
+/**
+ * The kernel helper thread (kernel-team.ts): waits for a job on the control block, makes its
+ * share, posts the job's number back. It never returns to its event loop, so buffers arrive by
+ * reading the port directly.
+ */
+const { control, port } = workerData as { control: Int32Array; port: MessagePort };
+const shares = KERNELS.map((name) => SHARES[name]);
+const ints: number[] = new Array<number>(CONTROL.size - CONTROL.ints).fill(0);
+let buffers: readonly Float64Array[] = [];
+let seen = 0;
+warmUp();
+Atomics.store(control, CONTROL.ready, 1);
+Atomics.notify(control, CONTROL.ready);
+for (;;) {
+  let job = Atomics.load(control, CONTROL.job);
+  for (let spin = 0; spin < SPIN && job === seen; spin++) job = Atomics.load(control, CONTROL.job);
+  while (job === seen) {
+    Atomics.wait(control, CONTROL.job, seen);
+    job = Atomics.load(control, CONTROL.job);
+  }
+  seen = job;
+  try {
+    if (Atomics.load(control, CONTROL.bind) === job) {
+      let message = receiveMessageOnPort(port);
+      while (!message || (message.message as { sequence: number }).sequence !== job)
+        message = receiveMessageOnPort(port);
+      buffers = (message.message as { buffers: Float64Array[] }).buffers;
+    }
+    for (let k = 0; k < ints.length; k++) ints[k] = Atomics.load(control, CONTROL.ints + k);
+    shares[Atomics.load(control, CONTROL.kernel)](buffers, ints);
+  } catch {
+    Atomics.store(control, CONTROL.failed, job);
+  }
+  Atomics.store(control, CONTROL.done, job);
+  Atomics.notify(control, CONTROL.done);
+}
+
+/**
+ * Each share once on a small problem before the helper says it is ready: V8 then optimises the
+ * kernels with their types known, while the command is still reading its files, instead of
+ * running the first real share in the interpreter while the other thread waits for it.
+ */
+function warmUp(): void {
+  for (const name of KERNELS) for (let round = 0; round < 3; round++) SHARES[name](...WARM_UP[name]());
+}

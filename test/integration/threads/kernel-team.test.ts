@@ -1,0 +1,124 @@
+import { existsSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
+/**
+ * The command line's second thread for the dense kernels (src-main/threads/, shared-core/linalg/
+ * kernel-team.ts). A worker thread runs built JavaScript, so this runs on dist/ after a build, as
+ * `npm test` does: the built kernels with the team installed against the same kernels without it.
+ * The specification: the same answer bit for bit, whichever thread makes a share.
+ */
+const dist = fileURLToPath(new URL('../../../dist/', import.meta.url));
+const built = existsSync(`${dist}src-main/threads/kernel-worker.js`);
+
+type Matrix = { rows: number; cols: number; data: Float64Array };
+interface Modules {
+  team: typeof import('../../../shared-core/linalg/kernel-team.js');
+  threads: typeof import('../../../src-main/threads/kernel-team.js');
+  cross: typeof import('../../../shared-core/linalg/cross-product.js');
+  tridiagonal: typeof import('../../../shared-core/linalg/tridiagonal-form.js');
+  factor: typeof import('../../../shared-core/optimise/qp/dense-factor.js');
+}
+let m: Modules;
+
+/** A T x N matrix of arbitrary values from a small linear congruential generator (seeded). */
+function randomMatrix(rows: number, cols: number, seed: number): Matrix {
+  let s = seed >>> 0;
+  const data = new Float64Array(rows * cols);
+  for (let k = 0; k < data.length; k++) {
+    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+    data[k] = s / 2 ** 32 - 0.5;
+  }
+  return { rows, cols, data };
+}
+
+/** Jobs the helper thread took in the last `withAndWithout`: the team was really used. */
+let taken = 0;
+
+/** Runs `f` once without a team and once with one; both answers. */
+function withAndWithout<T>(f: () => T): { alone: T; shared: T } {
+  m.team.installKernelTeam(null);
+  const alone = f();
+  const team = m.threads.kernelTeamOfTwo()!;
+  taken = 0;
+  m.team.installKernelTeam({
+    shared: (length) => team.shared(length),
+    fork: (job) => {
+      const forked = team.fork(job);
+      if (forked) taken++;
+      return forked;
+    },
+    join: () => team.join(),
+  });
+  try {
+    return { alone, shared: f() };
+  } finally {
+    m.team.installKernelTeam(null);
+  }
+}
+
+const sameBits = (a: Float64Array, b: Float64Array) => a.length === b.length && a.every((v, k) => Object.is(v, b[k]));
+
+describe.runIf(built)('the dense kernels on two threads', () => {
+  beforeAll(async () => {
+    m = {
+      team: await import(`${dist}shared-core/linalg/kernel-team.js`),
+      threads: await import(`${dist}src-main/threads/kernel-team.js`),
+      cross: await import(`${dist}shared-core/linalg/cross-product.js`),
+      tridiagonal: await import(`${dist}shared-core/linalg/tridiagonal-form.js`),
+      factor: await import(`${dist}shared-core/optimise/qp/dense-factor.js`),
+    };
+  });
+  afterAll(() => m?.team.installKernelTeam(null));
+
+  it("makes the cross product X'X bit for bit as one thread does (N = 760, T = 1000)", () => {
+    const x = randomMatrix(1000, 760, 11);
+    const { alone, shared } = withAndWithout(() => m.cross.crossProduct(x));
+    expect(sameBits(alone.data, shared.data)).toBe(true);
+    expect(taken).toBe(1);
+    // And it is X'X: one entry against its defining sum.
+    let s = 0;
+    for (let k = 0; k < 1000; k++) s += x.data[k * 760 + 3] * x.data[k * 760 + 700];
+    expect(shared.data[3 * 760 + 700]).toBeCloseTo(s, 10);
+  });
+
+  it('reduces a symmetric matrix to the same tridiagonal form and reflectors (N = 640)', () => {
+    const c = m.cross.crossProduct(randomMatrix(700, 640, 12));
+    const { alone, shared } = withAndWithout(() => m.tridiagonal.tridiagonalForm(c));
+    expect(sameBits(alone.diagonal, shared.diagonal)).toBe(true);
+    expect(sameBits(alone.offDiagonal, shared.offDiagonal)).toBe(true);
+    expect(sameBits(alone.reflectors, shared.reflectors)).toBe(true);
+    expect(taken).toBeGreaterThan(100); // every pass over 512 columns or more
+  });
+
+  it('factors the same Cholesky factor, and refuses the same indefinite matrix (n = 701)', () => {
+    const n = 701;
+    const a = m.cross.crossProduct(randomMatrix(900, n, 13)).data;
+    for (let i = 0; i < n; i++) a[i * n + i] += 1e-3;
+    const { alone, shared } = withAndWithout(() => {
+      const f = Float64Array.from(a);
+      return { ok: m.factor.choleskyInPlace(f, n), f };
+    });
+    expect(alone.ok).toBe(true);
+    expect(shared.ok).toBe(true);
+    expect(sameBits(alone.f, shared.f)).toBe(true);
+    expect(taken).toBeGreaterThan(10); // the rows below most of the 22 blocks
+    // L L' = A on an entry far below the first block: the factor is a factor.
+    let s = 0;
+    for (let k = 0; k <= 650; k++) s += shared.f[690 * n + k] * shared.f[650 * n + k];
+    expect(s).toBeCloseTo(a[690 * n + 650], 9);
+    const indefinite = Float64Array.from(a);
+    indefinite[600 * n + 600] = -1;
+    const refused = withAndWithout(() => m.factor.choleskyInPlace(Float64Array.from(indefinite), n));
+    expect(refused).toEqual({ alone: false, shared: false });
+  });
+
+  it('refuses a job whose buffers are not shared, and names the problem', () => {
+    const team = m.threads.kernelTeamOfTwo();
+    expect(team).not.toBeNull();
+    expect(() => team!.fork({ kernel: 'cross-product', buffers: [new Float64Array(4)], ints: [] })).toThrow(
+      /not shared/,
+    );
+    expect(() => team!.fork({ kernel: 'no-such-share', buffers: [], ints: [] })).toThrow(/no share named/);
+  });
+});
