@@ -41,7 +41,7 @@ export function phaseOne(p: QpProblem, shouldCancel?: CancelCheck): PhaseOneResu
   ub.set(p.ub);
   const out = interiorPoint(
     { P, q, A, b: p.b, G, h: p.h, lb, ub },
-    { tolerance: 1e-10, maxIterations: QP_TOLERANCES.maxIterations, shouldCancel },
+    { tolerance: 1e-10, maxIterations: QP_TOLERANCES.maxIterations, shouldCancel, middleStart: true },
   );
   const x = out.solution.x;
   let violation = 0;

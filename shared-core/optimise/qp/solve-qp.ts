@@ -14,7 +14,7 @@
 import { allFinite, zeros } from '../../linalg/matrix.js';
 import type { CancelCheck } from '../../stability/cancel.js';
 import { nowMs } from '../clock.js';
-import { interiorPoint } from './interior-point.js';
+import { interiorPoint, startInteriorPoint } from './interior-point.js';
 import { addGatheredDot, gatherInto } from './kernels.js';
 import { kktResidual } from './kkt.js';
 import { phaseOne } from './phase-one.js';
@@ -330,29 +330,28 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
     if (pol) return done(pol, iterations, 'warm-start');
   }
 
-  const first = interiorPoint(p, {
-    tolerance: QP_TOLERANCES.interiorPointHandover,
-    detectInfeasibility: true,
-    shouldCancel: options.shouldCancel,
-  });
-  iterations += first.iterations;
-  if (first.status === 'converged') {
-    const pol = polished(identify(first));
-    if (pol) return done(pol, iterations, 'interior-point+polish');
-    const second = interiorPoint(p, {
-      tolerance: QP_TOLERANCES.interiorPointFinal,
-      shouldCancel: options.shouldCancel,
-    });
-    iterations += second.iterations;
-    const pol2 = polished(identify(second));
-    if (pol2) return done(pol2, iterations, 'interior-point+polish');
-    const solution = lift(second.solution);
+  // Hand over to polishing at a modest residual; when polishing cannot confirm the active set
+  // identified, the same interior point resumes to a residual 100 times smaller (not a new one
+  // from the start) and polishing tries again.
+  const ip = startInteriorPoint(p, { detectInfeasibility: true, shouldCancel: options.shouldCancel });
+  let tolerance: number = QP_TOLERANCES.interiorPointHandover;
+  let out = ip.run(tolerance);
+  while (out.status === 'converged') {
+    const pol = polished(identify(out));
+    if (pol) return done(pol, iterations + out.iterations, 'interior-point+polish');
+    if (tolerance <= QP_TOLERANCES.interiorPointFinal) break;
+    tolerance = Math.max(tolerance * QP_TOLERANCES.interiorPointResume, QP_TOLERANCES.interiorPointFinal);
+    out = ip.run(tolerance, false);
+  }
+  iterations += out.iterations;
+  if (out.status === 'converged' || tolerance < QP_TOLERANCES.interiorPointHandover) {
+    const solution = lift(out.solution);
     const residual = kktResidual(problem, solution);
-    if (second.status === 'converged' && residual <= QP_TOLERANCES.optimality)
+    if (out.status === 'converged' && residual <= QP_TOLERANCES.optimality)
       return {
         status: 'optimal',
         solution,
-        warmStart: liftWarm(identify(second)),
+        warmStart: liftWarm(identify(out)),
         iterations,
         kktResidual: residual,
         ms: ms(),
@@ -376,7 +375,7 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
       path: 'interior-point',
     };
   }
-  if (first.status === 'stalled-infeasible') {
+  if (out.status === 'stalled-infeasible') {
     // Phase one found a feasible point: the stall was slow progress, not infeasibility.
     const again = interiorPoint(p, {
       tolerance: QP_TOLERANCES.interiorPointHandover,
@@ -397,7 +396,7 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
       path: 'interior-point',
     };
   }
-  if (first.status === 'breakdown')
+  if (out.status === 'breakdown')
     return {
       status: 'error',
       reason: 'the linear systems of the interior point became singular',
@@ -406,7 +405,7 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
       ms: ms(),
       path: 'interior-point',
     };
-  const solution = lift(first.solution);
+  const solution = lift(out.solution);
   return {
     status: 'iteration-limit',
     solution,

@@ -4,6 +4,7 @@ import { rowDot } from '../../../shared-core/optimise/qp/kkt.js';
 import { ewmaCovariance } from '../../../shared-core/estimators/ewma.js';
 import { phaseOne, QP_TOLERANCES, solveQp, type QpProblem } from '../../../shared-core/optimise/qp/index.js';
 import { polish } from '../../../shared-core/optimise/qp/polish.js';
+import { interiorPoint, startInteriorPoint } from '../../../shared-core/optimise/qp/interior-point.js';
 import { directForm } from '../../../shared-core/optimise/formulate.js';
 import { buildMandate } from '../../../shared-core/optimise/mandate.js';
 import { screenPlan, screeningScore } from '../../../shared-core/optimise/screening.js';
@@ -116,6 +117,26 @@ describe('dense convex QP solver', () => {
       expect(r.solution.x[0]).toBeCloseTo(2 / 3, 14);
       expect(r.solution.x[1]).toBeCloseTo(1 / 3, 14);
       expect(r.solution.y[0]).toBeCloseTo(-2 / 3, 14);
+    }
+  });
+
+  it('an interior point resumed to a tighter residual is the one run to it at once, iterate for iterate', () => {
+    // What solve-qp.ts relies on when polishing fails at the handover: resuming costs only the
+    // iterations still missing, and lands where an uninterrupted run lands.
+    for (const seed of [3, 8, 21]) {
+      const p = randomQp(40, seed, { groups: 2, linear: true });
+      const once = interiorPoint(p, { tolerance: 1e-11 });
+      const run = startInteriorPoint(p, {});
+      const early = run.run(1e-6);
+      const resumed = run.run(1e-11);
+      expect(early.status).toBe('converged');
+      expect(early.iterations).toBeLessThan(resumed.iterations);
+      expect(resumed.status).toBe(once.status);
+      expect(resumed.iterations).toBe(once.iterations);
+      expect(Array.from(resumed.solution.x)).toEqual(Array.from(once.solution.x));
+      // The first outcome is a copy: resuming did not move it.
+      expect(early.residual).toBeGreaterThan(1e-11);
+      expect(Array.from(early.solution.x)).not.toEqual(Array.from(resumed.solution.x));
     }
   });
 
