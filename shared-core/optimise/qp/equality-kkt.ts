@@ -69,7 +69,12 @@ function augmentedHessian(e: EqualityKkt, D: Float64Array): Float64Array {
   return H;
 }
 
-function factor(e: EqualityKkt): Factor | null {
+/**
+ * With `independent`, a system that would need a ridge is refused instead ('dependent'): H not
+ * positive definite, or a row of S whose pivot falls below QP_TOLERANCES.independentRows of its
+ * diagonal entry (the row within rounding of the span of the rows before it).
+ */
+function factor(e: EqualityKkt, independent: boolean): Factor | null | 'dependent' {
   const k = e.free.length;
   const m = e.C.start.length - 1;
   let d = 0;
@@ -81,8 +86,9 @@ function factor(e: EqualityKkt): Factor | null {
     for (let t = e.C.start[j]; t < e.C.start[j + 1]; t++) norm2 += e.C.val[t] * e.C.val[t];
     D[j] = norm2 > 0 ? d / norm2 : 0;
   }
-  const L = factorWithRidge(augmentedHessian(e, D), k, d);
-  if (!L) return null;
+  const H = augmentedHessian(e, D);
+  const L = independent ? (choleskyInPlace(H, k) ? H : null) : factorWithRidge(H, k, d);
+  if (!L) return independent ? 'dependent' : null;
   const M: Float64Array[] = [];
   for (let j = 0; j < m; j++) {
     const col = new Float64Array(k);
@@ -91,14 +97,26 @@ function factor(e: EqualityKkt): Factor | null {
     M.push(col);
   }
   const S = new Float64Array(m * m);
+  const sDiag = new Float64Array(m);
   let sMax = 0;
   for (let a = 0; a < m; a++)
     for (let b = 0; b <= a; b++) {
       const v = -subtractDot(0, M[a], 0, M[b], 0, k);
       S[a * m + b] = v;
       S[b * m + a] = v;
-      if (a === b) sMax = Math.max(sMax, v);
+      if (a === b) {
+        sDiag[a] = v;
+        sMax = Math.max(sMax, v);
+      }
     }
+  if (independent) {
+    if (m > 0 && !choleskyInPlace(S, m)) return 'dependent';
+    for (let a = 0; a < m; a++) {
+      const pivot = S[a * m + a] * S[a * m + a];
+      if (!(pivot >= QP_TOLERANCES.independentRows * sDiag[a])) return 'dependent';
+    }
+    return { L, M, Sf: S, D };
+  }
   // Dependent rows (a degenerate active set) make S singular: a ridge picks one of the equal solutions.
   const Sf = m === 0 ? S : factorWithRidge(S, m, sMax || 1);
   if (!Sf) return null;
@@ -152,11 +170,28 @@ function residualOf(
  * (x, l) solving the system above, x in F's order followed by one multiplier per row; null when
  * it is singular beyond what a ridge can repair.
  */
-export function solveEqualityKkt(e: EqualityKkt, r: Float64Array, s: Float64Array): Float64Array | null {
+export function solveEqualityKkt(e: EqualityKkt, r: Float64Array, s: Float64Array): Float64Array | null;
+/**
+ * The same, but 'dependent' instead of a ridge where the rows are dependent (a degenerate active
+ * set, whose multipliers the system does not determine) or H is singular: for a caller with
+ * another way to solve such a system.
+ */
+export function solveEqualityKkt(
+  e: EqualityKkt,
+  r: Float64Array,
+  s: Float64Array,
+  rows: 'independent',
+): Float64Array | null | 'dependent';
+export function solveEqualityKkt(
+  e: EqualityKkt,
+  r: Float64Array,
+  s: Float64Array,
+  rows?: 'independent',
+): Float64Array | null | 'dependent' {
   const k = e.free.length;
   const m = s.length;
-  const f = factor(e);
-  if (!f) return null;
+  const f = factor(e, rows === 'independent');
+  if (!f || f === 'dependent') return f;
   const sol = new Float64Array(k + m);
   solveWith(e, f, r, s, sol);
   const rx = new Float64Array(k);

@@ -5,7 +5,7 @@
  * linear algebra (one Cholesky on the free variables, iterative refinement) is equality-kkt.ts.
  */
 import { allFinite } from '../../linalg/matrix.js';
-import { solveEqualityKktSubstituted } from './substitute-auxiliaries.js';
+import { solveEqualityKktSubstituted } from './substitute-two-entry-rows.js';
 import { addRowsTimes, packedRows, rowsTimes } from './kernels.js';
 import { kktResidual, symmetricTimes } from './kkt.js';
 import { QP_TOLERANCES, type QpProblem, type QpSolution, type QpWarmStart } from './types.js';

@@ -105,6 +105,13 @@ export const QP_TOLERANCES = {
   ridgeStart: 1e-14,
   /** Attempts with a growing ridge before a factorisation is given up. */
   ridgeAttempts: 8,
+  /**
+   * A row of polishing's Schur complement whose pivot is below this share of its diagonal entry
+   * (the squared sine of its angle to the rows before it) counts as dependent where a solve must
+   * know (substitute-two-entry-rows.ts). Dependent rows leave pivots at rounding level, about
+   * 1e-16 to 1e-13 relative; 1e-10 keeps a thousandfold margin above that.
+   */
+  independentRows: 1e-10,
   /** Active-set corrections polishing may make before it gives up. */
   polishRounds: 8,
   /** Iterative-refinement passes of a polishing solve. */

@@ -10,7 +10,7 @@ import { packedRows } from '../../../shared-core/optimise/qp/kernels.js';
 import { kktResidual } from '../../../shared-core/optimise/qp/kkt.js';
 import { solveQp, type QpProblem, type SparseRow } from '../../../shared-core/optimise/qp/index.js';
 import { seededRng } from '../../../shared-core/stability/rng.js';
-import { solveEqualityKktSubstituted } from '../../../shared-core/optimise/qp/substitute-auxiliaries.js';
+import { solveEqualityKktSubstituted } from '../../../shared-core/optimise/qp/substitute-two-entry-rows.js';
 import { randomCovariance } from './random-problems.js';
 
 /**

@@ -1,0 +1,350 @@
+/**
+ * Polishing's equality-constrained KKT system with variables substituted out on active rows of
+ * two entries, a x_t + b x_o = s: x_t = (s - b x_o) / a goes into the other rows and the
+ * objective, and the row and x_t leave the system. Two kinds of variable are substituted:
+ * - An auxiliary. Under a turnover limit most auxiliaries t_i = |x_i - c_i| sit on one of their
+ *   two link rows, t_i = (s - b x_i) / a is substituted into the other rows (the limit's sum among
+ *   them), and the system keeps the size of the problem without the limit (its Cholesky costs an
+ *   eighth, its Schur complement loses one row per asset). t_i has no curvature, so the objective
+ *   keeps its quadratic part; t_i's linear term moves onto x_i.
+ * - A variable tied to a hub: a variable v that many such rows share. The homogenised form's
+ *   binding cap y_i - cap kappa <= 0 (a floor likewise) is the equality y_i = cap kappa, and
+ *   with many caps binding the Cholesky and the Schur complement shrink by one each. y_i's
+ *   curvature folds into the hub's row and column: with e = -b / a, P_vv gains
+ *   2 e sum_i P_iv + e^2 sum_ij P_ij over the substituted set, P_Fv gains e sum_i P_Fi; y_i's
+ *   linear term moves onto v.
+ * The system solved is E'PE z + (CE)'l = E'(r - P g), CE z = s - C g, for x = E z + g (the
+ * substituted rows drop out, as CE is zero on them). Each substituted row's multiplier comes back
+ * from its variable's own stationarity: a l_r = r_t - (P x)_t - sum over t's other rows of their
+ * coefficient times multiplier (t is in no other substituted row). An exact elimination: the KKT
+ * conditions of the full problem are checked afterwards as always.
+ * An auxiliary here is tied to one variable with curvature (its asset) by all its rows: the
+ * homogenised form's scale, in every asset's rows, is left alone, and with it the choice among
+ * equal multipliers of a degenerate active set that the explanations have always made. The scale
+ * is never substituted as a hub's member either, and a hub's rows are substituted only where the
+ * active rows are independent (the reduced system factors without a ridge, equality-kkt.ts
+ * `independent`): a degenerate active set is solved as before, with the auxiliaries alone.
+ */
+import { solveEqualityKkt, type EqualityKkt } from './equality-kkt.js';
+import { addGatheredDot, gatherInto, type PackedRows } from './kernels.js';
+
+/** Which variables (positions in F) leave the system, each on its defining row. */
+export interface Substitution {
+  /** The defining row of each position, -1 where the variable stays. */
+  byRow: Int32Array;
+  /** The row's other variable, and the coefficients a (of the substituted one) and b (of the other). */
+  otherOf: Int32Array;
+  coefT: Float64Array;
+  coefOther: Float64Array;
+  usedRow: Uint8Array;
+  /** The substituted positions whose row of P is not zero. */
+  curved: number[];
+  /** Substituted by kind. */
+  auxiliaries: number;
+  hubMembers: number;
+}
+
+/** Positions of F whose row of P is zero (no curvature). */
+function flatPositions(e: EqualityKkt): Uint8Array {
+  const { P, n, free } = e;
+  const flat = new Uint8Array(free.length);
+  for (let a = 0; a < free.length; a++) {
+    let zero = true;
+    const off = free[a] * n;
+    for (let j = 0; j < n && zero; j++) zero = P[off + j] === 0;
+    flat[a] = zero ? 1 : 0;
+  }
+  return flat;
+}
+
+function emptySubstitution(k: number, m: number): Substitution {
+  return {
+    byRow: new Int32Array(k).fill(-1),
+    otherOf: new Int32Array(k).fill(-1),
+    coefT: new Float64Array(k),
+    coefOther: new Float64Array(k),
+    usedRow: new Uint8Array(m),
+    curved: [],
+    auxiliaries: 0,
+    hubMembers: 0,
+  };
+}
+
+function substitute(sub: Substitution, e: EqualityKkt, j: number, t: number, other: number, flat: Uint8Array): void {
+  const { C } = e;
+  sub.byRow[t] = j;
+  sub.usedRow[j] = 1;
+  sub.otherOf[t] = other;
+  for (let q = C.start[j]; q < C.start[j + 1]; q++)
+    if (C.col[q] === t) sub.coefT[t] = C.val[q];
+    else sub.coefOther[t] = C.val[q];
+  if (!flat[t]) sub.curved.push(t);
+}
+
+/** Auxiliaries: flat variables whose rows touch one variable with curvature, each on a two-entry row with it. */
+function auxiliaries(e: EqualityKkt, flat: Uint8Array, m: number): Substitution {
+  const { C } = e;
+  const k = e.free.length;
+  const eligible = Uint8Array.from(flat);
+  // The variables with curvature that each flat one's rows touch, in all.
+  const support: Set<number>[] = Array.from({ length: k }, () => new Set<number>());
+  for (let j = 0; j < m; j++)
+    for (let q = C.start[j]; q < C.start[j + 1]; q++)
+      if (eligible[C.col[q]])
+        for (let u = C.start[j]; u < C.start[j + 1]; u++) if (!eligible[C.col[u]]) support[C.col[q]].add(C.col[u]);
+  for (let a = 0; a < k; a++) if (support[a].size > 1) eligible[a] = 0;
+  const sub = emptySubstitution(k, m);
+  for (let j = 0; j < m; j++) {
+    if (C.start[j + 1] - C.start[j] !== 2) continue;
+    const u = C.col[C.start[j]];
+    const v = C.col[C.start[j] + 1];
+    const [t, other] = eligible[u] && !eligible[v] ? [u, v] : eligible[v] && !eligible[u] ? [v, u] : [-1, -1];
+    if (t < 0 || other < 0 || sub.byRow[t] >= 0) continue;
+    substitute(sub, e, j, t, other, flat);
+    sub.auxiliaries++;
+  }
+  return sub;
+}
+
+/**
+ * The auxiliaries' substitution with the hubs' members added: on each remaining two-entry row
+ * whose one variable is in no other such row and whose other is in several (the hub), the first
+ * leaves the system, unless an auxiliary leaves on it (no chains). Null when there is none.
+ */
+function withHubMembers(e: EqualityKkt, flat: Uint8Array, aux: Substitution, m: number): Substitution | null {
+  const { C } = e;
+  const k = e.free.length;
+  const isOther = new Uint8Array(k);
+  for (let a = 0; a < k; a++) if (aux.byRow[a] >= 0) isOther[aux.otherOf[a]] = 1;
+  const candidate = new Uint8Array(m);
+  const degree = new Int32Array(k);
+  for (let j = 0; j < m; j++) {
+    if (aux.usedRow[j] || C.start[j + 1] - C.start[j] !== 2) continue;
+    const q = C.start[j];
+    const [u, v] = [C.col[q], C.col[q + 1]];
+    if (u === v || C.val[q] === 0 || C.val[q + 1] === 0 || aux.byRow[u] >= 0 || aux.byRow[v] >= 0) continue;
+    candidate[j] = 1;
+    degree[u]++;
+    degree[v]++;
+  }
+  let sub: Substitution | null = null;
+  for (let j = 0; j < m; j++) {
+    if (!candidate[j]) continue;
+    const [u, v] = [C.col[C.start[j]], C.col[C.start[j] + 1]];
+    const [t, hub] = degree[u] === 1 && degree[v] > 1 ? [u, v] : degree[v] === 1 && degree[u] > 1 ? [v, u] : [-1, -1];
+    if (t < 0 || isOther[t]) continue;
+    sub ??= {
+      ...aux,
+      byRow: Int32Array.from(aux.byRow),
+      otherOf: Int32Array.from(aux.otherOf),
+      coefT: Float64Array.from(aux.coefT),
+      coefOther: Float64Array.from(aux.coefOther),
+      usedRow: Uint8Array.from(aux.usedRow),
+      curved: [...aux.curved],
+    };
+    substitute(sub, e, j, t, hub, flat);
+    sub.hubMembers++;
+  }
+  return sub;
+}
+
+/** The substitution polishing makes on this system (auxiliaries first, then the hubs' members). */
+export function substitutionOf(e: EqualityKkt): { auxiliaries: Substitution; all: Substitution | null } {
+  const m = e.C.start.length - 1;
+  const flat = flatPositions(e);
+  const aux = auxiliaries(e, flat, m);
+  return { auxiliaries: aux, all: withHubMembers(e, flat, aux, m) };
+}
+
+/**
+ * E'PE on the kept positions, for substituted variables with curvature: row f of PE is P's row on
+ * the kept columns plus e_t P_ft on the column of t's other; row o of E'PE then gains e_t (PE)_t.
+ */
+function reducedHessian(e: EqualityKkt, sub: Substitution, kept: number[], newPos: Int32Array): Float64Array {
+  const { P, n, free } = e;
+  const k = free.length;
+  const k2 = kept.length;
+  const keptFree = Int32Array.from(kept, (a) => free[a]);
+  const slope = Float64Array.from(sub.curved, (t) => -sub.coefOther[t] / sub.coefT[t]);
+  const column = Int32Array.from(sub.curved, (t) => newPos[sub.otherOf[t]]);
+  const curvedFree = Int32Array.from(sub.curved, (t) => free[t]);
+  const PE = new Float64Array(k * k2);
+  const row = (f: number): void => {
+    const off = free[f] * n;
+    const o = f * k2;
+    gatherInto(PE, o, P, off, keptFree);
+    for (let c = 0; c < curvedFree.length; c++) PE[o + column[c]] += slope[c] * P[off + curvedFree[c]];
+  };
+  for (const a of kept) row(a);
+  for (const t of sub.curved) row(t);
+  const Pr = new Float64Array(k2 * k2);
+  kept.forEach((a, aa) => Pr.set(PE.subarray(a * k2, (a + 1) * k2), aa * k2));
+  sub.curved.forEach((t, c) => {
+    const o = column[c] * k2;
+    const s = slope[c];
+    for (let b = 0; b < k2; b++) Pr[o + b] += s * PE[t * k2 + b];
+  });
+  return Pr;
+}
+
+/**
+ * A sum with its rounding error carried (Neumaier 1974, ZAMM 54): a hub's coefficient in a row
+ * gathers one term per member, and a plain sum's error, some hundred roundings, would show in
+ * the full problem's residual. Two terms give the plain sum's value.
+ */
+class Compensated {
+  private sum: number;
+  private carry = 0;
+  constructor(first: number) {
+    this.sum = first;
+  }
+  add(v: number): void {
+    const t = this.sum + v;
+    this.carry += Math.abs(this.sum) >= Math.abs(v) ? this.sum - t + v : v - t + this.sum;
+    this.sum = t;
+  }
+  value(): number {
+    return this.sum + this.carry;
+  }
+}
+
+/** The kept rows on the kept positions: a substituted x_t's coefficient c moves to its other as -c b / a. */
+function reducedRows(
+  e: EqualityKkt,
+  sub: Substitution,
+  rowsKept: readonly number[],
+  newPos: Int32Array,
+  k2: number,
+): PackedRows {
+  const { C } = e;
+  const { byRow, otherOf, coefT, coefOther } = sub;
+  const start = new Int32Array(rowsKept.length + 1);
+  const col: number[] = [];
+  const val: number[] = [];
+  const sums: (Compensated | undefined)[] = new Array<Compensated | undefined>(k2);
+  const touched: number[] = [];
+  rowsKept.forEach((j, jj) => {
+    const add = (at: number, v: number): void => {
+      const s = sums[at];
+      if (s) s.add(v);
+      else {
+        sums[at] = new Compensated(v);
+        touched.push(at);
+      }
+    };
+    for (let q = C.start[j]; q < C.start[j + 1]; q++) {
+      const a = C.col[q];
+      const c = C.val[q];
+      if (byRow[a] < 0) add(newPos[a], c);
+      else add(newPos[otherOf[a]], -(c * coefOther[a]) / coefT[a]);
+    }
+    touched.sort((x, y) => x - y);
+    for (const at of touched) {
+      col.push(at);
+      val.push(sums[at]!.value());
+      sums[at] = undefined;
+    }
+    touched.length = 0;
+    start[jj + 1] = col.length;
+  });
+  return { start, col: Int32Array.from(col), val: Float64Array.from(val) };
+}
+
+function solveSubstituted(
+  e: EqualityKkt,
+  r: Float64Array,
+  s: Float64Array,
+  sub: Substitution,
+  rows: 'ridge' | 'independent',
+): Float64Array | null | 'dependent' {
+  const { P, n, free, C } = e;
+  const k = free.length;
+  const m = s.length;
+  const { byRow, otherOf, coefT, coefOther, usedRow } = sub;
+  const newPos = new Int32Array(k).fill(-1);
+  const kept: number[] = [];
+  for (let a = 0; a < k; a++)
+    if (byRow[a] < 0) {
+      newPos[a] = kept.length;
+      kept.push(a);
+    }
+  const rowsKept: number[] = [];
+  for (let j = 0; j < m; j++) if (!usedRow[j]) rowsKept.push(j);
+  const C2 = reducedRows(e, sub, rowsKept, newPos, kept.length);
+  // s - C g on the kept rows.
+  const s2 = new Float64Array(rowsKept.length);
+  rowsKept.forEach((j, jj) => {
+    const rhs = new Compensated(s[j]);
+    for (let q = C.start[j]; q < C.start[j + 1]; q++) {
+      const a = C.col[q];
+      if (byRow[a] >= 0) rhs.add(-(C.val[q] * s[byRow[a]]) / coefT[a]);
+    }
+    s2[jj] = rhs.value();
+  });
+  // r - P g, g the substituted variables' constant parts s_r / a (P g is zero but for curvature).
+  let rg = r;
+  const g = new Float64Array(k);
+  for (const t of sub.curved) g[t] = s[byRow[t]] / coefT[t];
+  if (g.some((v) => v !== 0)) {
+    rg = Float64Array.from(r);
+    for (let a = 0; a < k; a++) rg[a] -= addGatheredDot(0, P, free[a] * n, free, g, k);
+  }
+  const r2 = new Float64Array(kept.length);
+  kept.forEach((a, aa) => (r2[aa] = rg[a]));
+  const gathered: (Compensated | undefined)[] = new Array<Compensated | undefined>(kept.length);
+  for (let a = 0; a < k; a++)
+    if (byRow[a] >= 0) {
+      const o = newPos[otherOf[a]];
+      (gathered[o] ??= new Compensated(r2[o])).add(-(rg[a] * coefOther[a]) / coefT[a]);
+    }
+  gathered.forEach((sum, o) => (r2[o] = sum!.value()));
+  // Without curvature among the substituted, E'PE is P on the kept variables: no copy.
+  const reducedSystem: EqualityKkt =
+    sub.curved.length === 0
+      ? { P, n, free: Int32Array.from(kept, (a) => free[a]), C: C2 }
+      : {
+          P: reducedHessian(e, sub, kept, newPos),
+          n: kept.length,
+          free: Int32Array.from(kept, (_, aa) => aa),
+          C: C2,
+        };
+  const reduced =
+    rows === 'independent' ? solveEqualityKkt(reducedSystem, r2, s2, rows) : solveEqualityKkt(reducedSystem, r2, s2);
+  if (!reduced || reduced === 'dependent') return reduced;
+
+  const k2 = kept.length;
+  const sol = new Float64Array(k + m);
+  kept.forEach((a, aa) => (sol[a] = reduced[aa]));
+  rowsKept.forEach((j, jj) => (sol[k + j] = reduced[k2 + jj]));
+  for (let a = 0; a < k; a++) {
+    const j = byRow[a];
+    if (j >= 0) sol[a] = (s[j] - coefOther[a] * sol[otherOf[a]]) / coefT[a];
+  }
+  // Each defining row's multiplier from its variable's stationarity: (P x)_t + sum_rows c l = r_t.
+  const other = new Float64Array(k);
+  for (let j = 0; j < m; j++) {
+    if (usedRow[j]) continue;
+    const l = sol[k + j];
+    if (l === 0) continue;
+    for (let q = C.start[j]; q < C.start[j + 1]; q++) if (byRow[C.col[q]] >= 0) other[C.col[q]] += C.val[q] * l;
+  }
+  const x = sol.subarray(0, k);
+  for (const t of sub.curved) other[t] += addGatheredDot(0, P, free[t] * n, free, x, k);
+  for (let a = 0; a < k; a++) {
+    const j = byRow[a];
+    if (j >= 0) sol[k + j] = (r[a] - other[a]) / coefT[a];
+  }
+  return sol;
+}
+
+/** (x, l) as solveEqualityKkt gives them, from the smaller system with the substitutions above. */
+export function solveEqualityKktSubstituted(e: EqualityKkt, r: Float64Array, s: Float64Array): Float64Array | null {
+  const { auxiliaries: aux, all } = substitutionOf(e);
+  if (all) {
+    const sol = solveSubstituted(e, r, s, all, 'independent');
+    if (sol !== 'dependent') return sol;
+  }
+  if (aux.auxiliaries === 0) return solveEqualityKkt(e, r, s);
+  const sol = solveSubstituted(e, r, s, aux, 'ridge');
+  return sol === 'dependent' ? null : sol;
+}
