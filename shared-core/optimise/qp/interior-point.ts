@@ -35,15 +35,13 @@ import {
   rowTimes,
   type PackedRows,
 } from './kernels.js';
-import { QP_TOLERANCES, type QpProblem, type QpSolution } from './types.js';
+import { QP_TOLERANCES, type QpProblem, type QpSolution, type QpWarmStart } from './types.js';
 
 export interface InteriorPointOutcome {
   status: 'converged' | 'iteration-limit' | 'breakdown' | 'stalled-infeasible';
   solution: QpSolution;
-  /** Primal slacks of G rows and bounds at the last iterate (for active-set identification). */
-  slackG: Float64Array;
-  slackL: Float64Array;
-  slackU: Float64Array;
+  /** The constraints the last iterate takes for active (activeSet), polishing's first guess. */
+  active: QpWarmStart;
   /** Iterations so far, over every run of a resumed interior point. */
   iterations: number;
   residual: number;
@@ -481,6 +479,29 @@ function leastSquaresStart(st: State): boolean {
 }
 
 /**
+ * Which inequality rows the iterate takes for active. With the iterate before the last step,
+ * the Tapia indicators (El-Bakry, Tapia and Zhang 1994, "A study of indicators for identifying
+ * zero variables in interior-point methods", SIAM Review 36): near a solution an active row's
+ * slack falls by a factor that tends to 0 while its multiplier's tends to 1, and the other way
+ * round for an inactive row, so a row is active when its slack fell by more than its multiplier,
+ * s / s_before < z / z_before. Before any step: z > s. The bench's N = 500 problems (seeds 1-2,
+ * handover at 1e-9) needed 1-3 polishing solves from the indicators against 1-4 from z > s,
+ * one solve on 12 of 14 problems: z > s kept weakly active bounds (slack 1e-5, multiplier 1e-6
+ * and both still falling) out of the first guess.
+ */
+function activeSet(
+  s: Float64Array,
+  z: Float64Array,
+  sBefore: Float64Array | null,
+  zBefore: Float64Array | null,
+): Uint8Array {
+  const out = new Uint8Array(s.length);
+  for (let r = 0; r < s.length; r++)
+    out[r] = (sBefore && zBefore ? s[r] * zBefore[r] < z[r] * sBefore[r] : z[r] > s[r]) ? 1 : 0;
+  return out;
+}
+
+/**
  * An interior point that can be resumed: `run(tolerance)` iterates from where the last call
  * stopped until the residual meets `tolerance` (or the iteration limit, a breakdown or a stall),
  * and returns the iterate. The solver hands over to polishing early and, when polishing's
@@ -515,6 +536,10 @@ export function startInteriorPoint(p: QpProblem, options: Omit<InteriorPointOpti
   for (const i of U) bScale = Math.max(bScale, 1 + Math.abs(p.ub[i]));
 
   const rc = new Float64Array(mTotal);
+  // The slacks and multipliers before the last step, for the indicators of activeSet.
+  const sBefore = new Float64Array(mTotal);
+  const zBefore = new Float64Array(mTotal);
+  let stepped = false;
   const aff = newDirection(n, st.me, mTotal);
   const cor = newDirection(n, st.me, mTotal);
   let it = 0;
@@ -586,6 +611,9 @@ export function startInteriorPoint(p: QpProblem, options: Omit<InteriorPointOpti
       // to 1 speeds the last iterations), between the two settings of QP_TOLERANCES.
       const tau = Math.min(QP_TOLERANCES.stepToBoundaryMost, Math.max(QP_TOLERANCES.stepToBoundary, 1 - residual));
       const alpha = mTotal > 0 ? Math.min(1, tau * stepOf(st, d)) : 1;
+      sBefore.set(s);
+      zBefore.set(z);
+      stepped = true;
       advance(st, d, alpha);
       st.factored = false;
       if (!allFinite(x)) {
@@ -600,24 +628,21 @@ export function startInteriorPoint(p: QpProblem, options: Omit<InteriorPointOpti
   const outcome = (): InteriorPointOutcome => {
     const zlFull = new Float64Array(n);
     const zuFull = new Float64Array(n);
-    const slackL = new Float64Array(n).fill(Infinity);
-    const slackU = new Float64Array(n).fill(Infinity);
-    for (let k = 0; k < L.length; k++) {
-      zlFull[L[k]] = z[mi + k];
-      slackL[L[k]] = s[mi + k];
-    }
-    for (let k = 0; k < U.length; k++) {
-      zuFull[U[k]] = z[mi + L.length + k];
-      slackU[U[k]] = s[mi + L.length + k];
-    }
+    for (let k = 0; k < L.length; k++) zlFull[L[k]] = z[mi + k];
+    for (let k = 0; k < U.length; k++) zuFull[U[k]] = z[mi + L.length + k];
+    const isActive = activeSet(s, z, stepped ? sBefore : null, stepped ? zBefore : null);
+    const activeRows: number[] = [];
+    const atLower: number[] = [];
+    const atUpper: number[] = [];
+    for (let r = 0; r < mi; r++) if (isActive[r]) activeRows.push(r);
+    for (let k = 0; k < L.length; k++) if (isActive[mi + k]) atLower.push(L[k]);
+    for (let k = 0; k < U.length; k++) if (isActive[mi + L.length + k]) atUpper.push(U[k]);
     let obj = 0;
     for (let i = 0; i < n; i++) obj += x[i] * (0.5 * addDot(0, p.P.data, i * n, x, n) + p.q[i]);
     return {
       status,
       solution: { x: x.slice(), y: y.slice(), z: z.slice(0, mi), zl: zlFull, zu: zuFull, objective: obj },
-      slackG: s.slice(0, mi),
-      slackL,
-      slackU,
+      active: { activeRows, atLower, atUpper },
       iterations: it,
       residual,
     };

@@ -217,19 +217,6 @@ function cutRows(rows: QpProblem['A'], rhs: Float64Array, pos: Int32Array, value
   return { rows: out, rhs: newRhs };
 }
 
-function identify(out: ReturnType<typeof interiorPoint>): QpWarmStart {
-  const { solution, slackG, slackL, slackU } = out;
-  const activeRows: number[] = [];
-  for (let r = 0; r < slackG.length; r++) if (solution.z[r] > slackG[r]) activeRows.push(r);
-  const atLower: number[] = [];
-  const atUpper: number[] = [];
-  for (let i = 0; i < solution.x.length; i++) {
-    if (solution.zl[i] > slackL[i]) atLower.push(i);
-    if (solution.zu[i] > slackU[i]) atUpper.push(i);
-  }
-  return { activeRows, atLower, atUpper };
-}
-
 export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpResult {
   const t0 = nowMs();
   const ms = () => nowMs() - t0;
@@ -337,7 +324,7 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
   let tolerance: number = QP_TOLERANCES.interiorPointHandover;
   let out = ip.run(tolerance);
   while (out.status === 'converged') {
-    const pol = polished(identify(out));
+    const pol = polished(out.active);
     if (pol) return done(pol, iterations + out.iterations, 'interior-point+polish');
     if (tolerance <= QP_TOLERANCES.interiorPointFinal) break;
     tolerance = Math.max(tolerance * QP_TOLERANCES.interiorPointResume, QP_TOLERANCES.interiorPointFinal);
@@ -351,7 +338,7 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
       return {
         status: 'optimal',
         solution,
-        warmStart: liftWarm(identify(out)),
+        warmStart: liftWarm(out.active),
         iterations,
         kktResidual: residual,
         ms: ms(),
@@ -383,7 +370,7 @@ export function solveQp(problem: QpProblem, options: SolveQpOptions = {}): QpRes
     });
     iterations += again.iterations;
     if (again.status === 'converged') {
-      const pol = polished(identify(again));
+      const pol = polished(again.active);
       if (pol) return done(pol, iterations, 'interior-point+polish');
     }
     const solution = lift(again.solution);
