@@ -166,34 +166,31 @@ function residualOf(
   return big;
 }
 
+/** A solve of the system, (x, l) for the right-hand side (rx, rs) into out, before refinement. */
+export type KktSolve = (rx: Float64Array, rs: Float64Array, out: Float64Array) => void;
+
 /**
- * (x, l) solving the system above, x in F's order followed by one multiplier per row; null when
- * it is singular beyond what a ridge can repair.
- */
-export function solveEqualityKkt(e: EqualityKkt, r: Float64Array, s: Float64Array): Float64Array | null;
-/**
- * The same, but 'dependent' instead of a ridge where the rows are dependent (a degenerate active
+ * The factorised system's solve; null when it is singular beyond what a ridge can repair. With
+ * `independent`, 'dependent' instead of a ridge where the rows are dependent (a degenerate active
  * set, whose multipliers the system does not determine) or H is singular: for a caller with
  * another way to solve such a system.
  */
-export function solveEqualityKkt(
-  e: EqualityKkt,
-  r: Float64Array,
-  s: Float64Array,
-  rows: 'independent',
-): Float64Array | null | 'dependent';
-export function solveEqualityKkt(
-  e: EqualityKkt,
-  r: Float64Array,
-  s: Float64Array,
-  rows?: 'independent',
-): Float64Array | null | 'dependent' {
-  const k = e.free.length;
-  const m = s.length;
+export function factorEqualityKkt(e: EqualityKkt, rows?: 'independent'): KktSolve | null | 'dependent' {
   const f = factor(e, rows === 'independent');
   if (!f || f === 'dependent') return f;
+  return (rx, rs, out) => solveWith(e, f, rx, rs, out);
+}
+
+/**
+ * (x, l) for (r, s) by iterative refinement on the system e: `solve` gives a first answer and
+ * then each correction from the residual (it may solve a smaller system that stands for e, as
+ * substitute-two-entry-rows.ts does), until the residual stops falling.
+ */
+export function refinedSolution(e: EqualityKkt, r: Float64Array, s: Float64Array, solve: KktSolve): Float64Array {
+  const k = e.free.length;
+  const m = s.length;
   const sol = new Float64Array(k + m);
-  solveWith(e, f, r, s, sol);
+  solve(r, s, sol);
   const rx = new Float64Array(k);
   const rs = new Float64Array(m);
   const d = new Float64Array(k + m);
@@ -207,8 +204,17 @@ export function solveEqualityKkt(
     }
     if (big === 0 || step === QP_TOLERANCES.refinementSteps) break;
     last = big;
-    solveWith(e, f, rx, rs, d);
+    solve(rx, rs, d);
     for (let a = 0; a < k + m; a++) sol[a] += d[a];
   }
   return sol;
+}
+
+/**
+ * (x, l) solving the system above, x in F's order followed by one multiplier per row; null when
+ * it is singular beyond what a ridge can repair.
+ */
+export function solveEqualityKkt(e: EqualityKkt, r: Float64Array, s: Float64Array): Float64Array | null {
+  const solve = factorEqualityKkt(e);
+  return solve && solve !== 'dependent' ? refinedSolution(e, r, s, solve) : null;
 }

@@ -25,7 +25,7 @@
  * active rows are independent (the reduced system factors without a ridge, equality-kkt.ts
  * `independent`): a degenerate active set is solved as before, with the auxiliaries alone.
  */
-import { solveEqualityKkt, type EqualityKkt } from './equality-kkt.js';
+import { factorEqualityKkt, refinedSolution, solveEqualityKkt, type EqualityKkt } from './equality-kkt.js';
 import { addGatheredDot, gatherInto, type PackedRows } from './kernels.js';
 
 /** Which variables (positions in F) leave the system, each on its defining row. */
@@ -250,16 +250,19 @@ function reducedRows(
   return { start, col: Int32Array.from(col), val: Float64Array.from(val) };
 }
 
-function solveSubstituted(
-  e: EqualityKkt,
-  r: Float64Array,
-  s: Float64Array,
-  sub: Substitution,
-  rows: 'ridge' | 'independent',
-): Float64Array | null | 'dependent' {
+/** The reduced system, and the maps of a right-hand side to it and of its solution back. */
+interface Reduced {
+  system: EqualityKkt;
+  /** (r, s) of the whole system to the reduced one's. */
+  toReduced(r: Float64Array, s: Float64Array): { r2: Float64Array; s2: Float64Array };
+  /** The reduced solution for (r, s) to the whole system's, x and then every row's multiplier. */
+  fromReduced(reduced: Float64Array, r: Float64Array, s: Float64Array): Float64Array;
+}
+
+function reducedSystem(e: EqualityKkt, sub: Substitution): Reduced {
   const { P, n, free, C } = e;
   const k = free.length;
-  const m = s.length;
+  const m = C.start.length - 1;
   const { byRow, otherOf, coefT, coefOther, usedRow } = sub;
   const newPos = new Int32Array(k).fill(-1);
   const kept: number[] = [];
@@ -268,83 +271,100 @@ function solveSubstituted(
       newPos[a] = kept.length;
       kept.push(a);
     }
+  const k2 = kept.length;
   const rowsKept: number[] = [];
   for (let j = 0; j < m; j++) if (!usedRow[j]) rowsKept.push(j);
-  const C2 = reducedRows(e, sub, rowsKept, newPos, kept.length);
-  // s - C g on the kept rows.
-  const s2 = new Float64Array(rowsKept.length);
-  rowsKept.forEach((j, jj) => {
-    const rhs = new Compensated(s[j]);
-    for (let q = C.start[j]; q < C.start[j + 1]; q++) {
-      const a = C.col[q];
-      if (byRow[a] >= 0) rhs.add(-(C.val[q] * s[byRow[a]]) / coefT[a]);
-    }
-    s2[jj] = rhs.value();
-  });
-  // r - P g, g the substituted variables' constant parts s_r / a (P g is zero but for curvature).
-  let rg = r;
-  const g = new Float64Array(k);
-  for (const t of sub.curved) g[t] = s[byRow[t]] / coefT[t];
-  if (g.some((v) => v !== 0)) {
-    rg = Float64Array.from(r);
-    for (let a = 0; a < k; a++) rg[a] -= addGatheredDot(0, P, free[a] * n, free, g, k);
-  }
-  const r2 = new Float64Array(kept.length);
-  kept.forEach((a, aa) => (r2[aa] = rg[a]));
-  const gathered: (Compensated | undefined)[] = new Array<Compensated | undefined>(kept.length);
-  for (let a = 0; a < k; a++)
-    if (byRow[a] >= 0) {
-      const o = newPos[otherOf[a]];
-      (gathered[o] ??= new Compensated(r2[o])).add(-(rg[a] * coefOther[a]) / coefT[a]);
-    }
-  gathered.forEach((sum, o) => (r2[o] = sum!.value()));
+  const C2 = reducedRows(e, sub, rowsKept, newPos, k2);
   // Without curvature among the substituted, E'PE is P on the kept variables: no copy.
-  const reducedSystem: EqualityKkt =
+  const system: EqualityKkt =
     sub.curved.length === 0
       ? { P, n, free: Int32Array.from(kept, (a) => free[a]), C: C2 }
-      : {
-          P: reducedHessian(e, sub, kept, newPos),
-          n: kept.length,
-          free: Int32Array.from(kept, (_, aa) => aa),
-          C: C2,
-        };
-  const reduced =
-    rows === 'independent' ? solveEqualityKkt(reducedSystem, r2, s2, rows) : solveEqualityKkt(reducedSystem, r2, s2);
-  if (!reduced || reduced === 'dependent') return reduced;
+      : { P: reducedHessian(e, sub, kept, newPos), n: k2, free: Int32Array.from(kept, (_, aa) => aa), C: C2 };
 
-  const k2 = kept.length;
-  const sol = new Float64Array(k + m);
-  kept.forEach((a, aa) => (sol[a] = reduced[aa]));
-  rowsKept.forEach((j, jj) => (sol[k + j] = reduced[k2 + jj]));
-  for (let a = 0; a < k; a++) {
-    const j = byRow[a];
-    if (j >= 0) sol[a] = (s[j] - coefOther[a] * sol[otherOf[a]]) / coefT[a];
-  }
-  // Each defining row's multiplier from its variable's stationarity: (P x)_t + sum_rows c l = r_t.
-  const other = new Float64Array(k);
-  for (let j = 0; j < m; j++) {
-    if (usedRow[j]) continue;
-    const l = sol[k + j];
-    if (l === 0) continue;
-    for (let q = C.start[j]; q < C.start[j + 1]; q++) if (byRow[C.col[q]] >= 0) other[C.col[q]] += C.val[q] * l;
-  }
-  const x = sol.subarray(0, k);
-  for (const t of sub.curved) other[t] += addGatheredDot(0, P, free[t] * n, free, x, k);
-  for (let a = 0; a < k; a++) {
-    const j = byRow[a];
-    if (j >= 0) sol[k + j] = (r[a] - other[a]) / coefT[a];
-  }
-  return sol;
+  const toReduced = (r: Float64Array, s: Float64Array) => {
+    // s - C g on the kept rows.
+    const s2 = new Float64Array(rowsKept.length);
+    rowsKept.forEach((j, jj) => {
+      const rhs = new Compensated(s[j]);
+      for (let q = C.start[j]; q < C.start[j + 1]; q++) {
+        const a = C.col[q];
+        if (byRow[a] >= 0) rhs.add(-(C.val[q] * s[byRow[a]]) / coefT[a]);
+      }
+      s2[jj] = rhs.value();
+    });
+    // E'(r - P g), g the substituted variables' constant parts s_r / a (P g is zero but for curvature).
+    let rg = r;
+    const g = new Float64Array(k);
+    for (const t of sub.curved) g[t] = s[byRow[t]] / coefT[t];
+    if (g.some((v) => v !== 0)) {
+      rg = Float64Array.from(r);
+      for (let a = 0; a < k; a++) rg[a] -= addGatheredDot(0, P, free[a] * n, free, g, k);
+    }
+    const r2 = new Float64Array(k2);
+    kept.forEach((a, aa) => (r2[aa] = rg[a]));
+    const gathered: (Compensated | undefined)[] = new Array<Compensated | undefined>(k2);
+    for (let a = 0; a < k; a++)
+      if (byRow[a] >= 0) {
+        const o = newPos[otherOf[a]];
+        (gathered[o] ??= new Compensated(r2[o])).add(-(rg[a] * coefOther[a]) / coefT[a]);
+      }
+    gathered.forEach((sum, o) => (r2[o] = sum!.value()));
+    return { r2, s2 };
+  };
+
+  const fromReduced = (reduced: Float64Array, r: Float64Array, s: Float64Array): Float64Array => {
+    const sol = new Float64Array(k + m);
+    kept.forEach((a, aa) => (sol[a] = reduced[aa]));
+    rowsKept.forEach((j, jj) => (sol[k + j] = reduced[k2 + jj]));
+    for (let a = 0; a < k; a++) {
+      const j = byRow[a];
+      if (j >= 0) sol[a] = (s[j] - coefOther[a] * sol[otherOf[a]]) / coefT[a];
+    }
+    // Each defining row's multiplier from its variable's stationarity: (P x)_t + sum_rows c l = r_t.
+    const other = new Float64Array(k);
+    for (let j = 0; j < m; j++) {
+      if (usedRow[j]) continue;
+      const l = sol[k + j];
+      if (l === 0) continue;
+      for (let q = C.start[j]; q < C.start[j + 1]; q++) if (byRow[C.col[q]] >= 0) other[C.col[q]] += C.val[q] * l;
+    }
+    const x = sol.subarray(0, k);
+    for (const t of sub.curved) other[t] += addGatheredDot(0, P, free[t] * n, free, x, k);
+    for (let a = 0; a < k; a++) {
+      const j = byRow[a];
+      if (j >= 0) sol[k + j] = (r[a] - other[a]) / coefT[a];
+    }
+    return sol;
+  };
+  return { system, toReduced, fromReduced };
 }
 
-/** (x, l) as solveEqualityKkt gives them, from the smaller system with the substitutions above. */
+/**
+ * (x, l) as solveEqualityKkt gives them, from the smaller system with the substitutions above.
+ * With the hubs' members substituted, iterative refinement runs on the whole system (its
+ * residual in the sums that the KKT check makes, each correction from the reduced system's
+ * factor), which also takes out the rounding of E'PE's sums; a degenerate active set goes to the
+ * auxiliaries alone, refined on the reduced system as before.
+ */
 export function solveEqualityKktSubstituted(e: EqualityKkt, r: Float64Array, s: Float64Array): Float64Array | null {
   const { auxiliaries: aux, all } = substitutionOf(e);
   if (all) {
-    const sol = solveSubstituted(e, r, s, all, 'independent');
-    if (sol !== 'dependent') return sol;
+    const reduced = reducedSystem(e, all);
+    const solve = factorEqualityKkt(reduced.system, 'independent');
+    if (solve === null) return null;
+    if (solve !== 'dependent') {
+      const k2 = reduced.system.free.length;
+      const part = new Float64Array(k2 + reduced.system.C.start.length - 1);
+      return refinedSolution(e, r, s, (rx, rs, out) => {
+        const { r2, s2 } = reduced.toReduced(rx, rs);
+        solve(r2, s2, part);
+        out.set(reduced.fromReduced(part, rx, rs));
+      });
+    }
   }
   if (aux.auxiliaries === 0) return solveEqualityKkt(e, r, s);
-  const sol = solveSubstituted(e, r, s, aux, 'ridge');
-  return sol === 'dependent' ? null : sol;
+  const reduced = reducedSystem(e, aux);
+  const { r2, s2 } = reduced.toReduced(r, s);
+  const part = solveEqualityKkt(reduced.system, r2, s2);
+  return part && reduced.fromReduced(part, r, s);
 }
