@@ -3,8 +3,11 @@ import { MessageChannel, Worker } from 'node:worker_threads';
 import type { KernelJob, KernelTeam } from '../../shared-core/linalg/kernel-team.js';
 import { CONTROL, INTS_MAX, KERNELS, SPIN } from './kernel-protocol.js';
 
-/** The longest the first job waits for the worker to load (it takes 30-60 ms on a quiet machine). */
-const READY_WAIT_MS = 500;
+/**
+ * The longest the first job waits for the worker to load: 30-60 ms on a quiet machine, much more
+ * under load (the tests run beside many others). A worker not ready by then is given up.
+ */
+const READY_WAIT_MS = 3000;
 
 /**
  * The command line's kernel team (shared-core/linalg/kernel-team.ts): one worker thread that makes
@@ -20,7 +23,7 @@ const READY_WAIT_MS = 500;
  * milliseconds, against the hundreds the first large kernel takes on one thread). The worker is
  * unreferenced: it never keeps the process alive.
  */
-export function kernelTeamOfTwo(): KernelTeam | null {
+export function kernelTeamOfTwo(workerFile: URL = new URL('./kernel-worker.js', import.meta.url)): KernelTeam | null {
   if (availableParallelism() < 2) return null;
   const control = new Int32Array(new SharedArrayBuffer(CONTROL.size * 4));
   const { port1, port2 } = new MessageChannel();
@@ -29,7 +32,7 @@ export function kernelTeamOfTwo(): KernelTeam | null {
   const start = (): void => {
     started = true;
     try {
-      const worker = new Worker(new URL('./kernel-worker.js', import.meta.url), {
+      const worker = new Worker(workerFile, {
         workerData: { control, port: port2 },
         transferList: [port2],
       });
@@ -47,10 +50,15 @@ export function kernelTeamOfTwo(): KernelTeam | null {
     shared: (length) => new Float64Array(new SharedArrayBuffer(length * 8)),
     fork(job: KernelJob): boolean {
       if (pending) throw new Error('kernel team: a job is already running');
+      if (Atomics.load(control, CONTROL.gone) === 1) return false;
       if (!started) start();
-      // The worker's 'exit' event cannot run while this thread waits: a bounded wait instead.
-      if (Atomics.load(control, CONTROL.ready) !== 1) Atomics.wait(control, CONTROL.ready, 0, READY_WAIT_MS);
-      if (Atomics.load(control, CONTROL.ready) !== 1 || Atomics.load(control, CONTROL.gone) === 1) return false;
+      // The worker's 'error' event cannot run while this thread waits: a bounded wait instead,
+      // after which a worker that has not loaded is given up, and every kernel stays here.
+      if (Atomics.load(control, CONTROL.ready) !== 1) {
+        Atomics.wait(control, CONTROL.ready, 0, READY_WAIT_MS);
+        if (Atomics.load(control, CONTROL.ready) !== 1) Atomics.store(control, CONTROL.gone, 1);
+      }
+      if (Atomics.load(control, CONTROL.gone) === 1) return false;
       const kernel = KERNELS.indexOf(job.kernel);
       if (kernel < 0 || job.ints.length > INTS_MAX) throw new Error(`kernel team: no share named ${job.kernel}`);
       for (const b of job.buffers)

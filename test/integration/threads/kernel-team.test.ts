@@ -113,6 +113,28 @@ describe.runIf(built)('the dense kernels on two threads', () => {
     expect(refused).toEqual({ alone: false, shared: false });
   });
 
+  it('leaves every kernel on one thread, after one bounded wait, when the helper cannot start', () => {
+    const team = m.threads.kernelTeamOfTwo(new URL(`file://${dist}src-main/threads/no-such-worker.js`))!;
+    const job = { kernel: 'cross-product', buffers: [team.shared(4)], ints: [] };
+    const first = performance.now();
+    expect(team.fork(job)).toBe(false);
+    expect(performance.now() - first).toBeLessThan(5000);
+    const again = performance.now();
+    expect(team.fork(job)).toBe(false);
+    expect(performance.now() - again).toBeLessThan(50);
+    // And the kernels still answer, alone.
+    m.team.installKernelTeam(team);
+    try {
+      const x = randomMatrix(1000, 760, 14);
+      const c = m.cross.crossProduct(x);
+      let s = 0;
+      for (let k = 0; k < 1000; k++) s += x.data[k * 760] * x.data[k * 760 + 759];
+      expect(c.data[759]).toBeCloseTo(s, 10);
+    } finally {
+      m.team.installKernelTeam(null);
+    }
+  });
+
   it('refuses a job whose buffers are not shared, and names the problem', () => {
     const team = m.threads.kernelTeamOfTwo();
     expect(team).not.toBeNull();
