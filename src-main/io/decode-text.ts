@@ -24,6 +24,29 @@ export class ChunkDecoder {
   private carry: Buffer | undefined; // the start of a UTF-8 character cut by the chunk's end
   private decoder: TextDecoder | undefined;
 
+  /**
+   * The text of the whole lines at the start of `chunk` (through its last line break) and how
+   * many bytes they take; `last` reads everything. The caller hands the bytes left over back at
+   * the start of the next chunk, so that no line of text is cut in two and joined again (a file
+   * in UTF-16, whose line break is two bytes, or a line longer than the chunk, is decoded whole,
+   * any line cut by the chunk's end is joined by the reader).
+   */
+  decodeLines(chunk: Buffer, last: boolean): { text: string; used: number } {
+    if (this.encoding === undefined) {
+      const rest = this.sniff(chunk);
+      const used = this.linesEnd(rest, last);
+      return { text: this.decode(rest.subarray(0, used), last), used: chunk.length - rest.length + used };
+    }
+    const used = this.linesEnd(chunk, last);
+    return { text: this.decode(chunk.subarray(0, used), last), used };
+  }
+
+  private linesEnd(bytes: Buffer, last: boolean): number {
+    if (last || this.encoding === 'utf-16le' || this.encoding === 'utf-16be') return bytes.length;
+    const newline = bytes.lastIndexOf(10);
+    return newline === -1 ? bytes.length : newline + 1;
+  }
+
   /** The text of the next chunk; `last` flushes. Throws UndecodableBytes. */
   decode(chunk: Buffer, last: boolean): string {
     if (this.encoding === undefined) chunk = this.sniff(chunk);

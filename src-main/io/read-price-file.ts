@@ -111,6 +111,15 @@ interface LongAsset {
   nonPositiveCount: number;
 }
 
+/** A record as CsvLines hands it over (csv-records.ts). */
+interface SampleRow {
+  text: string;
+  start: number;
+  end: number;
+  line: number;
+  inPlace: boolean;
+}
+
 /** The reader as a sink of decoded text: push chunks, then `end()`. */
 export class PriceFileReader {
   readonly problems = new ProblemList();
@@ -127,7 +136,8 @@ export class PriceFileReader {
   private assetCol = -1;
   private closeCol = -1;
   private ids: string[] = [];
-  private sample: { text: string; line: number }[] = [];
+  /** Rows met before the decimal mark is known, kept where they lie (their chunk held until then). */
+  private sample: SampleRow[] = [];
   // wide rows
   private readonly rowKeys = new GrowableInt32();
   private readonly rowLines = new GrowableInt32();
@@ -171,7 +181,7 @@ export class PriceFileReader {
     if (!this.header) return this.readHeader(text.slice(start, end), line);
     this.dataRows++;
     if (this.decimal === undefined) {
-      this.sample.push({ text: text.slice(start, end), line });
+      this.sample.push({ text, start, end, line, inPlace });
       if (this.sample.length >= Math.min(SAMPLE_ROWS, Math.ceil(SAMPLE_CELLS / this.width))) this.decideDecimal();
       return;
     }
@@ -218,11 +228,13 @@ export class PriceFileReader {
     let comma = 0;
     let point = 0;
     let cellsSeen = 0;
-    // A comma-separated cell holds a decimal comma only inside quotes.
-    const evidence = this.delimiter !== ',' ? this.sample : this.sample.filter((r) => r.text.includes('"'));
+    const raw = (r: SampleRow) => r.text.slice(r.start, r.end);
+    // A comma-separated cell holds a decimal comma only inside quotes (a row read in place has none).
+    const evidence =
+      this.delimiter !== ',' ? this.sample : this.sample.filter((r) => !r.inPlace && raw(r).includes('"'));
     for (const r of evidence) {
       if (cellsSeen >= SAMPLE_CELLS) break;
-      const cells = this.cells(r.text, r.line);
+      const cells = this.cells(raw(r), r.line);
       cellsSeen += cells.length;
       cells.forEach((c, i) => {
         if (i === this.dateCol || (this.form === 'long' && i !== this.closeCol)) return;
@@ -236,8 +248,8 @@ export class PriceFileReader {
     const sample = this.sample;
     this.sample = [];
     for (const r of sample)
-      if (this.form === 'wide') this.wideRow(r.text, 0, r.text.length, r.line, false);
-      else this.longRow(this.cells(r.text, r.line), r.line);
+      if (this.form === 'wide') this.wideRow(r.text, r.start, r.end, r.line, r.inPlace);
+      else this.longRow(this.cells(raw(r), r.line), r.line);
   }
 
   /** Room for one more wide row in the current block. */
@@ -610,14 +622,25 @@ function located(error: UndecodableBytes, reader: PriceFileReader, file: string)
   return new InputError(error.message, { file, ...reader.position });
 }
 
-/** Decodes one chunk of the file into the reader (an empty chunk ends it); bytes that are no text are placed where they stand. */
-function pushChunk(reader: PriceFileReader, decoder: ChunkDecoder, bytes: Buffer, file: string): void {
+/**
+ * Decodes the whole lines of `bytes` into the reader (`last`: all of them) and returns how many
+ * bytes they took; bytes that are no text are placed where they stand.
+ */
+function pushLines(reader: PriceFileReader, decoder: ChunkDecoder, bytes: Buffer, last: boolean, file: string): number {
   try {
-    reader.push(decoder.decode(bytes, bytes.length === 0));
+    const { text, used } = decoder.decodeLines(bytes, last);
+    reader.push(text);
+    return used;
   } catch (error) {
     if (error instanceof UndecodableBytes) throw located(error, reader, file);
     throw error;
   }
+}
+
+/** Moves `buffer[used, end)` to the buffer's start; returns its length. */
+function keepRest(buffer: Buffer, end: number, used: number): number {
+  buffer.copyWithin(0, used, end);
+  return end - used;
 }
 
 /** Reads a price file from disk, in chunks, yielding to the event loop between them (the import). */
@@ -638,12 +661,13 @@ export async function readPriceFile(path: string, options: ReadPriceFileOptions 
   const decoder = new ChunkDecoder();
   const buffer = Buffer.allocUnsafe(CHUNK_BYTES);
   let bytesRead = 0;
+  let kept = 0; // the start of a line, left from the previous chunk at the buffer's start
   try {
     for (;;) {
       if (options.signal?.aborted) throw new CancelledError();
-      const { bytesRead: n } = await handle.read(buffer, 0, CHUNK_BYTES, null);
+      const { bytesRead: n } = await handle.read(buffer, kept, CHUNK_BYTES - kept, null);
       bytesRead += n;
-      pushChunk(reader, decoder, buffer.subarray(0, n), file);
+      kept = keepRest(buffer, kept + n, pushLines(reader, decoder, buffer.subarray(0, kept + n), n === 0, file));
       options.onProgress?.({ bytesRead, totalBytes, rows: reader.dataRows });
       if (n === 0) break;
     }
@@ -673,11 +697,12 @@ export function readPriceFileSync(
   const decoder = new ChunkDecoder();
   const buffer = Buffer.allocUnsafe(CHUNK_BYTES);
   let bytesRead = 0;
+  let kept = 0;
   try {
     for (;;) {
-      const n = readSync(fd, buffer, 0, CHUNK_BYTES, null);
+      const n = readSync(fd, buffer, kept, CHUNK_BYTES - kept, null);
       bytesRead += n;
-      pushChunk(reader, decoder, buffer.subarray(0, n), file);
+      kept = keepRest(buffer, kept + n, pushLines(reader, decoder, buffer.subarray(0, kept + n), n === 0, file));
       if (n === 0) break;
     }
   } finally {
