@@ -27,21 +27,28 @@
  */
 import { factorEqualityKkt, refinedSolution, solveEqualityKkt, type EqualityKkt } from './equality-kkt.js';
 import { addGatheredDot, gatherInto, type PackedRows } from './kernels.js';
+import { QP_TOLERANCES } from './types.js';
 
 /** Which variables (positions in F) leave the system, each on its defining row. */
 export interface Substitution {
   /** The defining row of each position, -1 where the variable stays. */
   byRow: Int32Array;
-  /** The row's other variable, and the coefficients a (of the substituted one) and b (of the other). */
+  /**
+   * The row's other variable (-1 for a fixed one), and the coefficients a (of the substituted
+   * one) and b (of the other; of the partner for a pair).
+   */
   otherOf: Int32Array;
   coefT: Float64Array;
   coefOther: Float64Array;
+  /** A fixed pair's other member (its defining row is the partner's second row), -1 otherwise. */
+  pairOf: Int32Array;
   usedRow: Uint8Array;
   /** The substituted positions whose row of P is not zero. */
   curved: number[];
   /** Substituted by kind. */
   auxiliaries: number;
   hubMembers: number;
+  fixed: number;
 }
 
 /** Positions of F whose row of P is zero (no curvature). */
@@ -63,10 +70,25 @@ function emptySubstitution(k: number, m: number): Substitution {
     otherOf: new Int32Array(k).fill(-1),
     coefT: new Float64Array(k),
     coefOther: new Float64Array(k),
+    pairOf: new Int32Array(k).fill(-1),
     usedRow: new Uint8Array(m),
     curved: [],
     auxiliaries: 0,
     hubMembers: 0,
+    fixed: 0,
+  };
+}
+
+function copied(sub: Substitution): Substitution {
+  return {
+    ...sub,
+    byRow: Int32Array.from(sub.byRow),
+    otherOf: Int32Array.from(sub.otherOf),
+    coefT: Float64Array.from(sub.coefT),
+    coefOther: Float64Array.from(sub.coefOther),
+    pairOf: Int32Array.from(sub.pairOf),
+    usedRow: Uint8Array.from(sub.usedRow),
+    curved: [...sub.curved],
   };
 }
 
@@ -81,8 +103,77 @@ function substitute(sub: Substitution, e: EqualityKkt, j: number, t: number, oth
   if (!flat[t]) sub.curved.push(t);
 }
 
-/** Auxiliaries: flat variables whose rows touch one variable with curvature, each on a two-entry row with it. */
-function auxiliaries(e: EqualityKkt, flat: Uint8Array, m: number): Substitution {
+/**
+ * Variables the active rows determine outright: a row with a single entry fixes its variable, and
+ * two rows on the same two variables with independent coefficients fix both (an asset kept at its
+ * current weight under a turnover limit: x_i - t_i <= c_i and -x_i - t_i <= -c_i both active give
+ * x_i = c_i, t_i = 0; with t_i at its bound the first alone is x_i <= c_i). 'degenerate' where
+ * rows are plainly dependent: two single rows on one variable, three rows on two variables, a
+ * pair with a single row on one of its variables or dependent coefficients.
+ */
+function fixedByRows(e: EqualityKkt, flat: Uint8Array, m: number): Substitution | 'degenerate' {
+  const { C } = e;
+  const k = e.free.length;
+  const sub = emptySubstitution(k, m);
+  const singleRow = new Int32Array(k).fill(-1);
+  const onPair = new Map<number, number[]>();
+  for (let j = 0; j < m; j++) {
+    const q = C.start[j];
+    const len = C.start[j + 1] - q;
+    if (len === 1 && C.val[q] !== 0) {
+      if (singleRow[C.col[q]] >= 0) return 'degenerate';
+      singleRow[C.col[q]] = j;
+    } else if (len === 2 && C.col[q] !== C.col[q + 1] && C.val[q] !== 0 && C.val[q + 1] !== 0) {
+      const key = Math.min(C.col[q], C.col[q + 1]) * k + Math.max(C.col[q], C.col[q + 1]);
+      const rows = onPair.get(key);
+      if (rows) rows.push(j);
+      else onPair.set(key, [j]);
+    }
+  }
+  const coefIn = (j: number, a: number) => (C.col[C.start[j]] === a ? C.val[C.start[j]] : C.val[C.start[j] + 1]);
+  for (const rows of onPair.values()) {
+    if (rows.length < 2) continue;
+    if (rows.length > 2) return 'degenerate';
+    const [j1, j2] = rows;
+    const u = C.col[C.start[j1]];
+    const v = C.col[C.start[j1] + 1];
+    if (singleRow[u] >= 0 || singleRow[v] >= 0 || sub.byRow[u] >= 0 || sub.byRow[v] >= 0) return 'degenerate';
+    // Row j1 fixes u and row j2 v: a1 x_u + b1 x_v = s1, a2 x_u + b2 x_v = s2.
+    const [a1, b1, a2, b2] = [coefIn(j1, u), coefIn(j1, v), coefIn(j2, u), coefIn(j2, v)];
+    const det = a1 * b2 - b1 * a2;
+    // The second row's part off the first's direction, squared, relative to both rows' lengths:
+    // the pivot test of equality-kkt.ts's Schur complement on these two rows.
+    if (!(det * det >= QP_TOLERANCES.independentRows * (a1 * a1 + b1 * b1) * (a2 * a2 + b2 * b2))) return 'degenerate';
+    for (const [a, j, own, partner, other] of [
+      [u, j1, a1, b1, v],
+      [v, j2, b2, a2, u],
+    ] as const) {
+      sub.byRow[a] = j;
+      sub.usedRow[j] = 1;
+      sub.coefT[a] = own;
+      sub.coefOther[a] = partner;
+      sub.pairOf[a] = other;
+      if (!flat[a]) sub.curved.push(a);
+      sub.fixed++;
+    }
+  }
+  for (let a = 0; a < k; a++) {
+    const j = singleRow[a];
+    if (j < 0) continue;
+    sub.byRow[a] = j;
+    sub.usedRow[j] = 1;
+    sub.coefT[a] = C.val[C.start[j]];
+    if (!flat[a]) sub.curved.push(a);
+    sub.fixed++;
+  }
+  return sub;
+}
+
+/**
+ * Auxiliaries: flat variables whose rows touch one variable with curvature, each on a two-entry
+ * row with it; on top of `base` (the fixed variables), whose variables and their rows are left.
+ */
+function auxiliaries(e: EqualityKkt, flat: Uint8Array, m: number, base?: Substitution): Substitution {
   const { C } = e;
   const k = e.free.length;
   const eligible = Uint8Array.from(flat);
@@ -93,13 +184,13 @@ function auxiliaries(e: EqualityKkt, flat: Uint8Array, m: number): Substitution 
       if (eligible[C.col[q]])
         for (let u = C.start[j]; u < C.start[j + 1]; u++) if (!eligible[C.col[u]]) support[C.col[q]].add(C.col[u]);
   for (let a = 0; a < k; a++) if (support[a].size > 1) eligible[a] = 0;
-  const sub = emptySubstitution(k, m);
+  const sub = base ? copied(base) : emptySubstitution(k, m);
   for (let j = 0; j < m; j++) {
     if (C.start[j + 1] - C.start[j] !== 2) continue;
     const u = C.col[C.start[j]];
     const v = C.col[C.start[j] + 1];
     const [t, other] = eligible[u] && !eligible[v] ? [u, v] : eligible[v] && !eligible[u] ? [v, u] : [-1, -1];
-    if (t < 0 || other < 0 || sub.byRow[t] >= 0) continue;
+    if (t < 0 || other < 0 || sub.byRow[t] >= 0 || sub.byRow[other] >= 0) continue;
     substitute(sub, e, j, t, other, flat);
     sub.auxiliaries++;
   }
@@ -133,31 +224,34 @@ function withHubMembers(e: EqualityKkt, flat: Uint8Array, aux: Substitution, m: 
     const [u, v] = [C.col[C.start[j]], C.col[C.start[j] + 1]];
     const [t, hub] = degree[u] === 1 && degree[v] > 1 ? [u, v] : degree[v] === 1 && degree[u] > 1 ? [v, u] : [-1, -1];
     if (t < 0 || isOther[t]) continue;
-    sub ??= {
-      ...aux,
-      byRow: Int32Array.from(aux.byRow),
-      otherOf: Int32Array.from(aux.otherOf),
-      coefT: Float64Array.from(aux.coefT),
-      coefOther: Float64Array.from(aux.coefOther),
-      usedRow: Uint8Array.from(aux.usedRow),
-      curved: [...aux.curved],
-    };
+    sub ??= copied(aux);
     substitute(sub, e, j, t, hub, flat);
     sub.hubMembers++;
   }
   return sub;
 }
 
-/** The substitution polishing makes on this system (auxiliaries first, then the hubs' members). */
+/**
+ * The substitution polishing makes on this system: the auxiliaries alone (a degenerate active
+ * set's), and all of them (the fixed variables, then the auxiliaries, then the hubs' members),
+ * null when that adds nothing to the auxiliaries or the rows are plainly dependent.
+ */
 export function substitutionOf(e: EqualityKkt): { auxiliaries: Substitution; all: Substitution | null } {
   const m = e.C.start.length - 1;
   const flat = flatPositions(e);
   const aux = auxiliaries(e, flat, m);
-  return { auxiliaries: aux, all: withHubMembers(e, flat, aux, m) };
+  const fixed = fixedByRows(e, flat, m);
+  if (fixed === 'degenerate') return { auxiliaries: aux, all: null };
+  const base = fixed.fixed > 0 ? auxiliaries(e, flat, m, fixed) : aux;
+  return { auxiliaries: aux, all: withHubMembers(e, flat, base, m) ?? (fixed.fixed > 0 ? base : null) };
 }
 
+/** The substituted variables with curvature that are tied to another (not fixed). */
+const tiedCurved = (sub: Substitution): number[] => sub.curved.filter((t) => sub.otherOf[t] >= 0);
+
 /**
- * E'PE on the kept positions, for substituted variables with curvature: row f of PE is P's row on
+ * E'PE on the kept positions, for substituted variables with curvature tied to another (a fixed
+ * one's column of E is zero): row f of PE is P's row on
  * the kept columns plus e_t P_ft on the column of t's other; row o of E'PE then gains e_t (PE)_t.
  */
 function reducedHessian(e: EqualityKkt, sub: Substitution, kept: number[], newPos: Int32Array): Float64Array {
@@ -165,9 +259,10 @@ function reducedHessian(e: EqualityKkt, sub: Substitution, kept: number[], newPo
   const k = free.length;
   const k2 = kept.length;
   const keptFree = Int32Array.from(kept, (a) => free[a]);
-  const slope = Float64Array.from(sub.curved, (t) => -sub.coefOther[t] / sub.coefT[t]);
-  const column = Int32Array.from(sub.curved, (t) => newPos[sub.otherOf[t]]);
-  const curvedFree = Int32Array.from(sub.curved, (t) => free[t]);
+  const curved = tiedCurved(sub);
+  const slope = Float64Array.from(curved, (t) => -sub.coefOther[t] / sub.coefT[t]);
+  const column = Int32Array.from(curved, (t) => newPos[sub.otherOf[t]]);
+  const curvedFree = Int32Array.from(curved, (t) => free[t]);
   const PE = new Float64Array(k * k2);
   const row = (f: number): void => {
     const off = free[f] * n;
@@ -176,10 +271,10 @@ function reducedHessian(e: EqualityKkt, sub: Substitution, kept: number[], newPo
     for (let c = 0; c < curvedFree.length; c++) PE[o + column[c]] += slope[c] * P[off + curvedFree[c]];
   };
   for (const a of kept) row(a);
-  for (const t of sub.curved) row(t);
+  for (const t of curved) row(t);
   const Pr = new Float64Array(k2 * k2);
   kept.forEach((a, aa) => Pr.set(PE.subarray(a * k2, (a + 1) * k2), aa * k2));
-  sub.curved.forEach((t, c) => {
+  curved.forEach((t, c) => {
     const o = column[c] * k2;
     const s = slope[c];
     for (let b = 0; b < k2; b++) Pr[o + b] += s * PE[t * k2 + b];
@@ -208,7 +303,10 @@ class Compensated {
   }
 }
 
-/** The kept rows on the kept positions: a substituted x_t's coefficient c moves to its other as -c b / a. */
+/**
+ * The kept rows on the kept positions: a substituted x_t's coefficient c moves to its other as
+ * -c b / a, a fixed one's leaves (its value goes to the right-hand side).
+ */
 function reducedRows(
   e: EqualityKkt,
   sub: Substitution,
@@ -236,7 +334,7 @@ function reducedRows(
       const a = C.col[q];
       const c = C.val[q];
       if (byRow[a] < 0) add(newPos[a], c);
-      else add(newPos[otherOf[a]], -(c * coefOther[a]) / coefT[a]);
+      else if (otherOf[a] >= 0) add(newPos[otherOf[a]], -(c * coefOther[a]) / coefT[a]);
     }
     touched.sort((x, y) => x - y);
     for (const at of touched) {
@@ -263,7 +361,7 @@ function reducedSystem(e: EqualityKkt, sub: Substitution): Reduced {
   const { P, n, free, C } = e;
   const k = free.length;
   const m = C.start.length - 1;
-  const { byRow, otherOf, coefT, coefOther, usedRow } = sub;
+  const { byRow, otherOf, coefT, coefOther, pairOf, usedRow } = sub;
   const newPos = new Int32Array(k).fill(-1);
   const kept: number[] = [];
   for (let a = 0; a < k; a++)
@@ -277,34 +375,50 @@ function reducedSystem(e: EqualityKkt, sub: Substitution): Reduced {
   const C2 = reducedRows(e, sub, rowsKept, newPos, k2);
   // Without curvature among the substituted, E'PE is P on the kept variables: no copy.
   const system: EqualityKkt =
-    sub.curved.length === 0
+    tiedCurved(sub).length === 0
       ? { P, n, free: Int32Array.from(kept, (a) => free[a]), C: C2 }
       : { P: reducedHessian(e, sub, kept, newPos), n: k2, free: Int32Array.from(kept, (_, aa) => aa), C: C2 };
 
+  // Each substituted variable's constant part: s_r / a, or a fixed pair's solution (Cramer's rule).
+  const constants = (s: Float64Array): Float64Array => {
+    const g = new Float64Array(k);
+    for (let a = 0; a < k; a++) {
+      const j = byRow[a];
+      if (j < 0) continue;
+      const p = pairOf[a];
+      g[a] =
+        p < 0
+          ? s[j] / coefT[a]
+          : (s[j] * coefT[p] - s[byRow[p]] * coefOther[a]) / (coefT[a] * coefT[p] - coefOther[a] * coefOther[p]);
+    }
+    return g;
+  };
+
   const toReduced = (r: Float64Array, s: Float64Array) => {
+    const g = constants(s);
     // s - C g on the kept rows.
     const s2 = new Float64Array(rowsKept.length);
     rowsKept.forEach((j, jj) => {
       const rhs = new Compensated(s[j]);
       for (let q = C.start[j]; q < C.start[j + 1]; q++) {
         const a = C.col[q];
-        if (byRow[a] >= 0) rhs.add(-(C.val[q] * s[byRow[a]]) / coefT[a]);
+        if (byRow[a] >= 0) rhs.add(pairOf[a] < 0 ? -(C.val[q] * s[byRow[a]]) / coefT[a] : -C.val[q] * g[a]);
       }
       s2[jj] = rhs.value();
     });
-    // E'(r - P g), g the substituted variables' constant parts s_r / a (P g is zero but for curvature).
+    // E'(r - P g) (P g is zero but for curvature).
     let rg = r;
-    const g = new Float64Array(k);
-    for (const t of sub.curved) g[t] = s[byRow[t]] / coefT[t];
-    if (g.some((v) => v !== 0)) {
+    const gc = new Float64Array(k);
+    for (const t of sub.curved) gc[t] = g[t];
+    if (gc.some((v) => v !== 0)) {
       rg = Float64Array.from(r);
-      for (let a = 0; a < k; a++) rg[a] -= addGatheredDot(0, P, free[a] * n, free, g, k);
+      for (let a = 0; a < k; a++) rg[a] -= addGatheredDot(0, P, free[a] * n, free, gc, k);
     }
     const r2 = new Float64Array(k2);
     kept.forEach((a, aa) => (r2[aa] = rg[a]));
     const gathered: (Compensated | undefined)[] = new Array<Compensated | undefined>(k2);
     for (let a = 0; a < k; a++)
-      if (byRow[a] >= 0) {
+      if (byRow[a] >= 0 && otherOf[a] >= 0) {
         const o = newPos[otherOf[a]];
         (gathered[o] ??= new Compensated(r2[o])).add(-(rg[a] * coefOther[a]) / coefT[a]);
       }
@@ -316,11 +430,13 @@ function reducedSystem(e: EqualityKkt, sub: Substitution): Reduced {
     const sol = new Float64Array(k + m);
     kept.forEach((a, aa) => (sol[a] = reduced[aa]));
     rowsKept.forEach((j, jj) => (sol[k + j] = reduced[k2 + jj]));
+    const g = constants(s);
     for (let a = 0; a < k; a++) {
       const j = byRow[a];
-      if (j >= 0) sol[a] = (s[j] - coefOther[a] * sol[otherOf[a]]) / coefT[a];
+      if (j >= 0) sol[a] = otherOf[a] >= 0 ? (s[j] - coefOther[a] * sol[otherOf[a]]) / coefT[a] : g[a];
     }
-    // Each defining row's multiplier from its variable's stationarity: (P x)_t + sum_rows c l = r_t.
+    // Each defining row's multiplier from its variable's stationarity: (P x)_t + sum_rows c l = r_t,
+    // a fixed pair's two from both members' (the transposed 2 x 2 system).
     const other = new Float64Array(k);
     for (let j = 0; j < m; j++) {
       if (usedRow[j]) continue;
@@ -332,7 +448,16 @@ function reducedSystem(e: EqualityKkt, sub: Substitution): Reduced {
     for (const t of sub.curved) other[t] += addGatheredDot(0, P, free[t] * n, free, x, k);
     for (let a = 0; a < k; a++) {
       const j = byRow[a];
-      if (j >= 0) sol[k + j] = (r[a] - other[a]) / coefT[a];
+      const p = pairOf[a];
+      if (j < 0 || (p >= 0 && p < a)) continue;
+      if (p < 0) {
+        sol[k + j] = (r[a] - other[a]) / coefT[a];
+        continue;
+      }
+      const [Ra, Rp] = [r[a] - other[a], r[p] - other[p]];
+      const det = coefT[a] * coefT[p] - coefOther[a] * coefOther[p];
+      sol[k + j] = (Ra * coefT[p] - Rp * coefOther[p]) / det;
+      sol[k + byRow[p]] = (Rp * coefT[a] - Ra * coefOther[a]) / det;
     }
     return sol;
   };
