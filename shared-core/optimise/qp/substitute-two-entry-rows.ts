@@ -1,7 +1,14 @@
 /**
  * Polishing's equality-constrained KKT system with variables substituted out on active rows of
- * two entries, a x_t + b x_o = s: x_t = (s - b x_o) / a goes into the other rows and the
- * objective, and the row and x_t leave the system. Two kinds of variable are substituted:
+ * one and two entries, a x_t + b x_o = s: x_t = (s - b x_o) / a goes into the other rows and the
+ * objective, and the row and x_t leave the system. Three kinds of variable are substituted:
+ * - A fixed variable, which active rows determine outright: a row with one free entry, or two
+ *   rows on the same two variables (a pair, both fixed by a 2 x 2 solve). Under a turnover limit
+ *   the optimum keeps many assets exactly at their current weight: both link rows of t_i are
+ *   active (or one, with t_i at its bound), x_i = c_i, and x_i and t_i leave the system, which
+ *   keeps the assets that trade. Their rows' multipliers come from their own stationarity (a
+ *   1 x 1 or 2 x 2 solve each); several single rows on one variable are dependent and split what
+ *   its stationarity asks by least squares, the choice the whole system's ridge makes.
  * - An auxiliary. Under a turnover limit most auxiliaries t_i = |x_i - c_i| sit on one of their
  *   two link rows, t_i = (s - b x_i) / a is substituted into the other rows (the limit's sum among
  *   them), and the system keeps the size of the problem without the limit (its Cholesky costs an
@@ -14,16 +21,18 @@
  *   2 e sum_i P_iv + e^2 sum_ij P_ij over the substituted set, P_Fv gains e sum_i P_Fi; y_i's
  *   linear term moves onto v.
  * The system solved is E'PE z + (CE)'l = E'(r - P g), CE z = s - C g, for x = E z + g (the
- * substituted rows drop out, as CE is zero on them). Each substituted row's multiplier comes back
- * from its variable's own stationarity: a l_r = r_t - (P x)_t - sum over t's other rows of their
- * coefficient times multiplier (t is in no other substituted row). An exact elimination: the KKT
- * conditions of the full problem are checked afterwards as always.
+ * substituted rows drop out, as CE is zero on them; a fixed variable's row of E is zero). Each
+ * substituted row's multiplier comes back from its variable's own stationarity: a l_r = r_t -
+ * (P x)_t - sum over t's other rows of their coefficient times multiplier (t is in no other
+ * substituted row but its pair's). An exact elimination: the KKT conditions of the full problem
+ * are checked afterwards as always.
  * An auxiliary here is tied to one variable with curvature (its asset) by all its rows: the
  * homogenised form's scale, in every asset's rows, is left alone, and with it the choice among
  * equal multipliers of a degenerate active set that the explanations have always made. The scale
  * is never substituted as a hub's member either, and a hub's rows are substituted only where the
  * active rows are independent (the reduced system factors without a ridge, equality-kkt.ts
- * `independent`): a degenerate active set is solved as before, with the auxiliaries alone.
+ * `independent`), and so are the fixed variables: a degenerate active set is solved as before,
+ * with the auxiliaries alone (but for several single rows on one variable, above).
  */
 import { factorEqualityKkt, refinedSolution, solveEqualityKkt, type EqualityKkt } from './equality-kkt.js';
 import { addGatheredDot, gatherInto, type PackedRows } from './kernels.js';
@@ -42,6 +51,11 @@ export interface Substitution {
   coefOther: Float64Array;
   /** A fixed pair's other member (its defining row is the partner's second row), -1 otherwise. */
   pairOf: Int32Array;
+  /**
+   * A variable fixed by several single rows (dependent: x_i <= c_i and -x_i <= -c_i with t_i at
+   * its bound): all of them, the first defining it.
+   */
+  singleRows: Map<number, number[]>;
   usedRow: Uint8Array;
   /** The substituted positions whose row of P is not zero. */
   curved: number[];
@@ -71,6 +85,7 @@ function emptySubstitution(k: number, m: number): Substitution {
     coefT: new Float64Array(k),
     coefOther: new Float64Array(k),
     pairOf: new Int32Array(k).fill(-1),
+    singleRows: new Map(),
     usedRow: new Uint8Array(m),
     curved: [],
     auxiliaries: 0,
@@ -107,9 +122,13 @@ function substitute(sub: Substitution, e: EqualityKkt, j: number, t: number, oth
  * Variables the active rows determine outright: a row with a single entry fixes its variable, and
  * two rows on the same two variables with independent coefficients fix both (an asset kept at its
  * current weight under a turnover limit: x_i - t_i <= c_i and -x_i - t_i <= -c_i both active give
- * x_i = c_i, t_i = 0; with t_i at its bound the first alone is x_i <= c_i). 'degenerate' where
- * rows are plainly dependent: two single rows on one variable, three rows on two variables, a
- * pair with a single row on one of its variables or dependent coefficients.
+ * x_i = c_i, t_i = 0; with t_i at its bound the first alone is x_i <= c_i). Several single rows
+ * on one variable fix it too (with t_i at its bound both link rows are x_i alone); their
+ * multipliers are then not determined, and they get the choice that the whole system's ridge
+ * makes, the least-squares split of what the variable's stationarity asks of them (the ridge's
+ * solve and its refinement leave nothing in the null space of C'). 'degenerate' where rows are
+ * otherwise plainly dependent: three rows on two variables, a pair with a single row on one of its
+ * variables or dependent coefficients.
  */
 function fixedByRows(e: EqualityKkt, flat: Uint8Array, m: number): Substitution | 'degenerate' {
   const { C } = e;
@@ -121,8 +140,14 @@ function fixedByRows(e: EqualityKkt, flat: Uint8Array, m: number): Substitution 
     const q = C.start[j];
     const len = C.start[j + 1] - q;
     if (len === 1 && C.val[q] !== 0) {
-      if (singleRow[C.col[q]] >= 0) return 'degenerate';
-      singleRow[C.col[q]] = j;
+      const a = C.col[q];
+      if (singleRow[a] < 0) singleRow[a] = j;
+      else {
+        const rows = sub.singleRows.get(a);
+        if (rows) rows.push(j);
+        else sub.singleRows.set(a, [singleRow[a], j]);
+        sub.usedRow[j] = 1;
+      }
     } else if (len === 2 && C.col[q] !== C.col[q + 1] && C.val[q] !== 0 && C.val[q + 1] !== 0) {
       const key = Math.min(C.col[q], C.col[q + 1]) * k + Math.max(C.col[q], C.col[q + 1]);
       const rows = onPair.get(key);
@@ -436,7 +461,8 @@ function reducedSystem(e: EqualityKkt, sub: Substitution): Reduced {
       if (j >= 0) sol[a] = otherOf[a] >= 0 ? (s[j] - coefOther[a] * sol[otherOf[a]]) / coefT[a] : g[a];
     }
     // Each defining row's multiplier from its variable's stationarity: (P x)_t + sum_rows c l = r_t,
-    // a fixed pair's two from both members' (the transposed 2 x 2 system).
+    // a fixed pair's two from both members' (the transposed 2 x 2 system), a variable's several
+    // single rows' as the least-squares split c_j (r_t - ...) / sum c^2.
     const other = new Float64Array(k);
     for (let j = 0; j < m; j++) {
       if (usedRow[j]) continue;
@@ -450,6 +476,13 @@ function reducedSystem(e: EqualityKkt, sub: Substitution): Reduced {
       const j = byRow[a];
       const p = pairOf[a];
       if (j < 0 || (p >= 0 && p < a)) continue;
+      const group = sub.singleRows.get(a);
+      if (group) {
+        let norm2 = 0;
+        for (const g of group) norm2 += C.val[C.start[g]] * C.val[C.start[g]];
+        for (const g of group) sol[k + g] = (C.val[C.start[g]] * (r[a] - other[a])) / norm2;
+        continue;
+      }
       if (p < 0) {
         sol[k + j] = (r[a] - other[a]) / coefT[a];
         continue;
