@@ -230,7 +230,11 @@ describe('polishing substitutes variables out on active rows of one and two entr
       const substituted = solveEqualityKktSubstituted(e, r, s)!;
       const k = free.length;
       const scale = Math.max(...whole.map(Math.abs));
-      const dependentRow = (j: number) => rows[j].idx.length === 2 && !free.includes(rows[j].idx[1]) && j + 1 < rows.length && rows[j + 1].idx[0] === rows[j].idx[0];
+      const dependentRow = (j: number) =>
+        rows[j].idx.length === 2 &&
+        !free.includes(rows[j].idx[1]) &&
+        j + 1 < rows.length &&
+        rows[j + 1].idx[0] === rows[j].idx[0];
       const sameAs = (a: number, b: number, what: string) =>
         expect(Math.abs(a - b) / scale, `seed ${seed} ${what}`).toBeLessThan(1e-12);
       for (let a = 0; a < k; a++) sameAs(substituted[a], whole[a], `x ${a}`);
