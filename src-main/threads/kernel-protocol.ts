@@ -48,29 +48,3 @@ export const KERNELS: readonly string[] = Object.keys(SHARES);
  * no better on the N = 1500 bench's solve, 1,662 jobs at 51 us of hand-over each.)
  */
 export const SPIN = 20000;
-
-/** A small problem for each share, made up of arbitrary values, to warm the helper's kernels on. */
-export const WARM_UP: Readonly<Record<string, () => [Float64Array[], number[]]>> = {
-  [CROSS_PRODUCT_SHARE]: () => {
-    const t = 256;
-    const n = 64;
-    const packed = Float64Array.from({ length: t * n }, (_, k) => Math.sin(k));
-    return [
-      [packed, new Float64Array(n * n)],
-      [t, n, 0, n / 4],
-    ];
-  },
-  [TRIDIAGONAL_PASS_SHARE]: () => {
-    const n = 160;
-    const vector = () => Float64Array.from({ length: n }, (_, k) => Math.cos(k));
-    return [
-      [Float64Array.from({ length: n * n }, (_, k) => Math.sin(k)), vector(), vector(), vector(), new Float64Array(n)],
-      [n, n, 40],
-    ];
-  },
-  [CHOLESKY_ROWS_SHARE]: () => {
-    // Rows 64..n of columns 32..64: any values do (the share divides by the pivots it reads).
-    const n = 160;
-    return [[Float64Array.from({ length: n * n }, (_, k) => 1 + ((k * 7) % 13))], [n, 32, 64, 64, n]];
-  },
-};

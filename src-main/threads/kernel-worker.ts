@@ -1,5 +1,5 @@
 import { receiveMessageOnPort, workerData, type MessagePort } from 'node:worker_threads';
-import { CONTROL, KERNELS, SHARES, SPIN, WARM_UP } from './kernel-protocol.js';
+import { CONTROL, KERNELS, SHARES, SPIN } from './kernel-protocol.js';
 
 /**
  * The kernel helper thread (kernel-team.ts): waits for a job on the control block, makes its
@@ -11,7 +11,6 @@ const shares = KERNELS.map((name) => SHARES[name]);
 const ints: number[] = new Array<number>(CONTROL.size - CONTROL.ints).fill(0);
 let buffers: readonly Float64Array[] = [];
 let seen = 0;
-warmUp();
 Atomics.store(control, CONTROL.ready, 1);
 Atomics.notify(control, CONTROL.ready);
 for (;;) {
@@ -36,13 +35,4 @@ for (;;) {
   }
   Atomics.store(control, CONTROL.done, job);
   Atomics.notify(control, CONTROL.done);
-}
-
-/**
- * Each share once on a small problem before the helper says it is ready: V8 then optimises the
- * kernels with their types known, while the command is still reading its files, instead of
- * running the first real share in the interpreter while the other thread waits for it.
- */
-function warmUp(): void {
-  for (const name of KERNELS) for (let round = 0; round < 3; round++) SHARES[name](...WARM_UP[name]());
 }
