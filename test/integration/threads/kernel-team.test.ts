@@ -6,7 +6,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
  * The command line's second thread for the dense kernels (src-main/threads/, shared-core/linalg/
  * kernel-team.ts). A worker thread runs built JavaScript, so this runs on dist/ after a build, as
  * `npm test` does: the built kernels with the team installed against the same kernels without it.
- * The specification: the same answer bit for bit, whichever thread makes a share.
+ * The specification: the same answer bit for bit, whichever thread makes a share. The team serves
+ * the TypeScript kernels (where the WebAssembly ones cannot run), so these switch WebAssembly off.
  */
 const dist = fileURLToPath(new URL('../../../dist/', import.meta.url));
 const built = existsSync(`${dist}src-main/threads/kernel-worker.js`);
@@ -18,6 +19,7 @@ interface Modules {
   cross: typeof import('../../../shared-core/linalg/cross-product.js');
   tridiagonal: typeof import('../../../shared-core/linalg/tridiagonal-form.js');
   factor: typeof import('../../../shared-core/optimise/qp/dense-factor.js');
+  wasm: typeof import('../../../shared-core/linalg/wasm/wasm-kernels.js');
 }
 let m: Modules;
 
@@ -67,9 +69,14 @@ describe.runIf(built)('the dense kernels on two threads', () => {
       cross: await import(`${dist}shared-core/linalg/cross-product.js`),
       tridiagonal: await import(`${dist}shared-core/linalg/tridiagonal-form.js`),
       factor: await import(`${dist}shared-core/optimise/qp/dense-factor.js`),
+      wasm: await import(`${dist}shared-core/linalg/wasm/wasm-kernels.js`),
     };
+    m.wasm.useWasmKernels(false);
   });
-  afterAll(() => m?.team.installKernelTeam(null));
+  afterAll(() => {
+    m?.team.installKernelTeam(null);
+    m?.wasm.useWasmKernels(true);
+  });
 
   it("makes the cross product X'X bit for bit as one thread does (N = 760, T = 1000)", () => {
     const x = randomMatrix(1000, 760, 11);
