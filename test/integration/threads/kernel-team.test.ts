@@ -1,6 +1,7 @@
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { randomMatrix, sameBits } from '../../support/random-matrix.js';
 
 /**
  * The command line's second thread for the dense kernels (src-main/threads/, shared-core/linalg/
@@ -12,7 +13,6 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 const dist = fileURLToPath(new URL('../../../dist/', import.meta.url));
 const built = existsSync(`${dist}src-main/threads/kernel-worker.js`);
 
-type Matrix = { rows: number; cols: number; data: Float64Array };
 interface Modules {
   team: typeof import('../../../shared-core/linalg/kernel-team.js');
   threads: typeof import('../../../src-main/threads/kernel-team.js');
@@ -22,17 +22,6 @@ interface Modules {
   wasm: typeof import('../../../shared-core/linalg/wasm/wasm-kernels.js');
 }
 let m: Modules;
-
-/** A T x N matrix of arbitrary values from a small linear congruential generator (seeded). */
-function randomMatrix(rows: number, cols: number, seed: number): Matrix {
-  let s = seed >>> 0;
-  const data = new Float64Array(rows * cols);
-  for (let k = 0; k < data.length; k++) {
-    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
-    data[k] = s / 2 ** 32 - 0.5;
-  }
-  return { rows, cols, data };
-}
 
 /** Jobs the helper thread took in the last `withAndWithout`: the team was really used. */
 let taken = 0;
@@ -58,8 +47,6 @@ function withAndWithout<T>(f: () => T): { alone: T; shared: T } {
     m.team.installKernelTeam(null);
   }
 }
-
-const sameBits = (a: Float64Array, b: Float64Array) => a.length === b.length && a.every((v, k) => Object.is(v, b[k]));
 
 describe.runIf(built)('the dense kernels on two threads', () => {
   beforeAll(async () => {

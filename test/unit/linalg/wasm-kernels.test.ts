@@ -2,28 +2,15 @@ import { fileURLToPath } from 'node:url';
 import { afterEach, describe, expect, it } from 'vitest';
 import { kernelSourceDigest } from '../../../scripts/kernel-source-digest.mjs';
 import { crossProduct, crossProductNaive } from '../../../shared-core/linalg/cross-product.js';
-import type { Matrix } from '../../../shared-core/linalg/matrix.js';
 import { KERNEL_SOURCE_DIGEST } from '../../../shared-core/linalg/wasm/kernel-binary.js';
 import { useWasmKernels, wasmKernels } from '../../../shared-core/linalg/wasm/wasm-kernels.js';
+import { randomMatrix, sameBits } from '../../support/random-matrix.js';
 
 /**
  * The dense kernels in WebAssembly SIMD (shared-core/linalg/wasm/). The specification: each makes
  * the same answer, bit for bit, as its TypeScript twin, which runs wherever the module cannot; and
  * the embedded module is the one its C sources compile to.
  */
-
-/** A T x N matrix of arbitrary values from a small linear congruential generator (seeded). */
-function randomMatrix(rows: number, cols: number, seed: number): Matrix {
-  let s = seed >>> 0;
-  const data = new Float64Array(rows * cols);
-  for (let k = 0; k < data.length; k++) {
-    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
-    data[k] = s / 2 ** 32 - 0.5;
-  }
-  return { rows, cols, data };
-}
-
-const sameBits = (a: Float64Array, b: Float64Array) => a.length === b.length && a.every((v, k) => Object.is(v, b[k]));
 
 /** `f` with the WebAssembly kernels and then without them. */
 function bothWays<T>(f: () => T): { wasm: T; typescript: T } {
