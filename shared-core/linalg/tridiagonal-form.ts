@@ -1,5 +1,6 @@
 import { inTwoShares, kernelTeam, sharedArray } from './kernel-team.js';
 import type { Matrix } from './matrix.js';
+import { wasmKernels } from './wasm/wasm-kernels.js';
 
 /**
  * A symmetric matrix reduced to tridiagonal form, A = Q T Q', with Q kept as its Householder
@@ -34,25 +35,93 @@ function passSplit(m: number): number {
  * from row i - 1, which is updated first. Each pass sums its two column ranges [0, passSplit(m))
  * and [passSplit(m), m) into accumulators of their own, added in a fixed order: that order is the
  * one every published figure (the command line's outputs, the fixtures) was computed in, so a
- * change to it would move their last digits. Only the upper triangle of `m` is read. With a kernel
- * team (kernel-team.ts) the second range is the helper thread's share of each pass.
+ * change to it would move their last digits. Only the upper triangle of `m` is read.
+ *
+ * Where the WebAssembly kernels run (wasm/wasm-kernels.ts) the matrix stays in the module's memory
+ * for the whole reduction and each pass is two calls of the SIMD kernel (tridiagonal.c), the same
+ * sums in the same order. Without them, with a kernel team (kernel-team.ts) the second range is
+ * the helper thread's share of each pass.
  */
 export function tridiagonalForm(m: Matrix): TridiagonalForm {
   const n = m.rows;
   if (m.cols !== n) throw new RangeError(`expected a square matrix, got ${m.rows} x ${m.cols}`);
-  // A[k][j] (k >= j) lives in w[j * n + k]: column j of the lower triangle is contiguous. It is
-  // row j of the upper triangle of the symmetric input, so each column is one contiguous copy.
+  const wasm = wasmKernels();
+  if (wasm) {
+    const [w, u, q, v, p, p2] = wasm.views(n * n, n, n, n, n, n);
+    w.fill(0); // the module's memory holds whatever the last kernel left there
+    const columns = (from: number, to: number, last: number, into: Float64Array) =>
+      wasm.exports.tridiagonal_columns(
+        w.byteOffset,
+        n,
+        last,
+        from,
+        to,
+        u.byteOffset,
+        q.byteOffset,
+        v.byteOffset,
+        into.byteOffset,
+      );
+    const form = reduce(m, { w, u, q, v, p, p2 }, (last, split) => {
+      columns(0, split, last, p);
+      p2.fill(0, 0, last);
+      columns(split, last, last, p2);
+    });
+    return { ...form, reflectors: w.slice() };
+  }
   const team = n > MIN_SHARED_PASS ? kernelTeam() : null;
-  const w = sharedArray(team, n * n);
+  const work: Workspace = {
+    w: sharedArray(team, n * n),
+    u: sharedArray(team, n),
+    q: sharedArray(team, n),
+    v: sharedArray(team, n),
+    p: new Float64Array(n),
+    p2: sharedArray(team, n),
+  };
+  const { w, u, q, v, p, p2 } = work;
+  return reduce(m, work, (last, split) => {
+    const mine = () => fusedColumns(w, n, last, 0, split, u, q, v, p);
+    const theirs = () => passShare([w, u, q, v, p2], [n, last, split]);
+    if (last < MIN_SHARED_PASS) {
+      mine();
+      theirs();
+    } else
+      inTwoShares(
+        team,
+        { kernel: TRIDIAGONAL_PASS_SHARE, buffers: [w, u, q, v, p2], ints: [n, last, split] },
+        mine,
+        theirs,
+      );
+  });
+}
+
+/**
+ * The reduction's arrays: the n x n working matrix w (zero-filled) and five vectors of n. A[k][j]
+ * (k >= j) lives in w[j * n + k]: column j of the lower triangle is contiguous.
+ */
+interface Workspace {
+  w: Float64Array;
+  u: Float64Array;
+  q: Float64Array;
+  v: Float64Array;
+  /** A u for the current step, summed during the previous pass (its first column range). */
+  p: Float64Array;
+  /** A v over the second column range of a pass. */
+  p2: Float64Array;
+}
+
+/**
+ * The reduction on `work`, with `pass(last, split)` making one step's pass over the leading
+ * last x last block: columns [0, split) into p (zeroed first), then [split, last) into p2
+ * (zeroed by the pass).
+ */
+function reduce(m: Matrix, work: Workspace, pass: (last: number, split: number) => void): TridiagonalForm {
+  const n = m.rows;
+  const { w, u, q, v, p, p2 } = work;
+  // Row j of the upper triangle of the symmetric input is column j of the lower: one copy each.
   for (let j = 0; j < n; j++) w.set(m.data.subarray(j * n + j, j * n + n), j * n + j);
-  const u = sharedArray(team, n);
-  const q = sharedArray(team, n);
-  const v = sharedArray(team, n);
-  const p2 = sharedArray(team, n); // A v over the second column range of a pass
   const d = new Float64Array(n);
   const e = new Float64Array(n);
   const halfNorms = new Float64Array(n);
-  const p = new Float64Array(n); // A u for the current step, summed during the previous pass
   if (n <= 1) {
     if (n === 1) d[0] = w[0];
     return { n, diagonal: d, offDiagonal: e, reflectors: w, halfNorms };
@@ -102,18 +171,7 @@ export function tridiagonalForm(m: Matrix): TridiagonalForm {
     }
     const split = passSplit(last);
     p.fill(0, 0, last);
-    const mine = () => fusedColumns(w, n, last, 0, split, u, q, v, p);
-    const theirs = () => passShare([w, u, q, v, p2], [n, last, split]);
-    if (last < MIN_SHARED_PASS) {
-      mine();
-      theirs();
-    } else
-      inTwoShares(
-        team,
-        { kernel: TRIDIAGONAL_PASS_SHARE, buffers: [w, u, q, v, p2], ints: [n, last, split] },
-        mine,
-        theirs,
-      );
+    pass(last, split);
     for (let k = split; k < last; k++) p[k] += p2[k];
     ready = true;
   }

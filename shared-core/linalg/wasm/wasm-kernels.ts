@@ -23,6 +23,21 @@ export interface KernelExports {
     k0: number,
     k1: number,
   ): void;
+  /**
+   * tridiagonal.c: columns [from, to) of one pass of the tridiagonal reduction over the leading
+   * m x m block of w (n x n), as fusedColumns in tridiagonal-form.ts. Pointers are byte offsets.
+   */
+  tridiagonal_columns(
+    w: number,
+    n: number,
+    m: number,
+    from: number,
+    to: number,
+    u: number,
+    q: number,
+    v: number,
+    p: number,
+  ): void;
 }
 
 export interface WasmKernels {

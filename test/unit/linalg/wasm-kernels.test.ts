@@ -2,6 +2,8 @@ import { fileURLToPath } from 'node:url';
 import { afterEach, describe, expect, it } from 'vitest';
 import { kernelSourceDigest } from '../../../scripts/kernel-source-digest.mjs';
 import { crossProduct, crossProductNaive } from '../../../shared-core/linalg/cross-product.js';
+import type { Matrix } from '../../../shared-core/linalg/matrix.js';
+import { tridiagonalForm, type TridiagonalForm } from '../../../shared-core/linalg/tridiagonal-form.js';
 import { KERNEL_SOURCE_DIGEST } from '../../../shared-core/linalg/wasm/kernel-binary.js';
 import { useWasmKernels, wasmKernels } from '../../../shared-core/linalg/wasm/wasm-kernels.js';
 import { randomMatrix, sameBits } from '../../support/random-matrix.js';
@@ -66,5 +68,67 @@ describe('the WebAssembly kernels', () => {
     const { wasm, typescript } = bothWays(() => crossProduct(small).data);
     expect(big.length).toBe(8100);
     expect(sameBits(wasm, typescript)).toBe(true);
+  });
+
+  /** A symmetric N x N matrix: X'X of a T x N matrix (rank min(T, N)), both triangles filled. */
+  function symmetric(t: number, n: number, seed: number): Matrix {
+    const x = randomMatrix(t, n, seed);
+    return crossProductNaive(x);
+  }
+
+  /** Every array of a reduction, bit for bit. */
+  const sameForm = (a: TridiagonalForm, b: TridiagonalForm) =>
+    a.n === b.n &&
+    sameBits(a.diagonal, b.diagonal) &&
+    sameBits(a.offDiagonal, b.offDiagonal) &&
+    sameBits(a.reflectors, b.reflectors) &&
+    sameBits(a.halfNorms, b.halfNorms);
+
+  it.each([1, 2, 3, 5, 31, 33, 64, 65, 200, 513, 600])(
+    'reduce a symmetric matrix to tridiagonal form bit for bit as the TypeScript does (N = %i)',
+    (n) => {
+      const a = symmetric(n + 7, n, n * 13 + 1);
+      const { wasm, typescript } = bothWays(() => tridiagonalForm(a));
+      expect(sameForm(wasm, typescript)).toBe(true);
+      // Not trivially: the reduction really ran (T's entries are not the input's).
+      if (n >= 3) expect(wasm.offDiagonal.some((x, k) => k > 0 && x !== 0)).toBe(true);
+    },
+  );
+
+  it('reduce bit for bit where columns are zero, the rank is low or parts are already tridiagonal', () => {
+    const cases: Matrix[] = [];
+    // Rank 4 of 65: most steps have little left to reflect.
+    cases.push(symmetric(4, 65, 3));
+    // Zero rows and columns scattered through, including the last and the first.
+    const holes = symmetric(90, 70, 4);
+    for (const z of [0, 5, 6, 33, 68, 69])
+      for (let k = 0; k < 70; k++) holes.data[z * 70 + k] = holes.data[k * 70 + z] = 0;
+    cases.push(holes);
+    // Already tridiagonal in its trailing 40 rows (and diagonal at the very end): steps with nothing to reduce.
+    const part = symmetric(80, 64, 5);
+    for (let i = 24; i < 64; i++) for (let j = 0; j < i - 1; j++) part.data[i * 64 + j] = part.data[j * 64 + i] = 0;
+    for (let i = 60; i < 64; i++) part.data[i * 64 + i - 1] = part.data[(i - 1) * 64 + i] = 0;
+    cases.push(part);
+    // Fully tridiagonal, and diagonal.
+    const tri = { rows: 33, cols: 33, data: new Float64Array(33 * 33) };
+    for (let i = 0; i < 33; i++) {
+      tri.data[i * 34] = 2 + i / 7;
+      if (i > 0) tri.data[i * 33 + i - 1] = tri.data[(i - 1) * 33 + i] = -1 + i / 50;
+    }
+    cases.push(tri);
+    const diagonal = { rows: 31, cols: 31, data: new Float64Array(31 * 31) };
+    for (let i = 0; i < 31; i++) diagonal.data[i * 32] = i - 15;
+    cases.push(diagonal);
+    for (const a of cases) {
+      const { wasm, typescript } = bothWays(() => tridiagonalForm(a));
+      expect(sameForm(wasm, typescript)).toBe(true);
+    }
+  });
+
+  it('reduce a small matrix after a large one without carrying its values over', () => {
+    tridiagonalForm(symmetric(300, 200, 6));
+    const small = symmetric(50, 40, 7);
+    const { wasm, typescript } = bothWays(() => tridiagonalForm(small));
+    expect(sameForm(wasm, typescript)).toBe(true);
   });
 });
