@@ -38,6 +38,13 @@ export interface KernelExports {
     v: number,
     p: number,
   ): void;
+  /**
+   * cholesky.c: columns [j0, j1) of L on the block's own rows, each pair's pivot rows left side by
+   * side in `pairs` (j1 - j0 times n doubles); 1 when every pivot is positive and finite, else 0.
+   */
+  cholesky_diagonal_block(a: number, n: number, j0: number, j1: number, pairs: number): number;
+  /** cholesky.c: columns [j0, j1) of L on rows [r0, r1) below the block, from its `pairs`. */
+  cholesky_rows_below(a: number, n: number, j0: number, j1: number, r0: number, r1: number, pairs: number): void;
 }
 
 export interface WasmKernels {

@@ -13,6 +13,7 @@
  * solve). The sums are the same, in the same order, as in one function.
  */
 import { inTwoShares, kernelTeam, type KernelTeam } from '../../linalg/kernel-team.js';
+import { wasmKernels, type WasmKernels } from '../../linalg/wasm/wasm-kernels.js';
 import { maxAbs, subtractDot } from './kernels.js';
 
 /** a[rj + j] - sum_k a[rj + k]^2 over k < j, with two partial sums (even and odd k). */
@@ -131,6 +132,8 @@ function oneRowOfTwoColumns(
  * another, and with a kernel team (linalg/kernel-team.ts) the helper thread takes half of them.
  */
 export function choleskyInPlace(a: Float64Array, n: number): boolean {
+  const wasm = wasmKernels();
+  if (wasm) return choleskyInWasm(a, n, wasm);
   const team = n >= MIN_SHARED_ORDER ? kernelTeam() : null;
   if (!team) return choleskyBlocks(a, n, null);
   const shared = team.shared(n * n);
@@ -139,6 +142,32 @@ export function choleskyInPlace(a: Float64Array, n: number): boolean {
   a.set(shared);
   return factored;
 }
+
+/**
+ * The factor by the WebAssembly kernels (linalg/wasm/cholesky.c), the same sums in the same order:
+ * per block, one call for its own rows and one per ROWS_PER_CALL rows below it, so that V8's
+ * optimised code (which serves only calls after the first few) does most of the work. A copy of
+ * `a` in and out of the module's memory is O(n^2) against the factor's O(n^3). On a matrix that
+ * is not positive definite `a` is left as the TypeScript leaves it (the columns before the failing
+ * pivot factored).
+ */
+function choleskyInWasm(a: Float64Array, n: number, wasm: WasmKernels): boolean {
+  const [m, pairs] = wasm.views(n * n, CHOLESKY_BLOCK * n);
+  m.set(a.subarray(0, n * n));
+  const { cholesky_diagonal_block: diagonal, cholesky_rows_below: below } = wasm.exports;
+  let factored = true;
+  for (let j0 = 0; j0 < n && factored; j0 += CHOLESKY_BLOCK) {
+    const j1 = Math.min(n, j0 + CHOLESKY_BLOCK);
+    factored = diagonal(m.byteOffset, n, j0, j1, pairs.byteOffset) === 1;
+    for (let r0 = j1; factored && r0 < n; r0 += ROWS_PER_CALL)
+      below(m.byteOffset, n, j0, j1, r0, Math.min(n, r0 + ROWS_PER_CALL), pairs.byteOffset);
+  }
+  a.set(m);
+  return factored;
+}
+
+/** Rows below a block per call of the WebAssembly kernel (a multiple of four, its rows per step). */
+const ROWS_PER_CALL = 64;
 
 /** Columns per block: 32 keeps a block's pivot rows (32 x n) in the second-level cache to n = 4000. */
 const CHOLESKY_BLOCK = 32;

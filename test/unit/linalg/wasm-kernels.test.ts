@@ -5,6 +5,7 @@ import { crossProduct, crossProductNaive } from '../../../shared-core/linalg/cro
 import type { Matrix } from '../../../shared-core/linalg/matrix.js';
 import { tridiagonalForm, type TridiagonalForm } from '../../../shared-core/linalg/tridiagonal-form.js';
 import { KERNEL_SOURCE_DIGEST } from '../../../shared-core/linalg/wasm/kernel-binary.js';
+import { choleskyInPlace } from '../../../shared-core/optimise/qp/dense-factor.js';
 import { useWasmKernels, wasmKernels } from '../../../shared-core/linalg/wasm/wasm-kernels.js';
 import { randomMatrix, sameBits } from '../../support/random-matrix.js';
 
@@ -27,6 +28,21 @@ function bothWays<T>(f: () => T): { wasm: T; typescript: T } {
 }
 
 afterEach(() => useWasmKernels(true));
+
+/** A symmetric positive definite n x n matrix: X'X of a random (n + 20) x n X, plus 1e-3 I. */
+function positiveDefinite(n: number, seed: number): Float64Array {
+  const a = crossProduct(randomMatrix(n + 20, n, seed)).data;
+  for (let i = 0; i < n; i++) a[i * n + i] += 1e-3;
+  return a;
+}
+
+/** The factor of a copy of `a` both ways: whether it factored, and the array as each left it. */
+function factorBothWays(a: Float64Array, n: number) {
+  return bothWays(() => {
+    const f = Float64Array.from(a);
+    return { factored: choleskyInPlace(f, n), f };
+  });
+}
 
 describe('the WebAssembly kernels', () => {
   it('were compiled from the C sources as they are now (npm run build:wasm after a change)', () => {
@@ -130,5 +146,77 @@ describe('the WebAssembly kernels', () => {
     const small = symmetric(50, 40, 7);
     const { wasm, typescript } = bothWays(() => tridiagonalForm(small));
     expect(sameForm(wasm, typescript)).toBe(true);
+  });
+
+  it.each([1, 2, 3, 5, 31, 32, 33, 64, 65, 200, 501])(
+    "factor A = L L' bit for bit as the TypeScript kernel does (n = %i)",
+    (n) => {
+      const a = positiveDefinite(n, 17 * n + 3);
+      const { wasm, typescript } = factorBothWays(a, n);
+      expect(wasm.factored).toBe(true);
+      expect(typescript.factored).toBe(true);
+      expect(sameBits(wasm.f, typescript.f)).toBe(true);
+      // And L is a Cholesky factor: (L L')_ij = A_ij on the lower triangle, to rounding (the
+      // definition; Golub and Van Loan, Matrix Computations, 4.2), and its diagonal positive.
+      const l = wasm.f;
+      let scale = 0;
+      let error = 0;
+      for (let i = 0; i < n; i++) {
+        expect(l[i * n + i]).toBeGreaterThan(0);
+        for (let j = 0; j <= i; j++) {
+          let s = 0;
+          for (let k = 0; k <= j; k++) s += l[i * n + k] * l[j * n + k];
+          scale = Math.max(scale, Math.abs(a[i * n + j]));
+          error = Math.max(error, Math.abs(s - a[i * n + j]));
+        }
+      }
+      expect(error).toBeLessThanOrEqual(1e-13 * scale * n);
+    },
+  );
+
+  it.each([
+    [1, 0],
+    [2, 1],
+    [5, 4],
+    [33, 32],
+    [64, 10],
+    [65, 64],
+    [200, 71],
+    [200, 199],
+    [501, 300],
+  ])('refuse a matrix that is not positive definite where the TypeScript does (n = %i, column %i)', (n, bad) => {
+    const a = positiveDefinite(n, 5 * n + bad);
+    // Row and column `bad` made those of an earlier one (or zero) but for a smaller diagonal
+    // entry: its pivot, the diagonal less what the earlier one's took, is negative.
+    const like = bad === 0 ? -1 : bad - 1;
+    for (let k = 0; k < n; k++) {
+      const v = like < 0 ? 0 : a[like * n + k];
+      a[bad * n + k] = v;
+      a[k * n + bad] = v;
+    }
+    a[bad * n + bad] = like < 0 ? -1 : 0.5 * a[like * n + like];
+    const { wasm, typescript } = factorBothWays(a, n);
+    expect(wasm.factored).toBe(false);
+    expect(typescript.factored).toBe(false);
+    // The same columns factored before the refusal, and the rest left alone.
+    expect(sameBits(wasm.f, typescript.f)).toBe(true);
+    if (like >= 0) expect(wasm.f[like * n + like]).toBeGreaterThan(0);
+    expect(Object.is(wasm.f[(n - 1) * n + n - 1], a[(n - 1) * n + n - 1]) || bad === n - 1).toBe(true);
+  });
+
+  it('refuse a matrix with a NaN or an infinite entry where the TypeScript does', () => {
+    for (const [n, i, j, v] of [
+      [40, 37, 3, Number.NaN],
+      [70, 66, 66, Number.POSITIVE_INFINITY],
+      [70, 2, 1, Number.NaN],
+    ]) {
+      const a = positiveDefinite(n, n + i);
+      a[i * n + j] = v;
+      a[j * n + i] = v;
+      const { wasm, typescript } = factorBothWays(a, n);
+      expect(wasm.factored).toBe(false);
+      expect(typescript.factored).toBe(false);
+      expect(sameBits(wasm.f, typescript.f)).toBe(true);
+    }
   });
 });
