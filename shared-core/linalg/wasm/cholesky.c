@@ -51,6 +51,51 @@ static void four_rows(double *r, int n, const double *pair, int j, double ljj, d
   finish_two_columns(r3 + j, v, ljj, l1j, l11);
 }
 
+// Columns j to j + 3 of L (two pairs: pivot rows side by side in `pair` and `next`, pivots in
+// rows rj to rj + 3n) on four rows from r. The loop carries eight independent sums where
+// four_rows carries four, whose subtracts wait on one another's latency. Each sum is still the
+// one four_rows makes: the second pair's over m < j here, then its terms m = j, j + 1 from the
+// first pair's finished entries.
+static void four_rows_two_pairs(double *r, int n, const double *pair, const double *next, int j,
+                                const double *rj) {
+  const double ljj = rj[j], l1j = rj[n + j], l11 = rj[n + j + 1];
+  const double *rk = rj + 2 * n;
+  const double lkk = rk[j + 2], l3k = rk[n + j + 2], l33 = rk[n + j + 3];
+  double *r1 = r + n, *r2 = r1 + n, *r3 = r2 + n;
+  v128_t s = wasm_v128_load(r + j), t = wasm_v128_load(r1 + j);
+  v128_t u = wasm_v128_load(r2 + j), v = wasm_v128_load(r3 + j);
+  v128_t s2 = wasm_v128_load(r + j + 2), t2 = wasm_v128_load(r1 + j + 2);
+  v128_t u2 = wasm_v128_load(r2 + j + 2), v2 = wasm_v128_load(r3 + j + 2);
+  for (int m = 0; m < j; m++) {
+    const v128_t x = wasm_v128_load(pair + 2 * m), y = wasm_v128_load(next + 2 * m);
+    const v128_t p = wasm_v128_load64_splat(r + m), q = wasm_v128_load64_splat(r1 + m);
+    const v128_t w = wasm_v128_load64_splat(r2 + m), z = wasm_v128_load64_splat(r3 + m);
+    s = wasm_f64x2_sub(s, wasm_f64x2_mul(p, x));
+    s2 = wasm_f64x2_sub(s2, wasm_f64x2_mul(p, y));
+    t = wasm_f64x2_sub(t, wasm_f64x2_mul(q, x));
+    t2 = wasm_f64x2_sub(t2, wasm_f64x2_mul(q, y));
+    u = wasm_f64x2_sub(u, wasm_f64x2_mul(w, x));
+    u2 = wasm_f64x2_sub(u2, wasm_f64x2_mul(w, y));
+    v = wasm_f64x2_sub(v, wasm_f64x2_mul(z, x));
+    v2 = wasm_f64x2_sub(v2, wasm_f64x2_mul(z, y));
+  }
+  finish_two_columns(r + j, s, ljj, l1j, l11);
+  finish_two_columns(r1 + j, t, ljj, l1j, l11);
+  finish_two_columns(r2 + j, u, ljj, l1j, l11);
+  finish_two_columns(r3 + j, v, ljj, l1j, l11);
+  for (int m = j; m < j + 2; m++) {
+    const v128_t y = wasm_v128_load(next + 2 * m);
+    s2 = wasm_f64x2_sub(s2, wasm_f64x2_mul(wasm_v128_load64_splat(r + m), y));
+    t2 = wasm_f64x2_sub(t2, wasm_f64x2_mul(wasm_v128_load64_splat(r1 + m), y));
+    u2 = wasm_f64x2_sub(u2, wasm_f64x2_mul(wasm_v128_load64_splat(r2 + m), y));
+    v2 = wasm_f64x2_sub(v2, wasm_f64x2_mul(wasm_v128_load64_splat(r3 + m), y));
+  }
+  finish_two_columns(r + j + 2, s2, lkk, l3k, l33);
+  finish_two_columns(r1 + j + 2, t2, lkk, l3k, l33);
+  finish_two_columns(r2 + j + 2, u2, lkk, l3k, l33);
+  finish_two_columns(r3 + j + 2, v2, lkk, l3k, l33);
+}
+
 // The same on one row (oneRowOfTwoColumns).
 static void one_row(double *r, const double *pair, int j, double ljj, double l1j, double l11) {
   v128_t s = wasm_v128_load(r + j);
@@ -108,11 +153,15 @@ cholesky_diagonal_block(double *a, int n, int j0, int j1, double *pairs) {
 __attribute__((export_name("cholesky_rows_below"))) void
 cholesky_rows_below(double *a, int n, int j0, int j1, int r0, int r1, const double *pairs) {
   int i = r0;
-  for (; i + 3 < r1; i += 4)
-    for (int j = j0; j + 1 < j1; j += 2) {
+  for (; i + 3 < r1; i += 4) {
+    int j = j0;
+    for (; j + 3 < j1; j += 4)
+      four_rows_two_pairs(a + i * n, n, pairs + (j - j0) * n, pairs + (j + 2 - j0) * n, j, a + j * n);
+    for (; j + 1 < j1; j += 2) {
       const double *rj = a + j * n;
       four_rows(a + i * n, n, pairs + (j - j0) * n, j, rj[j], rj[n + j], rj[n + j + 1]);
     }
+  }
   for (; i < r1; i++)
     for (int j = j0; j + 1 < j1; j += 2) {
       const double *rj = a + j * n;
