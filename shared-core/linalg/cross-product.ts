@@ -41,7 +41,11 @@ export function crossProduct(x: Matrix): Matrix {
   return { rows: n, cols: n, data: out };
 }
 
-/** The cross product by the WebAssembly kernel: one call per row panel and pass of periods. */
+/**
+ * The cross product by the WebAssembly kernel, one call per row panel and pass of periods. On the
+ * kernel team's shared memory, and from MIN_SHARED_WASM_WORK, the row panels split in two shares
+ * as the TypeScript kernel's do.
+ */
 function crossProductInWasm(x: Matrix, wasm: WasmKernels): Matrix {
   const t = x.rows;
   const n = x.cols;
@@ -50,14 +54,53 @@ function crossProductInWasm(x: Matrix, wasm: WasmKernels): Matrix {
   packed.fill(0);
   sums.fill(0);
   packPanels(x, PANEL, packed);
-  for (let k0 = 0; k0 < t; k0 += PERIODS_PER_PASS) {
-    const k1 = Math.min(t, k0 + PERIODS_PER_PASS);
-    for (let I = 0; I < panels; I++)
-      wasm.exports.cross_product_row_panel(packed.byteOffset, sums.byteOffset, t, n, I, k0, k1);
-  }
+  const team = wasm.shared && n * n * t >= MIN_SHARED_WASM_WORK ? kernelTeam() : null;
+  const split = team ? Math.round(panels * Math.SQRT1_2) : panels;
+  inTwoShares(
+    team,
+    { kernel: CROSS_PRODUCT_WASM_SHARE, buffers: [packed, sums], ints: [t, n, split, panels] },
+    () => wasmPanels(wasm, packed, sums, t, n, 0, split),
+    () => wasmPanels(wasm, packed, sums, t, n, split, panels),
+  );
   const out = sums.slice();
   mirrorLower(out, n);
   return { rows: n, cols: n, data: out };
+}
+
+/** Row panels [from, to) of the lower triangle by the WebAssembly kernel, one call per panel and pass. */
+function wasmPanels(
+  wasm: WasmKernels,
+  packed: Float64Array,
+  sums: Float64Array,
+  t: number,
+  n: number,
+  from: number,
+  to: number,
+): void {
+  for (let k0 = 0; k0 < t; k0 += PERIODS_PER_PASS) {
+    const k1 = Math.min(t, k0 + PERIODS_PER_PASS);
+    for (let I = from; I < to; I++)
+      wasm.exports.cross_product_row_panel(packed.byteOffset, sums.byteOffset, t, n, I, k0, k1);
+  }
+}
+
+/**
+ * Below N^2 T = 2^30 (N = 920 at T = 1260) the WebAssembly product stays on one thread: it takes
+ * about 60 ms there, and the first share waits 30-60 ms for the helper to load.
+ */
+const MIN_SHARED_WASM_WORK = 1 << 30;
+
+/** The kernel team's name for a share of the WebAssembly cross product (see crossProductWasmShare). */
+export const CROSS_PRODUCT_WASM_SHARE = 'cross-product-wasm';
+
+/**
+ * The helper's share of the WebAssembly product: buffers [packed, sums] on the team's memory, ints
+ * [t, n, fromPanel, toPanel]. A helper whose module did not load makes it in TypeScript, the same sums.
+ */
+export function crossProductWasmShare(buffers: readonly Float64Array[], ints: readonly number[]): void {
+  const wasm = wasmKernels();
+  if (wasm) wasmPanels(wasm, buffers[0], buffers[1], ints[0], ints[1], ints[2], ints[3]);
+  else crossProductPanels(buffers[0], buffers[1], ints[0], ints[1], ints[2], ints[3]);
 }
 
 /** The kernel team's name for a share of the cross product (see crossProductShare). */

@@ -27,6 +27,11 @@ export interface KernelTeam {
   /** A zero-filled array the helper can see (backed by shared memory). */
   shared(length: number): Float64Array;
   /**
+   * The WebAssembly memory the helper's kernels run on too (wasm/wasm-kernels.ts), where this
+   * thread's WebAssembly kernels then put their arrays; null where the team has none.
+   */
+  readonly memory: object | null;
+  /**
    * Starts `job` on the helper (starting the helper first if need be). False when the helper
    * cannot take it (it did not start, or stopped): the caller then makes that share itself.
    */

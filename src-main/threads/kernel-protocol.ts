@@ -1,4 +1,9 @@
-import { CROSS_PRODUCT_SHARE, crossProductShare } from '../../shared-core/linalg/cross-product.js';
+import {
+  CROSS_PRODUCT_SHARE,
+  CROSS_PRODUCT_WASM_SHARE,
+  crossProductShare,
+  crossProductWasmShare,
+} from '../../shared-core/linalg/cross-product.js';
 import { passShare, TRIDIAGONAL_PASS_SHARE } from '../../shared-core/linalg/tridiagonal-form.js';
 import { CHOLESKY_ROWS_SHARE, choleskyRowsShare } from '../../shared-core/optimise/qp/dense-factor.js';
 
@@ -35,6 +40,7 @@ export type Share = (buffers: readonly Float64Array[], ints: readonly number[]) 
 /** The shares the helper can make, by the names the kernels give them. */
 export const SHARES: Readonly<Record<string, Share>> = {
   [CROSS_PRODUCT_SHARE]: crossProductShare,
+  [CROSS_PRODUCT_WASM_SHARE]: crossProductWasmShare,
   [TRIDIAGONAL_PASS_SHARE]: passShare,
   [CHOLESKY_ROWS_SHARE]: choleskyRowsShare,
 };

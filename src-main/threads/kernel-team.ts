@@ -1,6 +1,7 @@
 import { availableParallelism } from 'node:os';
 import { MessageChannel, Worker } from 'node:worker_threads';
 import type { KernelJob, KernelTeam } from '../../shared-core/linalg/kernel-team.js';
+import { sharedKernelMemory } from '../../shared-core/linalg/wasm/wasm-kernels.js';
 import { CONTROL, INTS_MAX, KERNELS, SPIN } from './kernel-protocol.js';
 
 /**
@@ -26,6 +27,8 @@ const READY_WAIT_MS = 3000;
 export function kernelTeamOfTwo(workerFile: URL = new URL('./kernel-worker.js', import.meta.url)): KernelTeam | null {
   if (availableParallelism() < 2) return null;
   const control = new Int32Array(new SharedArrayBuffer(CONTROL.size * 4));
+  // The WebAssembly kernels' memory, which the worker's instance of them shares (wasm-kernels.ts).
+  const memory = sharedKernelMemory();
   const { port1, port2 } = new MessageChannel();
   port1.unref();
   let started = false;
@@ -33,7 +36,7 @@ export function kernelTeamOfTwo(workerFile: URL = new URL('./kernel-worker.js', 
     started = true;
     try {
       const worker = new Worker(workerFile, {
-        workerData: { control, port: port2 },
+        workerData: { control, port: port2, memory },
         transferList: [port2],
       });
       worker.unref();
@@ -48,6 +51,7 @@ export function kernelTeamOfTwo(workerFile: URL = new URL('./kernel-worker.js', 
   let pending = false;
   return {
     shared: (length) => new Float64Array(new SharedArrayBuffer(length * 8)),
+    memory,
     fork(job: KernelJob): boolean {
       if (pending) throw new Error('kernel team: a job is already running');
       if (Atomics.load(control, CONTROL.gone) === 1) return false;

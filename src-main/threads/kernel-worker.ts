@@ -1,4 +1,5 @@
 import { receiveMessageOnPort, workerData, type MessagePort } from 'node:worker_threads';
+import { bindHelperKernels, type KernelMemory } from '../../shared-core/linalg/wasm/wasm-kernels.js';
 import { CONTROL, KERNELS, SHARES, SPIN } from './kernel-protocol.js';
 
 /**
@@ -6,7 +7,10 @@ import { CONTROL, KERNELS, SHARES, SPIN } from './kernel-protocol.js';
  * share, posts the job's number back. It never returns to its event loop, so buffers arrive by
  * reading the port directly.
  */
-const { control, port } = workerData as { control: Int32Array; port: MessagePort };
+const { control, port, memory } = workerData as { control: Int32Array; port: MessagePort; memory: KernelMemory | null };
+// The WebAssembly kernels' shares run on the team's memory; a share of one is asked for only when
+// the caller's kernels run on that memory too.
+if (memory) bindHelperKernels(memory);
 const shares = KERNELS.map((name) => SHARES[name]);
 const ints: number[] = new Array<number>(CONTROL.size - CONTROL.ints).fill(0);
 let buffers: readonly Float64Array[] = [];

@@ -1,4 +1,5 @@
-import { KERNEL_MODULE_BASE64 } from './kernel-binary.js';
+import { kernelTeam } from '../kernel-team.js';
+import { KERNEL_MODULE_BASE64, KERNEL_SHARED_MODULE_BASE64 } from './kernel-binary.js';
 
 /**
  * The dense kernels compiled to WebAssembly with SIMD (the C sources beside this file, built by
@@ -6,6 +7,10 @@ import { KERNEL_MODULE_BASE64 } from './kernel-binary.js';
  * as its TypeScript twin, which stays as the fallback: where WebAssembly or its SIMD is missing,
  * or the module will not compile (a page's main thread refuses to compile synchronously), every
  * kernel runs in TypeScript and the answer is the same bit for bit (the tests check both).
+ *
+ * Two builds of the same sources: one on a memory of its own, and one on a shared memory for the
+ * command line's kernel team (kernel-team.ts), whose helper thread runs its own instance on the
+ * team's memory, so both threads' shares work on the same arrays in place.
  *
  * V8 runs a WebAssembly function first from its baseline compiler and uses the optimised code
  * only for later calls, so a caller splits its work into many calls (a panel, a block of
@@ -49,11 +54,14 @@ export interface KernelExports {
 
 export interface WasmKernels {
   readonly exports: KernelExports;
+  /** True on the kernel team's shared memory: views may then be handed to the team's helper. */
+  readonly shared: boolean;
   /**
    * Views of consecutive regions of the module's memory with these lengths in doubles, each at a
    * 16-byte boundary (a view's byteOffset is its pointer for the kernels). The memory grows when
-   * needed, which invalidates earlier views: take a kernel's views once, after which nothing grows
-   * it until the kernel ends. The regions hold whatever the last kernel left there.
+   * needed, which invalidates earlier views of a memory of its own: take a kernel's views once,
+   * after which nothing grows it until the kernel ends. The regions hold whatever the last
+   * kernel left there.
    */
   views(...lengths: number[]): Float64Array[];
 }
@@ -66,19 +74,45 @@ declare const WebAssembly: WebAssemblyApi | undefined;
 interface WebAssemblyApi {
   Module: new (bytes: Uint8Array) => object;
   Instance: new (module: object, imports: object) => { exports: Record<string, unknown> };
-  Memory: new (descriptor: { initial: number }) => { buffer: ArrayBuffer; grow(pages: number): number };
+  Memory: new (descriptor: { initial: number; maximum?: number; shared?: boolean }) => KernelMemory;
+}
+
+/** A WebAssembly.Memory. */
+export interface KernelMemory {
+  readonly buffer: ArrayBuffer;
+  grow(pages: number): number;
 }
 
 const PAGE_BYTES = 65536;
+/** The shared build's declared maximum (2 GiB, build-wasm.mjs): a shared memory must name it. */
+const MAX_SHARED_PAGES = 32768;
+/**
+ * The helper thread's stack in a shared memory: the bytes just above the module's heap base, which
+ * views therefore skip. The kernels keep only a few values on the stack.
+ */
+const HELPER_STACK_BYTES = 65536;
 
 let enabled = true;
-let loaded: WasmKernels | null | undefined;
+let own: WasmKernels | null | undefined;
+let onTeamMemory: { memory: KernelMemory; kernels: WasmKernels | null } | undefined;
+let helper: WasmKernels | null = null;
 
-/** The kernels' module, instantiated at the first call; null where it cannot run (or is switched off). */
+/**
+ * The kernels this thread runs, instantiated at the first call: on the installed kernel team's
+ * shared memory where there is one, else on a memory of their own; null where WebAssembly cannot
+ * run them (or they are switched off).
+ */
 export function wasmKernels(): WasmKernels | null {
   if (!enabled) return null;
-  if (loaded === undefined) loaded = instantiate();
-  return loaded;
+  if (helper) return helper;
+  const memory = kernelTeam()?.memory as KernelMemory | null | undefined;
+  if (memory) {
+    if (onTeamMemory?.memory !== memory)
+      onTeamMemory = { memory, kernels: instantiate(KERNEL_SHARED_MODULE_BASE64, memory, false) };
+    if (onTeamMemory.kernels) return onTeamMemory.kernels;
+  }
+  if (own === undefined) own = ownMemory();
+  return own;
 }
 
 /** Switches the WebAssembly kernels off (false) or back on: the tests compare both paths, the bench times both. */
@@ -86,19 +120,48 @@ export function useWasmKernels(on: boolean): void {
   enabled = on;
 }
 
-function instantiate(): WasmKernels | null {
+/** A shared memory for a kernel team and its helper, or null where the engine cannot share one. */
+export function sharedKernelMemory(): KernelMemory | null {
   if (typeof WebAssembly === 'undefined') return null;
-  const api = WebAssembly;
   try {
-    const module = new api.Module(decodeBase64(KERNEL_MODULE_BASE64));
-    const memory = new api.Memory({ initial: 2 });
-    const instance = new api.Instance(module, { env: { memory } });
+    return new WebAssembly.Memory({ initial: 2, maximum: MAX_SHARED_PAGES, shared: true });
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * In a kernel team's helper thread: its kernels run on the team's shared memory, on a stack of
+ * their own. False when the module cannot run there (the helper then makes TypeScript shares only).
+ */
+export function bindHelperKernels(memory: KernelMemory): boolean {
+  helper = instantiate(KERNEL_SHARED_MODULE_BASE64, memory, true);
+  return helper !== null;
+}
+
+function ownMemory(): WasmKernels | null {
+  if (typeof WebAssembly === 'undefined') return null;
+  try {
+    return instantiate(KERNEL_MODULE_BASE64, new WebAssembly.Memory({ initial: 2 }), false);
+  } catch {
+    return null;
+  }
+}
+
+function instantiate(base64: string, memory: KernelMemory, asHelper: boolean): WasmKernels | null {
+  if (typeof WebAssembly === 'undefined') return null;
+  try {
+    const module = new WebAssembly.Module(decodeBase64(base64));
+    const instance = new WebAssembly.Instance(module, { env: { memory } });
     const heapBase = (instance.exports.__heap_base as { value: number }).value;
+    const first = align16(heapBase) + HELPER_STACK_BYTES;
+    if (asHelper) (instance.exports.__stack_pointer as { value: number }).value = first;
     return {
       exports: instance.exports as unknown as KernelExports,
+      shared: base64 === KERNEL_SHARED_MODULE_BASE64,
       views(...lengths: number[]): Float64Array[] {
         const offsets: number[] = [];
-        let end = align16(heapBase);
+        let end = first;
         for (const length of lengths) {
           offsets.push(end);
           end = align16(end + length * 8);

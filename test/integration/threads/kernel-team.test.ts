@@ -34,6 +34,7 @@ function withAndWithout<T>(f: () => T): { alone: T; shared: T } {
   taken = 0;
   m.team.installKernelTeam({
     shared: (length) => team.shared(length),
+    memory: team.memory,
     fork: (job) => {
       const forked = team.fork(job);
       if (forked) taken++;
@@ -74,6 +75,20 @@ describe.runIf(built)('the dense kernels on two threads', () => {
     let s = 0;
     for (let k = 0; k < 1000; k++) s += x.data[k * 760 + 3] * x.data[k * 760 + 700];
     expect(shared.data[3 * 760 + 700]).toBeCloseTo(s, 10);
+  });
+
+  it("makes X'X in WebAssembly on the team's shared memory, both threads, bit for bit (N = 1000, T = 1100)", () => {
+    const x = randomMatrix(1100, 1000, 15);
+    const typescript = m.cross.crossProduct(x);
+    m.wasm.useWasmKernels(true);
+    try {
+      const { alone, shared } = withAndWithout(() => m.cross.crossProduct(x));
+      expect(taken).toBe(1);
+      expect(sameBits(alone.data, typescript.data)).toBe(true);
+      expect(sameBits(shared.data, typescript.data)).toBe(true);
+    } finally {
+      m.wasm.useWasmKernels(false);
+    }
   });
 
   it('reduces a symmetric matrix to the same tridiagonal form and reflectors (N = 640)', () => {
