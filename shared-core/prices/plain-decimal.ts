@@ -1,7 +1,11 @@
+import { MAX_PRICE, MIN_PRICE } from './price-value.js';
+
 /** The decimal mark of a price file: a point (1234.5) or a comma (1234,5). */
 export type DecimalMark = 'point' | 'comma';
 
-const POW10 = Array.from({ length: 23 }, (_, k) => 10 ** k);
+/** 10^0 to 10^22, each exact (5^22 < 2^53), made by exact products rather than by a power function. */
+const POW10: number[] = [1];
+for (let k = 1; k <= 22; k++) POW10.push(POW10[k - 1] * 10);
 
 /** The character codes of the two decimal marks. */
 export const POINT = 46;
@@ -16,40 +20,49 @@ const GRAMMAR = {
  * The one grammar of a number in a price file: an optional sign, digits with at most one decimal
  * mark (the file's: point or comma), an optional exponent, blanks around it; no thousands
  * separators, no hex, no `Infinity`. NaN when `text` is anything else. `Number()` does the
- * conversion (correctly rounded). `readPlainDecimals` reads the common subset in place, to the
- * same double (test/unit/prices/read-plain-decimals.test.ts checks that they agree).
+ * conversion (correctly rounded). `readDecimalCells` reads a line of such numbers from its bytes,
+ * to the same doubles (test/unit/prices/read-decimal-cells.test.ts checks that they agree).
  */
 export function readDecimal(text: string, mark: DecimalMark): number {
   if (!GRAMMAR[mark].test(text)) return NaN;
   return Number(mark === 'comma' ? text.replace(',', '.') : text);
 }
 
+/** A cell longer than this is left to the caller's general path (no string is made of it here). */
+const LONGEST_CELL = 64;
+
 /**
- * Cells separated by the character code `separator` in `text[start, end)`, read in place: cell k
- * into `columns[k][at]` (at least one column), NaN when empty, else a plain decimal
- * `[+-]digits[.digits]` of 1 to 15 digits (here with the decimal mark `markCode`), read as
- * `readDecimal` reads it, to the same double: with at most 15 significant digits the digits form
- * an exact integer and 10^k is exact, so one division gives the correctly rounded double
- * (Clinger 1990, "How to read floating point numbers accurately", the fast path).
+ * Cells separated by the byte `separator` in `bytes[start, end)` (ASCII: one byte per character),
+ * read in place, without a string per cell: cell k into `columns[k][at]` (at least one column),
+ * NaN when empty, else a number of `readDecimal`'s grammar without blanks, `[+-]digits[mark
+ * digits][(e|E)[+-]digits]`, to the double `readDecimal` gives (Number(), correctly rounded).
+ *
+ * The digits before and after the mark are gathered as two integers, exact while each has at most
+ * 9 digits. With at most 15 significant digits in all (leading zeros counted) and a power of ten
+ * within 10^±22, both the digits as one integer and the power of ten are exact doubles, so one
+ * multiplication or division gives the correctly rounded double (Clinger 1990, "How to read
+ * floating point numbers accurately", the fast path). Such a value is 0 or lies within
+ * [1e-22, 1e37], inside the range of a price. Any other number of the grammar (more digits, a
+ * larger exponent) is read by Number() from the cell's characters, and kept only within the range
+ * of a price.
  *
  * Returns the least value read (+Infinity when every cell is empty), so that a caller checks a
- * line of prices for positivity at once; or NaN as soon as a cell is anything else or the range
- * does not hold exactly `columns.length` cells (what was written then means nothing; the caller
- * takes its general path). The character after the range, if any, must not be a digit (a line
- * end is not): it stops the digit loops, which then need not test for the end of the range.
+ * line of prices for positivity at once; or NaN as soon as a cell is anything else (a blank, a
+ * quote, a second mark, a price out of range) or the range does not hold exactly
+ * `columns.length` cells (what was written then means nothing; the caller takes its general
+ * path, which names each problem). The byte after the range must exist and be none of a digit, the
+ * mark or `e` (a line break is none): it stops the digit loops, which then need not test for the
+ * end of the range.
  *
  * Written for V8's first pass over a file as much as for its optimised code: one call per line,
- * no call inside, few operations per character (a digit is one exclusive or and one test; the
- * sign is looked for only when a cell does not start with a digit), so the unoptimised code that
- * reads the first lines runs some 30% fewer instructions than a scan of each cell found by
- * indexOf (Node 20, --no-opt, 500 x 1261 prices). Every test runs in each cell, none
- * only before or after the loop: V8 compiles the function while its first line is being read,
- * and a test that had not run by then would be compiled without type feedback and deoptimise on
- * every later line. The character codes are written as numbers: a module constant costs the
- * unoptimised code a load each time.
+ * no call inside but for the rare cell left to Number(), few operations per byte. Every test runs
+ * in each cell, none only before or after the loop: V8 compiles the function while its first line
+ * is being read, and a test that had not run by then would be compiled without type feedback and
+ * deoptimise on every later line. The character codes are written as numbers: a module constant
+ * costs the unoptimised code a load each time.
  */
-export function readPlainDecimals(
-  text: string,
+export function readDecimalCells(
+  bytes: Uint8Array,
   start: number,
   end: number,
   separator: number,
@@ -60,44 +73,53 @@ export function readPlainDecimals(
   let least = Infinity;
   let i = start;
   for (let k = 0; ; k++) {
-    let first = i;
-    let code: number;
-    let mantissa = 0;
-    for (; ; i++) {
-      code = text.charCodeAt(i);
-      const digit = code ^ 48; // '0' to '9' give 0 to 9, anything else more
-      if (digit > 9) break;
-      mantissa = mantissa * 10 + digit;
-    }
+    const cellStart = i;
+    let code = bytes[i];
     let value = NaN; // an empty cell
-    if (i > first || (i < end && code !== separator)) {
+    if (i < end && code !== separator) {
       let negative = false;
-      if (i === first && i < end && (code === 43 || code === 45)) {
+      if (code === 45 || code === 43) {
         negative = code === 45; // '-' rather than '+'
-        first = ++i;
-        for (; ; i++) {
-          code = text.charCodeAt(i);
-          const digit = code ^ 48;
-          if (digit > 9) break;
-          mantissa = mantissa * 10 + digit;
-        }
+        code = bytes[++i];
       }
-      let digits = i - first;
+      const wholeStart = i;
+      let whole = 0;
+      // '0' to '9' give 0 to 9 under the exclusive or, anything else more; `| 0` keeps the
+      // integer in 32 bits (it wraps past 9 digits, which then are not used).
+      for (; (code ^ 48) <= 9; code = bytes[++i]) whole = (whole * 10 + (code ^ 48)) | 0;
+      const wholeDigits = i - wholeStart;
+      let part = 0;
       let fraction = 0;
-      if (i < end && code === markCode) {
-        const after = ++i;
-        for (; ; i++) {
-          code = text.charCodeAt(i);
-          const digit = code ^ 48;
-          if (digit > 9) break;
-          mantissa = mantissa * 10 + digit;
-        }
-        fraction = i - after;
-        digits += fraction;
+      if (code === markCode && i < end) {
+        const partStart = ++i;
+        code = bytes[i];
+        for (; (code ^ 48) <= 9; code = bytes[++i]) part = (part * 10 + (code ^ 48)) | 0;
+        fraction = i - partStart;
       }
-      if (digits === 0 || digits > 15 || (i < end && code !== separator)) return NaN;
-      const magnitude = fraction > 0 ? mantissa / POW10[fraction] : mantissa;
-      value = negative ? -magnitude : magnitude;
+      if (wholeDigits + fraction === 0) return NaN;
+      let exponent = 0;
+      if ((code | 32) === 101 && i < end) {
+        code = bytes[++i];
+        let below = false;
+        if (code === 45 || code === 43) {
+          below = code === 45;
+          code = bytes[++i];
+        }
+        const exponentStart = i;
+        for (; (code ^ 48) <= 9; code = bytes[++i]) if (exponent < 100_000) exponent = exponent * 10 + (code ^ 48);
+        if (i === exponentStart) return NaN;
+        if (below) exponent = -exponent;
+      }
+      if (i < end && code !== separator) return NaN;
+      const scale = exponent - fraction;
+      if (wholeDigits <= 9 && fraction <= 9 && wholeDigits + fraction <= 15 && scale >= -22 && scale <= 22) {
+        const digits = fraction > 0 ? whole * POW10[fraction] + part : whole;
+        const magnitude = scale < 0 ? digits / POW10[-scale] : scale > 0 ? digits * POW10[scale] : digits;
+        value = negative ? -magnitude : magnitude;
+      } else {
+        value = numberOfCell(bytes, cellStart, i, markCode);
+        if (value !== value) return NaN; // not a price
+      }
       if (value < least) least = value;
     }
     columns[k][at] = value;
@@ -106,4 +128,13 @@ export function readPlainDecimals(
     if (lineEnded) return NaN; // nor fewer
     i++; // past the separator
   }
+}
+
+/** A cell of the grammar beyond the fast path, read by Number(); NaN when it cannot be a price. */
+function numberOfCell(bytes: Uint8Array, from: number, to: number, markCode: number): number {
+  if (to - from > LONGEST_CELL) return NaN;
+  let text = '';
+  for (let j = from; j < to; j++) text += String.fromCharCode(bytes[j] === markCode ? 46 : bytes[j]);
+  const value = Number(text);
+  return value >= MIN_PRICE && value <= MAX_PRICE ? value : NaN;
 }

@@ -11,8 +11,18 @@ export type Delimiter = ',' | ';' | '\t';
  * line joined across chunks is not, and a scan that met both kinds would be compiled by V8 for
  * both, slower). A character (the line break) always follows the span, so a scan may read one
  * past it without going out of bounds (which would cost the optimised scan a deoptimisation).
+ * `bytes`, for a span read in place when the chunk came with them, holds the chunk's characters
+ * as bytes at the same positions (ASCII text), the character after the span included; they are
+ * valid only during the call.
  */
-export type OnRecord = (text: string, start: number, end: number, line: number, inPlace: boolean) => void;
+export type OnRecord = (
+  text: string,
+  start: number,
+  end: number,
+  line: number,
+  inPlace: boolean,
+  bytes: Uint8Array | undefined,
+) => void;
 
 export class CsvLines {
   /** Lines consumed so far (the line of the last record, or of the text being read). */
@@ -20,13 +30,16 @@ export class CsvLines {
   private rest = '';
   private pending: { line: number; text: string } | undefined; // a record whose quoted cell spans lines
   private nextQuote = -1;
+  private bytes: Uint8Array | undefined; // the chunk's characters as bytes, when it came with them
 
   constructor(
     private readonly onRecord: OnRecord,
     private readonly file: string,
   ) {}
 
-  push(chunk: string): void {
+  /** `bytes`: the chunk's characters as bytes at the same positions, when it is ASCII text. */
+  push(chunk: string, bytes?: Uint8Array): void {
+    this.bytes = undefined;
     let start = 0;
     if (this.rest !== '') {
       // The line cut by the previous chunk's end is joined on its own: the chunk itself stays the
@@ -43,6 +56,7 @@ export class CsvLines {
       start = newline + 1;
     }
     this.nextQuote = chunk.indexOf('"', start);
+    this.bytes = bytes;
     for (;;) {
       const newline = chunk.indexOf('\n', start);
       if (newline === -1) break;
@@ -50,6 +64,7 @@ export class CsvLines {
       start = newline + 1;
     }
     this.rest = chunk.slice(start);
+    this.bytes = undefined;
   }
 
   /** The text after the last line break, then the check that every quote was closed. */
@@ -79,7 +94,7 @@ export class CsvLines {
       if (!quotesBalanced(this.pending.text)) return;
       const { line, text: record } = this.pending;
       this.pending = undefined;
-      this.onRecord(record + '\n', 0, record.length, line, false);
+      this.onRecord(record + '\n', 0, record.length, line, false, undefined);
       return;
     }
     if (quoted && !quotesBalanced(text.slice(start, end))) {
@@ -87,7 +102,8 @@ export class CsvLines {
       return;
     }
     if (start === end || (text.charCodeAt(start) <= 32 && text.slice(start, end).trim() === '')) return;
-    this.onRecord(text, start, end, this.line, chunk && !quoted);
+    const inPlace = chunk && !quoted;
+    this.onRecord(text, start, end, this.line, inPlace, inPlace ? this.bytes : undefined);
   }
 }
 

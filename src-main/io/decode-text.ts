@@ -23,22 +23,30 @@ export class ChunkDecoder {
   encoding: TextEncodingName | undefined;
   private carry: Buffer | undefined; // the start of a UTF-8 character cut by the chunk's end
   private decoder: TextDecoder | undefined;
+  /**
+   * The bytes of the last text decoded when they are that text's characters, one byte each (an
+   * ASCII chunk), so that a reader may scan the bytes in place of the text; undefined otherwise.
+   * They live in the caller's buffer: valid until it is refilled.
+   */
+  aligned: Uint8Array | undefined;
 
   /**
    * The text of the whole lines at the start of `chunk` (through its last line break) and how
    * many bytes they take; `last` reads everything. The caller hands the bytes left over back at
    * the start of the next chunk, so that no line of text is cut in two and joined again (a file
    * in UTF-16, whose line break is two bytes, or a line longer than the chunk, is decoded whole,
-   * any line cut by the chunk's end is joined by the reader).
+   * any line cut by the chunk's end is joined by the reader). `bytes`: the text's bytes when
+   * they are its characters (`aligned`).
    */
-  decodeLines(chunk: Buffer, last: boolean): { text: string; used: number } {
+  decodeLines(chunk: Buffer, last: boolean): { text: string; used: number; bytes: Uint8Array | undefined } {
     if (this.encoding === undefined) {
       const rest = this.sniff(chunk);
       const used = this.linesEnd(rest, last);
-      return { text: this.decode(rest.subarray(0, used), last), used: chunk.length - rest.length + used };
+      const text = this.decode(rest.subarray(0, used), last);
+      return { text, used: chunk.length - rest.length + used, bytes: this.aligned };
     }
     const used = this.linesEnd(chunk, last);
-    return { text: this.decode(chunk.subarray(0, used), last), used };
+    return { text: this.decode(chunk.subarray(0, used), last), used, bytes: this.aligned };
   }
 
   private linesEnd(bytes: Buffer, last: boolean): number {
@@ -49,9 +57,13 @@ export class ChunkDecoder {
 
   /** The text of the next chunk; `last` flushes. Throws UndecodableBytes. */
   decode(chunk: Buffer, last: boolean): string {
+    this.aligned = undefined;
     if (this.encoding === undefined) chunk = this.sniff(chunk);
     if (this.encoding === 'utf-8') return this.utf8(chunk, last);
-    if (this.encoding === 'windows-1252' && isAscii(chunk)) return chunk.toString('latin1');
+    if (this.encoding === 'windows-1252' && isAscii(chunk)) {
+      this.aligned = plainBytes(chunk);
+      return chunk.toString('latin1');
+    }
     try {
       return this.decoder!.decode(chunk, { stream: !last });
     } catch {
@@ -85,7 +97,10 @@ export class ChunkDecoder {
   private utf8(chunk: Buffer, last: boolean): string {
     let bytes = this.carry ? Buffer.concat([this.carry, chunk]) : chunk;
     this.carry = undefined;
-    if (isAscii(bytes)) return bytes.toString('latin1'); // the same text, without UTF-8 decoding
+    if (isAscii(bytes)) {
+      this.aligned = plainBytes(bytes);
+      return bytes.toString('latin1'); // the same text, without UTF-8 decoding
+    }
     if (!last) {
       const end = completeUtf8(bytes);
       if (end < bytes.length) this.carry = Buffer.from(bytes.subarray(end));
@@ -98,6 +113,14 @@ export class ChunkDecoder {
       'bytes that are not UTF-8 text, in a file whose start is UTF-8 (save the whole file in one encoding)',
     );
   }
+}
+
+/**
+ * The same bytes as a plain Uint8Array: a reader that also scans its own Uint8Array (text that
+ * came without bytes) then meets one kind of array, which V8 compiles for once.
+ */
+function plainBytes(bytes: Buffer): Uint8Array {
+  return new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.length);
 }
 
 /** The length of the prefix of `bytes` that ends on a whole UTF-8 character. */

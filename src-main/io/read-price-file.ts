@@ -2,7 +2,7 @@ import { closeSync, openSync, readSync, statSync } from 'node:fs';
 import { open } from 'node:fs/promises';
 import { InputError } from '../../shared-core/errors.js';
 import { ASSET_ID, ASSET_ID_RULE } from '../../shared-core/prices/asset-id.js';
-import { COMMA, POINT, readPlainDecimals } from '../../shared-core/prices/plain-decimal.js';
+import { COMMA, POINT, readDecimalCells } from '../../shared-core/prices/plain-decimal.js';
 import { isoFromDay } from '../store/days.js';
 import { CancelledError } from '../store/errors.js';
 import {
@@ -147,6 +147,8 @@ export class PriceFileReader {
   private blockColumns: Float64Array[] = [];
   private blockRow = 0;
   private unparseable: Int32Array = new Int32Array(0);
+  /** A row's bytes, for text that came without them (not ASCII, or text in memory). */
+  private scratch = new Uint8Array(0);
   private nonPositive: Int32Array = new Int32Array(0);
   // long rows
   private readonly long = new Map<string, LongAsset>();
@@ -158,11 +160,15 @@ export class PriceFileReader {
     private readonly bytes = 0,
   ) {
     this.decimal = options.decimal;
-    this.lines = new CsvLines((text, start, end, line, inPlace) => this.record(text, start, end, line, inPlace), file);
+    this.lines = new CsvLines(
+      (text, start, end, line, inPlace, bytes) => this.record(text, start, end, line, inPlace, bytes),
+      file,
+    );
   }
 
-  push(text: string): void {
-    this.lines.push(text);
+  /** `bytes`: the text's characters as bytes at the same positions, when it is ASCII (decode-text.ts). */
+  push(text: string, bytes?: Uint8Array): void {
+    this.lines.push(text, bytes);
   }
 
   /** Where the text stopped: the line being read and its next column. */
@@ -177,15 +183,23 @@ export class PriceFileReader {
     return this.form === 'wide' ? this.finishWide(encoding, bytes) : this.finishLong(encoding, bytes);
   }
 
-  private record(text: string, start: number, end: number, line: number, inPlace: boolean): void {
+  private record(
+    text: string,
+    start: number,
+    end: number,
+    line: number,
+    inPlace: boolean,
+    bytes: Uint8Array | undefined,
+  ): void {
     if (!this.header) return this.readHeader(text.slice(start, end), line);
     this.dataRows++;
     if (this.decimal === undefined) {
+      // Kept as text: the bytes are the caller's buffer, refilled by the next chunk.
       this.sample.push({ text, start, end, line, inPlace });
       if (this.sample.length >= Math.min(SAMPLE_ROWS, Math.ceil(SAMPLE_CELLS / this.width))) this.decideDecimal();
       return;
     }
-    if (this.form === 'wide') this.wideRow(text, start, end, line, inPlace);
+    if (this.form === 'wide') this.wideRow(text, start, end, line, inPlace, bytes);
     else this.longRow(this.cells(text.slice(start, end), line), line);
   }
 
@@ -248,7 +262,7 @@ export class PriceFileReader {
     const sample = this.sample;
     this.sample = [];
     for (const r of sample)
-      if (this.form === 'wide') this.wideRow(r.text, r.start, r.end, r.line, r.inPlace);
+      if (this.form === 'wide') this.wideRow(r.text, r.start, r.end, r.line, r.inPlace, undefined);
       else this.longRow(this.cells(raw(r), r.line), r.line);
   }
 
@@ -273,8 +287,36 @@ export class PriceFileReader {
     this.blockRow++;
   }
 
-  private wideRow(text: string, start: number, end: number, line: number, inPlace: boolean): void {
-    // The common row: no quote, a date cell, then plain decimals above zero, read in place.
+  /**
+   * The prices of a row read in place from `bytes[from, end)`, or, without bytes, from its text
+   * copied into bytes when it is ASCII (readDecimalCells); NaN when the row is not of that kind.
+   */
+  private readCells(text: string, bytes: Uint8Array | undefined, from: number, end: number): number {
+    if (bytes === undefined) {
+      const length = end - from;
+      if (this.scratch.length <= length) this.scratch = new Uint8Array(2 * length + 1);
+      bytes = this.scratch;
+      for (let j = 0; j < length; j++) {
+        const code = text.charCodeAt(from + j);
+        if (code > 127) return NaN;
+        bytes[j] = code;
+      }
+      bytes[length] = 10; // the line break that ends every row read in place
+      end = length;
+      from = 0;
+    }
+    return readDecimalCells(bytes, from, end, this.separatorCode, this.markCode, this.blockColumns, this.blockRow);
+  }
+
+  private wideRow(
+    text: string,
+    start: number,
+    end: number,
+    line: number,
+    inPlace: boolean,
+    bytes: Uint8Array | undefined,
+  ): void {
+    // The common row: no quote, a date cell, then numbers above zero, read in place from bytes.
     if (inPlace) {
       const d = text.indexOf(this.delimiter, start);
       if (d !== -1 && d < end) {
@@ -283,10 +325,7 @@ export class PriceFileReader {
         if (key !== NO_DATE && this.seenDates.has(key) && this.problems.countedOnly(line)) return;
         if (key !== NO_DATE && !this.seenDates.has(key)) {
           this.rowSlot(end - start);
-          if (
-            readPlainDecimals(text, d + 1, end, this.separatorCode, this.markCode, this.blockColumns, this.blockRow) > 0
-          )
-            return this.keepRow(key, line);
+          if (this.readCells(text, bytes, d + 1, end) > 0) return this.keepRow(key, line);
         }
       }
     }
@@ -628,8 +667,8 @@ function located(error: UndecodableBytes, reader: PriceFileReader, file: string)
  */
 function pushLines(reader: PriceFileReader, decoder: ChunkDecoder, bytes: Buffer, last: boolean, file: string): number {
   try {
-    const { text, used } = decoder.decodeLines(bytes, last);
-    reader.push(text);
+    const { text, used, bytes: aligned } = decoder.decodeLines(bytes, last);
+    reader.push(text, aligned);
     return used;
   } catch (error) {
     if (error instanceof UndecodableBytes) throw located(error, reader, file);
