@@ -1,3 +1,4 @@
+import { isAscii } from 'node:buffer';
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -110,6 +111,10 @@ describe.runIf(built)('the bundled command line (dist/src-main/cli/main.js)', ()
     // app-info (package.json), the memo fonts, the renderer root: its lookup and its message
     expect(mapped.length).toBeGreaterThanOrEqual(4);
     for (const [, path] of mapped) expect(existsSync(join(cliDir, path)), path).toBe(true);
+  });
+
+  it('is ASCII, which Node reads into a string without decoding UTF-8', () => {
+    expect(isAscii(readFileSync(bundle))).toBe(true);
   });
 
   it('is compiled with a code cache that V8 accepts', () => {
