@@ -30,6 +30,25 @@ describeInBrowser('local web host in Chromium', () => {
     expect(app.foreignRequests).toEqual([]);
   });
 
+  it("lets the page's workers compile WebAssembly (the dense kernels) but never eval", async () => {
+    const verdict = await app.page.evaluate(async () => {
+      // A worker inherits the page's policy; the bytes are the smallest valid module (magic, version 1).
+      const source = `let wasm = false, evaluated = false;
+        try { new WebAssembly.Module(new Uint8Array([0, 97, 115, 109, 1, 0, 0, 0])); wasm = true; } catch {}
+        try { (0, eval)('1'); evaluated = true; } catch {}
+        postMessage({ wasm, evaluated });`;
+      const worker = new Worker(URL.createObjectURL(new Blob([source], { type: 'text/javascript' })));
+      const reply = await new Promise<{ wasm: boolean; evaluated: boolean }>((resolve) => {
+        worker.onmessage = (event) => resolve(event.data as { wasm: boolean; evaluated: boolean });
+      });
+      worker.terminate();
+      return reply;
+    });
+    expect(verdict).toEqual({ wasm: true, evaluated: false });
+    // The refused eval is reported on the console by the browser itself.
+    app.consoleErrors.length = 0;
+  });
+
   it('the server listens on loopback only, and an API call from the page without the token gets 401', async () => {
     expect(app.served.host.host).toBe('127.0.0.1');
     const status = await app.page.evaluate(async () => {

@@ -225,7 +225,8 @@ describe('local web host: the page', () => {
     expect(page.body).toContain('<title>Holdfast</title>');
     const csp = String(page.headers['content-security-policy']);
     expect(csp).toContain("default-src 'none'");
-    expect(csp).toContain("script-src 'self'");
+    expect(csp).toContain("script-src 'self' 'wasm-unsafe-eval'");
+    expect(csp).not.toContain("'unsafe-eval'");
     expect(csp).toContain("connect-src 'self'");
     expect(csp).toContain("frame-ancestors 'none'");
     expect(csp).not.toMatch(/https?:|wss?:|\*/);
