@@ -168,3 +168,52 @@ cholesky_rows_below(double *a, int n, int j0, int j1, int r0, int r1, const doub
       one_row(a + i * n, pairs + (j - j0) * n, j, rj[j], rj[n + j], rj[n + j + 1]);
     }
 }
+
+// b_i = (b_i - sum_k L_ik b_k) / L_ii, k from `first` to i - 1 (forwardSubstitute), for rows
+// [i0, i1) in order. Eight rows at a time: their sums over k below the eight are independent, so
+// eight subtracts are in flight where one row's wait on each other's latency; each row then
+// takes its terms from the rows of the eight before it, in increasing k, as one row alone does.
+__attribute__((export_name("cholesky_forward_rows"))) void
+cholesky_forward_rows(const double *l, int n, double *b, int first, int i0, int i1) {
+  int i = i0;
+  for (; i + 7 < i1; i += 8) {
+    const double *r = l + i * n;
+    double s[8];
+    for (int q = 0; q < 8; q++) s[q] = b[i + q];
+    for (int k = first; k < i; k++) {
+      const double bk = b[k];
+      s[0] -= r[k] * bk;
+      s[1] -= r[n + k] * bk;
+      s[2] -= r[2 * n + k] * bk;
+      s[3] -= r[3 * n + k] * bk;
+      s[4] -= r[4 * n + k] * bk;
+      s[5] -= r[5 * n + k] * bk;
+      s[6] -= r[6 * n + k] * bk;
+      s[7] -= r[7 * n + k] * bk;
+    }
+    for (int q = 0; q < 8; q++) {
+      const double *rq = r + q * n;
+      double v = s[q];
+      for (int k = i; k < i + q; k++) v -= rq[k] * b[k];
+      b[i + q] = v / rq[i + q];
+    }
+  }
+  for (; i < i1; i++) {
+    const double *r = l + i * n;
+    double v = b[i];
+    for (int k = first; k < i; k++) v -= r[k] * b[k];
+    b[i] = v / r[i];
+  }
+}
+
+// b_i = (b_i - sum_k L_ki b_k) / L_ii, k from i + 1 to n - 1 (backSubstituteTransposed), for
+// i from i1 - 1 down to i0. Each sum needs the entry just found as its first term, so this one
+// runs one sum at a time.
+__attribute__((export_name("cholesky_back_rows"))) void
+cholesky_back_rows(const double *l, int n, double *b, int i0, int i1) {
+  for (int i = i1 - 1; i >= i0; i--) {
+    double v = b[i];
+    for (int k = i + 1; k < n; k++) v -= l[k * n + i] * b[k];
+    b[i] = v / l[i * n + i];
+  }
+}

@@ -50,6 +50,10 @@ export interface KernelExports {
   cholesky_diagonal_block(a: number, n: number, j0: number, j1: number, pairs: number): number;
   /** cholesky.c: columns [j0, j1) of L on rows [r0, r1) below the block, from its `pairs`. */
   cholesky_rows_below(a: number, n: number, j0: number, j1: number, r0: number, r1: number, pairs: number): void;
+  /** cholesky.c: L y = b on rows [i0, i1) of b, the sums from column `first` (forwardSubstitute). */
+  cholesky_forward_rows(l: number, n: number, b: number, first: number, i0: number, i1: number): void;
+  /** cholesky.c: L' x = y on rows i1 - 1 down to i0 of b (backSubstituteTransposed). */
+  cholesky_back_rows(l: number, n: number, b: number, i0: number, i1: number): void;
 }
 
 export interface WasmKernels {
@@ -64,6 +68,12 @@ export interface WasmKernels {
    * kernel left there.
    */
   views(...lengths: number[]): Float64Array[];
+  /**
+   * How many times views() has been called: a kernel that leaves its result in the memory for a
+   * later one (the Cholesky factor for its solves) knows it is still there when no views were
+   * taken since.
+   */
+  readonly viewsTaken: number;
 }
 
 /**
@@ -156,10 +166,15 @@ function instantiate(base64: string, memory: KernelMemory, asHelper: boolean): W
     const heapBase = (instance.exports.__heap_base as { value: number }).value;
     const first = align16(heapBase) + HELPER_STACK_BYTES;
     if (asHelper) (instance.exports.__stack_pointer as { value: number }).value = first;
+    let taken = 0;
     return {
       exports: instance.exports as unknown as KernelExports,
       shared: base64 === KERNEL_SHARED_MODULE_BASE64,
+      get viewsTaken() {
+        return taken;
+      },
       views(...lengths: number[]): Float64Array[] {
+        taken++;
         const offsets: number[] = [];
         let end = first;
         for (const length of lengths) {

@@ -132,7 +132,8 @@ function oneRowOfTwoColumns(
  * another, and with a kernel team (linalg/kernel-team.ts) the helper thread takes half of them.
  */
 export function choleskyInPlace(a: Float64Array, n: number): boolean {
-  const wasm = wasmKernels();
+  if (resident?.l === a) resident = null;
+  const wasm = n >= MIN_WASM_ORDER ? wasmKernels() : null;
   if (wasm) return choleskyInWasm(a, n, wasm);
   const team = n >= MIN_SHARED_ORDER ? kernelTeam() : null;
   if (!team) return choleskyBlocks(a, n, null);
@@ -163,7 +164,69 @@ function choleskyInWasm(a: Float64Array, n: number, wasm: WasmKernels): boolean 
       below(m.byteOffset, n, j0, j1, r0, Math.min(n, r0 + ROWS_PER_CALL), pairs.byteOffset);
   }
   a.set(m);
+  if (factored) resident = { wasm, l: a, n, taken: wasm.viewsTaken };
   return factored;
+}
+
+/**
+ * The factor the WebAssembly kernels last made, still in their memory (at the start of the first
+ * view) while no kernel has taken views of that instance since: its solves then need only b copied in. The
+ * array is the caller's, which the factor's contract leaves as choleskyInPlace made it.
+ */
+let resident: { wasm: WasmKernels; l: Float64Array; n: number; taken: number } | null = null;
+
+/**
+ * Views of L and b in the module's memory for a solve by the WebAssembly kernels, L copied in
+ * unless it is the resident factor (a copy is cheaper than the solve it speeds up, and it makes
+ * L resident for the next solve); null where they do not run or n is below MIN_WASM_ORDER.
+ */
+function solveViews(
+  l: Float64Array,
+  n: number,
+  b: Float64Array,
+): { wasm: WasmKernels; lv: Float64Array; bv: Float64Array } | null {
+  const wasm = n >= MIN_WASM_ORDER ? wasmKernels() : null;
+  if (!wasm) return null;
+  const inPlace =
+    resident !== null &&
+    resident.wasm === wasm &&
+    resident.l === l &&
+    resident.n === n &&
+    resident.taken === wasm.viewsTaken;
+  const [lv, bv] = wasm.views(n * n, n);
+  if (!inPlace) lv.set(l.subarray(0, n * n));
+  resident = { wasm, l, n, taken: wasm.viewsTaken };
+  bv.set(b.subarray(0, n));
+  return { wasm, lv, bv };
+}
+
+/**
+ * Below one block's order the factor and its solves stay in TypeScript: their work is less than
+ * the calls' and copies', and a small factor (a Schur complement's, factored between a large
+ * factor and its solves) would take the module's memory from the large one.
+ */
+const MIN_WASM_ORDER = 32;
+
+/** Rows of a triangular solve per call of the WebAssembly kernels (a multiple of eight, the forward kernel's rows per step). */
+const SOLVE_ROWS_PER_CALL = 64;
+
+/** L y = b by the WebAssembly kernel, rows [first, n), SOLVE_ROWS_PER_CALL a call. */
+function forwardInWasm(wasm: WasmKernels, lv: Float64Array, n: number, bv: Float64Array, first: number): void {
+  for (let i0 = first; i0 < n; i0 += SOLVE_ROWS_PER_CALL)
+    wasm.exports.cholesky_forward_rows(
+      lv.byteOffset,
+      n,
+      bv.byteOffset,
+      first,
+      i0,
+      Math.min(n, i0 + SOLVE_ROWS_PER_CALL),
+    );
+}
+
+/** L' x = y by the WebAssembly kernel, from the last row up, SOLVE_ROWS_PER_CALL a call. */
+function backInWasm(wasm: WasmKernels, lv: Float64Array, n: number, bv: Float64Array): void {
+  for (let i1 = n; i1 > 0; i1 -= SOLVE_ROWS_PER_CALL)
+    wasm.exports.cholesky_back_rows(lv.byteOffset, n, bv.byteOffset, Math.max(0, i1 - SOLVE_ROWS_PER_CALL), i1);
 }
 
 /** Rows below a block per call of the WebAssembly kernel (a multiple of four, its rows per step). */
@@ -272,20 +335,48 @@ function subtractColumnDot(l: Float64Array, n: number, i: number, b: Float64Arra
  * row is, costs only the rows below its first entry); the terms skipped are exact zeros.
  */
 export function forwardSubstitute(l: Float64Array, n: number, b: Float64Array): void {
-  let first = 0;
-  while (first < n && b[first] === 0) first++;
-  for (let i = first; i < n; i++) b[i] = subtractDot(b[i], l, i * n + first, b, first, i - first) / l[i * n + i];
+  const first = firstNonZero(b, n);
+  if (first === n) return;
+  const w = solveViews(l, n, b);
+  if (!w) return forwardInTypeScript(l, n, b, first);
+  forwardInWasm(w.wasm, w.lv, n, w.bv, first);
+  b.set(w.bv);
 }
 
 /** b_i = (b_i - sum_{k>i} L_ki b_k) / L_ii for i = n-1 .. 0: L' x = y. */
 export function backSubstituteTransposed(l: Float64Array, n: number, b: Float64Array): void {
-  for (let i = n - 1; i >= 0; i--) b[i] = subtractColumnDot(l, n, i, b) / l[i * n + i];
+  const w = solveViews(l, n, b);
+  if (!w) return backInTypeScript(l, n, b);
+  backInWasm(w.wasm, w.lv, n, w.bv);
+  b.set(w.bv);
 }
 
-/** Solves L L' x = b in place (b overwritten by x) with the factor from choleskyInPlace. */
+/** Solves L L' x = b in place (b overwritten by x) with the factor from choleskyInPlace, unchanged since. */
 export function choleskySolveInPlace(l: Float64Array, n: number, b: Float64Array): void {
-  forwardSubstitute(l, n, b);
-  backSubstituteTransposed(l, n, b);
+  const first = firstNonZero(b, n);
+  const w = solveViews(l, n, b);
+  if (!w) {
+    forwardInTypeScript(l, n, b, first);
+    return backInTypeScript(l, n, b);
+  }
+  forwardInWasm(w.wasm, w.lv, n, w.bv, first);
+  backInWasm(w.wasm, w.lv, n, w.bv);
+  b.set(w.bv);
+}
+
+/** The index of b's first non-zero entry among the first n (n when there is none). */
+function firstNonZero(b: Float64Array, n: number): number {
+  let first = 0;
+  while (first < n && b[first] === 0) first++;
+  return first;
+}
+
+function forwardInTypeScript(l: Float64Array, n: number, b: Float64Array, first: number): void {
+  for (let i = first; i < n; i++) b[i] = subtractDot(b[i], l, i * n + first, b, first, i - first) / l[i * n + i];
+}
+
+function backInTypeScript(l: Float64Array, n: number, b: Float64Array): void {
+  for (let i = n - 1; i >= 0; i--) b[i] = subtractColumnDot(l, n, i, b) / l[i * n + i];
 }
 
 export interface LuFactor {

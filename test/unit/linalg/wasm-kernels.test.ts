@@ -5,7 +5,12 @@ import { crossProduct, crossProductNaive } from '../../../shared-core/linalg/cro
 import type { Matrix } from '../../../shared-core/linalg/matrix.js';
 import { tridiagonalForm, type TridiagonalForm } from '../../../shared-core/linalg/tridiagonal-form.js';
 import { KERNEL_SOURCE_DIGEST } from '../../../shared-core/linalg/wasm/kernel-binary.js';
-import { choleskyInPlace } from '../../../shared-core/optimise/qp/dense-factor.js';
+import {
+  backSubstituteTransposed,
+  choleskyInPlace,
+  choleskySolveInPlace,
+  forwardSubstitute,
+} from '../../../shared-core/optimise/qp/dense-factor.js';
 import { useWasmKernels, wasmKernels } from '../../../shared-core/linalg/wasm/wasm-kernels.js';
 import { randomMatrix, sameBits } from '../../support/random-matrix.js';
 
@@ -148,6 +153,8 @@ describe('the WebAssembly kernels', () => {
     expect(sameForm(wasm, typescript)).toBe(true);
   });
 
+  // Below order 32 (one block) the factor stays in TypeScript on both paths: those orders check
+  // that the switch between them keeps the answer.
   it.each([1, 2, 3, 5, 31, 32, 33, 64, 65, 200, 501])(
     "factor A = L L' bit for bit as the TypeScript kernel does (n = %i)",
     (n) => {
@@ -218,5 +225,88 @@ describe('the WebAssembly kernels', () => {
       expect(typescript.factored).toBe(false);
       expect(sameBits(wasm.f, typescript.f)).toBe(true);
     }
+  });
+
+  /** A right-hand side of order n with `zeros` leading zeros (a sparse one, as a constraint row). */
+  function rightHandSide(n: number, zeros: number, seed: number): Float64Array {
+    const b = Float64Array.from(randomMatrix(1, n, seed).data);
+    b.fill(0, 0, zeros);
+    return b;
+  }
+
+  /** L of a positive definite matrix of order n, factored by the path switched on. */
+  function factorOf(n: number, seed: number): Float64Array {
+    const l = positiveDefinite(n, seed);
+    expect(choleskyInPlace(l, n)).toBe(true);
+    return l;
+  }
+
+  it.each([
+    [32, 0],
+    [33, 5],
+    [64, 63],
+    [65, 0],
+    [200, 17],
+    [501, 250],
+  ])(
+    "solve L y = b, L' x = y and L L' x = b bit for bit as the TypeScript does (n = %i, %i leading zeros)",
+    (n, zeros) => {
+      const b = rightHandSide(n, zeros, n + zeros);
+      const { wasm, typescript } = bothWays(() => {
+        const l = factorOf(n, 3 * n);
+        const forward = Float64Array.from(b);
+        forwardSubstitute(l, n, forward);
+        const back = Float64Array.from(forward);
+        backSubstituteTransposed(l, n, back);
+        const both = Float64Array.from(b);
+        choleskySolveInPlace(l, n, both);
+        return { forward, back, both };
+      });
+      expect(sameBits(wasm.forward, typescript.forward)).toBe(true);
+      expect(sameBits(wasm.back, typescript.back)).toBe(true);
+      expect(sameBits(wasm.both, typescript.both)).toBe(true);
+      expect(sameBits(wasm.both, wasm.back)).toBe(true);
+      // And x solves A x = b: the residual is at rounding's scale.
+      const a = positiveDefinite(n, 3 * n);
+      let worst = 0;
+      for (let i = 0; i < n; i++) {
+        let s = -b[i];
+        for (let k = 0; k < n; k++) s += a[i * n + k] * wasm.both[k];
+        worst = Math.max(worst, Math.abs(s));
+      }
+      expect(worst).toBeLessThan(1e-9);
+    },
+  );
+
+  it('solve with a factor whether or not it is the last one the kernels made', () => {
+    const n = 97;
+    const b = rightHandSide(n, 0, 8);
+    const solved = (l: Float64Array) => {
+      const x = Float64Array.from(b);
+      choleskySolveInPlace(l, n, x);
+      return x;
+    };
+    const { wasm, typescript } = bothWays(() => {
+      const first = factorOf(n, 1);
+      const x1 = solved(first);
+      // A small factor in between (a Schur complement's), then the first again.
+      factorOf(3, 2);
+      const x2 = solved(first);
+      // Another large factor, and a cross product, then the first again, twice.
+      const second = factorOf(n, 3);
+      crossProduct(randomMatrix(40, 50, 4));
+      const x3 = solved(first);
+      const x4 = solved(first);
+      // The second, factored again in place (a ridge added), is solved with its new factor.
+      const again = positiveDefinite(n, 3);
+      for (let i = 0; i < n; i++) again[i * n + i] += 1;
+      second.set(again);
+      expect(choleskyInPlace(second, n)).toBe(true);
+      const x5 = solved(second);
+      return [x1, x2, x3, x4, x5];
+    });
+    for (let k = 0; k < 5; k++) expect(sameBits(wasm[k], typescript[k])).toBe(true);
+    expect(sameBits(wasm[0], wasm[3])).toBe(true);
+    expect(sameBits(wasm[0], wasm[4])).toBe(false);
   });
 });
