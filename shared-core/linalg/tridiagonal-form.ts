@@ -1,6 +1,6 @@
 import { inTwoShares, kernelTeam, sharedArray } from './kernel-team.js';
 import type { Matrix } from './matrix.js';
-import { wasmKernels } from './wasm/wasm-kernels.js';
+import { wasmKernels, type WasmKernels } from './wasm/wasm-kernels.js';
 
 /**
  * A symmetric matrix reduced to tridiagonal form, A = Q T Q', with Q kept as its Householder
@@ -37,91 +37,28 @@ function passSplit(m: number): number {
  * one every published figure (the command line's outputs, the fixtures) was computed in, so a
  * change to it would move their last digits. Only the upper triangle of `m` is read.
  *
- * Where the WebAssembly kernels run (wasm/wasm-kernels.ts) the matrix stays in the module's memory
- * for the whole reduction and each pass is two calls of the SIMD kernel (tridiagonal.c), the same
- * sums in the same order. Without them, with a kernel team (kernel-team.ts) the second range is
- * the helper thread's share of each pass.
+ * Where the WebAssembly kernels run (wasm/wasm-kernels.ts) the whole reduction runs in the module
+ * (tridiagonal.c), its passes in SIMD, the same sums in the same order. Without them, with a
+ * kernel team (kernel-team.ts) the second range is the helper thread's share of each pass.
  */
 export function tridiagonalForm(m: Matrix): TridiagonalForm {
   const n = m.rows;
   if (m.cols !== n) throw new RangeError(`expected a square matrix, got ${m.rows} x ${m.cols}`);
   const wasm = wasmKernels();
-  if (wasm) {
-    const [w, u, q, v, p, p2] = wasm.views(n * n, n, n, n, n, n);
-    w.fill(0); // the module's memory holds whatever the last kernel left there
-    const columns = (from: number, to: number, last: number, into: Float64Array) =>
-      wasm.exports.tridiagonal_columns(
-        w.byteOffset,
-        n,
-        last,
-        from,
-        to,
-        u.byteOffset,
-        q.byteOffset,
-        v.byteOffset,
-        into.byteOffset,
-      );
-    const form = reduce(m, { w, u, q, v, p, p2 }, (last, split) => {
-      columns(0, split, last, p);
-      p2.fill(0, 0, last);
-      columns(split, last, last, p2);
-    });
-    return { ...form, reflectors: w.slice() };
-  }
+  if (wasm) return tridiagonalFormInWasm(m, wasm);
+  // A[k][j] (k >= j) lives in w[j * n + k]: column j of the lower triangle is contiguous. It is
+  // row j of the upper triangle of the symmetric input, so each column is one contiguous copy.
   const team = n > MIN_SHARED_PASS ? kernelTeam() : null;
-  const work: Workspace = {
-    w: sharedArray(team, n * n),
-    u: sharedArray(team, n),
-    q: sharedArray(team, n),
-    v: sharedArray(team, n),
-    p: new Float64Array(n),
-    p2: sharedArray(team, n),
-  };
-  const { w, u, q, v, p, p2 } = work;
-  return reduce(m, work, (last, split) => {
-    const mine = () => fusedColumns(w, n, last, 0, split, u, q, v, p);
-    const theirs = () => passShare([w, u, q, v, p2], [n, last, split]);
-    if (last < MIN_SHARED_PASS) {
-      mine();
-      theirs();
-    } else
-      inTwoShares(
-        team,
-        { kernel: TRIDIAGONAL_PASS_SHARE, buffers: [w, u, q, v, p2], ints: [n, last, split] },
-        mine,
-        theirs,
-      );
-  });
-}
-
-/**
- * The reduction's arrays: the n x n working matrix w (zero-filled) and five vectors of n. A[k][j]
- * (k >= j) lives in w[j * n + k]: column j of the lower triangle is contiguous.
- */
-interface Workspace {
-  w: Float64Array;
-  u: Float64Array;
-  q: Float64Array;
-  v: Float64Array;
-  /** A u for the current step, summed during the previous pass (its first column range). */
-  p: Float64Array;
-  /** A v over the second column range of a pass. */
-  p2: Float64Array;
-}
-
-/**
- * The reduction on `work`, with `pass(last, split)` making one step's pass over the leading
- * last x last block: columns [0, split) into p (zeroed first), then [split, last) into p2
- * (zeroed by the pass).
- */
-function reduce(m: Matrix, work: Workspace, pass: (last: number, split: number) => void): TridiagonalForm {
-  const n = m.rows;
-  const { w, u, q, v, p, p2 } = work;
-  // Row j of the upper triangle of the symmetric input is column j of the lower: one copy each.
+  const w = sharedArray(team, n * n);
   for (let j = 0; j < n; j++) w.set(m.data.subarray(j * n + j, j * n + n), j * n + j);
+  const u = sharedArray(team, n);
+  const q = sharedArray(team, n);
+  const v = sharedArray(team, n);
+  const p2 = sharedArray(team, n); // A v over the second column range of a pass
   const d = new Float64Array(n);
   const e = new Float64Array(n);
   const halfNorms = new Float64Array(n);
+  const p = new Float64Array(n); // A u for the current step, summed during the previous pass
   if (n <= 1) {
     if (n === 1) d[0] = w[0];
     return { n, diagonal: d, offDiagonal: e, reflectors: w, halfNorms };
@@ -171,12 +108,48 @@ function reduce(m: Matrix, work: Workspace, pass: (last: number, split: number) 
     }
     const split = passSplit(last);
     p.fill(0, 0, last);
-    pass(last, split);
+    const mine = () => fusedColumns(w, n, last, 0, split, u, q, v, p);
+    const theirs = () => passShare([w, u, q, v, p2], [n, last, split]);
+    if (last < MIN_SHARED_PASS) {
+      mine();
+      theirs();
+    } else
+      inTwoShares(
+        team,
+        { kernel: TRIDIAGONAL_PASS_SHARE, buffers: [w, u, q, v, p2], ints: [n, last, split] },
+        mine,
+        theirs,
+      );
     for (let k = split; k < last; k++) p[k] += p2[k];
     ready = true;
   }
   for (let j = 0; j < n; j++) d[j] = w[j * n + j];
   return { n, diagonal: d, offDiagonal: e, reflectors: w, halfNorms };
+}
+
+/**
+ * The reduction in the WebAssembly module (tridiagonal.c): the matrix copied into its memory once,
+ * then one call a step (the steps' first calls run unoptimised code, the rest optimised), then
+ * the form copied out.
+ */
+function tridiagonalFormInWasm(m: Matrix, wasm: WasmKernels): TridiagonalForm {
+  const n = m.rows;
+  const [w, u, q, v, p, p2, e, halfNorms, state] = wasm.views(n * n, n, n, n, n, n, n, n, 2);
+  // The module's memory holds whatever the last kernel left there: the form is read from zeros.
+  w.fill(0);
+  e.fill(0);
+  halfNorms.fill(0);
+  for (let j = 0; j < n; j++) w.set(m.data.subarray(j * n + j, j * n + n), j * n + j);
+  const kernels = wasm.exports;
+  if (n > 1) {
+    kernels.tridiagonal_begin(w.byteOffset, n, v.byteOffset, e.byteOffset, state.byteOffset);
+    const at = [w, u, q, v, p, p2, e, halfNorms, state].map((a) => a.byteOffset);
+    for (let i = n - 1; i > 0; i--)
+      kernels.tridiagonal_steps(at[0], n, at[1], at[2], at[3], at[4], at[5], at[6], at[7], at[8], i, i - 1);
+  }
+  const diagonal = new Float64Array(n);
+  for (let j = 0; j < n; j++) diagonal[j] = w[j * n + j];
+  return { n, diagonal, offDiagonal: e.slice(), reflectors: w.slice(), halfNorms: halfNorms.slice() };
 }
 
 /** The kernel team's name for the second column range of a pass (see passShare). */

@@ -1,14 +1,19 @@
-// One pass of the tridiagonal reduction (linalg/tridiagonal-form.ts, fusedColumns) in WebAssembly
-// SIMD: over columns [from, to) of the leading m x m block of the lower triangle, A -= u q' + q u'
-// and p += A v with the updated entries. The same sums in the same order as the TypeScript, a
-// multiply then an add (no fused multiply-add): the two lanes of an f64x2 hold two neighbouring
-// entries k, k + 1 of a column, so the update of A and the sums into p[k], p[k + 1] are lane by
-// lane, and the TypeScript's two partial sums of a column's A v (g over even offsets, h over odd)
-// are the two lanes of one accumulator.
+// The tridiagonal reduction (tridiagonalForm in linalg/tridiagonal-form.ts) in WebAssembly: the
+// same operations in the same order, a multiply then an add (no fused multiply-add), so the answer
+// is the TypeScript's bit for bit. Each step's pass over the trailing block (fusedColumns there)
+// is in SIMD: over columns [from, to) of the leading m x m block of the lower triangle,
+// A -= u q' + q u' and p += A v with the updated entries. The two lanes of an f64x2 hold two
+// neighbouring entries k, k + 1 of a column, so the update of A and the sums into p[k], p[k + 1]
+// are lane by lane, and the TypeScript's two partial sums of a column's A v (g over even offsets,
+// h over odd) are the two lanes of one accumulator. (Four columns a sweep instead of two, to share
+// the loads of u, q, v and p, ran 10 % slower: too few registers.)
 #include <wasm_simd128.h>
 
-__attribute__((export_name("tridiagonal_columns"))) void
-tridiagonal_columns(double *w, int n, int m, int from, int to, const double *u, const double *q,
+// The module has no C library (-nostdlib): loops that clear or copy stay loops instead of becoming
+// calls of memset and memcpy.
+#define LOOPS_STAY_LOOPS __attribute__((no_builtin))
+
+static void columns(double *w, int n, int m, int from, int to, const double *u, const double *q,
                     const double *v, double *p) {
   int j = from;
   for (; j + 1 < to; j += 2) {
@@ -39,8 +44,8 @@ tridiagonal_columns(double *w, int n, int m, int from, int to, const double *u, 
       wasm_v128_store(c1 + k, Y);
       gh0 = wasm_f64x2_add(gh0, wasm_f64x2_mul(X, V));
       gh1 = wasm_f64x2_add(gh1, wasm_f64x2_mul(Y, V));
-      wasm_v128_store(p + k, wasm_f64x2_add(wasm_v128_load(p + k),
-                                            wasm_f64x2_add(wasm_f64x2_mul(X, V0), wasm_f64x2_mul(Y, V1))));
+      const v128_t term = wasm_f64x2_add(wasm_f64x2_mul(X, V0), wasm_f64x2_mul(Y, V1));
+      wasm_v128_store(p + k, wasm_f64x2_add(wasm_v128_load(p + k), term));
     }
     double g0 = wasm_f64x2_extract_lane(gh0, 0), h0 = wasm_f64x2_extract_lane(gh0, 1);
     double g1 = wasm_f64x2_extract_lane(gh1, 0), h1 = wasm_f64x2_extract_lane(gh1, 1);
@@ -70,4 +75,110 @@ tridiagonal_columns(double *w, int n, int m, int from, int to, const double *u, 
     }
     p[j] += g;
   }
+}
+
+// The Householder vector of row r[0..m-1] in place; e[m] the new off-diagonal; h = u'u / 2 or 0
+// (householderVector in tridiagonal-form.ts, the same operations).
+static double householder_vector(double *r, int m, double *e) {
+  double scale = 0;
+  for (int k = 0; k < m; k++) scale += __builtin_fabs(r[k]);
+  if (scale == 0) {
+    e[m] = 0;
+    return 0;
+  }
+  double h = 0;
+  for (int k = 0; k < m; k++) {
+    r[k] /= scale;
+    h += r[k] * r[k];
+  }
+  const double f = r[m - 1];
+  double g = __builtin_sqrt(h);
+  if (f > 0) g = -g;
+  e[m] = scale * g;
+  h -= f * g;
+  r[m - 1] = f - g;
+  return h;
+}
+
+// out = A u on the leading m x m block (blockTimes in tridiagonal-form.ts).
+LOOPS_STAY_LOOPS static void block_times(const double *w, int n, int m, const double *u,
+                                          double *out) {
+  for (int k = 0; k < m; k++) out[k] = 0;
+  for (int j = 0; j < m; j++) {
+    const double *c = w + j * n;
+    const double uj = u[j];
+    double g = c[j] * uj;
+    for (int k = j + 1; k < m; k++) {
+      g += c[k] * u[k];
+      out[k] += c[k] * uj;
+    }
+    out[j] += g;
+  }
+}
+
+// passSplit in tridiagonal-form.ts: floor(m (1 - Math.SQRT1_2)), Math.SQRT1_2 being this double.
+static int pass_split(int m) { return (int)(m * (1 - 0.70710678118654752440)); }
+
+// The first reflector, from row n - 1: state = [h, ready] for tridiagonal_steps.
+__attribute__((export_name("tridiagonal_begin"))) LOOPS_STAY_LOOPS void
+tridiagonal_begin(double *w, int n, double *v, double *e, double *state) {
+  for (int j = 0; j < n - 1; j++) v[j] = w[j * n + n - 1];
+  state[0] = householder_vector(v, n - 1, e);
+  state[1] = 0;
+}
+
+// Steps i = from, from - 1, ..., down to but not including `to` of the reduction (the loop of
+// tridiagonalForm in tridiagonal-form.ts, the same operations in the same order), carrying
+// [h, ready] in `state` from one call to the next.
+__attribute__((export_name("tridiagonal_steps"))) LOOPS_STAY_LOOPS void
+tridiagonal_steps(double *w, int n, double *u, double *q, double *v, double *p, double *p2,
+                  double *e, double *half_norms, double *state, int from, int to) {
+  double h = state[0];
+  int ready = state[1] != 0;
+  for (int i = from; i > to; i--) {
+    if (h == 0) {
+      // Row i is already zero left of the diagonal: nothing to reflect; the next row as it stands.
+      ready = 0;
+      if (i > 1) {
+        for (int j = 0; j < i - 1; j++) v[j] = w[j * n + i - 1];
+        h = householder_vector(v, i - 1, e);
+      }
+      continue;
+    }
+    for (int j = 0; j < i; j++) u[j] = v[j];
+    half_norms[i] = h;
+    for (int j = 0; j < i; j++) w[i * n + j] = u[j];
+    if (!ready) block_times(w, n, i, u, p);
+    double f = 0;
+    for (int j = 0; j < i; j++) {
+      p[j] /= h;
+      f += p[j] * u[j];
+    }
+    const double hh = f / (h + h);
+    for (int j = 0; j < i; j++) q[j] = p[j] - hh * u[j];
+    const int last = i - 1;
+    const double ul = u[last], ql = q[last];
+    for (int j = 0; j <= last; j++) w[j * n + last] -= u[j] * ql + q[j] * ul;
+    if (last == 0) break;
+    for (int j = 0; j < last; j++) v[j] = w[j * n + last];
+    h = householder_vector(v, last, e);
+    if (h == 0) {
+      for (int j = 0; j < last; j++) {
+        double *c = w + j * n;
+        const double uj = u[j], qj = q[j];
+        for (int k = j; k < last; k++) c[k] -= uj * q[k] + qj * u[k];
+      }
+      ready = 0;
+      continue;
+    }
+    const int split = pass_split(last);
+    for (int k = 0; k < last; k++) p[k] = 0;
+    columns(w, n, last, 0, split, u, q, v, p);
+    for (int k = 0; k < last; k++) p2[k] = 0;
+    columns(w, n, last, split, last, u, q, v, p2);
+    for (int k = split; k < last; k++) p[k] += p2[k];
+    ready = 1;
+  }
+  state[0] = h;
+  state[1] = ready;
 }

@@ -28,20 +28,25 @@ export interface KernelExports {
     k0: number,
     k1: number,
   ): void;
+  /** tridiagonal.c: the reduction's first reflector, from row n - 1 of w (n x n); state = [h, ready]. */
+  tridiagonal_begin(w: number, n: number, v: number, e: number, state: number): void;
   /**
-   * tridiagonal.c: columns [from, to) of one pass of the tridiagonal reduction over the leading
-   * m x m block of w (n x n), as fusedColumns in tridiagonal-form.ts. Pointers are byte offsets.
+   * tridiagonal.c: the reduction's steps from, from - 1, ..., down to but not including `to`, as
+   * the loop of tridiagonalForm in tridiagonal-form.ts. Pointers are byte offsets.
    */
-  tridiagonal_columns(
+  tridiagonal_steps(
     w: number,
     n: number,
-    m: number,
-    from: number,
-    to: number,
     u: number,
     q: number,
     v: number,
     p: number,
+    p2: number,
+    e: number,
+    halfNorms: number,
+    state: number,
+    from: number,
+    to: number,
   ): void;
   /**
    * cholesky.c: columns [j0, j1) of L on the block's own rows, each pair's pivot rows left side by
