@@ -130,7 +130,8 @@ export function tridiagonalForm(m: Matrix): TridiagonalForm {
 /**
  * The reduction in the WebAssembly module (tridiagonal.c): the matrix copied into its memory once,
  * then one call a step (the steps' first calls run unoptimised code, the rest optimised), then
- * the form copied out.
+ * the form copied out. On the kernel team's shared memory, passes from MIN_SHARED_WASM_PASS
+ * columns split in the same two column ranges as the TypeScript's, the second on the helper.
  */
 function tridiagonalFormInWasm(m: Matrix, wasm: WasmKernels): TridiagonalForm {
   const n = m.rows;
@@ -141,15 +142,49 @@ function tridiagonalFormInWasm(m: Matrix, wasm: WasmKernels): TridiagonalForm {
   halfNorms.fill(0);
   for (let j = 0; j < n; j++) w.set(m.data.subarray(j * n + j, j * n + n), j * n + j);
   const kernels = wasm.exports;
-  if (n > 1) {
-    kernels.tridiagonal_begin(w.byteOffset, n, v.byteOffset, e.byteOffset, state.byteOffset);
-    const at = [w, u, q, v, p, p2, e, halfNorms, state].map((a) => a.byteOffset);
-    for (let i = n - 1; i > 0; i--)
-      kernels.tridiagonal_steps(at[0], n, at[1], at[2], at[3], at[4], at[5], at[6], at[7], at[8], i, i - 1);
+  const [W, U, Q, V, P, P2, E, H, S] = [w, u, q, v, p, p2, e, halfNorms, state].map((a) => a.byteOffset);
+  if (n > 1) kernels.tridiagonal_begin(W, n, V, E, S);
+  const team = wasm.shared && n > MIN_SHARED_WASM_PASS ? kernelTeam() : null;
+  for (let i = n - 1; i > 0; i--) {
+    const last = i - 1;
+    if (!team || last < MIN_SHARED_WASM_PASS) {
+      kernels.tridiagonal_steps(W, n, U, Q, V, P, P2, E, H, S, i, i - 1);
+      continue;
+    }
+    const split = kernels.tridiagonal_step_to_pass(W, n, i, U, Q, V, P, E, H, S);
+    if (split < 0) continue;
+    inTwoShares(
+      team,
+      { kernel: TRIDIAGONAL_WASM_PASS_SHARE, buffers: [w, u, q, v, p2], ints: [n, last, split] },
+      () => kernels.tridiagonal_pass_mine(W, n, last, split, U, Q, V, P),
+      () => kernels.tridiagonal_pass_share(W, n, last, split, U, Q, V, P2),
+    );
+    kernels.tridiagonal_pass_end(P, P2, split, last, S);
   }
   const diagonal = new Float64Array(n);
   for (let j = 0; j < n; j++) diagonal[j] = w[j * n + j];
   return { n, diagonal, offDiagonal: e.slice(), reflectors: w.slice(), halfNorms: halfNorms.slice() };
+}
+
+/**
+ * Passes over fewer columns than this stay on one thread in WebAssembly: a pass of 512 columns
+ * takes about 80 us there, no more than the hand-over and the helper's wake-up save.
+ */
+const MIN_SHARED_WASM_PASS = 768;
+
+/** The kernel team's name for the second column range of a WebAssembly pass (see wasmPassShare). */
+export const TRIDIAGONAL_WASM_PASS_SHARE = 'tridiagonal-pass-wasm';
+
+/**
+ * The helper's share of a WebAssembly pass: buffers [w, u, q, v, p2] on the team's memory, ints
+ * [n, m, split]. A helper whose module did not load makes it in TypeScript, the same sums.
+ */
+export function wasmPassShare(buffers: readonly Float64Array[], ints: readonly number[]): void {
+  const wasm = wasmKernels();
+  if (!wasm) return passShare(buffers, ints);
+  const [w, u, q, v, p2] = buffers.map((a) => a.byteOffset);
+  const [n, m, split] = ints;
+  wasm.exports.tridiagonal_pass_share(w, n, m, split, u, q, v, p2);
 }
 
 /** The kernel team's name for the second column range of a pass (see passShare). */

@@ -4,7 +4,12 @@ import {
   crossProductShare,
   crossProductWasmShare,
 } from '../../shared-core/linalg/cross-product.js';
-import { passShare, TRIDIAGONAL_PASS_SHARE } from '../../shared-core/linalg/tridiagonal-form.js';
+import {
+  passShare,
+  TRIDIAGONAL_PASS_SHARE,
+  TRIDIAGONAL_WASM_PASS_SHARE,
+  wasmPassShare,
+} from '../../shared-core/linalg/tridiagonal-form.js';
 import { CHOLESKY_ROWS_SHARE, choleskyRowsShare } from '../../shared-core/optimise/qp/dense-factor.js';
 
 /**
@@ -42,6 +47,7 @@ export const SHARES: Readonly<Record<string, Share>> = {
   [CROSS_PRODUCT_SHARE]: crossProductShare,
   [CROSS_PRODUCT_WASM_SHARE]: crossProductWasmShare,
   [TRIDIAGONAL_PASS_SHARE]: passShare,
+  [TRIDIAGONAL_WASM_PASS_SHARE]: wasmPassShare,
   [CHOLESKY_ROWS_SHARE]: choleskyRowsShare,
 };
 

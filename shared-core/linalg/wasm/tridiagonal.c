@@ -119,7 +119,7 @@ LOOPS_STAY_LOOPS static void block_times(const double *w, int n, int m, const do
 // passSplit in tridiagonal-form.ts: floor(m (1 - Math.SQRT1_2)), Math.SQRT1_2 being this double.
 static int pass_split(int m) { return (int)(m * (1 - 0.70710678118654752440)); }
 
-// The first reflector, from row n - 1: state = [h, ready] for tridiagonal_steps.
+// The first reflector, from row n - 1: state = [h, ready] for the steps.
 __attribute__((export_name("tridiagonal_begin"))) LOOPS_STAY_LOOPS void
 tridiagonal_begin(double *w, int n, double *v, double *e, double *state) {
   for (int j = 0; j < n - 1; j++) v[j] = w[j * n + n - 1];
@@ -127,58 +127,98 @@ tridiagonal_begin(double *w, int n, double *v, double *e, double *state) {
   state[1] = 0;
 }
 
-// Steps i = from, from - 1, ..., down to but not including `to` of the reduction (the loop of
-// tridiagonalForm in tridiagonal-form.ts, the same operations in the same order), carrying
-// [h, ready] in `state` from one call to the next.
-__attribute__((export_name("tridiagonal_steps"))) LOOPS_STAY_LOOPS void
+// Step i of the reduction up to its pass (the loop of tridiagonalForm in tridiagonal-form.ts, the
+// same operations in the same order), carrying [h, ready] in `state` from one step to the next.
+// Returns the pass's split (its columns [0, split) sum into p, zeroed here, and [split, i - 1)
+// into p2), or -1 where the step has no pass.
+LOOPS_STAY_LOOPS static int step_to_pass(double *w, int n, int i, double *u, double *q, double *v,
+                                         double *p, double *e, double *half_norms, double *state) {
+  double h = state[0];
+  if (h == 0) {
+    // Row i is already zero left of the diagonal: nothing to reflect; the next row as it stands.
+    state[1] = 0;
+    if (i > 1) {
+      for (int j = 0; j < i - 1; j++) v[j] = w[j * n + i - 1];
+      state[0] = householder_vector(v, i - 1, e);
+    }
+    return -1;
+  }
+  for (int j = 0; j < i; j++) u[j] = v[j];
+  half_norms[i] = h;
+  for (int j = 0; j < i; j++) w[i * n + j] = u[j];
+  if (state[1] == 0) block_times(w, n, i, u, p);
+  double f = 0;
+  for (int j = 0; j < i; j++) {
+    p[j] /= h;
+    f += p[j] * u[j];
+  }
+  const double hh = f / (h + h);
+  for (int j = 0; j < i; j++) q[j] = p[j] - hh * u[j];
+  const int last = i - 1;
+  const double ul = u[last], ql = q[last];
+  for (int j = 0; j <= last; j++) w[j * n + last] -= u[j] * ql + q[j] * ul;
+  if (last == 0) return -1;
+  for (int j = 0; j < last; j++) v[j] = w[j * n + last];
+  h = householder_vector(v, last, e);
+  state[0] = h;
+  if (h == 0) {
+    for (int j = 0; j < last; j++) {
+      double *c = w + j * n;
+      const double uj = u[j], qj = q[j];
+      for (int k = j; k < last; k++) c[k] -= uj * q[k] + qj * u[k];
+    }
+    state[1] = 0;
+    return -1;
+  }
+  for (int k = 0; k < last; k++) p[k] = 0;
+  return pass_split(last);
+}
+
+// The second column range [split, m) of a pass into p2, zeroed first (passShare in
+// tridiagonal-form.ts): the kernel team's helper makes it while the caller makes the first.
+__attribute__((export_name("tridiagonal_pass_share"))) LOOPS_STAY_LOOPS void
+tridiagonal_pass_share(double *w, int n, int m, int split, const double *u, const double *q,
+                       const double *v, double *p2) {
+  for (int k = 0; k < m; k++) p2[k] = 0;
+  columns(w, n, m, split, m, u, q, v, p2);
+}
+
+// The end of a step's pass: the second range's sums into p.
+static void pass_end(double *p, const double *p2, int split, int m, double *state) {
+  for (int k = split; k < m; k++) p[k] += p2[k];
+  state[1] = 1;
+}
+
+// Steps i = from, from - 1, ..., down to but not including `to`, each with its whole pass.
+__attribute__((export_name("tridiagonal_steps"))) void
 tridiagonal_steps(double *w, int n, double *u, double *q, double *v, double *p, double *p2,
                   double *e, double *half_norms, double *state, int from, int to) {
-  double h = state[0];
-  int ready = state[1] != 0;
   for (int i = from; i > to; i--) {
-    if (h == 0) {
-      // Row i is already zero left of the diagonal: nothing to reflect; the next row as it stands.
-      ready = 0;
-      if (i > 1) {
-        for (int j = 0; j < i - 1; j++) v[j] = w[j * n + i - 1];
-        h = householder_vector(v, i - 1, e);
-      }
-      continue;
-    }
-    for (int j = 0; j < i; j++) u[j] = v[j];
-    half_norms[i] = h;
-    for (int j = 0; j < i; j++) w[i * n + j] = u[j];
-    if (!ready) block_times(w, n, i, u, p);
-    double f = 0;
-    for (int j = 0; j < i; j++) {
-      p[j] /= h;
-      f += p[j] * u[j];
-    }
-    const double hh = f / (h + h);
-    for (int j = 0; j < i; j++) q[j] = p[j] - hh * u[j];
-    const int last = i - 1;
-    const double ul = u[last], ql = q[last];
-    for (int j = 0; j <= last; j++) w[j * n + last] -= u[j] * ql + q[j] * ul;
-    if (last == 0) break;
-    for (int j = 0; j < last; j++) v[j] = w[j * n + last];
-    h = householder_vector(v, last, e);
-    if (h == 0) {
-      for (int j = 0; j < last; j++) {
-        double *c = w + j * n;
-        const double uj = u[j], qj = q[j];
-        for (int k = j; k < last; k++) c[k] -= uj * q[k] + qj * u[k];
-      }
-      ready = 0;
-      continue;
-    }
-    const int split = pass_split(last);
-    for (int k = 0; k < last; k++) p[k] = 0;
-    columns(w, n, last, 0, split, u, q, v, p);
-    for (int k = 0; k < last; k++) p2[k] = 0;
-    columns(w, n, last, split, last, u, q, v, p2);
-    for (int k = split; k < last; k++) p[k] += p2[k];
-    ready = 1;
+    const int split = step_to_pass(w, n, i, u, q, v, p, e, half_norms, state);
+    if (split < 0) continue;
+    columns(w, n, i - 1, 0, split, u, q, v, p);
+    tridiagonal_pass_share(w, n, i - 1, split, u, q, v, p2);
+    pass_end(p, p2, split, i - 1, state);
   }
-  state[0] = h;
-  state[1] = ready;
+}
+
+// Step i with its pass made in two shares (two threads): returns the split, or -1 where the step
+// has no pass. The caller then makes tridiagonal_pass_mine, the helper tridiagonal_pass_share,
+// and the caller ends the step with tridiagonal_pass_end.
+__attribute__((export_name("tridiagonal_step_to_pass"))) int
+tridiagonal_step_to_pass(double *w, int n, int i, double *u, double *q, double *v, double *p,
+                         double *e, double *half_norms, double *state) {
+  return step_to_pass(w, n, i, u, q, v, p, e, half_norms, state);
+}
+
+// A pass's first column range [0, split) into p.
+__attribute__((export_name("tridiagonal_pass_mine"))) void
+tridiagonal_pass_mine(double *w, int n, int m, int split, const double *u, const double *q,
+                      const double *v, double *p) {
+  columns(w, n, m, 0, split, u, q, v, p);
+}
+
+__attribute__((export_name("tridiagonal_pass_end"))) void
+tridiagonal_pass_end(double *p, const double *p2, int split, int m, double *state) {
+  pass_end(p, p2, split, m, state);
 }

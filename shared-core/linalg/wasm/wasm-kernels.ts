@@ -48,6 +48,25 @@ export interface KernelExports {
     from: number,
     to: number,
   ): void;
+  /** tridiagonal.c: step i up to its pass; the pass's split, or -1 where the step has none. */
+  tridiagonal_step_to_pass(
+    w: number,
+    n: number,
+    i: number,
+    u: number,
+    q: number,
+    v: number,
+    p: number,
+    e: number,
+    halfNorms: number,
+    state: number,
+  ): number;
+  /** tridiagonal.c: a pass's first column range [0, split) of the leading m x m block into p. */
+  tridiagonal_pass_mine: PassRange;
+  /** tridiagonal.c: a pass's second column range [split, m) into p (p2), zeroed first. */
+  tridiagonal_pass_share: PassRange;
+  /** tridiagonal.c: the end of a step's pass, p[split..m) += p2[split..m). */
+  tridiagonal_pass_end(p: number, p2: number, split: number, m: number, state: number): void;
   /**
    * cholesky.c: columns [j0, j1) of L on the block's own rows, each pair's pivot rows left side by
    * side in `pairs` (j1 - j0 times n doubles); 1 when every pivot is positive and finite, else 0.
@@ -60,6 +79,9 @@ export interface KernelExports {
   /** cholesky.c: L' x = y on rows i1 - 1 down to i0 of b (backSubstituteTransposed). */
   cholesky_back_rows(l: number, n: number, b: number, i0: number, i1: number): void;
 }
+
+/** A column range of one pass of the tridiagonal reduction (tridiagonal.c); pointers are byte offsets. */
+type PassRange = (w: number, n: number, m: number, split: number, u: number, q: number, v: number, p: number) => void;
 
 export interface WasmKernels {
   readonly exports: KernelExports;

@@ -100,6 +100,26 @@ describe.runIf(built)('the dense kernels on two threads', () => {
     expect(taken).toBeGreaterThan(100); // every pass over 512 columns or more
   });
 
+  it('reduces in WebAssembly on the shared memory, both threads, to the TypeScript form bit for bit (N = 900)', () => {
+    const c = m.cross.crossProduct(randomMatrix(950, 900, 16));
+    // Zero rows and columns: steps with nothing to reflect among the shared passes.
+    for (const z of [5, 880]) for (let k = 0; k < 900; k++) c.data[z * 900 + k] = c.data[k * 900 + z] = 0;
+    const typescript = m.tridiagonal.tridiagonalForm(c);
+    m.wasm.useWasmKernels(true);
+    try {
+      const { alone, shared } = withAndWithout(() => m.tridiagonal.tridiagonalForm(c));
+      expect(taken).toBeGreaterThan(100); // every pass over 768 columns or more
+      for (const form of [alone, shared]) {
+        expect(sameBits(form.diagonal, typescript.diagonal)).toBe(true);
+        expect(sameBits(form.offDiagonal, typescript.offDiagonal)).toBe(true);
+        expect(sameBits(form.reflectors, typescript.reflectors)).toBe(true);
+        expect(sameBits(form.halfNorms, typescript.halfNorms)).toBe(true);
+      }
+    } finally {
+      m.wasm.useWasmKernels(false);
+    }
+  });
+
   it('factors the same Cholesky factor, and refuses the same indefinite matrix (n = 701)', () => {
     const n = 701;
     const a = m.cross.crossProduct(randomMatrix(900, n, 13)).data;
