@@ -19,34 +19,32 @@ export class UndecodableBytes extends Error {
   }
 }
 
+/** Whole lines of a chunk: as text, or as their bytes when they are ASCII (one byte a character). */
+export type DecodedLines = { used: number; text: string; ascii?: undefined } | { used: number; ascii: Buffer };
+
 export class ChunkDecoder {
   encoding: TextEncodingName | undefined;
   private carry: Buffer | undefined; // the start of a UTF-8 character cut by the chunk's end
   private decoder: TextDecoder | undefined;
-  /**
-   * The bytes of the last text decoded when they are that text's characters, one byte each (an
-   * ASCII chunk), so that a reader may scan the bytes in place of the text; undefined otherwise.
-   * They live in the caller's buffer: valid until it is refilled.
-   */
-  aligned: Uint8Array | undefined;
 
   /**
    * The text of the whole lines at the start of `chunk` (through its last line break) and how
    * many bytes they take; `last` reads everything. The caller hands the bytes left over back at
    * the start of the next chunk, so that no line of text is cut in two and joined again (a file
    * in UTF-16, whose line break is two bytes, or a line longer than the chunk, is decoded whole,
-   * any line cut by the chunk's end is joined by the reader). `bytes`: the text's bytes when
-   * they are its characters (`aligned`).
+   * any line cut by the chunk's end is joined by the reader). Lines that are ASCII, in either
+   * encoding that has ASCII as its first half, come back undecoded as `ascii`, a view of
+   * `chunk` (valid until the caller refills it): a reader scans them where they lie, and makes
+   * text only of the lines it needs as text.
    */
-  decodeLines(chunk: Buffer, last: boolean): { text: string; used: number; bytes: Uint8Array | undefined } {
-    if (this.encoding === undefined) {
-      const rest = this.sniff(chunk);
-      const used = this.linesEnd(rest, last);
-      const text = this.decode(rest.subarray(0, used), last);
-      return { text, used: chunk.length - rest.length + used, bytes: this.aligned };
-    }
-    const used = this.linesEnd(chunk, last);
-    return { text: this.decode(chunk.subarray(0, used), last), used, bytes: this.aligned };
+  decodeLines(chunk: Buffer, last: boolean): DecodedLines {
+    const rest = this.encoding === undefined ? this.sniff(chunk) : chunk;
+    const used = this.linesEnd(rest, last);
+    const lines = rest.subarray(0, used);
+    const skipped = chunk.length - rest.length;
+    if (this.carry === undefined && this.encoding !== 'utf-16le' && this.encoding !== 'utf-16be' && isAscii(lines))
+      return { used: skipped + used, ascii: lines };
+    return { used: skipped + used, text: this.decode(lines, last) };
   }
 
   private linesEnd(bytes: Buffer, last: boolean): number {
@@ -57,13 +55,9 @@ export class ChunkDecoder {
 
   /** The text of the next chunk; `last` flushes. Throws UndecodableBytes. */
   decode(chunk: Buffer, last: boolean): string {
-    this.aligned = undefined;
     if (this.encoding === undefined) chunk = this.sniff(chunk);
     if (this.encoding === 'utf-8') return this.utf8(chunk, last);
-    if (this.encoding === 'windows-1252' && isAscii(chunk)) {
-      this.aligned = plainBytes(chunk);
-      return chunk.toString('latin1');
-    }
+    if (this.encoding === 'windows-1252' && isAscii(chunk)) return chunk.toString('latin1');
     try {
       return this.decoder!.decode(chunk, { stream: !last });
     } catch {
@@ -97,10 +91,7 @@ export class ChunkDecoder {
   private utf8(chunk: Buffer, last: boolean): string {
     let bytes = this.carry ? Buffer.concat([this.carry, chunk]) : chunk;
     this.carry = undefined;
-    if (isAscii(bytes)) {
-      this.aligned = plainBytes(bytes);
-      return bytes.toString('latin1'); // the same text, without UTF-8 decoding
-    }
+    if (isAscii(bytes)) return bytes.toString('latin1'); // the same text, without UTF-8 decoding
     if (!last) {
       const end = completeUtf8(bytes);
       if (end < bytes.length) this.carry = Buffer.from(bytes.subarray(end));
@@ -113,14 +104,6 @@ export class ChunkDecoder {
       'bytes that are not UTF-8 text, in a file whose start is UTF-8 (save the whole file in one encoding)',
     );
   }
-}
-
-/**
- * The same bytes as a plain Uint8Array: a reader that also scans its own Uint8Array (text that
- * came without bytes) then meets one kind of array, which V8 compiles for once.
- */
-function plainBytes(bytes: Buffer): Uint8Array {
-  return new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.length);
 }
 
 /** The length of the prefix of `bytes` that ends on a whole UTF-8 character. */

@@ -21,7 +21,7 @@ import {
   type DecimalMark,
 } from './cells.js';
 import { ChunkDecoder, UndecodableBytes, type TextEncodingName } from './decode-text.js';
-import { CsvLines, chooseDelimiter, splitRecord, type Delimiter } from './csv-records.js';
+import { CsvLines, asciiText, chooseDelimiter, splitRecord, type Delimiter } from './csv-records.js';
 import { GrowableFloat64, GrowableInt32 } from './growable.js';
 import { ProblemList } from './problem-list.js';
 
@@ -148,7 +148,7 @@ export class PriceFileReader {
   private blockRow = 0;
   private unparseable: Int32Array = new Int32Array(0);
   /** A row's bytes, for text that came without them (not ASCII, or text in memory). */
-  private scratch = new Uint8Array(0);
+  private scratch = Buffer.alloc(0);
   private nonPositive: Int32Array = new Int32Array(0);
   // long rows
   private readonly long = new Map<string, LongAsset>();
@@ -161,14 +161,18 @@ export class PriceFileReader {
   ) {
     this.decimal = options.decimal;
     this.lines = new CsvLines(
-      (text, start, end, line, inPlace, bytes) => this.record(text, start, end, line, inPlace, bytes),
+      (source, start, end, line, inPlace) => this.record(source, start, end, line, inPlace),
       file,
     );
   }
 
-  /** `bytes`: the text's characters as bytes at the same positions, when it is ASCII (decode-text.ts). */
-  push(text: string, bytes?: Uint8Array): void {
-    this.lines.push(text, bytes);
+  push(text: string): void {
+    this.lines.push(text);
+  }
+
+  /** Text that is ASCII, as its bytes (decode-text.ts): valid only during the call. */
+  pushAscii(bytes: Buffer): void {
+    this.lines.pushAscii(bytes);
   }
 
   /** Where the text stopped: the line being read and its next column. */
@@ -183,24 +187,19 @@ export class PriceFileReader {
     return this.form === 'wide' ? this.finishWide(encoding, bytes) : this.finishLong(encoding, bytes);
   }
 
-  private record(
-    text: string,
-    start: number,
-    end: number,
-    line: number,
-    inPlace: boolean,
-    bytes: Uint8Array | undefined,
-  ): void {
-    if (!this.header) return this.readHeader(text.slice(start, end), line);
+  /** A record's text or the bytes of its ASCII text (csv-records.ts). */
+  private record(source: string | Buffer, start: number, end: number, line: number, inPlace: boolean): void {
+    if (!this.header) return this.readHeader(spanText(source, start, end), line);
     this.dataRows++;
     if (this.decimal === undefined) {
-      // Kept as text: the bytes are the caller's buffer, refilled by the next chunk.
-      this.sample.push({ text, start, end, line, inPlace });
+      // Kept as text: bytes are the caller's buffer, refilled by the next chunk.
+      if (typeof source === 'string') this.sample.push({ text: source, start, end, line, inPlace });
+      else this.sample.push({ text: asciiText(source, start, end + 1), start: 0, end: end - start, line, inPlace });
       if (this.sample.length >= Math.min(SAMPLE_ROWS, Math.ceil(SAMPLE_CELLS / this.width))) this.decideDecimal();
       return;
     }
-    if (this.form === 'wide') this.wideRow(text, start, end, line, inPlace, bytes);
-    else this.longRow(this.cells(text.slice(start, end), line), line);
+    if (this.form === 'wide') this.wideRow(source, start, end, line, inPlace);
+    else this.longRow(this.cells(spanText(source, start, end), line), line);
   }
 
   private cells(raw: string, line: number): string[] {
@@ -262,7 +261,7 @@ export class PriceFileReader {
     const sample = this.sample;
     this.sample = [];
     for (const r of sample)
-      if (this.form === 'wide') this.wideRow(r.text, r.start, r.end, r.line, r.inPlace, undefined);
+      if (this.form === 'wide') this.wideRow(r.text, r.start, r.end, r.line, r.inPlace);
       else this.longRow(this.cells(raw(r), r.line), r.line);
   }
 
@@ -288,49 +287,44 @@ export class PriceFileReader {
   }
 
   /**
-   * The prices of a row read in place from `bytes[from, end)`, or, without bytes, from its text
-   * copied into bytes when it is ASCII (readDecimalCells); NaN when the row is not of that kind.
+   * The prices of a row read in place from `source[from, end)`: its bytes, or its text copied
+   * into bytes when it is ASCII (readDecimalCells); NaN when the row is not of that kind.
    */
-  private readCells(text: string, bytes: Uint8Array | undefined, from: number, end: number): number {
-    if (bytes === undefined) {
+  private readCells(source: string | Buffer, from: number, end: number): number {
+    let bytes: Buffer;
+    if (typeof source === 'string') {
       const length = end - from;
-      if (this.scratch.length <= length) this.scratch = new Uint8Array(2 * length + 1);
+      if (this.scratch.length <= length) this.scratch = Buffer.alloc(2 * length + 1);
       bytes = this.scratch;
       for (let j = 0; j < length; j++) {
-        const code = text.charCodeAt(from + j);
+        const code = source.charCodeAt(from + j);
         if (code > 127) return NaN;
         bytes[j] = code;
       }
       bytes[length] = 10; // the line break that ends every row read in place
       end = length;
       from = 0;
-    }
+    } else bytes = source;
     return readDecimalCells(bytes, from, end, this.separatorCode, this.markCode, this.blockColumns, this.blockRow);
   }
 
-  private wideRow(
-    text: string,
-    start: number,
-    end: number,
-    line: number,
-    inPlace: boolean,
-    bytes: Uint8Array | undefined,
-  ): void {
+  private wideRow(source: string | Buffer, start: number, end: number, line: number, inPlace: boolean): void {
     // The common row: no quote, a date cell, then numbers above zero, read in place from bytes.
     if (inPlace) {
-      const d = text.indexOf(this.delimiter, start);
+      const d =
+        typeof source === 'string' ? source.indexOf(this.delimiter, start) : source.indexOf(this.separatorCode, start);
       if (d !== -1 && d < end) {
-        const key = dateKey(text, start, d);
+        const key = typeof source === 'string' ? dateKey(source, start, d) : dateKey(asciiText(source, start, d));
         // A row on a date already read is not kept; past 20 problems it is only counted.
         if (key !== NO_DATE && this.seenDates.has(key) && this.problems.countedOnly(line)) return;
         if (key !== NO_DATE && !this.seenDates.has(key)) {
           this.rowSlot(end - start);
-          if (this.readCells(text, bytes, d + 1, end) > 0) return this.keepRow(key, line);
+          if (this.readCells(source, d + 1, end) > 0) return this.keepRow(key, line);
         }
       }
     }
     // Any other row, cell by cell: finds and explains each problem.
-    const cells = this.cells(text.slice(start, end), line);
+    const cells = this.cells(spanText(source, start, end), line);
     const key = dateKey(cells[0]);
     if (key === NO_DATE)
       return this.problems.add({
@@ -650,6 +644,11 @@ export class PriceFileReader {
   }
 }
 
+/** The text of `source[start, end)`. */
+function spanText(source: string | Buffer, start: number, end: number): string {
+  return typeof source === 'string' ? source.slice(start, end) : asciiText(source, start, end);
+}
+
 function missing(error: unknown, file: string): InputError {
   const code = (error as NodeJS.ErrnoException).code;
   const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'is a directory' : (error as Error).message;
@@ -667,9 +666,10 @@ function located(error: UndecodableBytes, reader: PriceFileReader, file: string)
  */
 function pushLines(reader: PriceFileReader, decoder: ChunkDecoder, bytes: Buffer, last: boolean, file: string): number {
   try {
-    const { text, used, bytes: aligned } = decoder.decodeLines(bytes, last);
-    reader.push(text, aligned);
-    return used;
+    const lines = decoder.decodeLines(bytes, last);
+    if (lines.ascii) reader.pushAscii(lines.ascii);
+    else reader.push(lines.text);
+    return lines.used;
   } catch (error) {
     if (error instanceof UndecodableBytes) throw located(error, reader, file);
     throw error;

@@ -108,6 +108,18 @@ describe('a price file read in chunks reads as its text in one piece', () => {
     await readsAsText(Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(text, 'utf8')]), text);
   });
 
+  it('ASCII throughout (read from its bytes): CRLF, blank lines, a quoted cell over two lines, no final line break', async () => {
+    const lines = wideText({ bytes: 2.5e6, header: ['A', 'B', 'C', 'D', 'E', 'F'], seed: 15 }).split('\n');
+    for (const at of [3, Math.floor(lines.length * 0.3), Math.floor(lines.length * 0.7)]) {
+      lines.splice(at, 0, '  \t ');
+      lines[at + 2] = lines[at + 2].replace(/,([^,]*)$/, ',"1\n$1"'); // a line break inside quotes
+    }
+    const text = lines.join('\r\n').replace(/(\r\n)+$/, '');
+    const parsed = parsePriceText(text);
+    expect(parsed.problems.listed.some((p) => p.kind === 'unparseable')).toBe(true);
+    await readsAsText(Buffer.from(text, 'latin1'), text);
+  });
+
   it('a header longer than a chunk, a two-byte character cut by the chunk end', async () => {
     // Ids of two-byte letters only (À to É for the digits of k); the first id grows by one ASCII
     // letter until the chunk's last byte is the first half of a letter.
