@@ -1,5 +1,6 @@
 import type { Matrix } from './matrix.js';
 import { householderVector, intoTridiagonalBasis, tridiagonalForm, type TridiagonalForm } from './tridiagonal-form.js';
+import { wasmKernels, type WasmKernels } from './wasm/wasm-kernels.js';
 
 export interface SymmetricEigen {
   /** Eigenvalues in ascending order. */
@@ -287,6 +288,10 @@ function diagonalise(
   n: number,
   tracked?: Float64Array,
 ): void {
+  if (!w && n > 1) {
+    const wasm = wasmKernels();
+    if (wasm && diagonaliseInWasm(wasm, d, e, n, tracked)) return;
+  }
   for (let i = 1; i < n; i++) e[i - 1] = e[i];
   if (n > 0) e[n - 1] = 0;
   let f = 0;
@@ -302,7 +307,7 @@ function diagonalise(
     if (m > l) {
       let iterations = 0;
       do {
-        if (++iterations > 60) throw new Error('symmetric eigenvalue iteration did not converge');
+        if (++iterations > 60) throw new Error(NOT_CONVERGED);
         let g = d[l];
         let p = (d[l + 1] - g) / (2 * e[l]);
         let r = hypot(p, 1);
@@ -356,6 +361,47 @@ function diagonalise(
     e[l] = 0;
   }
 }
+
+/**
+ * diagonalise without eigenvectors in the WebAssembly module (tridiagonal.c, tridiagonal_ql), the
+ * same operations in the same order, on copies of d, e and `tracked`, one call per eigenvalue (the
+ * first calls run unoptimised code, the rest optimised). False, with the arrays untouched, where
+ * an entry needs Math.hypot's care or is NaN: the TypeScript then makes the whole.
+ */
+function diagonaliseInWasm(
+  wasm: WasmKernels,
+  d: Float64Array,
+  e: Float64Array,
+  n: number,
+  tracked: Float64Array | undefined,
+): boolean {
+  const [dw, ew, yw, state] = wasm.views(n, n, n, 2);
+  dw.set(d.subarray(0, n));
+  ew.set(e.subarray(1, n));
+  ew[n - 1] = 0;
+  if (tracked) yw.set(tracked.subarray(0, n));
+  state.fill(0);
+  for (let l = 0; l < n; l++) {
+    const status = wasm.exports.tridiagonal_ql(
+      dw.byteOffset,
+      ew.byteOffset,
+      yw.byteOffset,
+      tracked ? 1 : 0,
+      n,
+      l,
+      l + 1,
+      state.byteOffset,
+    );
+    if (status === 1) return false;
+    if (status === 2) throw new Error(NOT_CONVERGED);
+  }
+  d.set(dw);
+  e.set(ew);
+  if (tracked) tracked.set(yw);
+  return true;
+}
+
+const NOT_CONVERGED = 'symmetric eigenvalue iteration did not converge';
 
 /**
  * sqrt(a^2 + b^2): the plain formula where neither square can overflow or underflow, which is

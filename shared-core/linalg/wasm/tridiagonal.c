@@ -222,3 +222,83 @@ __attribute__((export_name("tridiagonal_pass_end"))) void
 tridiagonal_pass_end(double *p, const double *p2, int split, int m, double *state) {
   pass_end(p, p2, split, m, state);
 }
+
+// sqrt(a^2 + b^2) where neither square can overflow or underflow (hypot in symmetric-eigen.ts);
+// elsewhere, and for a NaN, *outside is set: the TypeScript, which has Math.hypot, takes over.
+static inline double plain_hypot(double a, double b, int *outside) {
+  const double fa = __builtin_fabs(a), fb = __builtin_fabs(b);
+  if (fa < 1e150 && fb < 1e150 && (fa > 1e-150 || fb > 1e-150)) return __builtin_sqrt(a * a + b * b);
+  *outside = 1;
+  return 1;
+}
+
+// Eigenvalues l0 <= l < l1 of the implicit QL iteration (diagonalise in symmetric-eigen.ts, the
+// same operations in the same order) on d and e (e already shifted down by one), rotating
+// `tracked` too where `track` is 1; state = [f, tst1] carried from one call to the next. Returns 0,
+// 1 where an entry is out of the plain hypot's range or NaN (the caller redoes the whole in
+// TypeScript from its own copies), 2 where an eigenvalue took more than 60 iterations.
+__attribute__((export_name("tridiagonal_ql"))) int
+tridiagonal_ql(double *d, double *e, double *tracked, int track, int n, int l0, int l1,
+               double *state) {
+  const double eps = 0x1p-52;
+  double f = state[0], tst1 = state[1];
+  int outside = 0;
+  for (int l = l0; l < l1; l++) {
+    const double size = __builtin_fabs(d[l]) + __builtin_fabs(e[l]);
+    if (size != size) return 1;
+    if (size > tst1) tst1 = size;
+    int m = l;
+    while (m < n) {
+      if (__builtin_fabs(e[m]) <= eps * tst1) break;
+      m++;
+    }
+    if (m == n) return 1;
+    if (m > l) {
+      int iterations = 0;
+      do {
+        if (++iterations > 60) return 2;
+        double g = d[l];
+        double p = (d[l + 1] - g) / (2 * e[l]);
+        double r = plain_hypot(p, 1, &outside);
+        if (p < 0) r = -r;
+        d[l] = e[l] / (p + r);
+        d[l + 1] = e[l] * (p + r);
+        const double dl1 = d[l + 1];
+        double h = g - d[l];
+        for (int i = l + 2; i < n; i++) d[i] -= h;
+        f += h;
+        p = d[m];
+        double c = 1, c2 = c, c3 = c;
+        const double el1 = e[l + 1];
+        double s = 0, s2 = 0;
+        for (int i = m - 1; i >= l; i--) {
+          c3 = c2;
+          c2 = c;
+          s2 = s;
+          g = c * e[i];
+          h = c * p;
+          r = plain_hypot(p, e[i], &outside);
+          e[i + 1] = s * r;
+          s = e[i] / r;
+          c = p / r;
+          p = c * d[i] - s * g;
+          d[i + 1] = h + s * (c * g + s * d[i]);
+          if (track) {
+            const double hk = tracked[i + 1];
+            tracked[i + 1] = s * tracked[i] + c * hk;
+            tracked[i] = c * tracked[i] - s * hk;
+          }
+        }
+        if (outside) return 1;
+        p = (-s * s2 * c3 * el1 * e[l]) / dl1;
+        e[l] = s * p;
+        d[l] = c * p;
+      } while (__builtin_fabs(e[l]) > eps * tst1);
+    }
+    d[l] += f;
+    e[l] = 0;
+  }
+  state[0] = f;
+  state[1] = tst1;
+  return 0;
+}

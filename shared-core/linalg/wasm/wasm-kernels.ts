@@ -68,6 +68,21 @@ export interface KernelExports {
   /** tridiagonal.c: the end of a step's pass, p[split..m) += p2[split..m). */
   tridiagonal_pass_end(p: number, p2: number, split: number, m: number, state: number): void;
   /**
+   * tridiagonal.c: eigenvalues [l0, l1) of the implicit QL iteration on d, e (shifted down by one),
+   * rotating `tracked` too when `track` is 1; state = [f, tst1]. 0 done, 1 the TypeScript must
+   * make it (an entry outside the plain hypot's range, or NaN), 2 not converged.
+   */
+  tridiagonal_ql(
+    d: number,
+    e: number,
+    tracked: number,
+    track: number,
+    n: number,
+    l0: number,
+    l1: number,
+    state: number,
+  ): number;
+  /**
    * cholesky.c: columns [j0, j1) of L on the block's own rows, each pair's pivot rows left side by
    * side in `pairs` (j1 - j0 times n doubles); 1 when every pivot is positive and finite, else 0.
    */

@@ -3,6 +3,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { kernelSourceDigest } from '../../../scripts/kernel-source-digest.mjs';
 import { crossProduct, crossProductNaive } from '../../../shared-core/linalg/cross-product.js';
 import type { Matrix } from '../../../shared-core/linalg/matrix.js';
+import { formEigenvalues, formExposures, tridiagonalEigenvalues } from '../../../shared-core/linalg/symmetric-eigen.js';
 import { tridiagonalForm, type TridiagonalForm } from '../../../shared-core/linalg/tridiagonal-form.js';
 import { KERNEL_SOURCE_DIGEST } from '../../../shared-core/linalg/wasm/kernel-binary.js';
 import {
@@ -308,5 +309,45 @@ describe('the WebAssembly kernels', () => {
     for (let k = 0; k < 5; k++) expect(sameBits(wasm[k], typescript[k])).toBe(true);
     expect(sameBits(wasm[0], wasm[3])).toBe(true);
     expect(sameBits(wasm[0], wasm[4])).toBe(false);
+  });
+
+  it.each([2, 3, 5, 31, 64, 65, 200, 513])(
+    'find the eigenvalues and the exposures of a reduced matrix bit for bit as the TypeScript does (N = %i)',
+    (n) => {
+      const a = symmetric(n + 3, n, n * 17 + 2);
+      const form = tridiagonalForm(a);
+      const v = Array.from({ length: n }, (_, k) => ((k * 7919) % 13) / 13 - 0.4);
+      const { wasm, typescript } = bothWays(() => ({ values: formEigenvalues(form), bets: formExposures(form, v) }));
+      expect(sameBits(wasm.values, typescript.values)).toBe(true);
+      expect(sameBits(wasm.bets.values, typescript.bets.values)).toBe(true);
+      expect(sameBits(wasm.bets.exposures, typescript.bets.exposures)).toBe(true);
+      // Not trivially: the iteration moved the diagonal.
+      expect(sameBits(wasm.bets.values, form.diagonal)).toBe(false);
+    },
+  );
+
+  it('find eigenvalues bit for bit at any scale, where the plain hypot would overflow or underflow, and of NaN', () => {
+    const n = 40;
+    for (const scale of [1, 1e-170, 1e-160, 1e140, 1e160, 1e300]) {
+      const diag = Array.from({ length: n }, (_, k) => (2 + ((k * 31) % 7) / 10) * scale);
+      const off = Array.from({ length: n - 1 }, (_, k) => (k % 5 === 4 ? 0 : -1 + k / 100) * scale);
+      const { wasm, typescript } = bothWays(() => tridiagonalEigenvalues(diag, off));
+      expect(sameBits(wasm, typescript)).toBe(true);
+    }
+    // Already diagonal, the textbook 2, -1 matrix (eigenvalues 2 - 2 cos(k pi / (n + 1))), and a NaN.
+    for (const [diag, off] of [
+      [
+        [3, 1, 2, 5],
+        [0, 0, 0],
+      ],
+      [new Array(50).fill(2), new Array(49).fill(-1)],
+      [
+        [1, 2, Number.NaN, 4],
+        [0.5, 0.5, 0.5],
+      ],
+    ]) {
+      const { wasm, typescript } = bothWays(() => tridiagonalEigenvalues(diag, off));
+      expect(sameBits(wasm, typescript)).toBe(true);
+    }
   });
 });
