@@ -91,6 +91,34 @@ describe.runIf(built)('the dense kernels on two threads', () => {
     }
   });
 
+  it("factors and solves in WebAssembly on the team's shared memory, the TypeScript's answer (n = 701)", () => {
+    const n = 701;
+    const a = m.cross.crossProduct(randomMatrix(900, n, 16)).data;
+    for (let i = 0; i < n; i++) a[i * n + i] += 1e-3;
+    const b = randomMatrix(1, n, 17).data;
+    const solve = () => {
+      const f = Float64Array.from(a);
+      const x = Float64Array.from(b);
+      const ok = m.factor.choleskyInPlace(f, n);
+      m.factor.choleskySolveInPlace(f, n, x);
+      return { ok, f, x, onShared: m.wasm.wasmKernels()?.shared };
+    };
+    const typescript = solve();
+    m.wasm.useWasmKernels(true);
+    try {
+      // The factor stays on this thread (two did not pay): the team only gives the memory.
+      const { alone, shared } = withAndWithout(solve);
+      expect([alone.onShared, shared.onShared]).toEqual([false, true]);
+      expect(typescript.ok && alone.ok && shared.ok).toBe(true);
+      for (const r of [alone, shared]) {
+        expect(sameBits(r.f, typescript.f)).toBe(true);
+        expect(sameBits(r.x, typescript.x)).toBe(true);
+      }
+    } finally {
+      m.wasm.useWasmKernels(false);
+    }
+  });
+
   it('reduces a symmetric matrix to the same tridiagonal form and reflectors (N = 640)', () => {
     const c = m.cross.crossProduct(randomMatrix(700, 640, 12));
     const { alone, shared } = withAndWithout(() => m.tridiagonal.tridiagonalForm(c));
