@@ -1,5 +1,3 @@
-import { MAX_PRICE, MIN_PRICE } from './price-value.js';
-
 /** The decimal mark of a price file: a point (1234.5) or a comma (1234,5). */
 export type DecimalMark = 'point' | 'comma';
 
@@ -28,9 +26,6 @@ export function readDecimal(text: string, mark: DecimalMark): number {
   return Number(mark === 'comma' ? text.replace(',', '.') : text);
 }
 
-/** A cell longer than this is left to the caller's general path (no string is made of it here). */
-const LONGEST_CELL = 64;
-
 /**
  * Cells separated by the byte `separator` in `bytes[start, end)` (ASCII: one byte per character),
  * read in place, without a string per cell: cell k into `columns[k][at]` (at least one column),
@@ -42,24 +37,23 @@ const LONGEST_CELL = 64;
  * within 10^±22, both the digits as one integer and the power of ten are exact doubles, so one
  * multiplication or division gives the correctly rounded double (Clinger 1990, "How to read
  * floating point numbers accurately", the fast path). Such a value is 0 or lies within
- * [1e-22, 1e37], inside the range of a price. Any other number of the grammar (more digits, a
- * larger exponent) is read by Number() from the cell's characters, and kept only within the range
- * of a price.
+ * [1e-22, 1e37], inside the range of a price.
  *
  * Returns the least value read (+Infinity when every cell is empty), so that a caller checks a
  * line of prices for positivity at once; or NaN as soon as a cell is anything else (a blank, a
- * quote, a second mark, a price out of range) or the range does not hold exactly
- * `columns.length` cells (what was written then means nothing; the caller takes its general
- * path, which names each problem). The byte after the range must exist and be none of a digit, the
- * mark or `e` (a line break is none): it stops the digit loops, which then need not test for the
- * end of the range.
+ * quote, a second mark, more digits or a larger power of ten than the fast path takes) or the
+ * range does not hold exactly `columns.length` cells (what was written then means nothing; the
+ * caller takes its general path, which reads each cell with Number() and names each problem; a
+ * string per cell there costs no more than one made here). The byte after the range must exist
+ * and be none of a digit, the mark or `e` (a line break is none): it stops the digit loops, which
+ * then need not test for the end of the range.
  *
  * Written for V8's first pass over a file as much as for its optimised code: one call per line,
- * no call inside but for the rare cell left to Number(), few operations per byte. Every test runs
- * in each cell, none only before or after the loop: V8 compiles the function while its first line
- * is being read, and a test that had not run by then would be compiled without type feedback and
- * deoptimise on every later line. The character codes are written as numbers: a module constant
- * costs the unoptimised code a load each time.
+ * no call inside, few operations per byte. Every test runs in each cell, none only before or
+ * after the loop: V8 compiles the function while its first line is being read, and a test that
+ * had not run by then would be compiled without type feedback and deoptimise on every later
+ * line. The character codes are written as numbers: a module constant costs the unoptimised code
+ * a load each time.
  */
 export function readDecimalCells(
   bytes: Uint8Array,
@@ -73,7 +67,6 @@ export function readDecimalCells(
   let least = Infinity;
   let i = start;
   for (let k = 0; ; k++) {
-    const cellStart = i;
     let code = bytes[i];
     let value = NaN; // an empty cell
     if (i < end && code !== separator) {
@@ -112,14 +105,10 @@ export function readDecimalCells(
       }
       if (i < end && code !== separator) return NaN;
       const scale = exponent - fraction;
-      if (wholeDigits <= 9 && fraction <= 9 && wholeDigits + fraction <= 15 && scale >= -22 && scale <= 22) {
-        const digits = fraction > 0 ? whole * POW10[fraction] + part : whole;
-        const magnitude = scale < 0 ? digits / POW10[-scale] : scale > 0 ? digits * POW10[scale] : digits;
-        value = negative ? -magnitude : magnitude;
-      } else {
-        value = numberOfCell(bytes, cellStart, i, markCode);
-        if (value !== value) return NaN; // not a price
-      }
+      if (wholeDigits > 9 || fraction > 9 || wholeDigits + fraction > 15 || scale < -22 || scale > 22) return NaN;
+      const digits = fraction > 0 ? whole * POW10[fraction] + part : whole;
+      const magnitude = scale < 0 ? digits / POW10[-scale] : scale > 0 ? digits * POW10[scale] : digits;
+      value = negative ? -magnitude : magnitude;
       if (value < least) least = value;
     }
     columns[k][at] = value;
@@ -128,13 +117,4 @@ export function readDecimalCells(
     if (lineEnded) return NaN; // nor fewer
     i++; // past the separator
   }
-}
-
-/** A cell of the grammar beyond the fast path, read by Number(); NaN when it cannot be a price. */
-function numberOfCell(bytes: Uint8Array, from: number, to: number, markCode: number): number {
-  if (to - from > LONGEST_CELL) return NaN;
-  let text = '';
-  for (let j = from; j < to; j++) text += String.fromCharCode(bytes[j] === markCode ? 46 : bytes[j]);
-  const value = Number(text);
-  return value >= MIN_PRICE && value <= MAX_PRICE ? value : NaN;
 }

@@ -2,7 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { InputError, formatInputError } from '../../../shared-core/errors.js';
 import { COMMA, POINT, readDecimal, readDecimalCells } from '../../../shared-core/prices/plain-decimal.js';
 import { MAX_PRICE, MIN_PRICE } from '../../../shared-core/prices/price-value.js';
-import { priceTableFromText } from '../../../src-main/io/read-price-table.js';
+import { PriceFileReader } from '../../../src-main/io/read-price-file.js';
+import { priceTableFromText, priceTableOf } from '../../../src-main/io/read-price-table.js';
+import { isoFromDay } from '../../../src-main/store/days.js';
 
 // Park-Miller generator (Park and Miller 1988), seeded so a failure can be replayed.
 function lcg(seed: number) {
@@ -103,30 +105,42 @@ function readOne(cell: string, separator = COMMA, mark = POINT): { least: number
 }
 
 /**
- * What a cell must read to, with JavaScript's Number() as the reference (ECMA-262 StringToNumber,
- * correctly rounded in V8): that double, bit for bit, whenever it can be a price; otherwise the
- * line is declined (NaN) or, on the fast path, a value at or below zero is returned as the least
- * (the caller's general path names it either way).
+ * Whether a cell is on the fast path (Clinger 1990): at most 9 digits before the mark, 9 after it
+ * and 15 in all (leading zeros counted), the power of ten of its last digit within 10^±22.
  */
-function expectAsNumber(cell: string, separator = COMMA, mark = POINT): void {
-  const { least, value } = readOne(cell, separator, mark);
-  const reference = Number(mark === COMMA ? cell.replace(',', '.') : cell);
-  if (reference >= MIN_PRICE && reference <= MAX_PRICE) {
-    expect(Object.is(value, reference), `${cell}: ${value} against Number() ${reference}`).toBe(true);
-    expect(Object.is(least, reference), cell).toBe(true);
-  } else if (!Number.isNaN(least)) {
-    expect(least <= 0, cell).toBe(true);
-    expect(Object.is(value, reference), `${cell}: ${value} against Number() ${reference}`).toBe(true);
-  }
+function onFastPath(cell: string): boolean {
+  const m = /^[+-]?(\d*)(?:[.,](\d*))?(?:[eE]([+-]?\d+))?$/.exec(cell);
+  if (!m) return false;
+  const [whole, fraction] = [m[1].length, (m[2] ?? '').length];
+  const scale = Number(m[3] ?? 0) - fraction;
+  return whole + fraction > 0 && whole <= 9 && fraction <= 9 && whole + fraction <= 15 && Math.abs(scale) <= 22;
 }
 
-/** A random decimal string: sign, 1 to 20 significant digits, leading zeros, a mark, an exponent. */
+/**
+ * A cell read alone, against JavaScript's Number() as the reference (ECMA-262 StringToNumber,
+ * correctly rounded in V8): on the fast path, that double bit for bit, never declined; off it,
+ * declined (NaN: the caller's general path reads it with Number()). Returns whether it was read.
+ */
+function expectAsNumber(cell: string, separator = COMMA, mark = POINT): boolean {
+  const { least, value } = readOne(cell, separator, mark);
+  const reference = Number(mark === COMMA ? cell.replace(',', '.') : cell);
+  if (!onFastPath(cell)) {
+    expect(least, cell).toBeNaN();
+    return false;
+  }
+  expect(Object.is(value, reference), `${cell}: ${value} against Number() ${reference}`).toBe(true);
+  expect(Object.is(least, reference), cell).toBe(true);
+  return true;
+}
+
+/** A random decimal string: a sign, leading zeros, 0 to 12 digits each side of the mark, an exponent. */
 function randomDecimal(rnd: () => number, mark: string): string {
   const digits = (count: number) => Array.from({ length: count }, () => Math.floor(rnd() * 10)).join('');
+  const length = () => (rnd() < 0.8 ? Math.floor(rnd() * 10) : 10 + Math.floor(rnd() * 3));
   const sign = rnd() < 0.1 ? '-' : rnd() < 0.05 ? '+' : '';
   const zeros = rnd() < 0.2 ? '0'.repeat(Math.floor(rnd() * 6)) : '';
-  const whole = rnd() < 0.1 ? '' : digits(1 + Math.floor(rnd() * 12));
-  const fraction = rnd() < 0.2 ? '' : digits(Math.floor(rnd() * 12) + (whole === '' ? 1 : 0));
+  const whole = rnd() < 0.1 ? '' : digits(1 + length());
+  const fraction = rnd() < 0.2 ? '' : digits(length() + (whole === '' ? 1 : 0));
   const body = fraction === '' && rnd() < 0.5 ? `${zeros}${whole || '0'}` : `${zeros}${whole}${mark}${fraction}`;
   const exponent =
     rnd() < 0.3
@@ -135,70 +149,91 @@ function randomDecimal(rnd: () => number, mark: string): string {
   return `${sign}${body}${exponent}`;
 }
 
+/** Hard cases: halfway and near-halfway digits, 2^53 + 1, the fast path's edges, the price range's edges. */
+const HARD = [
+  '9007199254740993', // 2^53 + 1: 16 digits, beyond the fast path
+  '9007199254740992',
+  '900719925474099.3',
+  '0.1',
+  '0.3',
+  '4.35',
+  '2.675',
+  '1.0000000000000002',
+  '1.00000000000000011102230246251565', // just above the halfway point between 1 and its successor
+  '123456789.123456', // 9 + 6 digits: the fast path's most
+  '1234567890.12345', // 10 digits before the mark: beyond
+  '0.123456789', // 9 decimals: the most on the fast path
+  '0.1234567891', // 10 decimals: beyond
+  '999999999', // 9 nines
+  '999999999.999999', // 15 nines
+  '9999999999999999', // 16 nines: beyond
+  '1e22', // the largest exact power of ten
+  '1e23', // not exact: beyond
+  '1e-22',
+  '1e-23',
+  '123456789e-22',
+  '123456789.123456e7',
+  '1.5e-7',
+  '7E+2',
+  '00000000000000000001.5', // leading zeros count as digits: beyond
+  '0.000000000000000000000000001',
+  '8.98846567431158e149',
+  '1e150',
+  '1.0000000000000001e150', // rounds to 1e150
+  '1e151',
+  '1e-150',
+  '9.99e-151',
+  '1.7976931348623157e308',
+  '5e-324',
+  '2.2250738585072011e-308',
+];
+
 describe('readDecimalCells: a line of numbers read from its bytes', () => {
-  it('reads 200,000 seeded random decimal strings to the double JavaScript Number() gives, bit for bit', () => {
+  it('reads 200,000 seeded random decimal strings as JavaScript Number() does, bit for bit, or leaves them to it', () => {
     const rnd = lcg(20_261_205);
+    let read = 0;
     for (let k = 0; k < 100_000; k++) {
       const cell = randomDecimal(rnd, '.');
-      expectAsNumber(cell);
+      if (expectAsNumber(cell)) read++;
       expectAsNumber(cell.replace('.', ','), 59, COMMA);
     }
+    expect(read).toBeGreaterThan(50_000); // most of them on the fast path
   });
 
-  it('reads prices as toFixed writes them, 0 to 10 decimals, to the double Number() gives', () => {
+  it('reads prices as toFixed writes them, 0 to 9 decimals, to the double Number() gives', () => {
     const rnd = lcg(12345);
     for (let k = 0; k < 100_000; k++) {
-      const magnitude = 10 ** Math.floor(rnd() * 12 - 4);
-      expectAsNumber((rnd() * magnitude).toFixed(Math.floor(rnd() * 11)));
+      const magnitude = 10 ** Math.floor(rnd() * 10 - 4);
+      expect(expectAsNumber((rnd() * magnitude).toFixed(Math.floor(rnd() * 10)))).toBe(true);
     }
   });
 
-  it('rounds hard cases as Number() does: halfway and near-halfway digits, 2^53 + 1, the fast path edges', () => {
-    for (const cell of [
-      '9007199254740993', // 2^53 + 1: 16 digits, left to Number()
-      '9007199254740992',
-      '900719925474099.3',
-      '0.1',
-      '0.3',
-      '4.35',
-      '2.675',
-      '1.0000000000000002',
-      '1.00000000000000011102230246251565', // just above the halfway point between 1 and its successor
-      '123456789.123456', // 9 + 6 digits: the fast path's most
-      '1234567890.12345', // 10 digits before the mark: Number()
-      '0.123456789012345',
-      '999999999999999', // 15 nines
-      '9999999999999999', // 16 nines: Number()
-      '1e22', // the largest exact power of ten
-      '1e23', // not exact: Number()
-      '1e-22',
-      '1e-23',
-      '123456789012345e-22',
-      '123456789012345e7',
-      '1.5e-7',
-      '7E+2',
-      '00000000000000000001.5', // leading zeros count as digits: Number()
-      '0.000000000000000000000000001',
-      '8.98846567431158e149',
-      '1e150',
-      '1.0000000000000001e150', // rounds to 1e150
-      '1e151',
-      '1e-150',
-      '9.99e-151',
-      '1.7976931348623157e308',
-      '5e-324',
-      '2.2250738585072011e-308',
-      '-0',
-      '0',
-      '0.0',
-      '-2.5',
-      '-1e3',
-    ])
-      expectAsNumber(cell);
-    expect(readOne('1e23').value).toBe(1e23);
-    expect(readOne('1e151').least).toBeNaN();
-    expect(readOne('1e-151').least).toBeNaN();
-    expect(readOne('-1e200').least).toBeNaN();
+  it('rounds the hard cases as Number() does, or leaves them to it', () => {
+    for (const cell of [...HARD, '-0', '0', '0.0', '-2.5', '-1e3']) expectAsNumber(cell);
+    expect(readOne('1e22').value).toBe(1e22);
+    expect(readOne('1e23').least).toBeNaN();
+  });
+
+  it('in a price file, reads every hard case and 20,000 random prices as Number() does, from bytes and from text', () => {
+    const rnd = lcg(7);
+    const cells = HARD.filter((c) => Number(c) >= MIN_PRICE && Number(c) <= MAX_PRICE);
+    while (cells.length < 20_000) {
+      const cell = randomDecimal(rnd, '.');
+      if (Number(cell) >= MIN_PRICE && Number(cell) <= MAX_PRICE) cells.push(cell);
+    }
+    const assets = 40;
+    const lines = [['date', ...Array.from({ length: assets }, (_, k) => `A${k}`)].join(',')];
+    for (let r = 0; r * assets < cells.length; r++)
+      lines.push([isoFromDay(9000 + r), ...cells.slice(r * assets, (r + 1) * assets)].join(','));
+    const text = lines.join('\n') + '\n';
+    const reader = new PriceFileReader('hard.csv');
+    reader.pushAscii(Buffer.from(text, 'latin1')); // as a file's ASCII chunk comes
+    const fromBytes = priceTableOf(reader.end('utf-8', text.length)).table;
+    for (const table of [priceTableFromText(text).table, fromBytes])
+      cells.forEach((cell, c) => {
+        const value = table.closes[c % assets][Math.floor(c / assets)];
+        expect(Object.is(value, Number(cell)), `${cell}: ${value}`).toBe(true);
+      });
   });
 
   const columns = (n: number) => Array.from({ length: n }, () => new Float64Array(2));
