@@ -130,6 +130,10 @@ function oneRowOfTwoColumns(
  * in a block need only its earlier entries and the block's pivot rows), so the factor is the one
  * column pair at a time gives, bit for bit; but the rows below a block are independent of one
  * another, and with a kernel team (linalg/kernel-team.ts) the helper thread takes half of them.
+ *
+ * Where the WebAssembly kernels run, from order 32, the same blocks run there (choleskyInWasm),
+ * on one thread: a quarter of the TypeScript's time at n = 300 to 1501 (optimise/README.md,
+ * "WebAssembly kernels"), and the factor stays in the module's memory for its solves.
  */
 export function choleskyInPlace(a: Float64Array, n: number): boolean {
   if (resident?.l === a) resident = null;
