@@ -10,7 +10,12 @@ import {
   TRIDIAGONAL_WASM_PASS_SHARE,
   wasmPassShare,
 } from '../../shared-core/linalg/tridiagonal-form.js';
-import { CHOLESKY_ROWS_SHARE, choleskyRowsShare } from '../../shared-core/optimise/qp/dense-factor.js';
+import {
+  CHOLESKY_ROWS_SHARE,
+  CHOLESKY_ROWS_WASM_SHARE,
+  choleskyRowsShare,
+  choleskyRowsWasmShare,
+} from '../../shared-core/optimise/qp/dense-factor.js';
 
 /**
  * The control block shared by the command line's thread and its kernel helper (kernel-team.ts,
@@ -49,6 +54,7 @@ export const SHARES: Readonly<Record<string, Share>> = {
   [TRIDIAGONAL_PASS_SHARE]: passShare,
   [TRIDIAGONAL_WASM_PASS_SHARE]: wasmPassShare,
   [CHOLESKY_ROWS_SHARE]: choleskyRowsShare,
+  [CHOLESKY_ROWS_WASM_SHARE]: choleskyRowsWasmShare,
 };
 
 /** The kernels' names; a job carries its kernel's index here. */

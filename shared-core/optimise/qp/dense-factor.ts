@@ -154,18 +154,32 @@ export function choleskyInPlace(a: Float64Array, n: number): boolean {
  * optimised code (which serves only calls after the first few) does most of the work. A copy of
  * `a` in and out of the module's memory is O(n^2) against the factor's O(n^3). On a matrix that
  * is not positive definite `a` is left as the TypeScript leaves it (the columns before the failing
- * pivot factored).
+ * pivot factored). On the kernel team's shared memory, from MIN_SHARED_ORDER, the rows below a
+ * block split in two shares as the TypeScript's do. With both cores free (the other processes
+ * paused) that took `holdfast solve` at N = 1500, cap 0.1 %, from 1795 to 1485 ms (medians of 5
+ * alternating runs; solver 1066 -> 772 ms); with the cores busy with other work the split lost
+ * (solver 1181-1762 ms on one thread against 1371-1978 on two, load 7-10), since each share then
+ * waits for a core.
  */
 function choleskyInWasm(a: Float64Array, n: number, wasm: WasmKernels): boolean {
   const [m, pairs] = wasm.views(n * n, CHOLESKY_BLOCK * n);
   m.set(a.subarray(0, n * n));
-  const { cholesky_diagonal_block: diagonal, cholesky_rows_below: below } = wasm.exports;
+  const team = wasm.shared && n >= MIN_SHARED_ORDER ? kernelTeam() : null;
   let factored = true;
   for (let j0 = 0; j0 < n && factored; j0 += CHOLESKY_BLOCK) {
     const j1 = Math.min(n, j0 + CHOLESKY_BLOCK);
-    factored = diagonal(m.byteOffset, n, j0, j1, pairs.byteOffset) === 1;
-    for (let r0 = j1; factored && r0 < n; r0 += ROWS_PER_CALL)
-      below(m.byteOffset, n, j0, j1, r0, Math.min(n, r0 + ROWS_PER_CALL), pairs.byteOffset);
+    factored = wasm.exports.cholesky_diagonal_block(m.byteOffset, n, j0, j1, pairs.byteOffset) === 1;
+    const rows = n - j1;
+    if (!factored || rows === 0) continue;
+    const mid = j1 + 4 * Math.floor(rows / 8);
+    if (!team || rows * (j1 - j0) * j1 < MIN_SHARED_WASM_ROWS_WORK) wasmRowsBelow(wasm, m, n, j0, j1, j1, n, pairs);
+    else
+      inTwoShares(
+        team,
+        { kernel: CHOLESKY_ROWS_WASM_SHARE, buffers: [m, pairs], ints: [n, j0, j1, j1, mid] },
+        () => wasmRowsBelow(wasm, m, n, j0, j1, mid, n, pairs),
+        () => wasmRowsBelow(wasm, m, n, j0, j1, j1, mid, pairs),
+      );
   }
   a.set(m);
   if (factored) resident = { wasm, l: a, n, taken: wasm.viewsTaken };
@@ -174,8 +188,9 @@ function choleskyInWasm(a: Float64Array, n: number, wasm: WasmKernels): boolean 
 
 /**
  * The factor the WebAssembly kernels last made, still in their memory (at the start of the first
- * view) while no kernel has taken views of that instance since: its solves then need only b copied in. The
- * array is the caller's, which the factor's contract leaves as choleskyInPlace made it.
+ * view) while no kernel has taken views of that instance since: its solves then need only b
+ * copied in. The array is the caller's, which the factor's contract leaves as choleskyInPlace
+ * made it.
  */
 let resident: { wasm: WasmKernels; l: Float64Array; n: number; taken: number } | null = null;
 
@@ -232,6 +247,41 @@ function backInWasm(wasm: WasmKernels, lv: Float64Array, n: number, bv: Float64A
   for (let i1 = n; i1 > 0; i1 -= SOLVE_ROWS_PER_CALL)
     wasm.exports.cholesky_back_rows(lv.byteOffset, n, bv.byteOffset, Math.max(0, i1 - SOLVE_ROWS_PER_CALL), i1);
 }
+
+/** Rows [r0, r1) below the block [j0, j1) by the WebAssembly kernel, ROWS_PER_CALL a call. */
+function wasmRowsBelow(
+  wasm: WasmKernels,
+  m: Float64Array,
+  n: number,
+  j0: number,
+  j1: number,
+  r0: number,
+  r1: number,
+  pairs: Float64Array,
+): void {
+  for (let i = r0; i < r1; i += ROWS_PER_CALL)
+    wasm.exports.cholesky_rows_below(m.byteOffset, n, j0, j1, i, Math.min(r1, i + ROWS_PER_CALL), pairs.byteOffset);
+}
+
+/** The kernel team's name for a share of the rows below a block in WebAssembly (see choleskyRowsWasmShare). */
+export const CHOLESKY_ROWS_WASM_SHARE = 'cholesky-rows-wasm';
+
+/**
+ * The helper's share of the rows below a block by the WebAssembly kernel: buffers [a, pairs] on
+ * the team's memory, ints as choleskyRowsShare's. A helper whose module did not load makes it in
+ * TypeScript, the same sums.
+ */
+export function choleskyRowsWasmShare(buffers: readonly Float64Array[], ints: readonly number[]): void {
+  const wasm = wasmKernels();
+  if (wasm) wasmRowsBelow(wasm, buffers[0], ints[0], ints[1], ints[2], ints[3], ints[4], buffers[1]);
+  else rowsBelowBlock(buffers[0], ints[0], ints[1], ints[2], ints[3], ints[4]);
+}
+
+/**
+ * Below this many multiply-adds a block's rows below stay on one thread in WebAssembly, four times
+ * the TypeScript's threshold: the kernel is some 3.5 times as fast, the hand-over the same.
+ */
+const MIN_SHARED_WASM_ROWS_WORK = 1 << 20;
 
 /** Rows below a block per call of the WebAssembly kernel (a multiple of four, its rows per step). */
 const ROWS_PER_CALL = 64;

@@ -106,7 +106,6 @@ describe.runIf(built)('the dense kernels on two threads', () => {
     const typescript = solve();
     m.wasm.useWasmKernels(true);
     try {
-      // The factor stays on this thread (two did not pay): the team only gives the memory.
       const { alone, shared } = withAndWithout(solve);
       expect([alone.onShared, shared.onShared]).toEqual([false, true]);
       expect(typescript.ok && alone.ok && shared.ok).toBe(true);
@@ -114,6 +113,35 @@ describe.runIf(built)('the dense kernels on two threads', () => {
         expect(sameBits(r.f, typescript.f)).toBe(true);
         expect(sameBits(r.x, typescript.x)).toBe(true);
       }
+    } finally {
+      m.wasm.useWasmKernels(false);
+    }
+  });
+
+  it("factors in WebAssembly on the team's shared memory, both threads, the TypeScript's factor (n = 701)", () => {
+    const n = 701;
+    const a = m.cross.crossProduct(randomMatrix(900, n, 16)).data;
+    for (let i = 0; i < n; i++) a[i * n + i] += 1e-3;
+    const typescript = Float64Array.from(a);
+    expect(m.factor.choleskyInPlace(typescript, n)).toBe(true);
+    const indefinite = Float64Array.from(a);
+    indefinite[650 * n + 650] = -1;
+    m.wasm.useWasmKernels(true);
+    try {
+      const { alone, shared } = withAndWithout(() => {
+        const f = Float64Array.from(a);
+        return { ok: m.factor.choleskyInPlace(f, n), f };
+      });
+      expect(taken).toBeGreaterThan(10); // the rows below most of the 22 blocks
+      expect(alone.ok && shared.ok).toBe(true);
+      expect(sameBits(alone.f, typescript)).toBe(true);
+      expect(sameBits(shared.f, typescript)).toBe(true);
+      const refused = withAndWithout(() => {
+        const f = Float64Array.from(indefinite);
+        return { ok: m.factor.choleskyInPlace(f, n), f };
+      });
+      expect([refused.alone.ok, refused.shared.ok]).toEqual([false, false]);
+      expect(sameBits(refused.alone.f, refused.shared.f)).toBe(true);
     } finally {
       m.wasm.useWasmKernels(false);
     }
