@@ -136,8 +136,8 @@ export function tridiagonalForm(m: Matrix): TridiagonalForm {
 function tridiagonalFormInWasm(m: Matrix, wasm: WasmKernels): TridiagonalForm {
   const n = m.rows;
   const [w, u, q, v, p, p2, e, halfNorms, state] = wasm.views(n * n, n, n, n, n, n, n, n, 2);
-  // The module's memory holds whatever the last kernel left there: the form is read from zeros.
-  w.fill(0);
+  // The module's memory holds whatever the last kernel left there: each column's lower part is
+  // copied in, and every step writes its reflector slots above it (zeros where it has none).
   e.fill(0);
   halfNorms.fill(0);
   for (let j = 0; j < n; j++) w.set(m.data.subarray(j * n + j, j * n + n), j * n + j);

@@ -136,6 +136,8 @@ LOOPS_STAY_LOOPS static int step_to_pass(double *w, int n, int i, double *u, dou
   double h = state[0];
   if (h == 0) {
     // Row i is already zero left of the diagonal: nothing to reflect; the next row as it stands.
+    // Step i's reflector slots hold zeros, as in the TypeScript's fresh array.
+    for (int j = 0; j < i; j++) w[i * n + j] = 0;
     state[1] = 0;
     if (i > 1) {
       for (int j = 0; j < i - 1; j++) v[j] = w[j * n + i - 1];
