@@ -111,9 +111,9 @@ interface LongAsset {
   nonPositiveCount: number;
 }
 
-/** A record as CsvLines hands it over (csv-records.ts). */
+/** A record as CsvLines hands it over (csv-records.ts), its bytes copied out of the read buffer. */
 interface SampleRow {
-  text: string;
+  source: string | Buffer;
   start: number;
   end: number;
   line: number;
@@ -192,9 +192,11 @@ export class PriceFileReader {
     if (!this.header) return this.readHeader(spanText(source, start, end), line);
     this.dataRows++;
     if (this.decimal === undefined) {
-      // Kept as text: bytes are the caller's buffer, refilled by the next chunk.
-      if (typeof source === 'string') this.sample.push({ text: source, start, end, line, inPlace });
-      else this.sample.push({ text: asciiText(source, start, end + 1), start: 0, end: end - start, line, inPlace });
+      // Bytes are the caller's buffer, refilled by the next chunk: a row's bytes are copied (the
+      // line break after them too), and read as bytes again once the mark is known.
+      const kept = typeof source === 'string' ? source : Buffer.from(source.subarray(start, end + 1));
+      const from = typeof source === 'string' ? start : 0;
+      this.sample.push({ source: kept, start: from, end: from + end - start, line, inPlace });
       if (this.sample.length >= Math.min(SAMPLE_ROWS, Math.ceil(SAMPLE_CELLS / this.width))) this.decideDecimal();
       return;
     }
@@ -241,7 +243,7 @@ export class PriceFileReader {
     let comma = 0;
     let point = 0;
     let cellsSeen = 0;
-    const raw = (r: SampleRow) => r.text.slice(r.start, r.end);
+    const raw = (r: SampleRow) => spanText(r.source, r.start, r.end);
     // A comma-separated cell holds a decimal comma only inside quotes (a row read in place has none).
     const evidence =
       this.delimiter !== ',' ? this.sample : this.sample.filter((r) => !r.inPlace && raw(r).includes('"'));
@@ -261,7 +263,7 @@ export class PriceFileReader {
     const sample = this.sample;
     this.sample = [];
     for (const r of sample)
-      if (this.form === 'wide') this.wideRow(r.text, r.start, r.end, r.line, r.inPlace);
+      if (this.form === 'wide') this.wideRow(r.source, r.start, r.end, r.line, r.inPlace);
       else this.longRow(this.cells(raw(r), r.line), r.line);
   }
 
