@@ -131,8 +131,8 @@ function oneRowOfTwoColumns(
  * column pair at a time gives, bit for bit; but the rows below a block are independent of one
  * another, and with a kernel team (linalg/kernel-team.ts) the helper thread takes half of them.
  *
- * Where the WebAssembly kernels run, from order 32, the same blocks run there (choleskyInWasm),
- * on one thread: a quarter of the TypeScript's time at n = 300 to 1501 (optimise/README.md,
+ * Where the WebAssembly kernels run, from order 32, the same blocks run there (choleskyInWasm):
+ * a quarter of the TypeScript's time at n = 300 to 1501 on one thread (optimise/README.md,
  * "WebAssembly kernels"), and the factor stays in the module's memory for its solves.
  */
 export function choleskyInPlace(a: Float64Array, n: number): boolean {
