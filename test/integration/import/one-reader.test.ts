@@ -1,10 +1,10 @@
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { InputError, formatInputError } from '../../../shared-core/errors.js';
 import { priceTableFromText } from '../../../src-main/io/read-price-table.js';
 import { openStore } from '../../../src-main/store/store.js';
 import { useTempDir } from '../store/temp-dir.js';
+import { priceTextFailure } from '../../support/price-text-failure.js';
 import { holdfast } from './cli-io.js';
 
 /**
@@ -140,15 +140,7 @@ describe('the import and the commands read a price file the same way', () => {
 });
 
 describe('located, bounded problems', () => {
-  function where(text: string): string {
-    try {
-      priceTableFromText(text, { file: 'p.csv' });
-    } catch (error) {
-      if (error instanceof InputError) return formatInputError(error);
-      throw error;
-    }
-    throw new Error('expected an InputError');
-  }
+  const where = priceTextFailure;
 
   it('names file, line and column for each kind of bad input', () => {
     expect(where('')).toBe('p.csv: the file is empty');

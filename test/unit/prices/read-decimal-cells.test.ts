@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { InputError, formatInputError } from '../../../shared-core/errors.js';
 import { COMMA, POINT, readDecimal, readDecimalCells } from '../../../shared-core/prices/plain-decimal.js';
 import { MAX_PRICE, MIN_PRICE } from '../../../shared-core/prices/price-value.js';
 import { PriceFileReader } from '../../../src-main/io/read-price-file.js';
 import { priceTableFromText, priceTableOf } from '../../../src-main/io/read-price-table.js';
 import { isoFromDay } from '../../../src-main/store/days.js';
+import { priceTextFailure } from '../../support/price-text-failure.js';
 
 // Park-Miller generator (Park and Miller 1988), seeded so a failure can be replayed.
 function lcg(seed: number) {
@@ -44,16 +44,6 @@ const quoted = (text: string) =>
     .map((line, i) => (i === 0 || line === '' ? line : line.replace(/[^,\r]*/g, (cell) => (cell ? `"${cell}"` : ''))))
     .join('\n');
 
-function failure(text: string): string {
-  try {
-    priceTableFromText(text, { file: 'p.csv' });
-  } catch (error) {
-    if (error instanceof InputError) return formatInputError(error);
-    throw error;
-  }
-  throw new Error('expected an InputError');
-}
-
 describe('the price reader: the in-place reading of common lines and the cell-by-cell reading agree', () => {
   it('on a file with empty cells, signs, exponents and long digit strings, LF and CRLF (every value as Number() reads it, ECMA-262 section 7.1.4.1.1)', () => {
     for (const [seed, newline] of [
@@ -82,15 +72,15 @@ describe('the price reader: the in-place reading of common lines and the cell-by
     cells[17] = '-4.5';
     cells[21] = 'x';
     text[20] = cells.join(',');
-    expect(failure(text.join('\n'))).toBe(
+    expect(priceTextFailure(text.join('\n'))).toBe(
       "p.csv:21:18: A16: a price must be above zero\n  p.csv:21:22: A20: 'x' is not a number (like 101.25)",
     );
     const short = wideFile(5, 25, 6, '\n').split('\n');
     short[3] = short[3].split(',').slice(0, 20).join(',');
-    expect(failure(short.join('\n'))).toBe('p.csv:4:21: expected 26 cells as in the header, found 20');
+    expect(priceTextFailure(short.join('\n'))).toBe('p.csv:4:21: expected 26 cells as in the header, found 20');
     const long = wideFile(5, 25, 7, '\n').split('\n');
     long[2] += ',1.5';
-    expect(failure(long.join('\n'))).toBe('p.csv:3:27: expected 26 cells as in the header, found 27');
+    expect(priceTextFailure(long.join('\n'))).toBe('p.csv:3:27: expected 26 cells as in the header, found 27');
   });
 });
 
