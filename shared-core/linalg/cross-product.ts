@@ -1,6 +1,6 @@
 import { inTwoShares, kernelTeam, sharedArray } from './kernel-team.js';
 import { zeros, type Matrix } from './matrix.js';
-import { wasmKernels, type WasmKernels } from './wasm/wasm-kernels.js';
+import { helperKernels, wasmKernels, type WasmKernels } from './wasm/wasm-kernels.js';
 
 /**
  * The cross product C = X'X of a T x N matrix (the symmetric rank-k update of BLAS, "syrk"):
@@ -98,7 +98,7 @@ export const CROSS_PRODUCT_WASM_SHARE = 'cross-product-wasm';
  * [t, n, fromPanel, toPanel]. A helper whose module did not load makes it in TypeScript, the same sums.
  */
 export function crossProductWasmShare(buffers: readonly Float64Array[], ints: readonly number[]): void {
-  const wasm = wasmKernels();
+  const wasm = helperKernels();
   if (wasm) wasmPanels(wasm, buffers[0], buffers[1], ints[0], ints[1], ints[2], ints[3]);
   else crossProductPanels(buffers[0], buffers[1], ints[0], ints[1], ints[2], ints[3]);
 }

@@ -1,6 +1,6 @@
 import { inTwoShares, kernelTeam, sharedArray } from './kernel-team.js';
 import type { Matrix } from './matrix.js';
-import { wasmKernels, type WasmKernels } from './wasm/wasm-kernels.js';
+import { helperKernels, wasmKernels, type WasmKernels } from './wasm/wasm-kernels.js';
 
 /**
  * A symmetric matrix reduced to tridiagonal form, A = Q T Q', with Q kept as its Householder
@@ -180,7 +180,7 @@ export const TRIDIAGONAL_WASM_PASS_SHARE = 'tridiagonal-pass-wasm';
  * [n, m, split]. A helper whose module did not load makes it in TypeScript, the same sums.
  */
 export function wasmPassShare(buffers: readonly Float64Array[], ints: readonly number[]): void {
-  const wasm = wasmKernels();
+  const wasm = helperKernels();
   if (!wasm) return passShare(buffers, ints);
   const [w, u, q, v, p2] = buffers.map((a) => a.byteOffset);
   const [n, m, split] = ints;

@@ -191,6 +191,16 @@ export function bindHelperKernels(memory: KernelMemory): boolean {
   return helper !== null;
 }
 
+/**
+ * The kernels a helper's share of a WebAssembly kernel runs: those on the team's memory, or null
+ * where they did not load (the share is then made in TypeScript on the same arrays). Never
+ * wasmKernels(), whose fallback is a memory of the helper's own, where the share's pointers mean
+ * nothing.
+ */
+export function helperKernels(): WasmKernels | null {
+  return helper;
+}
+
 function ownMemory(): WasmKernels | null {
   if (typeof WebAssembly === 'undefined') return null;
   try {

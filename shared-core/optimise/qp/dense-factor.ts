@@ -13,7 +13,7 @@
  * solve). The sums are the same, in the same order, as in one function.
  */
 import { inTwoShares, kernelTeam, type KernelTeam } from '../../linalg/kernel-team.js';
-import { wasmKernels, type WasmKernels } from '../../linalg/wasm/wasm-kernels.js';
+import { helperKernels, wasmKernels, type WasmKernels } from '../../linalg/wasm/wasm-kernels.js';
 import { maxAbs, subtractDot } from './kernels.js';
 
 /** a[rj + j] - sum_k a[rj + k]^2 over k < j, with two partial sums (even and odd k). */
@@ -272,7 +272,7 @@ export const CHOLESKY_ROWS_WASM_SHARE = 'cholesky-rows-wasm';
  * TypeScript, the same sums.
  */
 export function choleskyRowsWasmShare(buffers: readonly Float64Array[], ints: readonly number[]): void {
-  const wasm = wasmKernels();
+  const wasm = helperKernels();
   if (wasm) wasmRowsBelow(wasm, buffers[0], ints[0], ints[1], ints[2], ints[3], ints[4], buffers[1]);
   else rowsBelowBlock(buffers[0], ints[0], ints[1], ints[2], ints[3], ints[4]);
 }

@@ -1,10 +1,20 @@
 import { fileURLToPath } from 'node:url';
 import { afterEach, describe, expect, it } from 'vitest';
 import { kernelSourceDigest } from '../../../scripts/kernel-source-digest.mjs';
-import { crossProduct, crossProductNaive } from '../../../shared-core/linalg/cross-product.js';
+import {
+  crossProduct,
+  crossProductNaive,
+  crossProductShare,
+  crossProductWasmShare,
+} from '../../../shared-core/linalg/cross-product.js';
 import type { Matrix } from '../../../shared-core/linalg/matrix.js';
 import { formEigenvalues, formExposures, tridiagonalEigenvalues } from '../../../shared-core/linalg/symmetric-eigen.js';
-import { tridiagonalForm, type TridiagonalForm } from '../../../shared-core/linalg/tridiagonal-form.js';
+import {
+  passShare,
+  tridiagonalForm,
+  wasmPassShare,
+  type TridiagonalForm,
+} from '../../../shared-core/linalg/tridiagonal-form.js';
 import { KERNEL_SOURCE_DIGEST } from '../../../shared-core/linalg/wasm/kernel-binary.js';
 import {
   backSubstituteTransposed,
@@ -12,7 +22,8 @@ import {
   choleskySolveInPlace,
   forwardSubstitute,
 } from '../../../shared-core/optimise/qp/dense-factor.js';
-import { useWasmKernels, wasmKernels } from '../../../shared-core/linalg/wasm/wasm-kernels.js';
+import { helperKernels, useWasmKernels, wasmKernels } from '../../../shared-core/linalg/wasm/wasm-kernels.js';
+import { choleskyRowsShare, choleskyRowsWasmShare } from '../../../shared-core/optimise/qp/dense-factor.js';
 import { randomMatrix, sameBits } from '../../support/random-matrix.js';
 
 /**
@@ -349,5 +360,48 @@ describe('the WebAssembly kernels', () => {
       const { wasm, typescript } = bothWays(() => tridiagonalEigenvalues(diag, off));
       expect(sameBits(wasm, typescript)).toBe(true);
     }
+  });
+});
+
+describe("a kernel team helper's share of a WebAssembly kernel", () => {
+  // In a helper whose module did not load on the team's memory, the share's arrays are plain
+  // ones: it must make the TypeScript share on them, never run its own memory's kernels on
+  // pointers that mean nothing there. This thread has no team, so helperKernels() is null here.
+  const copies = (arrays: Float64Array[]) => arrays.map((a) => a.slice());
+
+  it('is made in TypeScript, on its own arrays, when the helper has no kernels on the team memory', () => {
+    expect(helperKernels()).toBeNull();
+    expect(wasmKernels()).not.toBeNull();
+    const t = 40;
+    const n = 10;
+    const packed = randomMatrix(1, 12 * t, 3).data;
+    const cross = [packed, new Float64Array(n * n)];
+    const crossTs = copies(cross);
+    crossProductWasmShare(cross, [t, n, 1, 3]);
+    crossProductShare(crossTs, [t, n, 1, 3]);
+    expect(sameBits(cross[1], crossTs[1])).toBe(true);
+    expect(cross[1].some((v) => v !== 0)).toBe(true);
+
+    const m = 12;
+    const pass = [
+      randomMatrix(m, m, 4).data,
+      ...[5, 6, 7].map((seed) => randomMatrix(1, m, seed).data),
+      new Float64Array(m),
+    ];
+    const passTs = copies(pass);
+    wasmPassShare(pass, [m, m, 5]);
+    passShare(passTs, [m, m, 5]);
+    expect(sameBits(pass[4], passTs[4])).toBe(true);
+    expect(pass[4].some((v) => v !== 0)).toBe(true);
+
+    const order = 40;
+    const a = positiveDefinite(order, 8);
+    const rows = [a.slice(), new Float64Array(32 * order)];
+    const rowsTs = [a.slice()];
+    // The rows below the first block of 32 columns.
+    choleskyRowsWasmShare(rows, [order, 0, 32, 32, order]);
+    choleskyRowsShare(rowsTs, [order, 0, 32, 32, order]);
+    expect(sameBits(rows[0], rowsTs[0])).toBe(true);
+    expect(sameBits(rows[0], a)).toBe(false);
   });
 });
