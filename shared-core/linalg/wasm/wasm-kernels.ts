@@ -167,7 +167,7 @@ export function wasmKernels(): WasmKernels | null {
   return own;
 }
 
-/** Switches the WebAssembly kernels off (false) or back on: the tests compare both paths, the bench times both. */
+/** Switches the WebAssembly kernels off (false) or back on: the tests compare both paths. */
 export function useWasmKernels(on: boolean): void {
   enabled = on;
 }

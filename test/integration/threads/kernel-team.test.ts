@@ -49,6 +49,19 @@ function withAndWithout<T>(f: () => T): { alone: T; shared: T } {
   }
 }
 
+/** X'X of a random 900 x n X plus 1e-3 I: symmetric positive definite. */
+function positiveDefinite(n: number, seed: number): Float64Array {
+  const a = m.cross.crossProduct(randomMatrix(900, n, seed)).data;
+  for (let i = 0; i < n; i++) a[i * n + i] += 1e-3;
+  return a;
+}
+
+/** The Cholesky factor of a copy of `a`: whether it factored, and the copy as the factor left it. */
+function factorCopy(a: Float64Array, n: number): { ok: boolean; f: Float64Array } {
+  const f = Float64Array.from(a);
+  return { ok: m.factor.choleskyInPlace(f, n), f };
+}
+
 describe.runIf(built)('the dense kernels on two threads', () => {
   beforeAll(async () => {
     m = {
@@ -93,8 +106,7 @@ describe.runIf(built)('the dense kernels on two threads', () => {
 
   it("factors and solves in WebAssembly on the team's shared memory, the TypeScript's answer (n = 701)", () => {
     const n = 701;
-    const a = m.cross.crossProduct(randomMatrix(900, n, 16)).data;
-    for (let i = 0; i < n; i++) a[i * n + i] += 1e-3;
+    const a = positiveDefinite(n, 16);
     const b = randomMatrix(1, n, 17).data;
     const solve = () => {
       const f = Float64Array.from(a);
@@ -120,26 +132,19 @@ describe.runIf(built)('the dense kernels on two threads', () => {
 
   it("factors in WebAssembly on the team's shared memory, both threads, the TypeScript's factor (n = 701)", () => {
     const n = 701;
-    const a = m.cross.crossProduct(randomMatrix(900, n, 16)).data;
-    for (let i = 0; i < n; i++) a[i * n + i] += 1e-3;
+    const a = positiveDefinite(n, 16);
     const typescript = Float64Array.from(a);
     expect(m.factor.choleskyInPlace(typescript, n)).toBe(true);
     const indefinite = Float64Array.from(a);
     indefinite[650 * n + 650] = -1;
     m.wasm.useWasmKernels(true);
     try {
-      const { alone, shared } = withAndWithout(() => {
-        const f = Float64Array.from(a);
-        return { ok: m.factor.choleskyInPlace(f, n), f };
-      });
+      const { alone, shared } = withAndWithout(() => factorCopy(a, n));
       expect(taken).toBeGreaterThan(10); // the rows below most of the 22 blocks
       expect(alone.ok && shared.ok).toBe(true);
       expect(sameBits(alone.f, typescript)).toBe(true);
       expect(sameBits(shared.f, typescript)).toBe(true);
-      const refused = withAndWithout(() => {
-        const f = Float64Array.from(indefinite);
-        return { ok: m.factor.choleskyInPlace(f, n), f };
-      });
+      const refused = withAndWithout(() => factorCopy(indefinite, n));
       expect([refused.alone.ok, refused.shared.ok]).toEqual([false, false]);
       expect(sameBits(refused.alone.f, refused.shared.f)).toBe(true);
     } finally {
@@ -178,12 +183,8 @@ describe.runIf(built)('the dense kernels on two threads', () => {
 
   it('factors the same Cholesky factor, and refuses the same indefinite matrix (n = 701)', () => {
     const n = 701;
-    const a = m.cross.crossProduct(randomMatrix(900, n, 13)).data;
-    for (let i = 0; i < n; i++) a[i * n + i] += 1e-3;
-    const { alone, shared } = withAndWithout(() => {
-      const f = Float64Array.from(a);
-      return { ok: m.factor.choleskyInPlace(f, n), f };
-    });
+    const a = positiveDefinite(n, 13);
+    const { alone, shared } = withAndWithout(() => factorCopy(a, n));
     expect(alone.ok).toBe(true);
     expect(shared.ok).toBe(true);
     expect(sameBits(alone.f, shared.f)).toBe(true);
