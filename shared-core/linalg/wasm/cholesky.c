@@ -206,14 +206,40 @@ cholesky_forward_rows(const double *l, int n, double *b, int first, int i0, int 
   }
 }
 
-// b_i = (b_i - sum_k L_ki b_k) / L_ii, k from i + 1 to n - 1 (backSubstituteTransposed), for
-// i from i1 - 1 down to i0. Each sum needs the entry just found as its first term, so this one
-// runs one sum at a time.
+// b_i = (b_i - sum_k L_ki b_k) / L_ii, k from n - 1 down to i + 1 (backSubstituteTransposed),
+// for i from i1 - 1 down to i0. Summed in decreasing k, a row's sum needs the entries just found
+// only at its end, so eight rows i .. i + 7 run their sums over k >= i + 8 together: L_k,i .. L_k,i+7
+// are adjacent in row k of L, one lane pair per two rows, where one sum at a time waited on each
+// subtract's latency and read L down a column. Each row then takes its terms k = i + 7 down to
+// its own, as one row alone does.
 __attribute__((export_name("cholesky_back_rows"))) void
 cholesky_back_rows(const double *l, int n, double *b, int i0, int i1) {
-  for (int i = i1 - 1; i >= i0; i--) {
+  int i = i1 - 8;
+  for (; i >= i0; i -= 8) {
+    v128_t s0 = wasm_v128_load(b + i), s1 = wasm_v128_load(b + i + 2);
+    v128_t s2 = wasm_v128_load(b + i + 4), s3 = wasm_v128_load(b + i + 6);
+    for (int k = n - 1; k >= i + 8; k--) {
+      const double *r = l + k * n + i;
+      const v128_t bk = wasm_v128_load64_splat(b + k);
+      s0 = wasm_f64x2_sub(s0, wasm_f64x2_mul(wasm_v128_load(r), bk));
+      s1 = wasm_f64x2_sub(s1, wasm_f64x2_mul(wasm_v128_load(r + 2), bk));
+      s2 = wasm_f64x2_sub(s2, wasm_f64x2_mul(wasm_v128_load(r + 4), bk));
+      s3 = wasm_f64x2_sub(s3, wasm_f64x2_mul(wasm_v128_load(r + 6), bk));
+    }
+    double s[8];
+    wasm_v128_store(s, s0);
+    wasm_v128_store(s + 2, s1);
+    wasm_v128_store(s + 4, s2);
+    wasm_v128_store(s + 6, s3);
+    for (int q = 7; q >= 0; q--) {
+      double v = s[q];
+      for (int k = i + 7; k > i + q; k--) v -= l[k * n + i + q] * b[k];
+      b[i + q] = v / l[(i + q) * n + i + q];
+    }
+  }
+  for (i += 7; i >= i0; i--) {
     double v = b[i];
-    for (int k = i + 1; k < n; k++) v -= l[k * n + i] * b[k];
+    for (int k = n - 1; k > i; k--) v -= l[k * n + i] * b[k];
     b[i] = v / l[i * n + i];
   }
 }

@@ -226,7 +226,7 @@ function solveViews(
  */
 const MIN_WASM_ORDER = 32;
 
-/** Rows of a triangular solve per call of the WebAssembly kernels (a multiple of eight, the forward kernel's rows per step). */
+/** Rows of a triangular solve per call of the WebAssembly kernels (a multiple of eight, both kernels' rows per step). */
 const SOLVE_ROWS_PER_CALL = 64;
 
 /** L y = b by the WebAssembly kernel, rows [first, n), SOLVE_ROWS_PER_CALL a call. */
@@ -376,10 +376,13 @@ function rowsBelowBlock(a: Float64Array, n: number, j0: number, j1: number, r0: 
   }
 }
 
-/** b[i] - sum_k l[k n + i] b[k] over k in (i, n): column i of L below the diagonal. */
+/**
+ * b[i] - sum_k l[k n + i] b[k] over k from n - 1 down to i + 1: column i of L below the diagonal,
+ * from the bottom up, the order in which the WebAssembly kernel sums eight rows at once.
+ */
 function subtractColumnDot(l: Float64Array, n: number, i: number, b: Float64Array): number {
   let s = b[i];
-  for (let k = i + 1; k < n; k++) s -= l[k * n + i] * b[k];
+  for (let k = n - 1; k > i; k--) s -= l[k * n + i] * b[k];
   return s;
 }
 

@@ -257,7 +257,14 @@ describe('the WebAssembly kernels', () => {
     [32, 0],
     [33, 5],
     [64, 63],
+    [40, 0],
+    [41, 7],
+    [47, 3],
+    [48, 47],
     [65, 0],
+    [127, 9],
+    [128, 0],
+    [129, 100],
     [200, 17],
     [501, 250],
   ])(
@@ -287,6 +294,110 @@ describe('the WebAssembly kernels', () => {
         worst = Math.max(worst, Math.abs(s));
       }
       expect(worst).toBeLessThan(1e-9);
+    },
+  );
+
+  /**
+   * L' x = y by the back-substitution kernel itself, called on rows `rowsPerCall` at a time from
+   * the last row up (the solve's driver calls 64): it runs at any order, where the solves below
+   * order 32 stay in TypeScript.
+   */
+  function backByKernel(l: Float64Array, n: number, y: Float64Array, rowsPerCall: number): Float64Array {
+    const wasm = wasmKernels();
+    if (!wasm) throw new Error('the WebAssembly kernels did not load');
+    const [lv, bv] = wasm.views(n * n, n);
+    lv.set(l);
+    bv.set(y);
+    for (let i1 = n; i1 > 0; i1 -= rowsPerCall)
+      wasm.exports.cholesky_back_rows(lv.byteOffset, n, bv.byteOffset, Math.max(0, i1 - rowsPerCall), i1);
+    return bv.slice();
+  }
+
+  it.each([1, 2, 3, 7, 8, 9, 15, 16, 17, 31])(
+    "solve L' x = y in its kernel bit for bit as the TypeScript does, however the rows are split (n = %i)",
+    (n) => {
+      useWasmKernels(false);
+      const l = factorOf(n, 11 * n);
+      const y = rightHandSide(n, 0, 5 * n);
+      // The TypeScript's: below order 32 the solve stays there either way.
+      const typescript = Float64Array.from(y);
+      backSubstituteTransposed(l, n, typescript);
+      useWasmKernels(true);
+      // Eight rows at a time, and the rows left over one at a time, in any split into calls:
+      // every row's sum is the same sum in the same order.
+      for (const rows of [1, 3, 8, 13, 64]) expect(sameBits(backByKernel(l, n, y, rows), typescript)).toBe(true);
+      // And x solves L' x = y: the residual, summed in increasing k (not the solve's order), at
+      // rounding's scale.
+      for (let i = 0; i < n; i++) {
+        let s = -y[i];
+        let scale = Math.abs(y[i]);
+        for (let k = i; k < n; k++) {
+          s += l[k * n + i] * typescript[k];
+          scale += Math.abs(l[k * n + i] * typescript[k]);
+        }
+        expect(Math.abs(s)).toBeLessThanOrEqual(4 * n * Number.EPSILON * scale);
+      }
+    },
+  );
+
+  /**
+   * A lower triangular L of order n with small integer entries and a diagonal of 1, 2 and 4, and
+   * an integer x whose first `zeros` and last `trailing` entries are zero: b = L (L' x) is then
+   * made exactly (every partial sum an integer far below 2^53, which doubles hold exactly; IEEE
+   * 754), and so is every step of solving L L' x = b, in any order of summation.
+   */
+  function integerSystem(n: number, zeros: number, trailing: number, seed: number) {
+    const r = randomMatrix(n + 1, n, seed).data;
+    const l = new Float64Array(n * n);
+    for (let i = 0; i < n; i++) {
+      l[i * n + i] = [1, 2, 4][Math.floor((r[i * n + i] + 0.5) * 3)];
+      for (let k = 0; k < i; k++) l[i * n + k] = Math.round(r[i * n + k] * 5) - (r[i * n + k] > 0.3 ? 1 : 0);
+    }
+    const x = new Float64Array(n);
+    for (let i = zeros; i < n - trailing; i++) x[i] = Math.round(r[n * n + i] * 40);
+    const y = new Float64Array(n);
+    for (let i = 0; i < n; i++) for (let k = i; k < n; k++) y[i] += l[k * n + i] * x[k];
+    const b = new Float64Array(n);
+    for (let i = 0; i < n; i++) for (let k = 0; k <= i; k++) b[i] += l[i * n + k] * y[k];
+    return { l, x, y, b };
+  }
+
+  it.each([
+    [5, 0, 0],
+    [45, 0, 0],
+    [45, 6, 9],
+    [72, 0, 3],
+    [72, 20, 0],
+    [133, 40, 17],
+  ])(
+    "solve an integer system L L' x = b exactly, both ways (n = %i, x with %i leading and %i trailing zeros)",
+    (n, zeros, trailing) => {
+      const { l, x, y, b } = integerSystem(n, zeros, trailing, 31 * n + zeros);
+      expect(Math.max(...b.map(Math.abs))).toBeLessThan(2 ** 40);
+      expect(x.some((v) => v !== 0)).toBe(true);
+      const { wasm, typescript } = bothWays(() => {
+        const both = Float64Array.from(b);
+        choleskySolveInPlace(l, n, both);
+        const back = Float64Array.from(y);
+        backSubstituteTransposed(l, n, back);
+        return { both, back };
+      });
+      // x itself, bit for bit, its zeros +0 (an exact zero sum is +0 when rounding to nearest).
+      expect(
+        sameBits(
+          wasm.both,
+          x.map((v) => v + 0),
+        ),
+      ).toBe(true);
+      expect(sameBits(typescript.both, wasm.both)).toBe(true);
+      expect(
+        sameBits(
+          wasm.back,
+          x.map((v) => v + 0),
+        ),
+      ).toBe(true);
+      expect(sameBits(typescript.back, wasm.back)).toBe(true);
+      expect(sameBits(backByKernel(l, n, y, 8), wasm.back)).toBe(true);
     },
   );
 
