@@ -15,7 +15,7 @@
  * polishing, Stellato et al. 2020, Math. Programming Computation 12). D_j = d / |c_j|^2, with d
  * the largest diagonal entry of P_FF, gives each row curvature of P's own size.
  */
-import { addGatheredDot, addRowTimes, rowTimes, subtractDot, type PackedRows } from './kernels.js';
+import { addRowTimes, gatheredRowsTimes, rowTimes, subtractDot, type PackedRows } from './kernels.js';
 import { backSubstituteTransposed, choleskyInPlace, forwardSubstitute } from './dense-factor.js';
 import { QP_TOLERANCES } from './types.js';
 
@@ -155,7 +155,8 @@ function residualOf(
   const k = free.length;
   const x = sol.subarray(0, k);
   let big = 0;
-  for (let a = 0; a < k; a++) rx[a] = r[a] - addGatheredDot(0, P, free[a] * n, free, x, k);
+  gatheredRowsTimes(P, n, free, free, x, rx);
+  for (let a = 0; a < k; a++) rx[a] = r[a] - rx[a];
   for (let j = 0; j < rs.length; j++) {
     const l = sol[k + j];
     if (l !== 0) addRowTimes(C, j, -l, rx);
@@ -182,11 +183,24 @@ export function factorEqualityKkt(e: EqualityKkt, rows?: 'independent'): KktSolv
 }
 
 /**
+ * Iterative refinement that can stop half-way: `until(enough)` refines until the residual is at
+ * most `enough` (or refinement ends) and returns the solution, which a later call refines further
+ * in place, making the same corrections as one call to the end. Polishing decides a wrong guess
+ * of the active set from a solution that is already far more exact than its tolerances, and
+ * refines to the rounding level only the solution it keeps.
+ */
+export interface Refinement {
+  until(enough: number): Float64Array;
+  /** No further correction would be made: the residual stopped falling, or the steps ran out. */
+  readonly ended: boolean;
+}
+
+/**
  * (x, l) for (r, s) by iterative refinement on the system e: `solve` gives a first answer and
  * then each correction from the residual (it may solve a smaller system that stands for e, as
  * substitute-two-entry-rows.ts does), until the residual stops falling.
  */
-export function refinedSolution(e: EqualityKkt, r: Float64Array, s: Float64Array, solve: KktSolve): Float64Array {
+export function refinement(e: EqualityKkt, r: Float64Array, s: Float64Array, solve: KktSolve): Refinement {
   const k = e.free.length;
   const m = s.length;
   const sol = new Float64Array(k + m);
@@ -195,19 +209,33 @@ export function refinedSolution(e: EqualityKkt, r: Float64Array, s: Float64Array
   const rs = new Float64Array(m);
   const d = new Float64Array(k + m);
   let last = Infinity;
-  for (let step = 0; step <= QP_TOLERANCES.refinementSteps; step++) {
-    const big = residualOf(e, sol, r, s, rx, rs);
-    if (!(big < last)) {
-      // The last correction did not help (rounding level reached): take it back.
-      for (let a = 0; a < k + m; a++) sol[a] -= d[a];
-      break;
-    }
-    if (big === 0 || step === QP_TOLERANCES.refinementSteps) break;
-    last = big;
-    solve(rx, rs, d);
-    for (let a = 0; a < k + m; a++) sol[a] += d[a];
-  }
-  return sol;
+  let step = 0;
+  let ended = false;
+  // The residual of sol as it stands.
+  let big = residualOf(e, sol, r, s, rx, rs);
+  return {
+    get ended() {
+      return ended;
+    },
+    until(enough: number): Float64Array {
+      while (!ended) {
+        if (!(big < last)) {
+          // The last correction did not help (rounding level reached): take it back.
+          for (let a = 0; a < k + m; a++) sol[a] -= d[a];
+          ended = true;
+        } else if (big === 0 || step === QP_TOLERANCES.refinementSteps) ended = true;
+        else if (big <= enough) break;
+        else {
+          last = big;
+          solve(rx, rs, d);
+          for (let a = 0; a < k + m; a++) sol[a] += d[a];
+          step++;
+          big = residualOf(e, sol, r, s, rx, rs);
+        }
+      }
+      return sol;
+    },
+  };
 }
 
 /**
@@ -216,5 +244,5 @@ export function refinedSolution(e: EqualityKkt, r: Float64Array, s: Float64Array
  */
 export function solveEqualityKkt(e: EqualityKkt, r: Float64Array, s: Float64Array): Float64Array | null {
   const solve = factorEqualityKkt(e);
-  return solve && solve !== 'dependent' ? refinedSolution(e, r, s, solve) : null;
+  return solve && solve !== 'dependent' ? refinement(e, r, s, solve).until(0) : null;
 }

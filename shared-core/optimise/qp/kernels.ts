@@ -46,6 +46,40 @@ export function addGatheredDot(
 }
 
 /**
+ * out_r = sum_t M[rows_r n + at_t] x_t for each r: rows of the n x n row-major M on the columns
+ * `at` (increasing) times x, each sum from 0 in increasing t, as addGatheredDot(0, ...) makes it.
+ * Terms with x_t = 0 are left out, and where x's non-zero entries are more than half of M's
+ * columns each row is summed whole over x spread to full length (zeros elsewhere), reading M
+ * contiguously: a zero term leaves a sum unchanged and a sum from +0 never turns to -0, so the
+ * bits are addGatheredDot's either way (polishing's products with P on its free variables).
+ */
+export function gatheredRowsTimes(
+  M: Float64Array,
+  n: number,
+  rows: Int32Array,
+  at: Int32Array,
+  x: Float64Array,
+  out: Float64Array,
+): void {
+  let held = 0;
+  for (let t = 0; t < at.length; t++) if (x[t] !== 0) held++;
+  if (held * 2 > n) {
+    const full = new Float64Array(n);
+    for (let t = 0; t < at.length; t++) full[at[t]] = x[t];
+    for (let r = 0; r < rows.length; r++) out[r] = addDot(0, M, rows[r] * n, full, n);
+    return;
+  }
+  const cols = new Int32Array(held);
+  const u = new Float64Array(held);
+  for (let t = 0, h = 0; t < at.length; t++)
+    if (x[t] !== 0) {
+      cols[h] = at[t];
+      u[h++] = x[t];
+    }
+  for (let r = 0; r < rows.length; r++) out[r] = addGatheredDot(0, M, rows[r] * n, cols, u, held);
+}
+
+/**
  * y = M x for M n x n row-major. Where fewer than half of x's entries are non-zero (a portfolio
  * holds few of a large universe's assets) only those are visited: the sums, and their order, of
  * linalg's multiplyVector, through the kernels above.

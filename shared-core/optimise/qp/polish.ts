@@ -5,8 +5,8 @@
  * linear algebra (one Cholesky on the free variables, iterative refinement) is equality-kkt.ts.
  */
 import { allFinite } from '../../linalg/matrix.js';
-import { solveEqualityKktSubstituted } from './substitute-two-entry-rows.js';
-import { addRowsTimes, packedRows, rowsTimes } from './kernels.js';
+import { equalityKktRefinement } from './substitute-two-entry-rows.js';
+import { addRowsTimes, maxAbs, packedRows, rowsTimes } from './kernels.js';
 import { kktResidual, symmetricTimes } from './kkt.js';
 import { QP_TOLERANCES, type QpProblem, type QpSolution, type QpWarmStart } from './types.js';
 
@@ -59,8 +59,35 @@ export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next:
     start[j + 1] = col.length;
   }
   const C = { start, col: Int32Array.from(col), val: Float64Array.from(val) };
-  const sol = solveEqualityKktSubstituted({ P: p.P.data, n, free, C }, rhs, s);
-  if (!sol) return null;
+  const refine = equalityKktRefinement({ P: p.P.data, n, free, C }, rhs, s);
+  if (!refine) return null;
+  // A wrong guess shows at tolerances (polishFeasibility) far above the residual of a first,
+  // backward-stable solve: the guess is judged from that solve, and only an answer that passes
+  // is refined to the rounding level and judged again (the answer and its residual as one
+  // refinement to the end gives them).
+  const enough = QP_TOLERANCES.polishDecision * (1 + Math.max(maxAbs(rhs), maxAbs(s)));
+  const first = verdict(p, fixed, free, act, x, refine.until(enough));
+  if (first === null || 'next' in first || refine.ended) return first;
+  return verdict(p, fixed, free, act, x, refine.until(0));
+}
+
+/**
+ * The solution (x on the free variables, then the multipliers) of polishOnce's system judged:
+ * the next guess when a constraint is violated or a multiplier has the wrong sign, else the
+ * answer with its KKT residual. `x` holds the fixed variables' values and takes the free ones'.
+ */
+function verdict(
+  p: QpProblem,
+  fixed: Int8Array,
+  free: Int32Array,
+  act: number[],
+  x: Float64Array,
+  sol: Float64Array,
+): Polished | { next: QpWarmStart; changes: number } | null {
+  const n = p.q.length;
+  const me = p.A.length;
+  const mi = p.G.length;
+  const k = free.length;
   if (!allFinite(sol)) return null;
   for (let a = 0; a < k; a++) x[free[a]] = sol[a];
   const y = new Float64Array(me);

@@ -34,8 +34,8 @@
  * `independent`), and so are the fixed variables: a degenerate active set is solved as before,
  * with the auxiliaries alone (but for several single rows on one variable, above).
  */
-import { factorEqualityKkt, refinedSolution, solveEqualityKkt, type EqualityKkt } from './equality-kkt.js';
-import { addGatheredDot, gatherInto, type PackedRows } from './kernels.js';
+import { factorEqualityKkt, refinement, solveEqualityKkt, type EqualityKkt, type Refinement } from './equality-kkt.js';
+import { gatherInto, gatheredRowsTimes, type PackedRows } from './kernels.js';
 import { QP_TOLERANCES } from './types.js';
 
 /** Which variables (positions in F) leave the system, each on its defining row. */
@@ -289,11 +289,17 @@ function reducedHessian(e: EqualityKkt, sub: Substitution, kept: number[], newPo
   const column = Int32Array.from(curved, (t) => newPos[sub.otherOf[t]]);
   const curvedFree = Int32Array.from(curved, (t) => free[t]);
   const PE = new Float64Array(k * k2);
+  // The curved variables grouped by their other's column (a stable order, so each column's terms
+  // are added in the order above): one running sum per column instead of a store per term.
+  const byColumn = Int32Array.from(curved.keys()).sort((a, b) => column[a] - column[b] || a - b);
+  const groupColumn = Int32Array.from(byColumn, (c) => column[c]);
+  const groupSlope = Float64Array.from(byColumn, (c) => slope[c]);
+  const groupFree = Int32Array.from(byColumn, (c) => curvedFree[c]);
   const row = (f: number): void => {
     const off = free[f] * n;
     const o = f * k2;
     gatherInto(PE, o, P, off, keptFree);
-    for (let c = 0; c < curvedFree.length; c++) PE[o + column[c]] += slope[c] * P[off + curvedFree[c]];
+    addSlopedTerms(PE, o, P, off, groupColumn, groupSlope, groupFree);
   };
   for (const a of kept) row(a);
   for (const t of curved) row(t);
@@ -305,6 +311,27 @@ function reducedHessian(e: EqualityKkt, sub: Substitution, kept: number[], newPo
     for (let b = 0; b < k2; b++) Pr[o + b] += s * PE[t * k2 + b];
   });
   return Pr;
+}
+
+/**
+ * out[o + column_c] += slope_c a[ao + at_c] for each c, the c of one column consecutive: each
+ * column's sum runs in a local, in the order of c.
+ */
+function addSlopedTerms(
+  out: Float64Array,
+  o: number,
+  a: Float64Array,
+  ao: number,
+  column: Int32Array,
+  slope: Float64Array,
+  at: Int32Array,
+): void {
+  for (let c = 0; c < column.length;) {
+    const col = column[c];
+    let sum = out[o + col];
+    for (; c < column.length && column[c] === col; c++) sum += slope[c] * a[ao + at[c]];
+    out[o + col] = sum;
+  }
 }
 
 /**
@@ -437,7 +464,9 @@ function reducedSystem(e: EqualityKkt, sub: Substitution): Reduced {
     for (const t of sub.curved) gc[t] = g[t];
     if (gc.some((v) => v !== 0)) {
       rg = Float64Array.from(r);
-      for (let a = 0; a < k; a++) rg[a] -= addGatheredDot(0, P, free[a] * n, free, gc, k);
+      const Pg = new Float64Array(k);
+      gatheredRowsTimes(P, n, free, free, gc, Pg);
+      for (let a = 0; a < k; a++) rg[a] -= Pg[a];
     }
     const r2 = new Float64Array(k2);
     kept.forEach((a, aa) => (r2[aa] = rg[a]));
@@ -451,6 +480,7 @@ function reducedSystem(e: EqualityKkt, sub: Substitution): Reduced {
     return { r2, s2 };
   };
 
+  const curvedRows = Int32Array.from(sub.curved, (t) => free[t]);
   const fromReduced = (reduced: Float64Array, r: Float64Array, s: Float64Array): Float64Array => {
     const sol = new Float64Array(k + m);
     kept.forEach((a, aa) => (sol[a] = reduced[aa]));
@@ -471,7 +501,9 @@ function reducedSystem(e: EqualityKkt, sub: Substitution): Reduced {
       for (let q = C.start[j]; q < C.start[j + 1]; q++) if (byRow[C.col[q]] >= 0) other[C.col[q]] += C.val[q] * l;
     }
     const x = sol.subarray(0, k);
-    for (const t of sub.curved) other[t] += addGatheredDot(0, P, free[t] * n, free, x, k);
+    const Px = new Float64Array(curvedRows.length);
+    gatheredRowsTimes(P, n, curvedRows, free, x, Px);
+    sub.curved.forEach((t, c) => (other[t] += Px[c]));
     for (let a = 0; a < k; a++) {
       const j = byRow[a];
       const p = pairOf[a];
@@ -498,13 +530,14 @@ function reducedSystem(e: EqualityKkt, sub: Substitution): Reduced {
 }
 
 /**
- * (x, l) as solveEqualityKkt gives them, from the smaller system with the substitutions above.
- * With the hubs' members substituted, iterative refinement runs on the whole system (its
- * residual in the sums that the KKT check makes, each correction from the reduced system's
- * factor), which also takes out the rounding of E'PE's sums; a degenerate active set goes to the
- * auxiliaries alone, refined on the reduced system as before.
+ * (x, l) as solveEqualityKkt gives them, from the smaller system with the substitutions above,
+ * as a refinement (equality-kkt.ts) to be taken as far as the caller needs. With the hubs'
+ * members substituted, iterative refinement runs on the whole system (its residual in the sums
+ * that the KKT check makes, each correction from the reduced system's factor), which also takes
+ * out the rounding of E'PE's sums; a degenerate active set goes to the auxiliaries alone, refined
+ * on the reduced system as before.
  */
-export function solveEqualityKktSubstituted(e: EqualityKkt, r: Float64Array, s: Float64Array): Float64Array | null {
+export function equalityKktRefinement(e: EqualityKkt, r: Float64Array, s: Float64Array): Refinement | null {
   const { auxiliaries: aux, all } = substitutionOf(e);
   if (all) {
     const reduced = reducedSystem(e, all);
@@ -513,16 +546,26 @@ export function solveEqualityKktSubstituted(e: EqualityKkt, r: Float64Array, s: 
     if (solve !== 'dependent') {
       const k2 = reduced.system.free.length;
       const part = new Float64Array(k2 + reduced.system.C.start.length - 1);
-      return refinedSolution(e, r, s, (rx, rs, out) => {
+      return refinement(e, r, s, (rx, rs, out) => {
         const { r2, s2 } = reduced.toReduced(rx, rs);
         solve(r2, s2, part);
         out.set(reduced.fromReduced(part, rx, rs));
       });
     }
   }
-  if (aux.auxiliaries === 0) return solveEqualityKkt(e, r, s);
+  if (aux.auxiliaries === 0) {
+    const solve = factorEqualityKkt(e);
+    return solve && solve !== 'dependent' ? refinement(e, r, s, solve) : null;
+  }
   const reduced = reducedSystem(e, aux);
   const { r2, s2 } = reduced.toReduced(r, s);
   const part = solveEqualityKkt(reduced.system, r2, s2);
-  return part && reduced.fromReduced(part, r, s);
+  if (!part) return null;
+  const sol = reduced.fromReduced(part, r, s);
+  return { until: () => sol, ended: true };
+}
+
+/** (x, l) as solveEqualityKkt gives them (equalityKktRefinement refined to the end). */
+export function solveEqualityKktSubstituted(e: EqualityKkt, r: Float64Array, s: Float64Array): Float64Array | null {
+  return equalityKktRefinement(e, r, s)?.until(0) ?? null;
 }

@@ -97,6 +97,12 @@ export const QP_TOLERANCES = {
   /** Primal slack below which polishing treats a constraint as satisfied. */
   polishFeasibility: 1e-9,
   /**
+   * Residual of polishing's linear system (relative to 1 + its largest right-hand side) from
+   * which it judges a guess of the active set, a thousandth of polishFeasibility: a guess that
+   * fails is not refined to the rounding level first (polish.ts).
+   */
+  polishDecision: 1e-12,
+  /**
    * First ridge, relative to the largest diagonal entry, added to a matrix that should be
    * positive definite but does not factor (a direction free of curvature and constraints,
    * dependent equality rows); each further attempt multiplies it by 100. Iterative refinement

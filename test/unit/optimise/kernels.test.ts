@@ -9,7 +9,14 @@
 import { describe, expect, it } from 'vitest';
 import { multiplyVector } from '../../../shared-core/linalg/matrix.js';
 import { luFactor, luSolve } from '../../../shared-core/optimise/qp/dense-factor.js';
-import { addRowsTimes, packedRows, rowsTimes, timesVector } from '../../../shared-core/optimise/qp/kernels.js';
+import {
+  addGatheredDot,
+  addRowsTimes,
+  gatheredRowsTimes,
+  packedRows,
+  rowsTimes,
+  timesVector,
+} from '../../../shared-core/optimise/qp/kernels.js';
 import { addRow, rowDot } from '../../../shared-core/optimise/qp/kkt.js';
 import type { SparseRow } from '../../../shared-core/optimise/qp/types.js';
 import { seededRng } from '../../../shared-core/stability/rng.js';
@@ -112,6 +119,24 @@ describe('the solver kernels keep the textbook sums', () => {
         true,
       );
     }
+  });
+
+  it("rows of M on polishing's free columns times x equal addGatheredDot over every free column bit for bit", () => {
+    // Whether x is dense (whole rows read over x spread to full length) or sparse (its zeros left
+    // out), each sum is the gathered one's from 0 over the free columns in order.
+    const rng = seededRng(19);
+    const n = 73;
+    const M = Float64Array.from({ length: n * n }, () => rng.next() - 0.5);
+    for (const freeShare of [1, 0.8, 0.5, 0.2])
+      for (const share of [1, 0.7, 0.4, 0.05, 0]) {
+        const at = Int32Array.from([...Array(n).keys()].filter(() => rng.next() < freeShare));
+        const x = Float64Array.from(at, () => (rng.next() < share ? rng.next() - 0.5 : 0));
+        const rows = Int32Array.from([...Array(n).keys()].filter(() => rng.next() < 0.5));
+        const ours = new Float64Array(rows.length);
+        gatheredRowsTimes(M, n, rows, at, x, ours);
+        const ref = Float64Array.from(rows, (i) => addGatheredDot(0, M, i * n, at, x, at.length));
+        expect(sameBits(ours, ref), `free ${freeShare}, non-zero ${share}`).toBe(true);
+      }
   });
 
   it('packed rows give the sums of kkt.ts rowDot and addRow', () => {
