@@ -84,6 +84,12 @@ function wasmPanels(
   }
 }
 
+/** Whether the cross product of a T x N matrix splits over the kernel team (its threshold for the kernels that run). */
+export function crossProductForks(n: number, t: number): boolean {
+  const wasm = wasmKernels();
+  return wasm ? wasm.shared && n * n * t >= MIN_SHARED_WASM_WORK : n * n * t >= MIN_SHARED_WORK;
+}
+
 /**
  * Below N^2 T = 2^30 (N = 920 at T = 1260) the WebAssembly product stays on one thread: it takes
  * about 60 ms there, and the first share waits 30-60 ms for the helper to load.

@@ -36,6 +36,11 @@ export interface KernelTeam {
    * cannot take it (it did not start, or stopped): the caller then makes that share itself.
    */
   fork(job: KernelJob): boolean;
+  /**
+   * Starts the helper now, without waiting for it to load, for a caller that knows a large kernel
+   * is coming: it loads while this thread works, where the first fork would wait for it.
+   */
+  prepare(): void;
   /** Waits for the forked job; throws if the helper's share failed. */
   join(): void;
 }
@@ -45,6 +50,11 @@ let installed: KernelTeam | null = null;
 /** Installed once by the process edge; null uninstalls (tests). */
 export function installKernelTeam(team: KernelTeam | null): void {
   installed = team;
+}
+
+/** Starts the installed team's helper ahead of its first job (KernelTeam.prepare); nothing without a team. */
+export function prepareKernelTeam(): void {
+  installed?.prepare();
 }
 
 /** The installed team, or null where kernels run on one thread. */

@@ -41,6 +41,12 @@ function passSplit(m: number): number {
  * (tridiagonal.c), its passes in SIMD, the same sums in the same order. Without them, with a
  * kernel team (kernel-team.ts) the second range is the helper thread's share of each pass.
  */
+/** Whether the reduction of an n x n matrix splits its passes over the kernel team (for the kernels that run). */
+export function tridiagonalFormForks(n: number): boolean {
+  const wasm = wasmKernels();
+  return wasm ? wasm.shared && n > MIN_SHARED_WASM_PASS + 1 : n > MIN_SHARED_PASS + 1;
+}
+
 export function tridiagonalForm(m: Matrix): TridiagonalForm {
   const n = m.rows;
   if (m.cols !== n) throw new RangeError(`expected a square matrix, got ${m.rows} x ${m.cols}`);

@@ -1,4 +1,5 @@
 import { InputError } from '../../shared-core/errors.js';
+import { prepareKernelTeamForEstimates } from '../../shared-core/estimators/prepare-kernel-team.js';
 import { runScenario, type ScenarioRun } from '../../shared-core/run/run-scenario.js';
 import { locate, type ScenarioInputs } from './scenario-inputs.js';
 
@@ -27,6 +28,7 @@ export function runScenarioInputs(inputs: ScenarioInputs, options: RunOptions = 
           path: `current.${key}`,
         });
   }
+  prepareKernelTeamForEstimates(inputs.prices.assets.length, inputs.prices.dates.length - 1);
   try {
     return runScenario(inputs.scenario, inputs.prices, {
       ...(inputs.locate ? { locate: inputs.locate } : {}),

@@ -19,8 +19,8 @@ const READY_WAIT_MS = 3000;
  * helper without its event loop (receiveMessageOnPort), so a kernel that forks at every step of a
  * loop pays a few atomic writes a step, not a message.
  *
- * The worker starts at the first job (a kernel asks only when its work is large): a small problem
- * never pays for a thread. That first job waits for the worker to load its kernels (tens of
+ * The worker starts at the first job (a kernel asks only when its work is large), or earlier when
+ * a caller knows one is coming (`prepare`): a small problem never pays for a thread. That first job waits for the worker to load its kernels (tens of
  * milliseconds, against the hundreds the first large kernel takes on one thread). The worker is
  * unreferenced: it never keeps the process alive.
  */
@@ -52,6 +52,9 @@ export function kernelTeamOfTwo(workerFile: URL = new URL('./kernel-worker.js', 
   return {
     shared: (length) => new Float64Array(new SharedArrayBuffer(length * 8)),
     memory,
+    prepare(): void {
+      if (!started) start();
+    },
     fork(job: KernelJob): boolean {
       if (pending) throw new Error('kernel team: a job is already running');
       if (Atomics.load(control, CONTROL.gone) === 1) return false;

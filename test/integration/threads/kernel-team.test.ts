@@ -20,6 +20,7 @@ interface Modules {
   tridiagonal: typeof import('../../../shared-core/linalg/tridiagonal-form.js');
   factor: typeof import('../../../shared-core/optimise/qp/dense-factor.js');
   wasm: typeof import('../../../shared-core/linalg/wasm/wasm-kernels.js');
+  prepare: typeof import('../../../shared-core/estimators/prepare-kernel-team.js');
 }
 let m: Modules;
 
@@ -41,6 +42,7 @@ function withAndWithout<T>(f: () => T): { alone: T; shared: T } {
       return forked;
     },
     join: () => team.join(),
+    prepare: () => team.prepare(),
   });
   try {
     return { alone, shared: f() };
@@ -71,6 +73,7 @@ describe.runIf(built)('the dense kernels on two threads', () => {
       tridiagonal: await import(`${dist}shared-core/linalg/tridiagonal-form.js`),
       factor: await import(`${dist}shared-core/optimise/qp/dense-factor.js`),
       wasm: await import(`${dist}shared-core/linalg/wasm/wasm-kernels.js`),
+      prepare: await import(`${dist}shared-core/estimators/prepare-kernel-team.js`),
     };
     m.wasm.useWasmKernels(false);
   });
@@ -197,6 +200,46 @@ describe.runIf(built)('the dense kernels on two threads', () => {
     indefinite[600 * n + 600] = -1;
     const refused = withAndWithout(() => m.factor.choleskyInPlace(Float64Array.from(indefinite), n));
     expect(refused).toEqual({ alone: false, shared: false });
+  });
+
+  it('starts the helper ahead of estimates whose kernels will split, and never for small ones', () => {
+    // The command line's path: WebAssembly on the team's memory. N = 300 at T = 1260 splits
+    // nothing (X'X below 2^30 multiply-adds, the reduction's passes below 768 columns); N = 1000
+    // splits X'X. The helper started ahead takes the product's first share.
+    const team = m.threads.kernelTeamOfTwo()!;
+    let prepared = 0;
+    let forked = 0;
+    m.team.installKernelTeam({
+      shared: (length) => team.shared(length),
+      memory: team.memory,
+      fork: (job) => {
+        const took = team.fork(job);
+        if (took) forked++;
+        return took;
+      },
+      join: () => team.join(),
+      prepare: () => {
+        prepared++;
+        team.prepare();
+      },
+    });
+    m.wasm.useWasmKernels(true);
+    try {
+      m.prepare.prepareKernelTeamForEstimates(300, 1260);
+      m.prepare.prepareKernelTeamForEstimates(800, 60);
+      expect(prepared).toBe(1);
+      m.prepare.prepareKernelTeamForEstimates(1000, 1100);
+      expect(prepared).toBe(2);
+      const x = randomMatrix(1100, 1000, 21);
+      const c = m.cross.crossProduct(x);
+      expect(forked).toBe(1);
+      let s = 0;
+      for (let k = 0; k < 1100; k++) s += x.data[k * 1000 + 5] * x.data[k * 1000 + 999];
+      expect(c.data[5 * 1000 + 999]).toBeCloseTo(s, 10);
+    } finally {
+      m.wasm.useWasmKernels(false);
+      m.team.installKernelTeam(null);
+    }
   });
 
   it('leaves every kernel on one thread, after one bounded wait, when the helper cannot start', () => {
