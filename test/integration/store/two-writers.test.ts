@@ -19,11 +19,19 @@ beforeAll(() => {
 });
 afterAll(() => rmSync(child.dir, { recursive: true, force: true }));
 
-/** Starts a second process holding the store's write lock for `ms`; resolves once it holds it. */
-async function holdStore(store: string, ms: number, activity: string): Promise<{ done: Promise<number> }> {
-  const proc: ChildProcess = spawn(process.execPath, [child.script, store, String(ms), activity], {
-    stdio: ['ignore', 'pipe', 'inherit'],
-  });
+/**
+ * Starts a second process holding the store's write lock for `ms`, or with `until` until
+ * `release()` is called (`ms` then bounds the hold); resolves once it holds the lock.
+ */
+async function holdStore(
+  store: string,
+  ms: number,
+  activity: string,
+  until?: 'released',
+): Promise<{ done: Promise<number>; release: () => void }> {
+  const releaseFile = `${store}.release`;
+  const args = [child.script, store, String(ms), activity, ...(until ? [releaseFile] : [])];
+  const proc: ChildProcess = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'inherit'] });
   const done = new Promise<number>((resolve) => proc.on('close', (code) => resolve(code ?? -1)));
   await new Promise<void>((resolve, reject) => {
     let out = '';
@@ -33,7 +41,7 @@ async function holdStore(store: string, ms: number, activity: string): Promise<{
     });
     proc.on('close', () => reject(new Error(`child ended before holding the store: ${out}`)));
   });
-  return { done };
+  return { done, release: () => writeFileSync(releaseFile, '') };
 }
 
 function freshStore(): string {
@@ -58,7 +66,7 @@ describe('two processes writing one store (issue 16)', () => {
 
   it('past the busy timeout the error names what holds the store and what to do, and nothing is written', async () => {
     const path = freshStore();
-    const held = await holdStore(path, 2500, 'an import of prices.csv');
+    const held = await holdStore(path, 30_000, 'an import of prices.csv', 'released');
     expect(existsSync(writerNotePath(path))).toBe(true);
     const store = openStore(path, { busyTimeoutMs: 300 });
     let caught: unknown;
@@ -87,6 +95,7 @@ describe('two processes writing one store (issue 16)', () => {
     }
     service.dispose();
     store.close();
+    held.release();
     expect(await held.done).toBe(0);
     expect(existsSync(writerNotePath(path))).toBe(false);
     const after = openStore(path);
@@ -99,11 +108,12 @@ describe('two processes writing one store (issue 16)', () => {
     const path = join(dir, 'cli.hfstore');
     openStore(path).close();
     writeFileSync(join(dir, 'p.csv'), 'date,A\n2025-01-02,10\n2025-01-03,11\n');
-    const held = await holdStore(path, 7000, 'an import of big.csv');
+    const held = await holdStore(path, 30_000, 'an import of big.csv', 'released');
     const out = await runCliInProcess(
       ['import', '--store', 'cli.hfstore', '--prices', 'p.csv', '--universe', 'U', '--apply'],
       dir,
     );
+    held.release();
     expect(out.code).toBe(1);
     expect(out.stderr).toMatch(
       /^holdfast import: .*cli\.hfstore: the store is busy with an import of big\.csv \(process \d+/m,
@@ -114,7 +124,7 @@ describe('two processes writing one store (issue 16)', () => {
 
   it('a note left by a killed writer is ignored: the message does not blame a process that is gone', async () => {
     const path = freshStore();
-    const held = await holdStore(path, 1500, 'an import of live.csv');
+    const held = await holdStore(path, 30_000, 'an import of live.csv', 'released');
     // What a writer killed while holding the store leaves: a note naming a process that is gone.
     writeFileSync(
       writerNotePath(path),
@@ -125,6 +135,7 @@ describe('two processes writing one store (issue 16)', () => {
       /the store is busy: another Holdfast window or command is writing to it; nothing was written\. Try again in a moment/,
     );
     store.close();
+    held.release();
     await held.done;
   });
 });
