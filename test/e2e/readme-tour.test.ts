@@ -16,9 +16,13 @@ import { printMemo } from './memo-steps.js';
  */
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
 const IMAGES = join(root, 'docs', 'images');
-/** The page's words with every figure, duration and month masked: what decides whether a picture is stale. */
+/**
+ * The page's words with every figure, duration, month and hexadecimal hash (a memo's, which
+ * covers its date and figures) masked: what decides whether a picture is stale.
+ */
 const wordsOf = (text: string) =>
   `${text
+    .replace(/\b(?=[0-9a-f]*\d)[0-9a-f]{8,}\b/g, '#')
     .replace(/\b(Jan|Feb|Mar|Apr|May|Jun|Jul|Aug|Sep|Oct|Nov|Dec)\b|\b[AP]M\b/g, '~')
     .replace(/[−+]?\d+(?:[.,:]\d+)*(?:\s*(?:ms|s)\b)?/g, '#')
     .replace(/[ \t]+/g, ' ')
