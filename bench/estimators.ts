@@ -4,7 +4,7 @@ import { centred } from '../shared-core/estimators/moments.js';
 import { LANCZOS_STEPS } from '../shared-core/linalg/condition.js';
 import { crossProduct, crossProductNaive } from '../shared-core/linalg/cross-product.js';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { tridiagonalForm } from '../shared-core/linalg/tridiagonal-form.js';
@@ -116,6 +116,7 @@ async function reductionFigures(covariance: Matrix): Promise<BenchFigure[]> {
   const script = join(dir, 'eig.py');
   writeFileSync(script, EIGVALSH);
   const peer = spawnSync('/usr/bin/python3', [script, file, String(n), '3'], { encoding: 'utf8' });
+  rmSync(dir, { recursive: true, force: true });
   const peerMs = peer.status === 0 ? (JSON.parse(peer.stdout) as { ms: number }).ms : undefined;
   const rate = (ms: number) => (flops / (ms * 1e6)).toFixed(2);
   return [

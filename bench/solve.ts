@@ -1,7 +1,7 @@
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { runScenario } from '../shared-core/run/run-scenario.js';
 import { parseScenario, type Scenario } from '../shared-core/scenario/schema.js';
@@ -141,6 +141,15 @@ interface Measured {
 
 function wholeProcess(c: Case, peerScript: string, missing: string | null): Measured {
   const dir = mkdtempSync(join(tmpdir(), 'holdfast-bench-solve-'));
+  try {
+    return measuredIn(dir, c, peerScript, missing);
+  } finally {
+    // The universe's files (5-65 MB a case) go with the case.
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+function measuredIn(dir: string, c: Case, peerScript: string, missing: string | null): Measured {
   const prices = join(dir, 'prices.csv');
   const table = inventedPrices(c.n, c.n * 1000 + c.seed, c.shape);
   writeFileSync(prices, csvOf(table));
@@ -321,6 +330,7 @@ export const solveSuite: BenchSuite = {
             growth.set(caseKey(c), points);
           }
         }
+    rmSync(dirname(peerScript), { recursive: true, force: true });
     for (const points of growth.values()) {
       if (points.length < 2) continue;
       const ours = growthExponent(points.map((p) => ({ n: p.n, ms: p.ours })));
