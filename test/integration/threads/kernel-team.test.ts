@@ -1,6 +1,7 @@
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { KernelTeam } from '../../../shared-core/linalg/kernel-team.js';
 import { randomMatrix, sameBits } from '../../support/random-matrix.js';
 
 /**
@@ -27,26 +28,39 @@ let m: Modules;
 /** Jobs the helper thread took in the last `withAndWithout`: the team was really used. */
 let taken = 0;
 
+/** The command line's team, wrapped to count the jobs its helper takes and the calls to prepare. */
+function countingTeam(): { team: KernelTeam; counts: { taken: number; prepared: number } } {
+  const team = m.threads.kernelTeamOfTwo()!;
+  const counts = { taken: 0, prepared: 0 };
+  return {
+    counts,
+    team: {
+      shared: (length) => team.shared(length),
+      memory: team.memory,
+      fork: (job) => {
+        const forked = team.fork(job);
+        if (forked) counts.taken++;
+        return forked;
+      },
+      join: () => team.join(),
+      prepare: () => {
+        counts.prepared++;
+        team.prepare();
+      },
+    },
+  };
+}
+
 /** Runs `f` once without a team and once with one; both answers. */
 function withAndWithout<T>(f: () => T): { alone: T; shared: T } {
   m.team.installKernelTeam(null);
   const alone = f();
-  const team = m.threads.kernelTeamOfTwo()!;
-  taken = 0;
-  m.team.installKernelTeam({
-    shared: (length) => team.shared(length),
-    memory: team.memory,
-    fork: (job) => {
-      const forked = team.fork(job);
-      if (forked) taken++;
-      return forked;
-    },
-    join: () => team.join(),
-    prepare: () => team.prepare(),
-  });
+  const counted = countingTeam();
+  m.team.installKernelTeam(counted.team);
   try {
     return { alone, shared: f() };
   } finally {
+    taken = counted.counts.taken;
     m.team.installKernelTeam(null);
   }
 }
@@ -206,33 +220,18 @@ describe.runIf(built)('the dense kernels on two threads', () => {
     // The command line's path: WebAssembly on the team's memory. N = 300 at T = 1260 splits
     // nothing (X'X below 2^30 multiply-adds, the reduction's passes below 768 columns); N = 1000
     // splits X'X. The helper started ahead takes the product's first share.
-    const team = m.threads.kernelTeamOfTwo()!;
-    let prepared = 0;
-    let forked = 0;
-    m.team.installKernelTeam({
-      shared: (length) => team.shared(length),
-      memory: team.memory,
-      fork: (job) => {
-        const took = team.fork(job);
-        if (took) forked++;
-        return took;
-      },
-      join: () => team.join(),
-      prepare: () => {
-        prepared++;
-        team.prepare();
-      },
-    });
+    const { team, counts } = countingTeam();
+    m.team.installKernelTeam(team);
     m.wasm.useWasmKernels(true);
     try {
       m.prepare.prepareKernelTeamForEstimates(300, 1260);
       m.prepare.prepareKernelTeamForEstimates(800, 60);
-      expect(prepared).toBe(1);
+      expect(counts.prepared).toBe(1);
       m.prepare.prepareKernelTeamForEstimates(1000, 1100);
-      expect(prepared).toBe(2);
+      expect(counts.prepared).toBe(2);
       const x = randomMatrix(1100, 1000, 21);
       const c = m.cross.crossProduct(x);
-      expect(forked).toBe(1);
+      expect(counts.taken).toBe(1);
       let s = 0;
       for (let k = 0; k < 1100; k++) s += x.data[k * 1000 + 5] * x.data[k * 1000 + 999];
       expect(c.data[5 * 1000 + 999]).toBeCloseTo(s, 10);

@@ -110,6 +110,20 @@ function turnoverActiveSet(seed: number, rng: Rng, dependent = false) {
   return { f, free, rows, s: Float64Array.from(s), fixed, dependentPairs: count('kept, both at bound') };
 }
 
+/**
+ * Polishing's system on the binding caps of cappedMaxDiversification: the free variables (the
+ * held assets and kappa), the equality rows and every binding cap row, with a random right-hand
+ * side r on the variables and the rows' own s.
+ */
+function capsBindingSystem(seed: number, rng: Rng) {
+  const { n, f, held, atCap, capRow } = cappedMaxDiversification(seed, rng);
+  const rows = [...f.qp.A, ...atCap.map((i) => f.qp.G[capRow(i)])];
+  const e = activeSystem(f.qp, [...held, n], rows);
+  const r = Float64Array.from({ length: held.length + 1 }, () => 0.01 * gaussian(rng));
+  const s = Float64Array.from(rows, (_, j) => (j < f.qp.A.length ? f.qp.b[j] : 0));
+  return { e, r, s, atCap };
+}
+
 describe('polishing substitutes variables out on active rows of one and two entries (qp/substitute-two-entry-rows.ts)', () => {
   it('binding caps of maximum diversification: the same solution and multipliers as the whole KKT system to 1e-12', () => {
     // Property: with each binding cap y_i = cap kappa substituted out (y_i's curvature folded into
@@ -119,11 +133,7 @@ describe('polishing substitutes variables out on active rows of one and two entr
     // of the assets at their cap), with every cap row substituted.
     const rng = seededRng(2026);
     for (let seed = 1; seed <= 40; seed++) {
-      const { n, f, held, atCap, capRow } = cappedMaxDiversification(seed, rng);
-      const rows = [...f.qp.A, ...atCap.map((i) => f.qp.G[capRow(i)])];
-      const e = activeSystem(f.qp, [...held, n], rows);
-      const r = Float64Array.from({ length: held.length + 1 }, () => 0.01 * gaussian(rng));
-      const s = Float64Array.from(rows, (_, j) => (j < f.qp.A.length ? f.qp.b[j] : 0));
+      const { e, r, s, atCap } = capsBindingSystem(seed, rng);
       const plan = substitutionOf(e);
       expect(plan.all?.hubMembers, `seed ${seed}`).toBe(atCap.length);
       const whole = solveEqualityKkt(e, r, s)!;
@@ -137,11 +147,7 @@ describe('polishing substitutes variables out on active rows of one and two entr
     // keeps: resuming must give exactly the answer of refining at once.
     const rng = seededRng(2027);
     for (let seed = 1; seed <= 12; seed++) {
-      const { n, f, held, atCap, capRow } = cappedMaxDiversification(seed, rng);
-      const rows = [...f.qp.A, ...atCap.map((i) => f.qp.G[capRow(i)])];
-      const e = activeSystem(f.qp, [...held, n], rows);
-      const r = Float64Array.from({ length: held.length + 1 }, () => 0.01 * gaussian(rng));
-      const s = Float64Array.from(rows, (_, j) => (j < f.qp.A.length ? f.qp.b[j] : 0));
+      const { e, r, s } = capsBindingSystem(seed, rng);
       const atOnce = solveEqualityKktSubstituted(e, r, s)!;
       const staged = equalityKktRefinement(e, r, s)!;
       const early = Float64Array.from(staged.until(1e-6));
