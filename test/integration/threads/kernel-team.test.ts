@@ -65,6 +65,16 @@ function withAndWithout<T>(f: () => T): { alone: T; shared: T } {
   }
 }
 
+/** `f` with the WebAssembly kernels on: this file runs the TypeScript kernels otherwise. */
+function inWasm(f: () => void): void {
+  m.wasm.useWasmKernels(true);
+  try {
+    f();
+  } finally {
+    m.wasm.useWasmKernels(false);
+  }
+}
+
 /** X'X of a random 900 x n X plus 1e-3 I: symmetric positive definite. */
 function positiveDefinite(n: number, seed: number): Float64Array {
   const a = m.cross.crossProduct(randomMatrix(900, n, seed)).data;
@@ -110,15 +120,12 @@ describe.runIf(built)('the dense kernels on two threads', () => {
   it("makes X'X in WebAssembly on the team's shared memory, both threads, bit for bit (N = 1000, T = 1100)", () => {
     const x = randomMatrix(1100, 1000, 15);
     const typescript = m.cross.crossProduct(x);
-    m.wasm.useWasmKernels(true);
-    try {
+    inWasm(() => {
       const { alone, shared } = withAndWithout(() => m.cross.crossProduct(x));
       expect(taken).toBe(1);
       expect(sameBits(alone.data, typescript.data)).toBe(true);
       expect(sameBits(shared.data, typescript.data)).toBe(true);
-    } finally {
-      m.wasm.useWasmKernels(false);
-    }
+    });
   });
 
   it("factors and solves in WebAssembly on the team's shared memory, the TypeScript's answer (n = 701)", () => {
@@ -133,8 +140,7 @@ describe.runIf(built)('the dense kernels on two threads', () => {
       return { ok, f, x, onShared: m.wasm.wasmKernels()?.shared };
     };
     const typescript = solve();
-    m.wasm.useWasmKernels(true);
-    try {
+    inWasm(() => {
       const { alone, shared } = withAndWithout(solve);
       expect([alone.onShared, shared.onShared]).toEqual([false, true]);
       expect(typescript.ok && alone.ok && shared.ok).toBe(true);
@@ -142,9 +148,7 @@ describe.runIf(built)('the dense kernels on two threads', () => {
         expect(sameBits(r.f, typescript.f)).toBe(true);
         expect(sameBits(r.x, typescript.x)).toBe(true);
       }
-    } finally {
-      m.wasm.useWasmKernels(false);
-    }
+    });
   });
 
   it("factors in WebAssembly on the team's shared memory, both threads, the TypeScript's factor (n = 701)", () => {
@@ -154,8 +158,7 @@ describe.runIf(built)('the dense kernels on two threads', () => {
     expect(m.factor.choleskyInPlace(typescript, n)).toBe(true);
     const indefinite = Float64Array.from(a);
     indefinite[650 * n + 650] = -1;
-    m.wasm.useWasmKernels(true);
-    try {
+    inWasm(() => {
       const { alone, shared } = withAndWithout(() => factorCopy(a, n));
       expect(taken).toBeGreaterThan(10); // the rows below most of the 22 blocks
       expect(alone.ok && shared.ok).toBe(true);
@@ -164,9 +167,7 @@ describe.runIf(built)('the dense kernels on two threads', () => {
       const refused = withAndWithout(() => factorCopy(indefinite, n));
       expect([refused.alone.ok, refused.shared.ok]).toEqual([false, false]);
       expect(sameBits(refused.alone.f, refused.shared.f)).toBe(true);
-    } finally {
-      m.wasm.useWasmKernels(false);
-    }
+    });
   });
 
   it('reduces a symmetric matrix to the same tridiagonal form and reflectors (N = 640)', () => {
@@ -183,8 +184,7 @@ describe.runIf(built)('the dense kernels on two threads', () => {
     // Zero rows and columns: steps with nothing to reflect among the shared passes.
     for (const z of [5, 880]) for (let k = 0; k < 900; k++) c.data[z * 900 + k] = c.data[k * 900 + z] = 0;
     const typescript = m.tridiagonal.tridiagonalForm(c);
-    m.wasm.useWasmKernels(true);
-    try {
+    inWasm(() => {
       const { alone, shared } = withAndWithout(() => m.tridiagonal.tridiagonalForm(c));
       expect(taken).toBeGreaterThan(100); // every pass over 768 columns or more
       for (const form of [alone, shared]) {
@@ -193,9 +193,7 @@ describe.runIf(built)('the dense kernels on two threads', () => {
         expect(sameBits(form.reflectors, typescript.reflectors)).toBe(true);
         expect(sameBits(form.halfNorms, typescript.halfNorms)).toBe(true);
       }
-    } finally {
-      m.wasm.useWasmKernels(false);
-    }
+    });
   });
 
   it('factors the same Cholesky factor, and refuses the same indefinite matrix (n = 701)', () => {
@@ -222,21 +220,21 @@ describe.runIf(built)('the dense kernels on two threads', () => {
     // splits X'X. The helper started ahead takes the product's first share.
     const { team, counts } = countingTeam();
     m.team.installKernelTeam(team);
-    m.wasm.useWasmKernels(true);
     try {
-      m.prepare.prepareKernelTeamForEstimates(300, 1260);
-      m.prepare.prepareKernelTeamForEstimates(800, 60);
-      expect(counts.prepared).toBe(1);
-      m.prepare.prepareKernelTeamForEstimates(1000, 1100);
-      expect(counts.prepared).toBe(2);
-      const x = randomMatrix(1100, 1000, 21);
-      const c = m.cross.crossProduct(x);
-      expect(counts.taken).toBe(1);
-      let s = 0;
-      for (let k = 0; k < 1100; k++) s += x.data[k * 1000 + 5] * x.data[k * 1000 + 999];
-      expect(c.data[5 * 1000 + 999]).toBeCloseTo(s, 10);
+      inWasm(() => {
+        m.prepare.prepareKernelTeamForEstimates(300, 1260);
+        m.prepare.prepareKernelTeamForEstimates(800, 60);
+        expect(counts.prepared).toBe(1);
+        m.prepare.prepareKernelTeamForEstimates(1000, 1100);
+        expect(counts.prepared).toBe(2);
+        const x = randomMatrix(1100, 1000, 21);
+        const c = m.cross.crossProduct(x);
+        expect(counts.taken).toBe(1);
+        let s = 0;
+        for (let k = 0; k < 1100; k++) s += x.data[k * 1000 + 5] * x.data[k * 1000 + 999];
+        expect(c.data[5 * 1000 + 999]).toBeCloseTo(s, 10);
+      });
     } finally {
-      m.wasm.useWasmKernels(false);
       m.team.installKernelTeam(null);
     }
   });
