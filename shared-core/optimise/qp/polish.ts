@@ -16,7 +16,7 @@ export interface Polished {
   active: QpWarmStart;
 }
 
-export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next: QpWarmStart; changes: number } | null {
+export function polishOnce(p: QpProblem, guess: QpWarmStart): Judged {
   const n = p.q.length;
   const me = p.A.length;
   const mi = p.G.length;
@@ -66,24 +66,36 @@ export function polishOnce(p: QpProblem, guess: QpWarmStart): Polished | { next:
   // is refined to the rounding level and judged again (the answer and its residual as one
   // refinement to the end gives them).
   const enough = QP_TOLERANCES.polishDecision * (1 + Math.max(maxAbs(rhs), maxAbs(s)));
-  const first = verdict(p, fixed, free, act, x, refine.until(enough));
-  if (first === null || 'next' in first || refine.ended) return first;
-  return verdict(p, fixed, free, act, x, refine.until(0));
+  const judged = refine.until(enough);
+  const round = { p, fixed, free, act, x };
+  const first = verdict(round, judged, refine.ended);
+  if (first !== 'passes') return first;
+  return verdict(round, refine.until(0), true);
+}
+
+/** A polishing round's outcome: the answer, the next guess, or null (the system is singular). */
+type Judged = Polished | { next: QpWarmStart; changes: number } | null;
+
+/** A polishing round's guess: the problem, each variable fixed at a bound or free, the active rows, x. */
+interface Round {
+  p: QpProblem;
+  fixed: Int8Array;
+  free: Int32Array;
+  act: number[];
+  /** The fixed variables' values; judging a solution writes the free ones'. */
+  x: Float64Array;
 }
 
 /**
  * The solution (x on the free variables, then the multipliers) of polishOnce's system judged:
  * the next guess when a constraint is violated or a multiplier has the wrong sign, else the
- * answer with its KKT residual. `x` holds the fixed variables' values and takes the free ones'.
+ * answer with its KKT residual, or only 'passes' where the solution is not `final` (it is refined
+ * and judged again).
  */
-function verdict(
-  p: QpProblem,
-  fixed: Int8Array,
-  free: Int32Array,
-  act: number[],
-  x: Float64Array,
-  sol: Float64Array,
-): Polished | { next: QpWarmStart; changes: number } | null {
+function verdict(round: Round, sol: Float64Array, final: true): Judged;
+function verdict(round: Round, sol: Float64Array, final: boolean): Judged | 'passes';
+function verdict(round: Round, sol: Float64Array, final: boolean): Judged | 'passes' {
+  const { p, fixed, free, act, x } = round;
   const n = p.q.length;
   const me = p.A.length;
   const mi = p.G.length;
@@ -160,6 +172,7 @@ function verdict(
   };
   if (changes > 0)
     return { next: { activeRows: members(rowIn), atLower: members(lowerIn), atUpper: members(upperIn) }, changes };
+  if (!final) return 'passes';
   let objective = 0;
   for (let i = 0; i < n; i++) objective += x[i] * (0.5 * Px[i] + p.q[i]);
   const solution: QpSolution = { x, y, z, zl, zu, objective };
