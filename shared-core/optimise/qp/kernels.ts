@@ -80,24 +80,14 @@ export function gatheredRowsTimes(
 }
 
 /**
- * y = M x for M n x n row-major. Where fewer than half of x's entries are non-zero (a portfolio
- * holds few of a large universe's assets) only those are visited: the sums, and their order, of
- * linalg's multiplyVector, through the kernels above.
+ * y = M x for M n x n row-major: gatheredRowsTimes on every row and column, so that where few of
+ * x's entries are non-zero (a portfolio holds few of a large universe's assets) only those are
+ * visited; the sums, and their order, of linalg's multiplyVector.
  */
 export function timesVector(M: Float64Array, n: number, x: Float64Array): Float64Array {
+  const all = Int32Array.from({ length: n }, (_, i) => i);
   const y = new Float64Array(n);
-  let held = 0;
-  for (let j = 0; j < n; j++) if (x[j] !== 0) held++;
-  if (held * 2 < n) {
-    const at = new Int32Array(held);
-    const u = new Float64Array(held);
-    for (let j = 0, k = 0; j < n; j++)
-      if (x[j] !== 0) {
-        at[k] = j;
-        u[k++] = x[j];
-      }
-    for (let i = 0; i < n; i++) y[i] = addGatheredDot(0, M, i * n, at, u, held);
-  } else for (let i = 0; i < n; i++) y[i] = addDot(0, M, i * n, x, n);
+  gatheredRowsTimes(M, n, all, all, x, y);
   return y;
 }
 
