@@ -250,8 +250,11 @@ interface State {
   rp: Float64Array;
   /** Residuals of the inequality rows, R x + s - hR. */
   ri: Float64Array;
-  /** The normal matrix and its Cholesky factor (empty when auxiliaries are eliminated). */
-  H: Float64Array;
+  /**
+   * The normal matrix, formed here and factored in place (empty when auxiliaries are
+   * eliminated). A factorisation that fails forms it again for its ridge, rather than every
+   * iteration copying a matrix kept aside: an n x n copy (18 MB at n = 1501) less an iteration.
+   */
   Hf: Float64Array;
   /**
    * Auxiliary variables (turnover, gross exposure) eliminated from the normal matrix
@@ -279,25 +282,27 @@ function residuals(st: State): void {
   rowResiduals(st.R, x, st.s, st.hR, st.ri);
 }
 
-/** H = P + R' (Z/S) R; the largest |diagonal entry|. */
+/** H = P + R' (Z/S) R into Hf; the largest |diagonal entry|. */
 function normalMatrix(st: State): number {
-  const { n, H } = st;
-  H.set(st.p.P.data.subarray(0, n * n));
-  addWeightedOuters(st.R, st.z, st.s, H, n);
-  return maxAbsDiagonal(H, n);
+  const { n, Hf } = st;
+  Hf.set(st.p.P.data.subarray(0, n * n));
+  addWeightedOuters(st.R, st.z, st.s, Hf, n);
+  return maxAbsDiagonal(Hf, n);
 }
 
-/** Cholesky of H into Hf; a singular H (a direction free of curvature and constraints) gets a small ridge. */
+/**
+ * Cholesky of the normal matrix in Hf, formed by normalMatrix; a singular one (a direction free
+ * of curvature and constraints) is formed again with a small ridge.
+ */
 function factorNormal(st: State, maxDiag: number): boolean {
-  const { n, H, Hf } = st;
-  Hf.set(H);
+  const { n, Hf } = st;
   let factored = choleskyInPlace(Hf, n);
   for (
     let attempt = 0, reg = QP_TOLERANCES.ridgeStart * (maxDiag || 1);
     !factored && attempt < QP_TOLERANCES.ridgeAttempts;
     attempt++, reg *= 100
   ) {
-    Hf.set(H);
+    normalMatrix(st);
     for (let i = 0; i < n; i++) Hf[i * n + i] += reg;
     factored = choleskyInPlace(Hf, n);
   }
@@ -435,7 +440,6 @@ function startingState(p: QpProblem, L: readonly number[], U: readonly number[])
     rd: new Float64Array(n),
     rp: new Float64Array(me),
     ri: new Float64Array(m),
-    H: new Float64Array(dim),
     Hf: new Float64Array(dim),
     eliminated: plan ? { plan, factor: auxiliaryWorkspace(plan), w: new Float64Array(m) } : null,
     M: Array.from({ length: me }, () => new Float64Array(n)),
