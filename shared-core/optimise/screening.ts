@@ -1,6 +1,6 @@
 import type { Matrix } from '../linalg/matrix.js';
 import type { LinearMandate } from './mandate.js';
-import { denseRowsTimes, QP_TOLERANCES } from './qp/index.js';
+import { addDot, QP_TOLERANCES } from './qp/index.js';
 
 /**
  * Which assets to try first when screening: the least correlated with the inverse-volatility
@@ -12,11 +12,13 @@ export function screeningScore(S: Matrix, vols: Float64Array, correlation: boole
   if (n < QP_TOLERANCES.screenFrom) return undefined;
   const w = new Float64Array(n);
   for (let i = 0; i < n; i++) w[i] = 1 / vols[i];
-  // Sigma w, every w_i non-zero: linalg multiplyVector's dense sums, in the solver's own dense
+  // Sigma w, every w_i non-zero: linalg multiplyVector's dense sums, in the solver's own dot
   // product, which the interior point's residuals then find optimised (qp/kernels.ts).
   const score = new Float64Array(n);
-  denseRowsTimes(S.data, n, null, w, score);
-  if (correlation) for (let i = 0; i < n; i++) score[i] /= vols[i];
+  for (let i = 0; i < n; i++) {
+    const v = addDot(0, S.data, i * n, w, n);
+    score[i] = correlation ? v / vols[i] : v;
+  }
   return score;
 }
 

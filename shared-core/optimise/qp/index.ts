@@ -7,7 +7,7 @@
 export { solveQp, type SolveQpOptions } from './solve-qp.js';
 export { phaseOne, type PhaseOneResult } from './phase-one.js';
 export { choleskyInPlace, choleskySolveInPlace, luFactor, luSolve, type LuFactor } from './dense-factor.js';
-export { denseRowsTimes } from './kernels.js';
+export { addDot } from './kernels.js';
 export {
   QP_TOLERANCES,
   type QpConflict,

@@ -26,9 +26,9 @@ import {
 } from './auxiliary-elimination.js';
 import { choleskyInPlace, choleskySolveInPlace } from './dense-factor.js';
 import {
+  addDot,
   addRowsTimes,
   addRowTimes,
-  denseRowsTimes,
   maxAbs,
   packedRows,
   rowsTimes,
@@ -61,6 +61,11 @@ export interface InteriorPointOptions {
    * random problems of qp-solver.test.ts 68 -> 188 iterations.
    */
   middleStart?: boolean;
+}
+
+/** out = q + P x (P n x n, row-major), each entry summed from q_i in increasing column. */
+function denseTimesPlus(out: Float64Array, P: Float64Array, n: number, x: Float64Array, q: Float64Array): void {
+  for (let i = 0; i < n; i++) out[i] = addDot(q[i], P, i * n, x, n);
 }
 
 /** acc + sum_k a_k b_k, added in increasing k. */
@@ -274,8 +279,7 @@ interface State {
 /** rd = P x + q + A'y + R'z, rp = A x - b, ri = R x + s - hR. */
 function residuals(st: State): void {
   const { n, x, rd } = st;
-  // rd = q + P x, each entry summed from q_i in increasing column.
-  denseRowsTimes(st.p.P.data, n, null, x, rd, st.p.q);
+  denseTimesPlus(rd, st.p.P.data, n, x, st.p.q);
   addRowsTimes(st.A, st.y, rd);
   addRowsTimes(st.R, st.z, rd);
   rowsLess(st.A, x, st.p.b, st.rp);
@@ -698,10 +702,8 @@ export function startInteriorPoint(p: QpProblem, options: Omit<InteriorPointOpti
     for (let r = 0; r < mi; r++) if (isActive[r]) activeRows.push(r);
     for (let k = 0; k < L.length; k++) if (isActive[mi + k]) atLower.push(L[k]);
     for (let k = 0; k < U.length; k++) if (isActive[mi + L.length + k]) atUpper.push(U[k]);
-    const Px = new Float64Array(n);
-    denseRowsTimes(p.P.data, n, null, x, Px);
     let obj = 0;
-    for (let i = 0; i < n; i++) obj += x[i] * (0.5 * Px[i] + p.q[i]);
+    for (let i = 0; i < n; i++) obj += x[i] * (0.5 * addDot(0, p.P.data, i * n, x, n) + p.q[i]);
     return {
       status,
       solution: { x: x.slice(), y: y.slice(), z: z.slice(0, mi), zl: zlFull, zu: zuFull, objective: obj },

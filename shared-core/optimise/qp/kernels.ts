@@ -27,47 +27,6 @@ export function addDot(v: number, a: Float64Array, ao: number, b: Float64Array, 
   return v;
 }
 
-/**
- * out_r = from_r + sum_k M[rows_r n + k] x_k over k < n for each r (every row of M where `rows`
- * is null; from 0 where `from` is absent), each sum in increasing k as addDot makes it. Four rows
- * go together: their four sums are independent, where one row's adds wait on one another's
- * latency (the dense products with P of the interior point's residuals and of polishing; at
- * n = 1501, 3.2 -> 1.75 ms a product in Node 20, one row at a time against four).
- */
-export function denseRowsTimes(
-  M: Float64Array,
-  n: number,
-  rows: Int32Array | null,
-  x: Float64Array,
-  out: Float64Array,
-  from?: Float64Array,
-): void {
-  const count = rows ? rows.length : n;
-  let r = 0;
-  for (; r + 3 < count; r += 4) {
-    const o0 = (rows ? rows[r] : r) * n;
-    const o1 = (rows ? rows[r + 1] : r + 1) * n;
-    const o2 = (rows ? rows[r + 2] : r + 2) * n;
-    const o3 = (rows ? rows[r + 3] : r + 3) * n;
-    let s0 = from ? from[r] : 0;
-    let s1 = from ? from[r + 1] : 0;
-    let s2 = from ? from[r + 2] : 0;
-    let s3 = from ? from[r + 3] : 0;
-    for (let k = 0; k < n; k++) {
-      const xk = x[k];
-      s0 += M[o0 + k] * xk;
-      s1 += M[o1 + k] * xk;
-      s2 += M[o2 + k] * xk;
-      s3 += M[o3 + k] * xk;
-    }
-    out[r] = s0;
-    out[r + 1] = s1;
-    out[r + 2] = s2;
-    out[r + 3] = s3;
-  }
-  for (; r < count; r++) out[r] = addDot(from ? from[r] : 0, M, (rows ? rows[r] : r) * n, x, n);
-}
-
 /** out[o + c] = a[ao + at_c]: a row of a matrix on the chosen columns. */
 export function gatherInto(out: Float64Array, o: number, a: Float64Array, ao: number, at: Int32Array): void {
   for (let c = 0; c < at.length; c++) out[o + c] = a[ao + at[c]];
@@ -107,7 +66,7 @@ export function gatheredRowsTimes(
   if (held * 2 > n) {
     const full = new Float64Array(n);
     for (let t = 0; t < at.length; t++) full[at[t]] = x[t];
-    denseRowsTimes(M, n, rows, full, out);
+    for (let r = 0; r < rows.length; r++) out[r] = addDot(0, M, rows[r] * n, full, n);
     return;
   }
   const cols = new Int32Array(held);

@@ -10,10 +10,8 @@ import { describe, expect, it } from 'vitest';
 import { multiplyVector } from '../../../shared-core/linalg/matrix.js';
 import { luFactor, luSolve } from '../../../shared-core/optimise/qp/dense-factor.js';
 import {
-  addDot,
   addGatheredDot,
   addRowsTimes,
-  denseRowsTimes,
   gatheredRowsTimes,
   packedRows,
   rowsTimes,
@@ -120,28 +118,6 @@ describe('the solver kernels keep the textbook sums', () => {
       expect(sameBits(timesVector(M, n, x), multiplyVector({ rows: n, cols: n, data: M }, x)), `share ${share}`).toBe(
         true,
       );
-    }
-  });
-
-  it('rows of M times x, four at a time, equal one dot product per row bit for bit', () => {
-    // Every row or chosen rows, from 0 or from a start value, at orders on and off a multiple of four.
-    const rng = seededRng(23);
-    for (const n of [1, 3, 4, 6, 13, 64]) {
-      const M = Float64Array.from({ length: n * n }, () => rng.next() - 0.5);
-      const x = Float64Array.from({ length: n }, () => rng.next() - 0.5);
-      const start = Float64Array.from({ length: n }, () => rng.next() - 0.5);
-      const chosen = Int32Array.from([...Array(n).keys()].filter(() => rng.next() < 0.6).reverse());
-      for (const rows of [null, chosen])
-        for (const from of [undefined, start]) {
-          const picked = rows ?? Int32Array.from({ length: n }, (_, i) => i);
-          const ours = new Float64Array(picked.length);
-          denseRowsTimes(M, n, rows, x, ours, from);
-          const ref = Float64Array.from(picked, (i, r) => addDot(from ? from[r] : 0, M, i * n, x, n));
-          expect(
-            sameBits(ours, ref),
-            `n ${n}, ${rows ? 'chosen rows' : 'every row'}, ${from ? 'from start' : 'from 0'}`,
-          ).toBe(true);
-        }
     }
   });
 
