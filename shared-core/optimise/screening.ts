@@ -35,19 +35,32 @@ export function screenPlan(m: LinearMandate, score: Float64Array) {
     n,
     Math.max(QP_TOLERANCES.screenInitial, Math.ceil(QP_TOLERANCES.screenPerCap / Math.max(minCap, 1e-3))),
   );
-  // A band with a minimum needs members that can fill it: its best-scored members until their
-  // caps reach screenPerCap times the minimum (all of them when they cannot). Keeping every
-  // member put a universe split into bands past screenShare, to be solved whole.
-  const keep = new Set(order.slice(0, size));
+  const keep = withBandFillers(m, score, order.slice(0, size));
+  // Caps so tight that the set above passes screenShare: a tighter one (solve-qp.ts screened).
+  const tightSize = minCap > 0 ? Math.ceil(QP_TOLERANCES.screenPerCapTight / minCap) : n;
+  const tight =
+    n >= QP_TOLERANCES.screenTightFrom && keep.length > QP_TOLERANCES.screenShare * n && tightSize < n
+      ? withBandFillers(m, score, order.slice(0, tightSize))
+      : undefined;
+  return { candidates, keep, order, ...(tight ? { tight } : {}) };
+}
+
+/**
+ * A working set with what each band with a minimum needs to fill it: its best-scored members
+ * until their caps reach screenPerCap times the minimum (all of them when they cannot). Keeping
+ * every member put a universe split into bands past screenShare, to be solved whole.
+ */
+function withBandFillers(m: LinearMandate, score: Float64Array, first: readonly number[]): number[] {
+  const set = new Set(first);
   for (const r of m.inequalities) {
     if (r.kind !== 'group-min') continue;
     const members = [...r.row.idx].sort((a, b) => score[a] - score[b]);
     let room = 0;
     for (const i of members) {
       if (room >= QP_TOLERANCES.screenPerCap * r.limit) break;
-      keep.add(i);
+      set.add(i);
       room += m.ub[i];
     }
   }
-  return { candidates, keep: [...keep], order };
+  return [...set];
 }

@@ -35,7 +35,16 @@ export interface SolveQpOptions {
    * polish on the full problem from the active set found. Exact: the final answer satisfies the
    * full problem's KKT conditions, or the solver falls back to a full interior-point solve.
    */
-  screen?: { candidates: readonly number[]; keep: readonly number[]; order: readonly number[] };
+  screen?: {
+    candidates: readonly number[];
+    keep: readonly number[];
+    order: readonly number[];
+    /**
+     * A tighter first working set, tried once where `keep` passes QP_TOLERANCES.screenShare of
+     * the variables (screening.ts screenPlan; screenPerCapTight, screenShareTight).
+     */
+    tight?: readonly number[];
+  };
   /**
    * Give up (status error) instead of running phase one when the interior point fails: screening
    * only needs to know that a working set is too small, and phase one on a problem with many rows
@@ -59,15 +68,18 @@ function screened(problem: QpProblem, options: SolveQpOptions): Screened | null 
   const screenable = new Uint8Array(n);
   for (const i of sc.candidates) if (Number.isFinite(problem.lb[i])) screenable[i] = 1;
   for (let i = 0; i < n; i++) if (screenable[i]) inSet[i] = 0;
-  for (const i of sc.keep) inSet[i] = 1;
+  // Where the first working set passes screenShare, the tighter one is tried for one round.
+  const once = sc.keep.length > QP_TOLERANCES.screenShare * n && sc.tight !== undefined;
+  const first = once ? sc.tight! : sc.keep;
+  for (const i of first) inSet[i] = 1;
   const values = new Float64Array(n);
   for (let i = 0; i < n; i++) values[i] = Number.isFinite(problem.lb[i]) ? problem.lb[i] : 0;
   let iterations = 0;
-  for (let round = 0; round < QP_TOLERANCES.screenRounds; round++) {
+  for (let round = 0; round < (once ? 1 : QP_TOLERANCES.screenRounds); round++) {
     const keep: number[] = [];
     for (let i = 0; i < n; i++) if (inSet[i]) keep.push(i);
     // A working set past this share of the variables saves too little over the full problem.
-    if (keep.length > QP_TOLERANCES.screenShare * n) return null;
+    if (keep.length > (once ? QP_TOLERANCES.screenShareTight : QP_TOLERANCES.screenShare) * n) return null;
     const sub = solveQp(restrict(problem, keep, values), { shouldCancel: options.shouldCancel, skipPhaseOne: true });
     iterations += sub.iterations;
     const working = keep.length;

@@ -151,6 +151,30 @@ export const QP_TOLERANCES = {
    * of half the variables already costs an eighth of the full problem's at every iteration.
    */
   screenShare: 0.5,
+  /**
+   * Where the first working set passes screenShare (caps so tight that the optimum holds most of
+   * the universe), screening tries once a tighter set of this many times 1 / (smallest cap): a
+   * capped optimum holds at least 1 / cap assets, and a fifth more leaves room for the held ones.
+   * A held-out asset that belongs in the optimum shows in the dual test, and polishing adds it
+   * (screenPolishRounds); where polishing cannot finish, the full problem is solved.
+   */
+  screenPerCapTight: 1.2,
+  /**
+   * The tighter set is tried only up to this share of the variables: its factorisations cost at
+   * most 0.85^3 = 0.61 of the full problem's, so one attempt that fails adds at most that to the
+   * full solve, and one that succeeds saves at least 39 % of it. Measured on the bench's
+   * most-held universes (N = 1500, 2000 and 3000, seeds 1 and 2, caps 1.2/N to 2/N; issue 20 in
+   * optimise/README.md): solver 997-2435 -> 716-1542 ms at caps 1.5/N, 1004-6534 -> 512-2934 ms at
+   * 2/N, and at 1.2/N, where 1.2/cap is the whole universe, the full solve as before.
+   */
+  screenShareTight: 0.85,
+  /**
+   * The tighter set applies from this many variables: below it the factorisations it saves are a
+   * small part of a solve (at N = 500 a factorisation takes about 3 ms of the solver's 100-150),
+   * and at N = 500 (seeds 1 and 2, caps 1.5/N, 6 alternating runs each) it gained on one seed and
+   * lost on the other; at N = 1000 it gained on 5 of the 6 universes with the caps at 1.5/N to 3/N.
+   */
+  screenTightFrom: 1000,
   /** Rounds (working sets) screening tries before it gives up. */
   screenRounds: 4,
   /** Variables added when a working set is too small to meet the limits, at least. */

@@ -305,3 +305,72 @@ describe('screening under group bands with a minimum (screening.ts screenPlan)',
     }
   });
 });
+
+describe('screening when the caps are so tight that the optimum holds most of the universe', () => {
+  /** Minimum variance on a most-held universe, its optimum's held assets and its screening order. */
+  function tightlyCapped(n: number, seed: number, capTimesN: number) {
+    const p = longOnly(n, seed, 'most', capTimesN / n);
+    const vols = Float64Array.from({ length: n }, (_, i) => Math.sqrt(p.P.data[i * n + i]));
+    const score = screeningScore(p.P, vols, false)!;
+    const order = [...Array(n).keys()].sort((a, b) => score[a] - score[b]);
+    return { p, order, all: [...Array(n).keys()] };
+  }
+
+  for (const capTimesN of [1.5, 2, 3])
+    it(`caps at ${capTimesN}/N: one round on the 1.2/cap best-scored assets reaches the full solve's optimum`, () => {
+      const n = 240;
+      const { p, order, all } = tightlyCapped(n, 5, capTimesN);
+      const tight = order.slice(0, Math.ceil((QP_TOLERANCES.screenPerCapTight * n) / capTimesN));
+      const full = solveQp(p);
+      // The first working set (every asset) passes screenShare: the tighter one is tried.
+      const screened = solveQp(p, { screen: { candidates: all, keep: all, order, tight } });
+      expect(full.status).toBe('optimal');
+      expect(screened.status).toBe('optimal');
+      if (full.status !== 'optimal' || screened.status !== 'optimal') return;
+      expect(screened.path).toBe('screened');
+      const held = full.solution.x.filter((v) => v > 1e-12).length;
+      expect(held).toBeGreaterThan(QP_TOLERANCES.screenShare * n);
+      for (let i = 0; i < n; i++) expect(Math.abs(screened.solution.x[i] - full.solution.x[i])).toBeLessThan(1e-9);
+      expect(screened.kktResidual).toBeLessThan(QP_TOLERANCES.optimality);
+    });
+
+  it('a tighter set that leaves out held assets still ends at the full optimum (polishing adds them, or the full solve)', () => {
+    const n = 240;
+    const { p, order, all } = tightlyCapped(n, 7, 1.5);
+    const full = solveQp(p);
+    expect(full.status).toBe('optimal');
+    if (full.status !== 'optimal') return;
+    const held = full.solution.x.filter((v) => v > 1e-12).length;
+    // The worst-scored assets first: most of those the optimum holds are left out.
+    const tight = [...order].reverse().slice(0, Math.ceil(n / 1.5) + 1);
+    const screened = solveQp(p, { screen: { candidates: all, keep: all, order, tight } });
+    expect(screened.status).toBe('optimal');
+    if (screened.status !== 'optimal') return;
+    expect(held).toBeGreaterThan(tight.length * 0.5);
+    for (let i = 0; i < n; i++) expect(Math.abs(screened.solution.x[i] - full.solution.x[i])).toBeLessThan(1e-9);
+    expect(screened.kktResidual).toBeLessThan(QP_TOLERANCES.optimality);
+  });
+
+  it('screenPlan offers the tighter set only from screenTightFrom assets, and only when it leaves some out', () => {
+    const plan = (n: number, capTimesN: number) => {
+      const assets = Array.from({ length: n }, (_, i) => `A${i}`);
+      const m = buildMandate(
+        assets,
+        { longOnly: true, weightBounds: { default: [0, capTimesN / n] } },
+        undefined,
+        undefined,
+      );
+      return screenPlan(
+        m,
+        Float64Array.from({ length: n }, (_, i) => (i * 7919) % n),
+      )!;
+    };
+    const n = QP_TOLERANCES.screenTightFrom;
+    const tightPlan = plan(n, 2);
+    expect(tightPlan.keep.length).toBeGreaterThan(QP_TOLERANCES.screenShare * n);
+    expect(tightPlan.tight).toEqual(tightPlan.order.slice(0, Math.ceil((QP_TOLERANCES.screenPerCapTight * n) / 2)));
+    expect(plan(n - 1, 2).tight).toBeUndefined(); // below screenTightFrom
+    expect(plan(n, 1.2).tight).toBeUndefined(); // 1.2/cap is the whole universe
+    expect(plan(n, 10).tight).toBeUndefined(); // 2/cap within screenShare: the usual working set
+  });
+});
