@@ -28,6 +28,12 @@ function passSplit(m: number): number {
   return Math.floor(m * (1 - Math.SQRT1_2));
 }
 
+/** Whether the reduction of an n x n matrix splits its passes over the kernel team (for the kernels that run). */
+export function tridiagonalFormForks(n: number): boolean {
+  const wasm = wasmKernels();
+  return wasm ? wasm.shared && n > MIN_SHARED_WASM_PASS + 1 : n > MIN_SHARED_PASS + 1;
+}
+
 /**
  * Householder tridiagonalisation (the reduction of tred2, EISPACK, Smith et al. 1976) organised as
  * one pass over the trailing block per step: the rank-two update of step i and the matrix-vector
@@ -41,12 +47,6 @@ function passSplit(m: number): number {
  * (tridiagonal.c), its passes in SIMD, the same sums in the same order. Without them, with a
  * kernel team (kernel-team.ts) the second range is the helper thread's share of each pass.
  */
-/** Whether the reduction of an n x n matrix splits its passes over the kernel team (for the kernels that run). */
-export function tridiagonalFormForks(n: number): boolean {
-  const wasm = wasmKernels();
-  return wasm ? wasm.shared && n > MIN_SHARED_WASM_PASS + 1 : n > MIN_SHARED_PASS + 1;
-}
-
 export function tridiagonalForm(m: Matrix): TridiagonalForm {
   const n = m.rows;
   if (m.cols !== n) throw new RangeError(`expected a square matrix, got ${m.rows} x ${m.cols}`);

@@ -20,9 +20,10 @@ const READY_WAIT_MS = 3000;
  * loop pays a few atomic writes a step, not a message.
  *
  * The worker starts at the first job (a kernel asks only when its work is large), or earlier when
- * a caller knows one is coming (`prepare`): a small problem never pays for a thread. That first job waits for the worker to load its kernels (tens of
- * milliseconds, against the hundreds the first large kernel takes on one thread). The worker is
- * unreferenced: it never keeps the process alive.
+ * a caller knows one is coming (`prepare`): a small problem never pays for a thread. That first
+ * job waits for the worker to load its kernels (tens of milliseconds, against the hundreds the
+ * first large kernel takes on one thread). The worker is unreferenced: it never keeps the process
+ * alive.
  */
 export function kernelTeamOfTwo(workerFile: URL = new URL('./kernel-worker.js', import.meta.url)): KernelTeam | null {
   if (availableParallelism() < 2) return null;
